@@ -1,0 +1,49 @@
+import { createServer } from 'node:http';
+import { createApp } from './app';
+import { ConfigError, loadConfig } from './core/config';
+import { createLogger } from './core/logger';
+import { gracefulShutdown } from './core/shutdown';
+import { createDb } from './db/db';
+
+async function main(): Promise<void> {
+  let config;
+  try {
+    config = loadConfig();
+  } catch (err) {
+    if (err instanceof ConfigError) {
+      console.error(`Trabeate API cannot start.\n${err.message}\nSee .env.example for every setting.`);
+      process.exit(78);
+    }
+    throw err;
+  }
+  const logger = createLogger(config.LOG_LEVEL);
+  const db = createDb(config.DATABASE_URL, config.DATABASE_POOL_MAX);
+  const app = createApp({ config, db, logger });
+  const server = createServer(app);
+  server.listen(config.PORT, config.HOST, () => {
+    const address = server.address();
+    const port = typeof address === 'object' && address ? address.port : config.PORT;
+    logger.info({ host: config.HOST, port }, `Trabeate API listening on http://${config.HOST}:${port}`);
+  });
+
+  let stopping = false;
+  const shutdown = (signal: string) => {
+    if (stopping) return;
+    stopping = true;
+    logger.info({ signal }, 'shutting down: finishing requests in flight');
+    gracefulShutdown(server, config.SHUTDOWN_GRACE_MS, () => db.destroy()).then(
+      () => {
+        logger.info('stopped');
+        process.exit(0);
+      },
+      (err: unknown) => {
+        logger.error({ err }, 'shutdown failed');
+        process.exit(1);
+      },
+    );
+  };
+  process.on('SIGTERM', () => shutdown('SIGTERM'));
+  process.on('SIGINT', () => shutdown('SIGINT'));
+}
+
+void main();

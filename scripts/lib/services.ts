@@ -1,0 +1,108 @@
+import type { ChildProcess } from 'node:child_process';
+import { Cluster } from './postgres';
+import { httpOk, log, startChild, stopChild, waitFor } from './proc';
+
+/**
+ * Every service the product needs locally, in start order. Each has a start, a readiness check
+ * and a stop; the start and test commands run this same list with different ports and data.
+ * Later features add their local fakes (identity provider, S3, SMTP, payments) here.
+ */
+export interface Service {
+  name: string;
+  start(): Promise<void>;
+  ready(): Promise<void>;
+  stop(): Promise<void>;
+}
+
+export interface Ports {
+  postgres: number;
+  api: number;
+}
+
+export const DEV_PORTS: Ports = { postgres: 5442, api: 4310 };
+export const TEST_PORTS: Ports = { postgres: 5443, api: 4320 };
+
+export function postgresService(cluster: Cluster): Service {
+  return {
+    name: 'postgres',
+    start: async () => cluster.start(),
+    ready: async () => undefined, // pg_ctl -w returns once connections are accepted
+    stop: async () => cluster.stop(),
+  };
+}
+
+export function apiService(env: Record<string, string>, port: number): Service {
+  let child: ChildProcess | undefined;
+  return {
+    name: 'api',
+    start: async () => {
+      child = startChild('api', process.execPath, ['--import', 'tsx', 'apps/server/src/main.ts'], {
+        env: { ...process.env, ...env, PORT: String(port), HOST: '127.0.0.1' },
+      });
+      child.once('exit', (code, signal) => {
+        if (code !== 0 && signal === null) log('api', `exited with code ${code}`);
+      });
+    },
+    ready: () =>
+      waitFor('the API', async () => {
+        if (child?.exitCode !== null && child?.exitCode !== undefined) throw new Error('the API process exited');
+        return httpOk(`http://127.0.0.1:${port}/api/health`);
+      }),
+    stop: async () => {
+      if (child) await stopChild(child);
+    },
+  };
+}
+
+/** Starts services in order, each ready before the next; returns a stop for all, in reverse. */
+export async function startAll(services: Service[]): Promise<() => Promise<void>> {
+  const started: Service[] = [];
+  const stopAll = async () => {
+    for (const s of started.reverse()) {
+      try {
+        await s.stop();
+      } catch (err) {
+        log(s.name, `stop failed: ${(err as Error).message}`);
+      }
+    }
+    started.length = 0;
+  };
+  try {
+    for (const s of services) {
+      started.push(s);
+      await s.start();
+      await s.ready();
+    }
+  } catch (err) {
+    await stopAll();
+    throw err;
+  }
+  return stopAll;
+}
+
+/** Not a process: creates the database if needed, migrates it and (optionally) seeds the demo. */
+export function databaseStep(cluster: Cluster, name: string, opts: { seed: boolean; template?: string }): Service {
+  return {
+    name: 'database',
+    start: async () => {
+      cluster.ensureDatabase(name, opts.template);
+      const { prepareDatabase } = await import('./database');
+      await prepareDatabase(cluster.url(name), opts);
+    },
+    ready: async () => undefined,
+    stop: async () => undefined,
+  };
+}
+
+/** Not a process: builds the client once so the API can serve it (skipped when up to date). */
+export function clientBuildStep(force = false): Service {
+  return {
+    name: 'client',
+    start: async () => {
+      const { buildClient } = await import('./client-build');
+      buildClient({ force });
+    },
+    ready: async () => undefined,
+    stop: async () => undefined,
+  };
+}

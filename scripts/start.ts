@@ -1,0 +1,48 @@
+// npm start: PostgreSQL, migrations and the demo seed on first run, the client build and the API,
+// all on loopback. Ctrl-C stops everything this started; data is kept for the next start.
+import { CLIENT_DIST } from './lib/client-build';
+import { Cluster } from './lib/postgres';
+import { log } from './lib/proc';
+import { apiService, clientBuildStep, databaseStep, DEV_PORTS, postgresService, startAll } from './lib/services';
+
+async function main(): Promise<void> {
+  const cluster = new Cluster({ name: 'pg-dev', port: DEV_PORTS.postgres });
+  const database = 'trabeate';
+  const env = {
+    NODE_ENV: 'development',
+    DATABASE_URL: cluster.url(database),
+    CLIENT_DIST,
+    PUBLIC_URL: `http://127.0.0.1:${DEV_PORTS.api}`,
+    LOG_LEVEL: process.env.LOG_LEVEL ?? 'info',
+  };
+  const services = [
+    postgresService(cluster),
+    databaseStep(cluster, database, { seed: true }),
+    clientBuildStep(),
+    apiService(env, DEV_PORTS.api),
+  ];
+
+  let stopAll: (() => Promise<void>) | undefined;
+  let stopping = false;
+  const stop = async (code: number) => {
+    if (stopping) return;
+    stopping = true;
+    log('start', 'stopping…');
+    await stopAll?.();
+    process.exit(code);
+  };
+  process.on('SIGINT', () => void stop(0));
+  process.on('SIGTERM', () => void stop(0));
+
+  try {
+    stopAll = await startAll(services);
+  } catch (err) {
+    log('start', `could not start: ${(err as Error).message}`);
+    process.exit(1);
+  }
+  log('start', '');
+  log('start', `Trabeate is running at http://127.0.0.1:${DEV_PORTS.api}/  (Ctrl-C stops everything)`);
+  log('start', '');
+}
+
+void main();

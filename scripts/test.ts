@@ -1,0 +1,133 @@
+// npm test [-- suite ...]: starts the services on test ports against throwaway databases, runs
+// every Jest suite (libs, client, api, build, e2e) in one run, stops everything and prints a
+// summary. Exits non-zero on any failure. Pass suite names to run only those.
+import { spawn } from 'node:child_process';
+import { existsSync, mkdirSync, readFileSync } from 'node:fs';
+import path from 'node:path';
+import { CLIENT_DIST } from './lib/client-build';
+import { Cluster } from './lib/postgres';
+import { log } from './lib/proc';
+import { apiService, clientBuildStep, databaseStep, postgresService, startAll, TEST_PORTS, type Service } from './lib/services';
+
+const SUITES = ['libs', 'client', 'api', 'build', 'e2e'] as const;
+type Suite = (typeof SUITES)[number];
+const NEEDS: Record<Suite, { db?: boolean; client?: boolean; api?: boolean }> = {
+  libs: {},
+  client: {},
+  api: { db: true },
+  build: { client: true },
+  e2e: { db: true, client: true, api: true },
+};
+
+async function main(): Promise<number> {
+  const args = process.argv.slice(2);
+  const chosen = (args.filter((a) => !a.startsWith('-')) as Suite[]).filter(Boolean);
+  for (const s of chosen) {
+    if (!SUITES.includes(s)) {
+      log('test', `unknown suite "${s}"; choose from ${SUITES.join(', ')}`);
+      return 2;
+    }
+  }
+  const suites: Suite[] = chosen.length ? chosen : [...SUITES];
+  const needs = (k: 'db' | 'client' | 'api') => suites.some((s) => NEEDS[s][k]);
+
+  const cluster = needs('db') ? new Cluster({ name: `pg-test-${process.pid}`, port: TEST_PORTS.postgres, fast: true }) : undefined;
+  const services: Service[] = [];
+  if (cluster) {
+    services.push(postgresService(cluster));
+    services.push(databaseStep(cluster, 'trabeate_template', { seed: false }));
+    if (needs('api')) services.push(databaseStep(cluster, 'trabeate_e2e', { seed: true }));
+  }
+  if (needs('client')) services.push(clientBuildStep(process.env.CI === 'true'));
+  if (needs('api') && cluster) {
+    services.push(
+      apiService({ NODE_ENV: 'test', DATABASE_URL: cluster.url('trabeate_e2e'), CLIENT_DIST, LOG_LEVEL: 'warn',
+        PUBLIC_URL: `http://127.0.0.1:${TEST_PORTS.api}` }, TEST_PORTS.api),
+    );
+  }
+
+  let stopAll: (() => Promise<void>) | undefined;
+  const cleanup = async () => {
+    await stopAll?.();
+    cluster?.remove();
+  };
+  process.on('SIGINT', () => void cleanup().then(() => process.exit(130)));
+  process.on('SIGTERM', () => void cleanup().then(() => process.exit(143)));
+
+  try {
+    stopAll = await startAll(services);
+  } catch (err) {
+    log('test', `could not start the services: ${(err as Error).message}`);
+    await cleanup();
+    return 1;
+  }
+
+  const results = path.resolve('tmp/jest-results.json');
+  mkdirSync(path.dirname(results), { recursive: true });
+  const env: NodeJS.ProcessEnv = { ...process.env, NODE_ENV: 'test' };
+  if (cluster) {
+    env.TEST_PG_ADMIN_URL = cluster.url('postgres');
+    env.TEST_DB_TEMPLATE = 'trabeate_template';
+  }
+  if (needs('api')) env.E2E_BASE_URL = `http://127.0.0.1:${TEST_PORTS.api}`;
+  const jestArgs = ['jest', '--maxWorkers=2', '--json', `--outputFile=${results}`, '--selectProjects', ...suites,
+    ...args.filter((a) => a.startsWith('-'))];
+  const code = await new Promise<number>((resolve) => {
+    const child = spawn('npx', jestArgs, { stdio: 'inherit', env });
+    child.on('exit', (c) => resolve(c ?? 1));
+  });
+
+  await cleanup();
+  printSummary(results, suites);
+  return code;
+}
+
+interface JestJson {
+  numPassedTests: number;
+  numFailedTests: number;
+  numPendingTests: number;
+  numTotalTests: number;
+  testResults: { name: string; assertionResults: { status: string }[] }[];
+}
+
+function suiteOf(file: string): Suite {
+  const rel = path.relative(process.cwd(), file);
+  if (rel.startsWith('libs/')) return 'libs';
+  if (rel.startsWith('apps/client/')) return 'client';
+  if (rel.startsWith('test/e2e/')) return 'e2e';
+  if (rel.startsWith('test/build/')) return 'build';
+  return 'api';
+}
+
+function printSummary(file: string, suites: Suite[]): void {
+  if (!existsSync(file)) {
+    log('test', 'no results were written');
+    return;
+  }
+  const json = JSON.parse(readFileSync(file, 'utf8')) as JestJson;
+  const rows = new Map<Suite, { passed: number; failed: number; skipped: number }>(
+    suites.map((s) => [s, { passed: 0, failed: 0, skipped: 0 }]),
+  );
+  for (const r of json.testResults) {
+    const row = rows.get(suiteOf(r.name));
+    if (!row) continue;
+    for (const a of r.assertionResults) {
+      if (a.status === 'passed') row.passed++;
+      else if (a.status === 'failed') row.failed++;
+      else row.skipped++;
+    }
+  }
+  console.log('\nTrabeate test summary');
+  for (const [suite, row] of rows) {
+    console.log(`  ${suite.padEnd(7)} ${String(row.passed).padStart(4)} passed  ${String(row.failed).padStart(3)} failed  ${String(row.skipped).padStart(3)} skipped`);
+  }
+  console.log(`${json.numPassedTests} passed, ${json.numFailedTests} failed, ${json.numPendingTests} skipped`);
+}
+
+main().then(
+  (code) => process.exit(code),
+  (err) => {
+    console.error(err);
+    process.exit(1);
+  },
+);

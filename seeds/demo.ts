@@ -1,0 +1,76 @@
+import type { Knex } from 'knex';
+
+// The demo is a scenario of our own invention: a small structural consultancy in the fictional
+// town of Marrowby, its two client organisations and their projects. No real people or firms.
+export const DEMO = {
+  firm: { id: '0b8c2d1e-0000-4000-8000-000000000001', name: 'Sable Quay Structural', slug: 'sable-quay' },
+  clients: {
+    fenwick: { id: '0b8c2d1e-0000-4000-8000-000000000101', name: 'Fenwick Row Developments' },
+    harbourlight: { id: '0b8c2d1e-0000-4000-8000-000000000102', name: 'Harbourlight Schools Trust' },
+  },
+  users: {
+    principal: { id: '0b8c2d1e-0000-4000-8000-000000000201', email: 'ines.varga@sablequay.example', name: 'Ines Varga-Holm' },
+    engineerA: { id: '0b8c2d1e-0000-4000-8000-000000000202', email: 'tomas.ekwueme@sablequay.example', name: 'Tomas Ekwueme' },
+    engineerB: { id: '0b8c2d1e-0000-4000-8000-000000000203', email: 'priya.lindqvist@sablequay.example', name: 'Priya Lindqvist' },
+    fenwickContact: { id: '0b8c2d1e-0000-4000-8000-000000000204', email: 'odile.marchetti@fenwickrow.example', name: 'Odile Marchetti' },
+    harbourlightContact: { id: '0b8c2d1e-0000-4000-8000-000000000205', email: 'rafe.okonkwo@harbourlight.example', name: 'Rafe Okonkwo' },
+  },
+  projects: {
+    kestrel: { id: '0b8c2d1e-0000-4000-8000-000000000301', reference: 'SQ-2026-014' },
+    alder: { id: '0b8c2d1e-0000-4000-8000-000000000302', reference: 'SQ-2026-021' },
+  },
+} as const;
+
+/** Inserts the demo scenario unless it is already there; safe to run again. */
+export async function seedDemo(db: Knex): Promise<boolean> {
+  const existing = await db('firms').where({ id: DEMO.firm.id }).first();
+  if (existing) return false;
+  await db.transaction(async (trx) => {
+    await trx('firms').insert({ ...DEMO.firm, default_currency: 'EUR' });
+    await trx('client_organisations').insert([
+      { ...DEMO.clients.fenwick, firm_id: DEMO.firm.id, billing_email: 'accounts@fenwickrow.example', address: '4 Tallow Yard, Marrowby' },
+      { ...DEMO.clients.harbourlight, firm_id: DEMO.firm.id, billing_email: 'estates@harbourlight.example', address: 'Harbourlight House, Quayside Walk, Marrowby' },
+    ]);
+    const u = DEMO.users;
+    await trx('users').insert([
+      { id: u.principal.id, firm_id: DEMO.firm.id, email: u.principal.email, display_name: u.principal.name, firm_role: 'principal' },
+      { id: u.engineerA.id, firm_id: DEMO.firm.id, email: u.engineerA.email, display_name: u.engineerA.name, firm_role: 'engineer' },
+      { id: u.engineerB.id, firm_id: DEMO.firm.id, email: u.engineerB.email, display_name: u.engineerB.name, firm_role: 'engineer' },
+      { id: u.fenwickContact.id, firm_id: DEMO.firm.id, email: u.fenwickContact.email, display_name: u.fenwickContact.name, client_organisation_id: DEMO.clients.fenwick.id },
+      { id: u.harbourlightContact.id, firm_id: DEMO.firm.id, email: u.harbourlightContact.email, display_name: u.harbourlightContact.name, client_organisation_id: DEMO.clients.harbourlight.id },
+    ]);
+    await trx('projects').insert([
+      {
+        id: DEMO.projects.kestrel.id,
+        firm_id: DEMO.firm.id,
+        reference: DEMO.projects.kestrel.reference,
+        name: 'Kestrel Yard apartments',
+        client_organisation_id: DEMO.clients.fenwick.id,
+        site_address: '17–19 Chandler Street, Marrowby',
+        building_use: 'Residential apartments over ground-floor shops; plot bounded by neighbours on the north and east',
+        storeys: 7,
+        storey_height_m: 3.1,
+        floor_area_m2: 3150,
+        estimated_cost: 4_850_000,
+        currency: 'EUR',
+        design_basis: JSON.stringify({ codeFamily: 'EN', concrete: 'C30/37', steel: 'B500B', imposedKPa: 2.0, superimposedDeadKPa: 1.5, bearingKPa: 180, foundingDepthM: 1.5 }),
+      },
+      {
+        id: DEMO.projects.alder.id,
+        firm_id: DEMO.firm.id,
+        reference: DEMO.projects.alder.reference,
+        name: 'Alder Lane school teaching block',
+        client_organisation_id: DEMO.clients.harbourlight.id,
+        site_address: 'Alder Lane, Marrowby',
+        building_use: 'Two-storey teaching block with classrooms and a hall',
+        storeys: 2,
+        storey_height_m: 3.6,
+        floor_area_m2: 1420,
+        estimated_cost: 2_300_000,
+        currency: 'EUR',
+        design_basis: JSON.stringify({ codeFamily: 'EN', concrete: 'C25/30', steel: 'B500B', imposedKPa: 3.0, superimposedDeadKPa: 1.2, bearingKPa: 150, foundingDepthM: 1.2 }),
+      },
+    ]);
+  });
+  return true;
+}
