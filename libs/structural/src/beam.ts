@@ -1,0 +1,477 @@
+// Continuous beams by the stiffness method: two degrees of freedom per node (deflection and
+// rotation), member loads turned into fixed-end actions, the reduced stiffness matrix solved by
+// banded LDLᵀ. Within a member, results come from the simply-supported solution of its own
+// loads plus the straight-line effect of its end moments, which is exact for these loads.
+// Sign conventions: loads act downward and are positive; bending moments are positive when
+// sagging (tension at the bottom); deflections are reported positive downward.
+import { bandAdd, bandMatrix, BandMatrix, factorBand, solveBand } from './banded';
+import type { Problem } from './model';
+
+export type Support = 'pin' | 'fixed' | 'free';
+
+export interface BeamMember {
+  /** m */
+  lengthM: number;
+  /** flexural rigidity, kN·m² */
+  eiKNm2: number;
+}
+
+/** members[i] runs from node i to node i+1; supports has one entry per node. */
+export interface BeamModel {
+  members: BeamMember[];
+  supports: Support[];
+}
+
+export interface PointLoad {
+  kind: 'point';
+  member: number;
+  /** distance from the member's start, m */
+  atM: number;
+  /** kN, downward positive */
+  forceKN: number;
+}
+
+/** A load varying linearly from startKNPerM at fromM to endKNPerM at toM (member coordinates, m). */
+export interface LinearLoad {
+  kind: 'linear';
+  member: number;
+  fromM: number;
+  toM: number;
+  startKNPerM: number;
+  endKNPerM: number;
+}
+
+export type BeamLoad = PointLoad | LinearLoad;
+
+/** A uniform load of w kN/m over the whole member of the given length (m). */
+export function uniformLoad(member: number, wKNPerM: number, lengthM: number): LinearLoad {
+  return { kind: 'linear', member, fromM: 0, toM: lengthM, startKNPerM: wKNPerM, endKNPerM: wKNPerM };
+}
+
+/** A point load P kN at a m from the member's start. */
+export function pointLoad(member: number, atM: number, forceKN: number): PointLoad {
+  return { kind: 'point', member, atM, forceKN };
+}
+
+/**
+ * Builds the model of a continuous beam: spans (m) between supports, optional cantilevers (m)
+ * beyond the end supports, end supports pinned or fixed, interior supports pinned.
+ * EI in kN·m², one value for all members or one per member (cantilevers included, left first).
+ */
+export function continuousBeam(opts: {
+  spansM: number[];
+  eiKNm2?: number | number[];
+  leftEnd?: 'pin' | 'fixed';
+  rightEnd?: 'pin' | 'fixed';
+  leftCantileverM?: number;
+  rightCantileverM?: number;
+}): BeamModel {
+  const lengths: number[] = [];
+  const supports: Support[] = [];
+  if (opts.leftCantileverM && opts.leftCantileverM > 0) {
+    lengths.push(opts.leftCantileverM);
+    supports.push('free');
+  }
+  supports.push(opts.leftEnd ?? 'pin');
+  opts.spansM.forEach((l, i) => {
+    lengths.push(l);
+    supports.push(i === opts.spansM.length - 1 ? (opts.rightEnd ?? 'pin') : 'pin');
+  });
+  if (opts.rightCantileverM && opts.rightCantileverM > 0) {
+    lengths.push(opts.rightCantileverM);
+    supports.push('free');
+  }
+  const ei = opts.eiKNm2 ?? 1;
+  return {
+    members: lengths.map((lengthM, i) => ({ lengthM, eiKNm2: Array.isArray(ei) ? ei[i] : ei })),
+    supports,
+  };
+}
+
+// ---- member-level statics (exact for point and linearly varying loads) ----
+
+const G = Math.sqrt(3 / 5);
+const GW = [5 / 9, 8 / 9, 5 / 9];
+const GX = [-G, 0, G];
+
+/** Load intensity of a linear load at t, kN/m. */
+function intensity(ld: LinearLoad, t: number): number {
+  const h = ld.toM - ld.fromM;
+  return h <= 0 ? 0 : ld.startKNPerM + ((ld.endKNPerM - ld.startKNPerM) * (t - ld.fromM)) / h;
+}
+
+/** Integral of w(t)·kernel(t) over [a, b] within a linear load, by 3-point Gauss (exact to degree 5). */
+function gauss(ld: LinearLoad, a: number, b: number, kernel: (t: number) => number): number {
+  if (b <= a) return 0;
+  const m = (a + b) / 2;
+  const h = (b - a) / 2;
+  let s = 0;
+  for (let g = 0; g < 3; g++) {
+    const t = m + GX[g] * h;
+    s += GW[g] * intensity(ld, t) * kernel(t);
+  }
+  return s * h;
+}
+
+/** Fixed-end and simply-supported end actions of a member's loads. */
+export interface MemberTerms {
+  /** clamped-end hogging moment magnitudes at start and end, kN·m (Σ P·a·b²/L², Σ P·a²·b/L²) */
+  fa: number;
+  fb: number;
+  /** simply-supported reactions at start and end, kN */
+  ra: number;
+  rb: number;
+  total: number;
+}
+
+export function memberTerms(L: number, loads: readonly BeamLoad[]): MemberTerms {
+  let fa = 0;
+  let fb = 0;
+  let ra = 0;
+  let rb = 0;
+  let total = 0;
+  const L2 = L * L;
+  for (const ld of loads) {
+    if (ld.kind === 'point') {
+      const a = ld.atM;
+      const b = L - a;
+      fa += (ld.forceKN * a * b * b) / L2;
+      fb += (ld.forceKN * a * a * b) / L2;
+      ra += (ld.forceKN * b) / L;
+      rb += (ld.forceKN * a) / L;
+      total += ld.forceKN;
+    } else {
+      fa += gauss(ld, ld.fromM, ld.toM, (t) => (t * (L - t) * (L - t)) / L2);
+      fb += gauss(ld, ld.fromM, ld.toM, (t) => (t * t * (L - t)) / L2);
+      const w = ((ld.startKNPerM + ld.endKNPerM) / 2) * (ld.toM - ld.fromM);
+      const rbi = gauss(ld, ld.fromM, ld.toM, (t) => t / L);
+      rb += rbi;
+      ra += w - rbi;
+      total += w;
+    }
+  }
+  return { fa, fb, ra, rb, total };
+}
+
+/** Simply-supported bending moment (kN·m) and shear (kN) at x of a member's loads. */
+export function simpleMomentShear(L: number, loads: readonly BeamLoad[], ra: number, x: number): [number, number] {
+  let m = ra * x;
+  let v = ra;
+  for (const ld of loads) {
+    if (ld.kind === 'point') {
+      if (ld.atM < x || (ld.atM === x && x >= L)) {
+        m -= ld.forceKN * (x - ld.atM);
+        v -= ld.forceKN;
+      }
+    } else if (ld.fromM < x) {
+      const e = ld.toM < x ? ld.toM : x;
+      const h = e - ld.fromM;
+      const wa = ld.startKNPerM;
+      const wb = intensity(ld, e);
+      const d = x - ld.fromM;
+      m -= wa * h * (d - h / 2) + (wb - wa) * (d * h / 2 - (h * h) / 3);
+      v -= ((wa + wb) / 2) * h;
+    }
+  }
+  return [m, v];
+}
+
+/** Simply-supported deflection (m, downward) at x of a member's loads, EI in kN·m². */
+function simpleDeflection(L: number, ei: number, loads: readonly BeamLoad[], x: number): number {
+  const left = (t: number) => (t * (L - x) * (L * L - t * t - (L - x) * (L - x))) / (6 * L); // load at t <= x
+  const right = (t: number) => {
+    const b = L - t;
+    return (b * x * (L * L - b * b - x * x)) / (6 * L); // load at t >= x
+  };
+  let y = 0;
+  for (const ld of loads) {
+    if (ld.kind === 'point') y += ld.forceKN * (ld.atM <= x ? left(ld.atM) : right(ld.atM));
+    else {
+      y += gauss(ld, ld.fromM, Math.min(ld.toM, x), left);
+      y += gauss(ld, Math.max(ld.fromM, x), ld.toM, right);
+    }
+  }
+  return y / ei;
+}
+
+// ---- the stiffness system ----
+
+export interface PreparedBeam {
+  model: BeamModel;
+  /** equation number of each node DOF (2 per node: deflection, rotation), -1 where restrained */
+  dof: Int32Array;
+  nEq: number;
+  band: BandMatrix;
+  /** node positions from the first node, m */
+  xs: number[];
+  ok: boolean;
+}
+
+/** Element stiffness (v up, θ anticlockwise): returns the 4×4 matrix row-major. */
+function elementK(L: number, ei: number): number[] {
+  const c = ei / (L * L * L);
+  const L2 = L * L;
+  return [
+    12 * c, 6 * L * c, -12 * c, 6 * L * c,
+    6 * L * c, 4 * L2 * c, -6 * L * c, 2 * L2 * c,
+    -12 * c, -6 * L * c, 12 * c, -6 * L * c,
+    6 * L * c, 2 * L2 * c, -6 * L * c, 4 * L2 * c,
+  ];
+}
+
+export function numberDofs(model: BeamModel): { dof: Int32Array; nEq: number } {
+  const nNodes = model.supports.length;
+  const dof = new Int32Array(2 * nNodes);
+  let nEq = 0;
+  for (let n = 0; n < nNodes; n++) {
+    const s = model.supports[n];
+    dof[2 * n] = s === 'free' ? nEq++ : -1;
+    dof[2 * n + 1] = s === 'fixed' ? -1 : nEq++;
+  }
+  return { dof, nEq };
+}
+
+/** Assembles and factorises the reduced stiffness matrix (banded, half-bandwidth 3). */
+export function prepareBeam(model: BeamModel): PreparedBeam {
+  const { dof, nEq } = numberDofs(model);
+  const band = bandMatrix(nEq, 3);
+  const xs = [0];
+  model.members.forEach((mb, i) => {
+    xs.push(xs[i] + mb.lengthM);
+    const k = elementK(mb.lengthM, mb.eiKNm2);
+    const map = [dof[2 * i], dof[2 * i + 1], dof[2 * i + 2], dof[2 * i + 3]];
+    for (let r = 0; r < 4; r++) {
+      if (map[r] < 0) continue;
+      for (let c = 0; c <= r; c++) {
+        if (map[c] < 0) continue;
+        // equation numbers rise with the local index, so each lower-triangle pair is stored once
+        bandAdd(band, map[r], map[c], k[r * 4 + c]);
+      }
+    }
+  });
+  const ok = nEq === 0 ? true : factorBand(band);
+  return { model, dof, nEq, band, xs, ok };
+}
+
+/** Nodal solution and member end actions of one load case. */
+export interface BeamSolution {
+  /** per node: deflection (m, up positive) and rotation (rad, anticlockwise) */
+  u: Float64Array;
+  /** per member: [start moment, end moment] internal, kN·m, sagging positive */
+  endMoments: Float64Array;
+  terms: MemberTerms[];
+  loadsByMember: BeamLoad[][];
+}
+
+export function groupLoads(nMembers: number, loads: readonly BeamLoad[]): BeamLoad[][] {
+  const by: BeamLoad[][] = Array.from({ length: nMembers }, () => []);
+  for (const ld of loads) by[ld.member].push(ld);
+  return by;
+}
+
+/** Solves one load case on a prepared beam. */
+export function solvePrepared(p: PreparedBeam, loadsByMember: BeamLoad[][], terms?: MemberTerms[]): BeamSolution {
+  const { model, dof } = p;
+  const nm = model.members.length;
+  const t = terms ?? model.members.map((mb, i) => memberTerms(mb.lengthM, loadsByMember[i]));
+  const rhs = new Float64Array(p.nEq);
+  for (let i = 0; i < nm; i++) {
+    const L = model.members[i].lengthM;
+    const { fa, fb, ra, rb } = t[i];
+    const raF = ra + (fa - fb) / L;
+    const rbF = rb - (fa - fb) / L;
+    const eq = [-raF, -fa, -rbF, fb];
+    for (let r = 0; r < 4; r++) {
+      const d = dof[2 * i + r];
+      if (d >= 0) rhs[d] += eq[r];
+    }
+  }
+  if (p.nEq > 0) solveBand(p.band, rhs);
+  const u = new Float64Array(dof.length);
+  for (let k = 0; k < dof.length; k++) u[k] = dof[k] >= 0 ? rhs[dof[k]] : 0;
+  const endMoments = new Float64Array(2 * nm);
+  for (let i = 0; i < nm; i++) {
+    const { lengthM: L, eiKNm2: ei } = model.members[i];
+    const c = ei / (L * L);
+    const v1 = u[2 * i], th1 = u[2 * i + 1], v2 = u[2 * i + 2], th2 = u[2 * i + 3];
+    const m1 = c * (6 * v1 + 4 * L * th1 - 6 * v2 + 2 * L * th2) + t[i].fa;
+    const m2 = c * (6 * v1 + 2 * L * th1 - 6 * v2 + 4 * L * th2) - t[i].fb;
+    endMoments[2 * i] = -m1;
+    endMoments[2 * i + 1] = m2;
+  }
+  return { u, endMoments, terms: t, loadsByMember };
+}
+
+// ---- results of a single analysis ----
+
+export interface MemberResult {
+  index: number;
+  lengthM: number;
+  /** internal moments at the member ends, kN·m, sagging positive */
+  startMomentKNm: number;
+  endMomentKNm: number;
+  /** shear just inside each end, kN (positive: upward force on the left-hand part) */
+  startShearKN: number;
+  endShearKN: number;
+  /** largest sagging and hogging moments and where they act (m from the member start) */
+  maxMoment: { atM: number; valueKNm: number };
+  minMoment: { atM: number; valueKNm: number };
+  /** largest downward deflection within the member, mm */
+  maxDeflection: { atM: number; valueMm: number };
+}
+
+export interface BeamResult {
+  problems: Problem[];
+  /** one per node: vertical reaction (kN, upward) and moment reaction (kN·m, anticlockwise); zero at free nodes */
+  reactions: { node: number; xM: number; forceKN: number; momentKNm: number }[];
+  members: MemberResult[];
+  /** per node: deflection (mm, downward) and rotation (rad, anticlockwise) */
+  nodes: { node: number; xM: number; deflectionMm: number; rotationRad: number }[];
+  totalLoadKN: number;
+}
+
+/** Internal moment (kN·m), shear (kN) and downward deflection (m) at x in member i of a solution. */
+export function memberStateAt(p: PreparedBeam, s: BeamSolution, i: number, x: number): { m: number; v: number; y: number } {
+  const { lengthM: L, eiKNm2: ei } = p.model.members[i];
+  const loads = s.loadsByMember[i];
+  const ml = s.endMoments[2 * i];
+  const mr = s.endMoments[2 * i + 1];
+  const [m0, v0] = simpleMomentShear(L, loads, s.terms[i].ra, x);
+  const xi = x / L;
+  const m = m0 + ml * (1 - xi) + mr * xi;
+  const v = v0 + (mr - ml) / L;
+  // chord between the end deflections, plus the simply-supported deflection of loads and end moments
+  const v1 = -s.u[2 * i];
+  const v2 = -s.u[2 * i + 2];
+  const yEnd = ((L * L) / (6 * ei)) * (ml * (2 * xi - 3 * xi * xi + xi * xi * xi) + mr * (xi - xi * xi * xi));
+  const y = v1 * (1 - xi) + v2 * xi + simpleDeflection(L, ei, loads, x) + yEnd;
+  return { m, v, y };
+}
+
+function validateBeam(model: BeamModel, loads: readonly BeamLoad[]): Problem[] {
+  const out: Problem[] = [];
+  const nm = model.members.length;
+  if (nm === 0) out.push({ path: 'members', field: 'members', message: 'a beam needs at least one member' });
+  if (model.supports.length !== nm + 1)
+    out.push({ path: 'supports', field: 'supports', message: `expected ${nm + 1} supports (one per node), got ${model.supports.length}` });
+  model.members.forEach((mb, i) => {
+    if (!(mb.lengthM > 0) || !Number.isFinite(mb.lengthM))
+      out.push({ path: `members[${i}].lengthM`, field: 'lengthM', message: 'length must be a positive number of metres' });
+    if (!(mb.eiKNm2 > 0) || !Number.isFinite(mb.eiKNm2))
+      out.push({ path: `members[${i}].eiKNm2`, field: 'eiKNm2', message: 'EI must be a positive number (kN·m²)' });
+  });
+  loads.forEach((ld, k) => {
+    const mb = model.members[ld.member];
+    if (!mb) {
+      out.push({ path: `loads[${k}].member`, field: 'member', message: `no member ${ld.member}` });
+      return;
+    }
+    const L = mb.lengthM;
+    if (ld.kind === 'point') {
+      if (!(ld.atM >= 0 && ld.atM <= L)) out.push({ path: `loads[${k}].atM`, field: 'atM', message: `must lie within 0..${L} m` });
+      if (!Number.isFinite(ld.forceKN)) out.push({ path: `loads[${k}].forceKN`, field: 'forceKN', message: 'must be a number' });
+    } else {
+      if (!(ld.fromM >= 0 && ld.toM <= L + 1e-9 && ld.fromM <= ld.toM))
+        out.push({ path: `loads[${k}].fromM`, field: 'fromM', message: `load must lie within 0..${L} m with fromM <= toM` });
+      if (!Number.isFinite(ld.startKNPerM) || !Number.isFinite(ld.endKNPerM))
+        out.push({ path: `loads[${k}].startKNPerM`, field: 'startKNPerM', message: 'intensities must be numbers' });
+    }
+  });
+  return out;
+}
+
+/**
+ * Analyses one continuous beam under one set of loads.
+ * Input: lengths m, EI kN·m², point loads kN, line loads kN/m.
+ * Output: reactions kN and kN·m, moments kN·m (sagging +), shears kN, deflections mm (down +).
+ * Invalid input or an unstable support arrangement gives problems, not an exception.
+ */
+export function analyseBeam(model: BeamModel, loads: readonly BeamLoad[], options: { samplesPerMember?: number } = {}): BeamResult {
+  const empty = (problems: Problem[]): BeamResult => ({ problems, reactions: [], members: [], nodes: [], totalLoadKN: 0 });
+  const problems = validateBeam(model, loads);
+  if (problems.length) return empty(problems);
+  const p = prepareBeam(model);
+  if (!p.ok) return empty([{ path: 'supports', field: 'supports', message: 'the supports do not hold the beam up (it is a mechanism)' }]);
+  const s = solvePrepared(p, groupLoads(model.members.length, loads));
+  const nm = model.members.length;
+  const nSeg = options.samplesPerMember ?? 40;
+
+  const reactions = model.supports.map((sup, n) => {
+    let f = 0;
+    let mo = 0;
+    if (n > 0) {
+      const L = model.members[n - 1].lengthM;
+      const mr = s.endMoments[2 * (n - 1) + 1];
+      const ml = s.endMoments[2 * (n - 1)];
+      f += s.terms[n - 1].rb - (mr - ml) / L; // upward force from the member's end
+      mo += mr;
+    }
+    if (n < nm) {
+      const L = model.members[n].lengthM;
+      const ml = s.endMoments[2 * n];
+      const mr = s.endMoments[2 * n + 1];
+      f += s.terms[n].ra + (mr - ml) / L;
+      mo -= ml;
+    }
+    return { node: n, xM: p.xs[n], forceKN: sup === 'free' ? 0 : f, momentKNm: sup === 'fixed' ? mo : 0 };
+  });
+
+  const members: MemberResult[] = model.members.map((mb, i) => {
+    const L = mb.lengthM;
+    const xsSet = new Set<number>();
+    for (let k = 0; k <= nSeg; k++) xsSet.add((L * k) / nSeg);
+    for (const ld of s.loadsByMember[i]) {
+      if (ld.kind === 'point') xsSet.add(ld.atM);
+      else {
+        xsSet.add(ld.fromM);
+        xsSet.add(ld.toM);
+      }
+    }
+    const xsArr = [...xsSet].sort((a, b) => a - b);
+    // zero-shear points give the exact extreme moments between samples
+    const extra: number[] = [];
+    for (let k = 0; k + 1 < xsArr.length; k++) {
+      let a = xsArr[k] + 1e-12;
+      let b = xsArr[k + 1] - 1e-12;
+      let va = memberStateAt(p, s, i, a).v;
+      const vb = memberStateAt(p, s, i, b).v;
+      if (va * vb < 0) {
+        for (let it = 0; it < 60; it++) {
+          const c = (a + b) / 2;
+          const vc = memberStateAt(p, s, i, c).v;
+          if (vc * va > 0) {
+            a = c;
+            va = vc;
+          } else b = c;
+        }
+        extra.push((a + b) / 2);
+      }
+    }
+    let maxM = { atM: 0, valueKNm: -Infinity };
+    let minM = { atM: 0, valueKNm: Infinity };
+    let maxY = { atM: 0, valueMm: -Infinity };
+    for (const x of [...xsArr, ...extra]) {
+      const st = memberStateAt(p, s, i, x);
+      if (st.m > maxM.valueKNm) maxM = { atM: x, valueKNm: st.m };
+      if (st.m < minM.valueKNm) minM = { atM: x, valueKNm: st.m };
+      if (st.y * 1000 > maxY.valueMm) maxY = { atM: x, valueMm: st.y * 1000 };
+    }
+    const ml = s.endMoments[2 * i];
+    const mr = s.endMoments[2 * i + 1];
+    return {
+      index: i,
+      lengthM: L,
+      startMomentKNm: ml,
+      endMomentKNm: mr,
+      startShearKN: s.terms[i].ra + (mr - ml) / L,
+      endShearKN: s.terms[i].ra + (mr - ml) / L - s.terms[i].total,
+      maxMoment: maxM,
+      minMoment: minM,
+      maxDeflection: maxY,
+    };
+  });
+
+  const nodes = model.supports.map((_, n) => ({ node: n, xM: p.xs[n], deflectionMm: -s.u[2 * n] * 1000, rotationRad: s.u[2 * n + 1] }));
+  const totalLoadKN = s.terms.reduce((a, t) => a + t.total, 0);
+  return { problems: [], reactions, members, nodes, totalLoadKN };
+}
