@@ -53,7 +53,7 @@ export class Shell {
 
   protected readonly links: readonly NavLink[] = [
     { path: '/projects', label: 'Projects', hint: 'Buildings, stages, schemes', icon: 'apartment' },
-    { path: '/drawings', label: 'Drawings', hint: 'Register, revisions, transmittals', icon: 'architecture' },
+    { path: '/drawings', label: 'Drawings', hint: 'Revisions and transmittals', icon: 'architecture' },
     { path: '/fees', label: 'Fees', hint: 'Agreements and invoices', icon: 'receipt_long' },
     { path: '/status', label: 'System status', hint: 'Server and database', icon: 'monitor_heart' },
   ];

@@ -40,7 +40,7 @@ export function describeHealthError(error: unknown): string {
     if (error.status === 0 || error.status === 502 || error.status === 503 || error.status === 504) {
       return 'The Trabeate server could not be reached. Check that it is running and that this computer is connected, then try again.';
     }
-    return `The Trabeate server answered with an error (HTTP ${error.status}). Try again in a moment; if it persists, tell whoever looks after the server.`;
+    return `The Trabeate server, or something between it and this browser, answered with an error (HTTP ${error.status}). Try again in a moment; if it persists, tell whoever looks after the server.`;
   }
   return 'The Trabeate server answered, but not in a form this page understands. The server and this page may be from different versions; reload the page.';
 }
