@@ -269,22 +269,22 @@ export function groupLoads(nMembers: number, loads: readonly BeamLoad[]): BeamLo
   return by;
 }
 
-/** Solves one load case on a prepared beam. */
-export function solvePrepared(p: PreparedBeam, loadsByMember: BeamLoad[][], terms?: MemberTerms[]): BeamSolution {
+/**
+ * Solves the prepared system for member load terms: nodal displacements (m, rad) and internal
+ * end moments (kN·m, sagging positive), two per member.
+ */
+export function solveTerms(p: PreparedBeam, t: readonly MemberTerms[]): { u: Float64Array; endMoments: Float64Array } {
   const { model, dof } = p;
   const nm = model.members.length;
-  const t = terms ?? model.members.map((mb, i) => memberTerms(mb.lengthM, loadsByMember[i]));
   const rhs = new Float64Array(p.nEq);
   for (let i = 0; i < nm; i++) {
     const L = model.members[i].lengthM;
     const { fa, fb, ra, rb } = t[i];
-    const raF = ra + (fa - fb) / L;
-    const rbF = rb - (fa - fb) / L;
-    const eq = [-raF, -fa, -rbF, fb];
-    for (let r = 0; r < 4; r++) {
-      const d = dof[2 * i + r];
-      if (d >= 0) rhs[d] += eq[r];
-    }
+    const d0 = dof[2 * i], d1 = dof[2 * i + 1], d2 = dof[2 * i + 2], d3 = dof[2 * i + 3];
+    if (d0 >= 0) rhs[d0] -= ra + (fa - fb) / L;
+    if (d1 >= 0) rhs[d1] -= fa;
+    if (d2 >= 0) rhs[d2] -= rb - (fa - fb) / L;
+    if (d3 >= 0) rhs[d3] += fb;
   }
   if (p.nEq > 0) solveBand(p.band, rhs);
   const u = new Float64Array(dof.length);
@@ -299,7 +299,28 @@ export function solvePrepared(p: PreparedBeam, loadsByMember: BeamLoad[][], term
     endMoments[2 * i] = -m1;
     endMoments[2 * i + 1] = m2;
   }
+  return { u, endMoments };
+}
+
+/** Solves one load case on a prepared beam. */
+export function solvePrepared(p: PreparedBeam, loadsByMember: BeamLoad[][], terms?: MemberTerms[]): BeamSolution {
+  const t = terms ?? p.model.members.map((mb, i) => memberTerms(mb.lengthM, loadsByMember[i]));
+  const { u, endMoments } = solveTerms(p, t);
   return { u, endMoments, terms: t, loadsByMember };
+}
+
+/** Vertical reactions (kN, upward) at every node from member terms and end moments; zero at free nodes. */
+export function nodeReactions(model: BeamModel, t: readonly MemberTerms[], endMoments: Float64Array): Float64Array {
+  const nm = model.members.length;
+  const r = new Float64Array(nm + 1);
+  for (let i = 0; i < nm; i++) {
+    const L = model.members[i].lengthM;
+    const d = (endMoments[2 * i + 1] - endMoments[2 * i]) / L;
+    r[i] += t[i].ra + d;
+    r[i + 1] += t[i].rb - d;
+  }
+  for (let n = 0; n <= nm; n++) if (model.supports[n] === 'free') r[n] = 0;
+  return r;
 }
 
 // ---- results of a single analysis ----

@@ -1,0 +1,198 @@
+// Gravity loads of one floor level: slab panels shared to their beams by the 45° rule
+// (IS 456 cl. 24.5), beam self-weight, walls, and the reactions of secondary beams landing on
+// primary beams as point loads. Dead and imposed loads are kept apart so that combinations and
+// patterns can be formed later.
+import type { BeamLoad, LinearLoad } from './beam';
+import { memberTerms } from './beam';
+import type { BeamLine, Layout, Panel } from './layout';
+
+/**
+ * Equivalent uniform loads on the beams around a two-way panel (kN/m) for a slab load w (kPa),
+ * short span lx and long span ly (m): for mid-span moment, short-span beam w·lx/3 and long-span
+ * beam (w·lx/2)(1 − 1/(3β²)); for end shear w·lx/4 and (w·lx/2)(1 − 1/(2β)), β = ly/lx.
+ * Source: the usual textbook equivalents of the 45° distribution (IS 456 cl. 24.5), as quoted.
+ */
+export function twoWayEquivalentLoads(wKPa: number, lxM: number, lyM: number) {
+  const beta = lyM / lxM;
+  return {
+    shortBeamMomentKNPerM: (wKPa * lxM) / 3,
+    longBeamMomentKNPerM: ((wKPa * lxM) / 2) * (1 - 1 / (3 * beta * beta)),
+    shortBeamShearKNPerM: (wKPa * lxM) / 4,
+    longBeamShearKNPerM: ((wKPa * lxM) / 2) * (1 - 1 / (2 * beta)),
+  };
+}
+
+export interface PanelLoad {
+  id: string;
+  lxM: number;
+  lyM: number;
+  aspect: number;
+  spanning: 'one-way' | 'two-way';
+  deadKPa: number;
+  liveKPa: number;
+  /** equivalent uniform loads on the supporting beams under the factored-free service load D + L, kN/m */
+  equivalent: ReturnType<typeof twoWayEquivalentLoads> | { longBeamKNPerM: number };
+}
+
+export interface LineLoadSet {
+  dead: BeamLoad[];
+  live: BeamLoad[];
+}
+
+export interface SecondaryLoad {
+  id: string;
+  lengthM: number;
+  dead: BeamLoad[];
+  live: BeamLoad[];
+  /** reactions at start and end, kN */
+  deadReactions: [number, number];
+  liveReactions: [number, number];
+}
+
+export interface LevelLoads {
+  kind: 'floor' | 'roof';
+  slabDeadKPa: number;
+  liveKPa: number;
+  lines: Map<string, LineLoadSet>;
+  secondaries: SecondaryLoad[];
+  panels: PanelLoad[];
+}
+
+/** A load shape along an edge: breakpoints (position m, intensity per kPa of slab load, kN/m per kPa). */
+type Profile = [number, number][];
+
+export function panelEdgeProfiles(p: Panel, oneWayAspect: number): { twoWay: boolean; profiles: Profile[] } {
+  const twoWay = p.ly / p.lx <= oneWayAspect;
+  const h = p.lx / 2;
+  const profiles = p.edges.map((e): Profile => {
+    const len = e.to - e.from;
+    const edgeIsShort = p.lx < p.ly - 1e-9 && Math.abs(len - p.lx) < 1e-9;
+    if (!twoWay) {
+      // one-way: the two long edges carry half the short span each
+      return edgeIsShort ? [] : [[e.from, h], [e.to, h]];
+    }
+    // two-way, 45° lines from the corners: trapezoids on the long edges, triangles on the short
+    if (len > p.lx + 1e-9) return [[e.from, 0], [e.from + h, h], [e.to - h, h], [e.to, 0]];
+    return [[e.from, 0], [e.from + len / 2, len / 2], [e.to, 0]];
+  });
+  return { twoWay, profiles };
+}
+
+/** Spreads a piecewise-linear profile (scaled by k) over the members of a beam line. */
+function addProfileToLine(line: BeamLine, profile: Profile, k: number, out: BeamLoad[]): void {
+  for (let i = 0; i + 1 < profile.length; i++) {
+    const [s0, w0] = profile[i];
+    const [s1, w1] = profile[i + 1];
+    if (s1 - s0 <= 1e-12) continue;
+    for (const m of line.members) {
+      const a = Math.max(s0, m.startS);
+      const b = Math.min(s1, m.endS);
+      if (b - a <= 1e-9) continue;
+      const wa = w0 + ((w1 - w0) * (a - s0)) / (s1 - s0);
+      const wb = w0 + ((w1 - w0) * (b - s0)) / (s1 - s0);
+      out.push({ kind: 'linear', member: m.index, fromM: a - m.startS, toM: Math.min(b - m.startS, m.lengthM), startKNPerM: wa * k, endKNPerM: wb * k });
+    }
+  }
+}
+
+function pointOnLine(line: BeamLine, s: number, p: number, out: BeamLoad[]): void {
+  const m = line.members.find((mm) => s >= mm.startS - 1e-9 && s <= mm.endS + 1e-9);
+  if (!m) return;
+  out.push({ kind: 'point', member: m.index, atM: Math.min(Math.max(s - m.startS, 0), m.lengthM), forceKN: p });
+}
+
+export interface LevelInput {
+  kind: 'floor' | 'roof';
+  slabThicknessMm: number;
+  superimposedDeadKPa: number;
+  liveKPa: number;
+  wallLoadKNPerM: number;
+  unitWeightKNm3: number;
+  oneWayAspect: number;
+  /** depth assumed for self-weight per line id, mm */
+  lineDepthMm: Map<string, number>;
+  secondaryDepthMm: Map<string, number>;
+  secondaryWidthMm: Map<string, number>;
+}
+
+/** Loads of one level on every beam line; kPa in, kN and kN/m out. */
+export function levelLoads(layout: Layout, inp: LevelInput): LevelLoads {
+  const t = inp.slabThicknessMm / 1000;
+  const slabDead = t * inp.unitWeightKNm3 + inp.superimposedDeadKPa;
+  const live = inp.liveKPa;
+  const lines = new Map<string, LineLoadSet>();
+  for (const l of layout.lines) {
+    const dead: BeamLoad[] = [];
+    const depth = inp.lineDepthMm.get(l.id) ?? 450;
+    const sw = (l.widthMm / 1000) * Math.max(depth / 1000 - t, 0) * inp.unitWeightKNm3;
+    const wall = inp.kind === 'floor' && l.wallThicknessMm > 0 ? inp.wallLoadKNPerM : 0;
+    for (const m of l.members) {
+      const w = sw + (m.kind === 'cantilever' ? 0 : wall);
+      if (w > 0) dead.push({ kind: 'linear', member: m.index, fromM: 0, toM: m.lengthM, startKNPerM: w, endKNPerM: w });
+    }
+    lines.set(l.id, { dead, live: [] });
+  }
+  const secProfiles = new Map<string, { dead: LinearLoad[]; live: LinearLoad[] }>();
+  const secById = new Map(layout.secondaries.map((s) => [s.beam.id, s]));
+  for (const s of layout.secondaries) secProfiles.set(s.beam.id, { dead: [], live: [] });
+
+  const panels: PanelLoad[] = [];
+  for (const p of layout.panels) {
+    const { twoWay, profiles } = panelEdgeProfiles(p, inp.oneWayAspect);
+    p.edges.forEach((e, k) => {
+      const prof = profiles[k];
+      if (prof.length === 0) return;
+      if (e.carrier.type === 'line') {
+        const line = layout.lineById.get(e.carrier.lineId);
+        const set = lines.get(e.carrier.lineId);
+        if (!line || !set) return;
+        addProfileToLine(line, prof, slabDead, set.dead);
+        addProfileToLine(line, prof, live, set.live);
+      } else {
+        const sec = secById.get(e.carrier.id);
+        const sp = secProfiles.get(e.carrier.id);
+        if (!sec || !sp) return;
+        const pseudo: BeamLine = {
+          id: sec.beam.id, gridLineId: '', label: sec.beam.id, runs: sec.runs, at: sec.at, nodes: [], widthMm: 0, specifiedDepthMm: null, wallThicknessMm: 0,
+          members: [{ index: 0, id: sec.beam.id, startS: sec.from, endS: sec.to, lengthM: sec.lengthM, kind: 'simple' }],
+        };
+        addProfileToLine(pseudo, prof, slabDead, sp.dead as BeamLoad[]);
+        addProfileToLine(pseudo, prof, live, sp.live as BeamLoad[]);
+      }
+    });
+    const w = slabDead + live;
+    panels.push({
+      id: p.id,
+      lxM: p.lx,
+      lyM: p.ly,
+      aspect: p.ly / p.lx,
+      spanning: twoWay ? 'two-way' : 'one-way',
+      deadKPa: slabDead,
+      liveKPa: live,
+      equivalent: twoWay ? twoWayEquivalentLoads(w, p.lx, p.ly) : { longBeamKNPerM: (w * p.lx) / 2 },
+    });
+  }
+
+  const secondaries: SecondaryLoad[] = [];
+  for (const s of layout.secondaries) {
+    const sp = secProfiles.get(s.beam.id)!;
+    const b = (s.beam.widthMm ?? inp.secondaryWidthMm.get(s.beam.id) ?? 230) / 1000;
+    const d = (s.beam.depthMm ?? inp.secondaryDepthMm.get(s.beam.id) ?? 400) / 1000;
+    const sw = b * Math.max(d - t, 0) * inp.unitWeightKNm3 + (inp.kind === 'floor' && s.beam.carriesWall ? inp.wallLoadKNPerM : 0);
+    const dead: BeamLoad[] = [...sp.dead, { kind: 'linear', member: 0, fromM: 0, toM: s.lengthM, startKNPerM: sw, endKNPerM: sw }];
+    const liveL: BeamLoad[] = [...sp.live];
+    const td = memberTerms(s.lengthM, dead);
+    const tl = memberTerms(s.lengthM, liveL);
+    secondaries.push({ id: s.beam.id, lengthM: s.lengthM, dead, live: liveL, deadReactions: [td.ra, td.rb], liveReactions: [tl.ra, tl.rb] });
+    if (s.supports.length === 2) {
+      s.supports.forEach((sup, k) => {
+        const line = layout.lineById.get(sup.lineId);
+        const set = lines.get(sup.lineId);
+        if (!line || !set) return;
+        pointOnLine(line, sup.s, k === 0 ? td.ra : td.rb, set.dead);
+        pointOnLine(line, sup.s, k === 0 ? tl.ra : tl.rb, set.live);
+      });
+    }
+  }
+  return { kind: inp.kind, slabDeadKPa: slabDead, liveKPa: live, lines, secondaries, panels };
+}
