@@ -61,8 +61,17 @@ export function createApp({ config, db, logger, version = '0.1.0' }: AppDeps): E
 
   if (config.CLIENT_DIST && existsSync(path.join(config.CLIENT_DIST, 'index.html'))) {
     const dist = path.resolve(config.CLIENT_DIST);
-    // Hashed bundles can be cached for a long time; index.html must always be fresh.
-    app.use(express.static(dist, { index: false, maxAge: '1y', immutable: true }));
+    // Hashed bundles (name-HASH.ext) can be cached for a year; anything else, such as the
+    // favicon and index.html, must be revalidated.
+    app.use(
+      express.static(dist, {
+        index: false,
+        setHeaders: (res, file) => {
+          const hashed = /-[A-Z0-9]{8}\.(js|css|woff2?|ttf|svg|png)$/.test(file);
+          res.setHeader('Cache-Control', hashed ? 'public, max-age=31536000, immutable' : 'no-cache');
+        },
+      }),
+    );
     app.get('/{*path}', (_req, res) => {
       res.setHeader('Cache-Control', 'no-cache');
       res.sendFile(path.join(dist, 'index.html'));
