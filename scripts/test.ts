@@ -7,7 +7,7 @@ import path from 'node:path';
 import { CLIENT_DIST } from './lib/client-build';
 import { Cluster } from './lib/postgres';
 import { log } from './lib/proc';
-import { apiService, clientBuildStep, databaseStep, postgresService, startAll, TEST_PORTS, type Service } from './lib/services';
+import { apiService, clientBuildStep, databaseStep, freePort, postgresService, startAll, TEST_PORTS, type Service } from './lib/services';
 
 const SUITES = ['libs', 'client', 'api', 'build', 'e2e'] as const;
 type Suite = (typeof SUITES)[number];
@@ -31,7 +31,8 @@ async function main(): Promise<number> {
   const suites: Suite[] = chosen.length ? chosen : [...SUITES];
   const needs = (k: 'db' | 'client' | 'api') => suites.some((s) => NEEDS[s][k]);
 
-  const cluster = needs('db') ? new Cluster({ name: `pg-test-${process.pid}`, port: TEST_PORTS.postgres, fast: true }) : undefined;
+  const ports = { postgres: await freePort(TEST_PORTS.postgres), api: await freePort(TEST_PORTS.api) };
+  const cluster = needs('db') ? new Cluster({ name: `pg-test-${process.pid}`, port: ports.postgres, fast: true }) : undefined;
   const services: Service[] = [];
   if (cluster) {
     services.push(postgresService(cluster));
@@ -42,7 +43,7 @@ async function main(): Promise<number> {
   if (needs('api') && cluster) {
     services.push(
       apiService({ NODE_ENV: 'test', DATABASE_URL: cluster.url('trabeate_e2e'), CLIENT_DIST, LOG_LEVEL: 'warn',
-        PUBLIC_URL: `http://127.0.0.1:${TEST_PORTS.api}` }, TEST_PORTS.api),
+        PUBLIC_URL: `http://127.0.0.1:${ports.api}` }, ports.api),
     );
   }
 
@@ -69,7 +70,7 @@ async function main(): Promise<number> {
     env.TEST_PG_ADMIN_URL = cluster.url('postgres');
     env.TEST_DB_TEMPLATE = 'trabeate_template';
   }
-  if (needs('api')) env.E2E_BASE_URL = `http://127.0.0.1:${TEST_PORTS.api}`;
+  if (needs('api')) env.E2E_BASE_URL = `http://127.0.0.1:${ports.api}`;
   const jestArgs = ['jest', '--maxWorkers=2', '--json', `--outputFile=${results}`, '--selectProjects', ...suites,
     ...args.filter((a) => a.startsWith('-'))];
   const code = await new Promise<number>((resolve) => {

@@ -106,3 +106,26 @@ export function clientBuildStep(force = false): Service {
     stop: async () => undefined,
   };
 }
+
+/**
+ * The preferred port when it is free on loopback, otherwise one the system picks, so two test
+ * runs on one machine (a developer's and CI's, say) do not collide.
+ */
+export async function freePort(preferred: number): Promise<number> {
+  const { createServer } = await import('node:net');
+  const tryListen = (port: number) =>
+    new Promise<number>((resolve, reject) => {
+      const srv = createServer();
+      srv.once('error', reject);
+      srv.listen(port, '127.0.0.1', () => {
+        const address = srv.address();
+        const got = typeof address === 'object' && address ? address.port : port;
+        srv.close(() => resolve(got));
+      });
+    });
+  try {
+    return await tryListen(preferred);
+  } catch {
+    return tryListen(0);
+  }
+}
