@@ -1,0 +1,400 @@
+// The whole derivation for one scheme: layout, loads, beam-line envelopes, sizes, column loads
+// storey by storey, footings against the site, checks, quantities and cost.
+import type { BeamLoad, BeamModel, Support } from './beam';
+import { prepareBeam, PreparedBeam } from './beam';
+import { check, Check, columnSpacingChecks, columnWallChecks, pointLoadChecks, RULES, spanChecks, stairChecks } from './checks';
+import { CAUTION, codeDefaults, Combination, concreteModulusMPa, beamDepthRule, Limits, resolveLimits } from './codes';
+import { envelopeBeam, MemberEnvelope } from './envelope';
+import { isolatedFooting, IsolatedFooting, roundUp } from './footings';
+import { BeamLine, columnPlan, deriveLayout, Layout, SpanKind } from './layout';
+import { levelLoads, LevelLoads, PanelLoad, SecondaryLoad } from './loads';
+import type { CodeFamily, Problem, Scheme } from './model';
+import { costOf, Cost, Quantities, QuantityTally } from './quantities';
+import { boundaryOptions, BoundaryOptions, FootingSite, overlappingFootings, OverlapCombined } from './site';
+import { beamDepth, BeamSize, columnSize, ColumnStoreySize, slabSizes, SlabSize } from './sizing';
+import { validateScheme } from './validate';
+
+export type LevelKind = 'floor' | 'roof';
+
+export interface BeamLineResult {
+  lineId: string;
+  gridLineId: string;
+  label: string;
+  level: LevelKind;
+  /** beam section used for stiffness and self-weight, mm */
+  widthMm: number;
+  depthForSelfWeightMm: number;
+  members: (MemberEnvelope & { id: string; lengthM: number; kind: SpanKind })[];
+  /** per node: position along the line (m), column, service reactions and largest factored reaction (kN) */
+  reactions: { s: number; columnId: string | null; deadKN: number; liveKN: number; maxFactoredKN: number }[];
+  patternsTried: number;
+}
+
+export interface ColumnLoadRow {
+  columnId: string;
+  /** storey 1 is the lowest */
+  storey: number;
+  deadKN: number;
+  liveKN: number;
+  factoredKN: number;
+  /** service load (D + L) by tributary area, as a cross-check of deadKN + liveKN */
+  tributaryKN: number;
+}
+
+export interface SchemeResult {
+  caution: string;
+  ok: boolean;
+  problems: Problem[];
+  schemeId: string;
+  schemeName: string;
+  codeFamily: CodeFamily | null;
+  codeTitle: string;
+  limits: Limits | null;
+  combinations: Combination[];
+  checks: Check[];
+  loads: {
+    slabThicknessMm: number;
+    levels: { kind: LevelKind; count: number; slabDeadKPa: number; liveKPa: number; panels: PanelLoad[]; secondaries: SecondaryLoad[] }[];
+    columns: ColumnLoadRow[];
+  };
+  beamLines: BeamLineResult[];
+  sizes: {
+    slab: { adoptedMm: number; providedMm: number | null; panels: SlabSize[] };
+    beams: BeamSize[];
+    columns: { columnId: string; providedMm: [number, number]; storeys: ColumnStoreySize[] }[];
+    footings: ({ columnId: string; serviceKN: number; factoredKN: number } & IsolatedFooting)[];
+  };
+  footings: { boundary: BoundaryOptions[]; combined: OverlapCombined[] };
+  quantities: Quantities;
+  cost: Cost;
+  /** totals that the comparison uses */
+  summary: { columns: number; beamSpans: number; beamLengthM: number; longestSpanM: number; deepestBeamMm: number };
+}
+
+function emptyResult(scheme: unknown, problems: Problem[]): SchemeResult {
+  const s = (typeof scheme === 'object' && scheme !== null ? scheme : {}) as Partial<Scheme>;
+  return {
+    caution: CAUTION,
+    ok: false,
+    problems,
+    schemeId: typeof s.id === 'string' ? s.id : '',
+    schemeName: typeof s.name === 'string' ? s.name : '',
+    codeFamily: null,
+    codeTitle: '',
+    limits: null,
+    combinations: [],
+    checks: [],
+    loads: { slabThicknessMm: 0, levels: [], columns: [] },
+    beamLines: [],
+    sizes: { slab: { adoptedMm: 0, providedMm: null, panels: [] }, beams: [], columns: [], footings: [] },
+    footings: { boundary: [], combined: [] },
+    quantities: { rows: [], totals: { concreteM3: 0, steelKg: 0, formworkM2: 0 }, notes: [] },
+    cost: { currency: '', rows: [], total: 0 },
+    summary: { columns: 0, beamSpans: 0, beamLengthM: 0, longestSpanM: 0, deepestBeamMm: 0 },
+  };
+}
+
+function lineModel(l: BeamLine, eiKNm2: number): BeamModel {
+  const supports: Support[] = l.nodes.map((n) => (n.columnId === null ? 'free' : 'pin'));
+  return { members: l.members.map((m) => ({ lengthM: m.lengthM, eiKNm2 })), supports };
+}
+
+/** Tributary plan area (m²) and beam lengths (m) per line around each column, from its neighbours on its beam lines. */
+function tributaries(layout: Layout): Map<string, { area: number; lengths: { lineId: string; lengthM: number }[] }> {
+  const w = new Map<string, { wx: number; wy: number; lengths: { lineId: string; lengthM: number }[] }>();
+  for (const l of layout.lines) {
+    l.nodes.forEach((n, i) => {
+      if (!n.columnId) return;
+      const left = i > 0 ? (l.nodes[i - 1].columnId ? (n.s - l.nodes[i - 1].s) / 2 : n.s - l.nodes[i - 1].s) : 0;
+      const right = i + 1 < l.nodes.length ? (l.nodes[i + 1].columnId ? (l.nodes[i + 1].s - n.s) / 2 : l.nodes[i + 1].s - n.s) : 0;
+      const e = w.get(n.columnId) ?? { wx: 0, wy: 0, lengths: [] };
+      if (l.runs === 'x') e.wx = Math.max(e.wx, left + right);
+      else e.wy = Math.max(e.wy, left + right);
+      e.lengths.push({ lineId: l.id, lengthM: left + right });
+      w.set(n.columnId, e);
+    });
+  }
+  const out = new Map<string, { area: number; lengths: { lineId: string; lengthM: number }[] }>();
+  for (const [id, e] of w) out.set(id, { area: e.wx * e.wy, lengths: e.lengths });
+  return out;
+}
+
+/**
+ * Analyses a scheme. Units: plan m, sections mm, loads kN, kN/m, kPa, moments kN·m, deflections mm.
+ * Invalid input gives ok = false and the problems; the result always carries the caution.
+ */
+export function analyseScheme(scheme: Scheme): SchemeResult {
+  const problems = validateScheme(scheme);
+  if (problems.length) return emptyResult(scheme, problems);
+  const b = scheme.basis;
+  const family = b.codeFamily;
+  const defaults = codeDefaults(family);
+  const limits = resolveLimits(family, b.limitOverrides);
+  const combos = defaults.combinations;
+  const gamma = defaults.concreteUnitWeight.value;
+  const fck = b.concreteMPa;
+  const fy = b.steelMPa;
+  const layout = deriveLayout(scheme);
+  const N = b.storeys;
+
+  // slab
+  const slabPanels = slabSizes(family, layout, fy, limits.slabOneWayAspect.value, limits.slabCoverToSteelMm.value, limits.slabMinThicknessMm.value);
+  const slabRequired = slabPanels.reduce((m, p) => Math.max(m, p.requiredMm), limits.slabMinThicknessMm.value);
+  const slabT = b.slabThicknessMm ?? roundUp(slabRequired, 10);
+
+  // beam depth assumed for stiffness and self-weight: given, or the span/depth depth
+  const cover = limits.beamCoverToSteelMm.value;
+  const spanDepthOverall = (kind: SpanKind, L: number) => {
+    const r = beamDepthRule(family, kind, L, fy);
+    return r.measure === 'overall' ? r.requiredMm : r.requiredMm + cover;
+  };
+  const lineDepth = new Map<string, number>();
+  for (const l of layout.lines) {
+    const d = l.specifiedDepthMm ?? roundUp(Math.max(slabT + 100, ...l.members.map((m) => spanDepthOverall(m.kind, m.lengthM))), 25);
+    lineDepth.set(l.id, d);
+  }
+  const secDepth = new Map<string, number>();
+  const secWidth = new Map<string, number>();
+  for (const s of layout.secondaries) {
+    secDepth.set(s.beam.id, s.beam.depthMm ?? roundUp(Math.max(slabT + 100, spanDepthOverall('simple', s.lengthM)), 25));
+    secWidth.set(s.beam.id, s.beam.widthMm ?? b.beamWidthMm);
+  }
+  const E = concreteModulusMPa(family, fck).value * 1000; // kN/m²
+  const prepared = new Map<string, PreparedBeam>();
+  const models = new Map<string, BeamModel>();
+  for (const l of layout.lines) {
+    const bm = l.widthMm / 1000;
+    const dm = (lineDepth.get(l.id) as number) / 1000;
+    const model = lineModel(l, (E * bm * dm * dm * dm) / 12);
+    models.set(l.id, model);
+    prepared.set(l.id, prepareBeam(model));
+  }
+
+  // levels: every floor below the roof is alike; the roof differs (imposed load, no walls above)
+  const kinds: { kind: LevelKind; count: number }[] = N >= 2 ? [{ kind: 'floor', count: N - 1 }, { kind: 'roof', count: 1 }] : [{ kind: 'roof', count: 1 }];
+  const levels = new Map<LevelKind, LevelLoads>();
+  for (const k of kinds) {
+    levels.set(
+      k.kind,
+      levelLoads(layout, {
+        kind: k.kind,
+        slabThicknessMm: slabT,
+        superimposedDeadKPa: b.superimposedDeadKPa,
+        liveKPa: k.kind === 'roof' ? (b.roofImposedKPa ?? b.imposedKPa) : b.imposedKPa,
+        wallLoadKNPerM: b.wallLoadKNPerM,
+        unitWeightKNm3: gamma,
+        oneWayAspect: limits.slabOneWayAspect.value,
+        lineDepthMm: lineDepth,
+        secondaryDepthMm: secDepth,
+        secondaryWidthMm: secWidth,
+      }),
+    );
+  }
+
+  const checks: Check[] = [];
+  const beamLines: BeamLineResult[] = [];
+  // column reactions per level kind: dead, live
+  const colR = new Map<string, Record<LevelKind, [number, number]>>();
+  const addR = (id: string, kind: LevelKind, d: number, lv: number) => {
+    const e = colR.get(id) ?? { floor: [0, 0], roof: [0, 0] };
+    e[kind][0] += d;
+    e[kind][1] += lv;
+    colR.set(id, e);
+  };
+  const designMoment = new Map<string, number>();
+  for (const k of kinds) {
+    const lv = levels.get(k.kind) as LevelLoads;
+    for (const l of layout.lines) {
+      const set = lv.lines.get(l.id) as { dead: BeamLoad[]; live: BeamLoad[] };
+      const p = prepared.get(l.id) as PreparedBeam;
+      if (!p.ok) {
+        checks.push({ ruleId: 'beam.unstable', severity: 'error', status: 'fail', elements: [l.id], message: `beam line ${l.label} is not held up by its columns`, value: 0, limit: 1, unit: '', sense: 'min', source: 'statics', sourceKind: 'derived' });
+        continue;
+      }
+      const env = envelopeBeam(models.get(l.id) as BeamModel, set.dead, set.live, combos, { prepared: p });
+      l.nodes.forEach((n, i) => {
+        if (n.columnId) addR(n.columnId, k.kind, env.deadReactionsKN[i], env.liveReactionsKN[i]);
+      });
+      env.members.forEach((e, i) => {
+        const id = l.members[i].id;
+        designMoment.set(id, Math.max(designMoment.get(id) ?? 0, Math.abs(e.maxMomentKNm), Math.abs(e.minMomentKNm)));
+      });
+      beamLines.push({
+        lineId: l.id,
+        gridLineId: l.gridLineId,
+        label: l.label,
+        level: k.kind,
+        widthMm: l.widthMm,
+        depthForSelfWeightMm: lineDepth.get(l.id) as number,
+        members: env.members.map((e, i) => ({ ...e, id: l.members[i].id, lengthM: l.members[i].lengthM, kind: l.members[i].kind })),
+        reactions: l.nodes.map((n, i) => ({ s: n.s, columnId: n.columnId, deadKN: env.deadReactionsKN[i], liveKN: env.liveReactionsKN[i], maxFactoredKN: env.maxFactoredReactionsKN[i] })),
+        patternsTried: env.patternsTried,
+      });
+    }
+  }
+
+  // beam sizes
+  const beams: BeamSize[] = [];
+  for (const l of layout.lines) {
+    for (const m of l.members) {
+      const M = designMoment.get(m.id) ?? 0;
+      const d = beamDepth(family, m.kind, m.lengthM, l.widthMm, M, fck, fy, cover);
+      beams.push({ memberId: m.id, lineId: l.id, spanM: m.lengthM, condition: m.kind, widthMm: l.widthMm, designMomentKNm: M, providedDepthMm: l.specifiedDepthMm, ...d });
+    }
+  }
+
+  // column loads storey by storey, and by tributary area as a cross-check
+  const trib = tributaries(layout);
+  const factored = (d: number, lv: number) => combos.reduce((m, c) => Math.max(m, c.dead * d + c.live * lv), 0);
+  const columnRows: ColumnLoadRow[] = [];
+  const colSizes: SchemeResult['sizes']['columns'] = [];
+  const footingRows: SchemeResult['sizes']['footings'] = [];
+  const sites: FootingSite[] = [];
+  const steel = limits.columnSteelRatio.value;
+  const floorLv = levels.get('floor');
+  const roofLv = levels.get('roof') as LevelLoads;
+  for (const c of scheme.columns) {
+    const r = colR.get(c.id) ?? { floor: [0, 0], roof: [0, 0] };
+    const sw = (c.widthMm / 1000) * (c.depthMm / 1000) * b.storeyHeightM * gamma;
+    const t = trib.get(c.id);
+    const tribLevel = (lv: LevelLoads | undefined) => {
+      if (!lv || !t) return 0;
+      let v = t.area * (lv.slabDeadKPa + lv.liveKPa);
+      for (const seg of t.lengths) {
+        const line = layout.lineById.get(seg.lineId) as BeamLine;
+        const beamSw = (line.widthMm / 1000) * Math.max(((lineDepth.get(line.id) as number) - slabT) / 1000, 0) * gamma;
+        const wall = lv.kind === 'floor' && line.wallThicknessMm > 0 ? b.wallLoadKNPerM : 0;
+        v += seg.lengthM * (beamSw + wall);
+      }
+      return v;
+    };
+    const tribFloor = tribLevel(floorLv);
+    const tribRoof = tribLevel(roofLv);
+    const storeys: ColumnStoreySize[] = [];
+    for (let s = 1; s <= N; s++) {
+      const floorsAbove = N - s; // floor levels s..N-1
+      const dead = floorsAbove * r.floor[0] + r.roof[0] + (N - s + 1) * sw;
+      const live = floorsAbove * r.floor[1] + r.roof[1];
+      const pu = factored(dead, live);
+      columnRows.push({ columnId: c.id, storey: s, deadKN: dead, liveKN: live, factoredKN: pu, tributaryKN: floorsAbove * tribFloor + tribRoof + (N - s + 1) * sw });
+      storeys.push({ storey: s, ...columnSize(family, pu, fck, fy, steel, limits.columnMinSideMm.value, [c.widthMm, c.depthMm]) });
+    }
+    colSizes.push({ columnId: c.id, providedMm: [c.widthMm, c.depthMm], storeys });
+    const base = columnRows[columnRows.length - N];
+    const service = base.deadKN + base.liveKN;
+    const f = isolatedFooting(service, b.bearingPressureKPa, limits.footingAllowance.value, base.factoredKN);
+    footingRows.push({ columnId: c.id, serviceKN: service, factoredKN: base.factoredKN, ...f });
+    const plan = columnPlan(c);
+    sites.push({ columnId: c.id, x: c.x, y: c.y, bx: plan.bx, by: plan.by, serviceKN: service, sideM: f.adoptedSideM });
+  }
+  const ratio = (() => {
+    const tot = footingRows.reduce((a, f) => [a[0] + f.factoredKN, a[1] + f.serviceKN], [0, 0]);
+    return tot[1] > 0 ? tot[0] / tot[1] : 1.5;
+  })();
+  const boundary = boundaryOptions(scheme.boundary, layout, sites, b.bearingPressureKPa, limits.footingAllowance.value, ratio);
+  const combined = overlappingFootings(sites, limits.footingMinGapM.value, b.bearingPressureKPa, limits.footingAllowance.value);
+
+  // checks
+  checks.push(...spanChecks(layout, limits), ...columnSpacingChecks(scheme, layout, limits), ...columnWallChecks(scheme, layout), ...pointLoadChecks(layout, limits), ...stairChecks(scheme, limits));
+  for (const p of slabPanels) {
+    const lim = { value: p.requiredMm, unit: 'mm', source: p.source, kind: p.kind };
+    checks.push(check(RULES.slabThickness, 'error', [p.panelId], `slab ${p.panelId} (${p.spanning}, ${p.lxM.toFixed(2)} × ${p.lyM.toFixed(2)} m): ${slabT} mm against ${p.requiredMm} mm needed`, slabT, lim, 'min'));
+  }
+  const headroom = limits.headroomUnderBeamMinM;
+  for (const bs of beams) {
+    const depth = bs.providedDepthMm ?? bs.adoptedDepthMm;
+    if (bs.providedDepthMm !== null) {
+      const lim = { value: bs.adoptedDepthMm, unit: 'mm', source: bs.governs === 'moment' ? bs.momentSource : bs.spanDepthSource, kind: 'code' as const };
+      checks.push(check(RULES.beamDepth, 'error', [bs.memberId], `${bs.memberId}: ${bs.providedDepthMm} mm deep against ${bs.adoptedDepthMm} mm needed (${bs.governs} governs)`, bs.providedDepthMm, lim, 'min'));
+    }
+    const clear = b.storeyHeightM - depth / 1000;
+    checks.push(check(RULES.beamHeadroom, 'warning', [bs.memberId], `${bs.memberId}: ${clear.toFixed(2)} m clear under a ${depth} mm beam`, clear, headroom, 'min'));
+  }
+  checks.push(check(RULES.columnSteel, 'error', [], `assumed column steel ${(steel * 100).toFixed(2)} % (at least ${(limits.columnSteelRatioMin.value * 100).toFixed(1)} %)`, steel, limits.columnSteelRatioMin, 'min'));
+  checks.push(check(RULES.columnSteel, 'error', [], `assumed column steel ${(steel * 100).toFixed(2)} % (at most ${(limits.columnSteelRatioMax.value * 100).toFixed(1)} %)`, steel, limits.columnSteelRatioMax, 'max'));
+  for (const cs of colSizes) {
+    const g = cs.storeys[0];
+    const lim = { value: g.providedCapacityKN, unit: 'kN', source: g.source, kind: 'code' as const };
+    checks.push(check(RULES.columnCapacity, 'error', [cs.columnId], `column ${cs.columnId} (${cs.providedMm[0]} × ${cs.providedMm[1]} mm) carries ${g.factoredKN.toFixed(0)} kN in the lowest storey against ${g.providedCapacityKN.toFixed(0)} kN; ${g.requiredSideMm} mm square would do`, g.factoredKN, lim, 'max'));
+  }
+  for (const o of boundary) {
+    const lim = { value: o.distanceToLineM, unit: 'm', source: `property line ${o.propertyLine} (scheme)`, kind: 'project' as const };
+    checks.push({ ...check(RULES.footingLine, 'warning', [o.columnId], `the isolated footing of ${o.columnId} would cross property line ${o.propertyLine} by ${o.crossingM.toFixed(2)} m; see the footing options`, o.distanceToLineM + o.crossingM, lim, 'max'), status: 'fail' });
+  }
+  for (const o of combined) {
+    checks.push(check(RULES.footingOverlap, 'warning', [...o.columnIds], `the footings of ${o.columnIds.join(' and ')} ${o.gapM < 0 ? 'overlap' : 'leave ' + o.gapM.toFixed(2) + ' m'}; a combined footing ${o.lengthM.toFixed(1)} × ${o.adoptedWidthM.toFixed(1)} m serves both`, o.gapM, limits.footingMinGapM, 'min'));
+  }
+
+  // quantities
+  const tally = new QuantityTally();
+  const t = slabT / 1000;
+  const panelArea = layout.panels.reduce((a, p) => a + (p.x2 - p.x1) * (p.y2 - p.y1), 0);
+  tally.add('slabs', panelArea * t * N, panelArea * N);
+  const depthOf = new Map(beams.map((x) => [x.memberId, (x.providedDepthMm ?? x.adoptedDepthMm) / 1000]));
+  let beamLength = 0;
+  let longest = 0;
+  let deepest = 0;
+  let spans = 0;
+  for (const l of layout.lines) {
+    for (const m of l.members) {
+      const D = depthOf.get(m.id) as number;
+      const web = Math.max(D - t, 0);
+      tally.add('beams', (l.widthMm / 1000) * web * m.lengthM * N, (l.widthMm / 1000 + 2 * web) * m.lengthM * N);
+      beamLength += m.lengthM;
+      longest = Math.max(longest, m.lengthM);
+      deepest = Math.max(deepest, D * 1000);
+      spans++;
+    }
+  }
+  for (const s of layout.secondaries) {
+    const D = (secDepth.get(s.beam.id) as number) / 1000;
+    const B = (secWidth.get(s.beam.id) as number) / 1000;
+    tally.add('beams', B * Math.max(D - t, 0) * s.lengthM * N, (B + 2 * Math.max(D - t, 0)) * s.lengthM * N);
+    beamLength += s.lengthM;
+  }
+  for (const cs of colSizes) {
+    for (const st of cs.storeys) {
+      const [w, d] = st.utilisation <= 1 ? [cs.providedMm[0] / 1000, cs.providedMm[1] / 1000] : [st.requiredSideMm / 1000, st.requiredSideMm / 1000];
+      tally.add('columns', w * d * b.storeyHeightM, 2 * (w + d) * b.storeyHeightM);
+    }
+  }
+  for (const f of footingRows) tally.add('footings', f.adoptedSideM ** 2 * f.thicknessM, 4 * f.adoptedSideM * f.thicknessM);
+  for (const f of scheme.stairs) {
+    const R = f.riserMm / 1000, T = f.treadMm / 1000;
+    const incl = f.risers * Math.hypot(R, T);
+    tally.add('stairs', f.widthM * (incl * 0.15 + (f.risers * R * T) / 2) * N, f.widthM * incl * N + f.risers * R * f.widthM * N);
+  }
+  const quantities = tally.finish(limits, [
+    'Reinforcement from typical kg/m³ ratios per member type (common practice), not a bar schedule.',
+    'Beam lengths are centre-line lengths; beam concrete below the slab only; stairs with a 150 mm waist (common practice).',
+    'Footings are priced as isolated pads; the boundary and combined options are listed for choice.',
+  ]);
+  const cost = costOf(quantities, b.rates);
+
+  return {
+    caution: CAUTION,
+    ok: true,
+    problems: [],
+    schemeId: scheme.id,
+    schemeName: scheme.name,
+    codeFamily: family,
+    codeTitle: defaults.title,
+    limits,
+    combinations: combos,
+    checks,
+    loads: {
+      slabThicknessMm: slabT,
+      levels: kinds.map((k) => {
+        const lv = levels.get(k.kind) as LevelLoads;
+        return { kind: k.kind, count: k.count, slabDeadKPa: lv.slabDeadKPa, liveKPa: lv.liveKPa, panels: lv.panels, secondaries: lv.secondaries };
+      }),
+      columns: columnRows,
+    },
+    beamLines,
+    sizes: { slab: { adoptedMm: slabT, providedMm: b.slabThicknessMm ?? null, panels: slabPanels }, beams, columns: colSizes, footings: footingRows },
+    footings: { boundary, combined },
+    quantities,
+    cost,
+    summary: { columns: scheme.columns.length, beamSpans: spans, beamLengthM: beamLength, longestSpanM: longest, deepestBeamMm: deepest },
+  };
+}

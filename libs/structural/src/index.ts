@@ -1,0 +1,25 @@
+// Public surface of the structural planning engine. Pure TypeScript, no I/O.
+// Units: SI throughout (m, mm where a name says Mm, kN, kN/m, kPa, kN·m, MPa).
+export * from './model';
+export { CAUTION, codeDefaults, resolveLimits, concreteModulusMPa, beamDepthRule, slabDepthRule, limitingMomentKNm, columnCapacityKN, LIMIT_KEYS } from './codes';
+export type { CodeDefaults, Combination, Limit, LimitKey, Limits, SourceKind, SupportCondition, DepthRule } from './codes';
+export { validateScheme } from './validate';
+export { analyseBeam, continuousBeam, uniformLoad, pointLoad } from './beam';
+export type { BeamLoad, BeamModel, BeamMember, BeamResult, MemberResult, PointLoad, LinearLoad, Support } from './beam';
+export { envelopeBeam, loadPatterns } from './envelope';
+export type { BeamEnvelope, MemberEnvelope } from './envelope';
+export { twoWayEquivalentLoads } from './loads';
+export type { PanelLoad, SecondaryLoad } from './loads';
+export { isolatedFooting, rectangularCombined, trapezoidalCombined, strapFooting } from './footings';
+export type { IsolatedFooting, RectCombined, TrapezoidCombined, StrapFooting } from './footings';
+export type { BoundaryOptions, OverlapCombined } from './site';
+export { beamDepth, columnSize } from './sizing';
+export type { BeamSize, ColumnStoreySize, SlabSize } from './sizing';
+export { RULES } from './checks';
+export type { Check, Severity } from './checks';
+export type { Quantities, QuantityRow, Cost, CostRow, MemberType } from './quantities';
+export { analyseScheme } from './analyse';
+export type { SchemeResult, BeamLineResult, ColumnLoadRow, LevelKind } from './analyse';
+export { compareSchemes, compareResults } from './compare';
+export type { SchemeComparison } from './compare';
+export { demoScheme, demoSchemeVariant } from './demo';

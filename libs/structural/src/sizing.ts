@@ -1,0 +1,131 @@
+// Preliminary member sizes: slab thickness from span/depth, beam depth from span/depth and from
+// moment capacity (the larger governs), column sections per storey from axial load.
+import { beamDepthRule, columnCapacityKN, limitingMomentKNm, slabDepthRule, SourceKind, SupportCondition } from './codes';
+import { roundUp } from './footings';
+import type { Layout, Panel } from './layout';
+import type { CodeFamily } from './model';
+
+export interface SlabSize {
+  panelId: string;
+  spanning: 'one-way' | 'two-way';
+  condition: SupportCondition;
+  lxM: number;
+  lyM: number;
+  requiredMm: number;
+  source: string;
+  kind: SourceKind;
+}
+
+/** Which sides of a panel have a neighbouring panel (continuity), by shared edges. */
+function neighbours(p: Panel, all: Panel[]): { x: number; y: number } {
+  let x = 0, y = 0;
+  const eq = (a: number, b: number) => Math.abs(a - b) < 1e-6;
+  const overlaps = (a1: number, a2: number, b1: number, b2: number) => Math.min(a2, b2) - Math.max(a1, b1) > 1e-6;
+  for (const q of all) {
+    if (q === p) continue;
+    if ((eq(q.x2, p.x1) || eq(q.x1, p.x2)) && overlaps(p.y1, p.y2, q.y1, q.y2)) x++;
+    if ((eq(q.y2, p.y1) || eq(q.y1, p.y2)) && overlaps(p.x1, p.x2, q.x1, q.x2)) y++;
+  }
+  return { x: Math.min(x, 2), y: Math.min(y, 2) };
+}
+
+/**
+ * Required slab thickness (mm) per panel; one-way when long/short ≥ oneWayAspect. Spans m, fy MPa.
+ */
+export function slabSizes(family: CodeFamily, layout: Layout, fy: number, oneWayAspect: number, coverMm: number, minMm: number): SlabSize[] {
+  return layout.panels.map((p) => {
+    const oneWay = p.ly / p.lx > oneWayAspect;
+    const n = neighbours(p, layout.panels);
+    // continuity across the short span: neighbours in the direction the short span runs
+    const shortAlongX = p.x2 - p.x1 <= p.y2 - p.y1;
+    const k = shortAlongX ? n.x : n.y;
+    const condition: SupportCondition = k === 0 ? 'simple' : k === 1 ? 'endSpan' : 'interior';
+    const rule = slabDepthRule(family, oneWay, condition, p.lx, p.ly, fy, coverMm);
+    return {
+      panelId: p.id,
+      spanning: oneWay ? 'one-way' : 'two-way',
+      condition,
+      lxM: p.lx,
+      lyM: p.ly,
+      requiredMm: Math.max(roundUp(rule.requiredMm, 5), minMm),
+      source: rule.source + (rule.requiredMm < minMm ? `; minimum ${minMm} mm (common practice)` : ''),
+      kind: rule.kind,
+    };
+  });
+}
+
+export interface BeamSize {
+  memberId: string;
+  lineId: string;
+  spanM: number;
+  condition: SupportCondition;
+  widthMm: number;
+  /** overall depth from span/depth, mm */
+  fromSpanDepthMm: number;
+  spanDepthSource: string;
+  /** design moment (largest magnitude of the envelope), kN·m, and the overall depth it needs, mm */
+  designMomentKNm: number;
+  fromMomentMm: number;
+  momentSource: string;
+  governs: 'span/depth' | 'moment';
+  /** adopted overall depth, rounded up to 25 mm */
+  adoptedDepthMm: number;
+  /** depth given in the scheme, if any */
+  providedDepthMm: number | null;
+}
+
+/** Overall beam depth (mm) for a span (m), width (mm), design moment (kN·m), strengths (MPa). */
+export function beamDepth(
+  family: CodeFamily,
+  condition: SupportCondition,
+  spanM: number,
+  widthMm: number,
+  designMomentKNm: number,
+  fck: number,
+  fy: number,
+  coverMm: number,
+): Pick<BeamSize, 'fromSpanDepthMm' | 'spanDepthSource' | 'fromMomentMm' | 'momentSource' | 'governs' | 'adoptedDepthMm'> {
+  const rule = beamDepthRule(family, condition, spanM, fy);
+  const fromSpan = rule.measure === 'overall' ? rule.requiredMm : rule.requiredMm + coverMm;
+  const unit = limitingMomentKNm(family, widthMm, 1, fck, fy); // kN·m per mm² of d²
+  const d = Math.sqrt(Math.abs(designMomentKNm) / unit.value);
+  const fromMoment = d + coverMm;
+  const governs = fromMoment > fromSpan ? 'moment' : 'span/depth';
+  return {
+    fromSpanDepthMm: fromSpan,
+    spanDepthSource: rule.source,
+    fromMomentMm: fromMoment,
+    momentSource: unit.source,
+    governs,
+    adoptedDepthMm: roundUp(Math.max(fromSpan, fromMoment), 25),
+  };
+}
+
+export interface ColumnStoreySize {
+  storey: number;
+  factoredKN: number;
+  /** gross area needed at the assumed steel ratio, mm² */
+  requiredAreaMm2: number;
+  /** square side needed, rounded up to 25 mm and at least the minimum side, mm */
+  requiredSideMm: number;
+  /** capacity of the section given in the scheme, kN, and load/capacity */
+  providedCapacityKN: number;
+  utilisation: number;
+  source: string;
+}
+
+/** Column section for a factored axial load (kN), strengths MPa, steel ratio of gross area. */
+export function columnSize(family: CodeFamily, factoredKN: number, fck: number, fy: number, steelRatio: number, minSideMm: number, providedMm: [number, number]): Omit<ColumnStoreySize, 'storey'> {
+  const perMm2 = columnCapacityKN(family, 1, 1, fck, fy, steelRatio);
+  const requiredAreaMm2 = factoredKN / perMm2.value;
+  const side = Math.max(roundUp(Math.sqrt(requiredAreaMm2), 25), minSideMm);
+  const provided = columnCapacityKN(family, providedMm[0], providedMm[1], fck, fy, steelRatio).value;
+  return {
+    factoredKN,
+    requiredAreaMm2,
+    requiredSideMm: side,
+    providedCapacityKN: provided,
+    utilisation: factoredKN / provided,
+    source: `${perMm2.source}, steel ${(steelRatio * 100).toFixed(1)} % of gross area assumed`,
+  };
+}

@@ -1,0 +1,206 @@
+// Validation of a scheme as it arrives (any JSON value): every problem names the element and
+// the field, so that an editor can point at it. Nothing here throws.
+import { LIMIT_KEYS } from './codes';
+import type { Problem } from './model';
+
+type Obj = Record<string, unknown>;
+const isObj = (v: unknown): v is Obj => typeof v === 'object' && v !== null && !Array.isArray(v);
+
+interface NumRule {
+  optional?: boolean;
+  min?: number;
+  /** strictly greater than */
+  gt?: number;
+  int?: boolean;
+}
+
+class Collector {
+  readonly problems: Problem[] = [];
+  add(path: string, field: string, message: string, elementId?: string): void {
+    this.problems.push(elementId === undefined ? { path, field, message } : { path, elementId, field, message });
+  }
+  num(o: Obj, base: string, field: string, rule: NumRule, elementId?: string): number | undefined {
+    const v = o[field];
+    const path = base ? `${base}.${field}` : field;
+    if (v === undefined && rule.optional) return undefined;
+    if (typeof v !== 'number' || !Number.isFinite(v)) {
+      this.add(path, field, 'must be a number', elementId);
+      return undefined;
+    }
+    if (rule.int && !Number.isInteger(v)) this.add(path, field, 'must be a whole number', elementId);
+    if (rule.gt !== undefined && !(v > rule.gt)) this.add(path, field, `must be greater than ${rule.gt}`, elementId);
+    if (rule.min !== undefined && v < rule.min) this.add(path, field, `must be at least ${rule.min}`, elementId);
+    return v;
+  }
+  str(o: Obj, base: string, field: string, elementId?: string): string | undefined {
+    const v = o[field];
+    if (typeof v !== 'string' || v.trim() === '') {
+      this.add(base ? `${base}.${field}` : field, field, 'must be a non-empty text', elementId);
+      return undefined;
+    }
+    return v;
+  }
+  arr(o: Obj, field: string): unknown[] {
+    const v = o[field];
+    if (!Array.isArray(v)) {
+      this.add(field, field, 'must be a list');
+      return [];
+    }
+    return v;
+  }
+}
+
+function uniqueIds(c: Collector, list: unknown[], base: string): void {
+  const seen = new Set<string>();
+  list.forEach((e, i) => {
+    if (!isObj(e) || typeof e['id'] !== 'string') return;
+    if (seen.has(e['id'])) c.add(`${base}[${i}].id`, 'id', `duplicate id "${e['id']}"`, e['id']);
+    seen.add(e['id']);
+  });
+}
+
+/**
+ * Checks a scheme (units as in the model: m, mm where named, kN, kPa, MPa) and returns its
+ * problems; an empty list means the engine can analyse it.
+ */
+export function validateScheme(input: unknown): Problem[] {
+  const c = new Collector();
+  if (!isObj(input)) {
+    c.add('', 'scheme', 'a scheme must be an object');
+    return c.problems;
+  }
+  if (input['schemaVersion'] !== 1) c.add('schemaVersion', 'schemaVersion', 'unsupported schema version (expected 1)');
+  c.str(input, '', 'id');
+  c.str(input, '', 'name');
+
+  const basis = input['basis'];
+  if (!isObj(basis)) c.add('basis', 'basis', 'the design basis is missing');
+  else {
+    if (!['IS456', 'ACI318', 'EN1992'].includes(basis['codeFamily'] as string)) c.add('basis.codeFamily', 'codeFamily', 'must be one of IS456, ACI318, EN1992');
+    c.num(basis, 'basis', 'concreteMPa', { min: 10 });
+    c.num(basis, 'basis', 'steelMPa', { min: 200 });
+    c.num(basis, 'basis', 'imposedKPa', { min: 0 });
+    c.num(basis, 'basis', 'roofImposedKPa', { min: 0, optional: true });
+    c.num(basis, 'basis', 'superimposedDeadKPa', { min: 0 });
+    c.num(basis, 'basis', 'wallLoadKNPerM', { min: 0 });
+    c.num(basis, 'basis', 'bearingPressureKPa', { gt: 0 });
+    c.num(basis, 'basis', 'foundingDepthM', { min: 0 });
+    c.num(basis, 'basis', 'storeys', { min: 1, int: true });
+    c.num(basis, 'basis', 'storeyHeightM', { gt: 0 });
+    c.num(basis, 'basis', 'slabThicknessMm', { gt: 0, optional: true });
+    c.num(basis, 'basis', 'beamWidthMm', { gt: 0 });
+    const rates = basis['rates'];
+    if (!isObj(rates)) c.add('basis.rates', 'rates', 'unit rates are missing');
+    else {
+      c.str(rates, 'basis.rates', 'currency');
+      c.num(rates, 'basis.rates', 'concretePerM3', { min: 0 });
+      c.num(rates, 'basis.rates', 'steelPerKg', { min: 0 });
+      c.num(rates, 'basis.rates', 'formworkPerM2', { min: 0 });
+    }
+    const ov = basis['limitOverrides'];
+    if (ov !== undefined) {
+      if (!isObj(ov)) c.add('basis.limitOverrides', 'limitOverrides', 'must be an object of limit key to number');
+      else
+        for (const [k, v] of Object.entries(ov)) {
+          if (!(LIMIT_KEYS as readonly string[]).includes(k)) c.add(`basis.limitOverrides.${k}`, k, 'unknown limit');
+          else if (typeof v !== 'number' || !Number.isFinite(v) || v < 0) c.add(`basis.limitOverrides.${k}`, k, 'must be a non-negative number');
+        }
+    }
+  }
+
+  const boundary = input['boundary'];
+  if (!isObj(boundary)) c.add('boundary', 'boundary', 'the plot boundary is missing');
+  else {
+    const vs = Array.isArray(boundary['vertices']) ? (boundary['vertices'] as unknown[]) : [];
+    if (vs.length < 3) c.add('boundary.vertices', 'vertices', 'the boundary needs at least three vertices');
+    vs.forEach((v, i) => {
+      if (!isObj(v)) c.add(`boundary.vertices[${i}]`, 'vertices', 'must be a point {x, y}');
+      else {
+        c.num(v, `boundary.vertices[${i}]`, 'x', {});
+        c.num(v, `boundary.vertices[${i}]`, 'y', {});
+      }
+    });
+    const pl = boundary['propertyLines'];
+    if (!Array.isArray(pl)) c.add('boundary.propertyLines', 'propertyLines', 'must be a list of segment indices');
+    else
+      pl.forEach((k, i) => {
+        if (!Number.isInteger(k) || (k as number) < 0 || (k as number) >= vs.length) c.add(`boundary.propertyLines[${i}]`, 'propertyLines', `segment index must be 0..${vs.length - 1}`);
+      });
+  }
+
+  const grid = c.arr(input, 'grid');
+  uniqueIds(c, grid, 'grid');
+  grid.forEach((g, i) => {
+    const base = `grid[${i}]`;
+    if (!isObj(g)) return c.add(base, 'grid', 'must be an object');
+    const id = typeof g['id'] === 'string' ? g['id'] : undefined;
+    c.str(g, base, 'id', id);
+    c.str(g, base, 'label', id);
+    const hasX = g['x'] !== undefined;
+    const hasY = g['y'] !== undefined;
+    if (hasX === hasY) c.add(`${base}.x`, 'x', 'a grid line sets exactly one of x or y', id);
+    else c.num(g, base, hasX ? 'x' : 'y', {}, id);
+    c.num(g, base, 'overhangStartM', { min: 0, optional: true }, id);
+    c.num(g, base, 'overhangEndM', { min: 0, optional: true }, id);
+    c.num(g, base, 'wallThicknessMm', { min: 0, optional: true }, id);
+    c.num(g, base, 'beamWidthMm', { gt: 0, optional: true }, id);
+    c.num(g, base, 'beamDepthMm', { gt: 0, optional: true }, id);
+  });
+
+  const cols = c.arr(input, 'columns');
+  uniqueIds(c, cols, 'columns');
+  const pos: { id: string; x: number; y: number; i: number }[] = [];
+  cols.forEach((col, i) => {
+    const base = `columns[${i}]`;
+    if (!isObj(col)) return c.add(base, 'columns', 'must be an object');
+    const id = typeof col['id'] === 'string' ? col['id'] : undefined;
+    c.str(col, base, 'id', id);
+    c.str(col, base, 'label', id);
+    const x = c.num(col, base, 'x', {}, id);
+    const y = c.num(col, base, 'y', {}, id);
+    c.num(col, base, 'widthMm', { gt: 0 }, id);
+    c.num(col, base, 'depthMm', { gt: 0 }, id);
+    if (col['orientationDeg'] !== 0 && col['orientationDeg'] !== 90) c.add(`${base}.orientationDeg`, 'orientationDeg', 'must be 0 or 90', id);
+    if (x !== undefined && y !== undefined && id) pos.push({ id, x, y, i });
+  });
+  pos.sort((a, b) => a.x - b.x);
+  for (let i = 0; i < pos.length; i++)
+    for (let j = i + 1; j < pos.length && pos[j].x - pos[i].x < 0.05; j++)
+      if (Math.hypot(pos[j].x - pos[i].x, pos[j].y - pos[i].y) < 0.05)
+        c.add(`columns[${pos[j].i}].x`, 'x', `stands on the same spot as column ${pos[i].id}`, pos[j].id);
+
+  const secs = c.arr(input, 'secondaryBeams');
+  uniqueIds(c, secs, 'secondaryBeams');
+  secs.forEach((s, i) => {
+    const base = `secondaryBeams[${i}]`;
+    if (!isObj(s)) return c.add(base, 'secondaryBeams', 'must be an object');
+    const id = typeof s['id'] === 'string' ? s['id'] : undefined;
+    c.str(s, base, 'id', id);
+    const a = s['start'], b = s['end'];
+    if (!isObj(a) || !isObj(b)) return c.add(`${base}.start`, 'start', 'start and end must be points {x, y}', id);
+    const ax = c.num(a, `${base}.start`, 'x', {}, id), ay = c.num(a, `${base}.start`, 'y', {}, id);
+    const bx = c.num(b, `${base}.end`, 'x', {}, id), by = c.num(b, `${base}.end`, 'y', {}, id);
+    if ([ax, ay, bx, by].every((v) => v !== undefined)) {
+      const dx = Math.abs((bx as number) - (ax as number)), dy = Math.abs((by as number) - (ay as number));
+      if (dx > 0.02 && dy > 0.02) c.add(`${base}.end`, 'end', 'a secondary beam must run parallel to x or to y', id);
+      if (dx < 0.1 && dy < 0.1) c.add(`${base}.end`, 'end', 'a secondary beam must be longer than 0.1 m', id);
+    }
+    c.num(s, base, 'widthMm', { gt: 0, optional: true }, id);
+    c.num(s, base, 'depthMm', { gt: 0, optional: true }, id);
+  });
+
+  const stairs = c.arr(input, 'stairs');
+  uniqueIds(c, stairs, 'stairs');
+  stairs.forEach((f, i) => {
+    const base = `stairs[${i}]`;
+    if (!isObj(f)) return c.add(base, 'stairs', 'must be an object');
+    const id = typeof f['id'] === 'string' ? f['id'] : undefined;
+    c.str(f, base, 'id', id);
+    c.num(f, base, 'riserMm', { gt: 0 }, id);
+    c.num(f, base, 'treadMm', { gt: 0 }, id);
+    c.num(f, base, 'risers', { min: 1, int: true }, id);
+    c.num(f, base, 'widthM', { gt: 0 }, id);
+    if (f['use'] !== 'residential' && f['use'] !== 'other') c.add(`${base}.use`, 'use', 'must be residential or other', id);
+  });
+  return c.problems;
+}
