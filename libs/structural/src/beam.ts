@@ -496,3 +496,26 @@ export function analyseBeam(model: BeamModel, loads: readonly BeamLoad[], option
   const totalLoadKN = s.terms.reduce((a, t) => a + t.total, 0);
   return { problems: [], reactions, members, nodes, totalLoadKN };
 }
+
+/**
+ * The same reduced stiffness system as prepareBeam/solveTerms, assembled as a full dense matrix
+ * (row-major n×n) with its right-hand side; for the benchmark and as an independent check.
+ */
+export function assembleDense(model: BeamModel, t: readonly MemberTerms[]): { n: number; a: Float64Array; rhs: Float64Array } {
+  const { dof, nEq: n } = numberDofs(model);
+  const a = new Float64Array(n * n);
+  const rhs = new Float64Array(n);
+  model.members.forEach((mb, i) => {
+    const k = elementK(mb.lengthM, mb.eiKNm2);
+    const map = [dof[2 * i], dof[2 * i + 1], dof[2 * i + 2], dof[2 * i + 3]];
+    for (let r = 0; r < 4; r++) {
+      if (map[r] < 0) continue;
+      for (let c = 0; c < 4; c++) if (map[c] >= 0) a[map[r] * n + map[c]] += k[r * 4 + c];
+    }
+    const L = mb.lengthM;
+    const { fa, fb, ra, rb } = t[i];
+    const eq = [-(ra + (fa - fb) / L), -fa, -(rb - (fa - fb) / L), fb];
+    for (let r = 0; r < 4; r++) if (map[r] >= 0) rhs[map[r]] += eq[r];
+  });
+  return { n, a, rhs };
+}

@@ -120,18 +120,40 @@ export function envelopeBeam(
         const gl = pat.members[i] ? c.live : 0;
         const dv = (mr - ml) / L;
         const e = env[i];
+        let bestK = -1;
+        let bestM = -Infinity;
+        let prev2 = 0, prev1 = 0, atBest: [number, number, number] = [0, 0, 0];
         for (let k = 0; k < ns; k++) {
           const xi = k / nSeg;
           const idx = i * ns + k;
           const m = c.dead * m0D[idx] + gl * m0L[idx] + ml * (1 - xi) + mr * xi;
-          if (m > e.maxMomentKNm) { e.maxMomentKNm = m; e.maxMomentAtM = xi * L; e.maxPattern = label; }
+          if (k >= 2 && bestK === k - 1) atBest = [prev2, prev1, m];
+          if (m > bestM) { bestM = m; bestK = k; }
           if (m < e.minMomentKNm) { e.minMomentKNm = m; e.minMomentAtM = xi * L; e.minPattern = label; }
           // shear just inside the ends is where it peaks for these loads
           if (k === 0 || k === nSeg) {
             const v = Math.abs(c.dead * v0D[idx] + gl * v0L[idx] + dv);
             if (v > e.maxShearKN) e.maxShearKN = v;
           }
+          prev2 = prev1;
+          prev1 = m;
         }
+        // a parabola through the best sample and its neighbours finds the peak between samples
+        // (exact under uniform load)
+        let peak = bestM;
+        let peakX = (bestK / nSeg) * L;
+        if (bestK > 0 && bestK < nSeg) {
+          const [a0, a1, a2] = atBest;
+          const den = a0 - 2 * a1 + a2;
+          if (den < 0) {
+            const off = (0.5 * (a0 - a2)) / den;
+            if (Math.abs(off) <= 1) {
+              peak = a1 - 0.25 * (a0 - a2) * off;
+              peakX = ((bestK + off) / nSeg) * L;
+            }
+          }
+        }
+        if (peak > e.maxMomentKNm) { e.maxMomentKNm = peak; e.maxMomentAtM = peakX; e.maxPattern = label; }
       }
     }
   }
