@@ -1,0 +1,302 @@
+import fc from 'fast-check';
+import { analyseScheme } from './analyse';
+import { CAUTION } from './codes';
+import { compareSchemes } from './compare';
+import { demoScheme, demoSchemeVariant } from './demo';
+import type { Scheme } from './model';
+import { validateScheme } from './validate';
+
+/** A rectangular grid scheme with a column at every crossing. */
+function gridScheme(xs: number[], ys: number[], over: Partial<Scheme['basis']> = {}, extra: Partial<Scheme> = {}): Scheme {
+  return {
+    schemaVersion: 1,
+    id: 'g',
+    name: 'grid',
+    basis: {
+      codeFamily: 'IS456', concreteMPa: 25, steelMPa: 415, imposedKPa: 3, superimposedDeadKPa: 1, wallLoadKNPerM: 10,
+      bearingPressureKPa: 200, foundingDepthM: 1.5, storeys: 1, storeyHeightM: 3.2, beamWidthMm: 250, slabThicknessMm: 150,
+      rates: { currency: 'XTS', concretePerM3: 100, steelPerKg: 1, formworkPerM2: 10 }, ...over,
+    },
+    boundary: { vertices: [{ x: -5, y: -5 }, { x: 100, y: -5 }, { x: 100, y: 100 }, { x: -5, y: 100 }], propertyLines: [] },
+    grid: [...xs.map((x, i) => ({ id: `X${i}`, label: `X${i}`, x, beamDepthMm: 500 })), ...ys.map((y, j) => ({ id: `Y${j}`, label: `Y${j}`, y, beamDepthMm: 500 }))],
+    columns: xs.flatMap((x, i) => ys.map((y, j) => ({ id: `C${i}_${j}`, label: `C${i}_${j}`, x, y, widthMm: 400, depthMm: 400, orientationDeg: 0 as const }))),
+    secondaryBeams: [],
+    stairs: [],
+    ...extra,
+  };
+}
+const base = (r: ReturnType<typeof analyseScheme>) => new Map(r.loads.columns.filter((c) => c.storey === 1).map((c) => [c.columnId, c]));
+
+describe('analyseScheme', () => {
+  it('every result carries the caution, and the demo scheme analyses without problems', () => {
+    const r = analyseScheme(demoScheme());
+    expect(r.ok).toBe(true);
+    expect(r.caution).toBe(CAUTION);
+    expect(CAUTION).toMatch(/preliminary/i);
+    expect(CAUTION).toMatch(/licensed structural engineer/);
+    expect(compareSchemes(demoScheme(), demoSchemeVariant()).caution).toBe(CAUTION);
+    expect(analyseScheme({} as Scheme).caution).toBe(CAUTION);
+    for (const c of r.checks) {
+      expect(c.ruleId).toMatch(/^[a-z]+\.[a-z0-9-]+$/);
+      expect(c.source.length).toBeGreaterThan(3);
+    }
+  });
+
+  it('column loads from beam reactions add up to the load applied on the floor (statics)', () => {
+    const s = gridScheme([0, 4, 9], [0, 5, 11]);
+    const r = analyseScheme(s);
+    const cols = [...base(r).values()];
+    const colSw = 0.4 * 0.4 * 3.2 * 25 * cols.length;
+    const area = 9 * 11;
+    const beamLen = 3 * 9 + 3 * 11;
+    const slabDead = 0.15 * 25 + 1; // kPa
+    const beamSw = 0.25 * (0.5 - 0.15) * 25; // kN/m
+    const dead = cols.reduce((a, c) => a + c.deadKN, 0);
+    const live = cols.reduce((a, c) => a + c.liveKN, 0);
+    expect(dead).toBeCloseTo(area * slabDead + beamLen * beamSw + colSw, 6);
+    expect(live).toBeCloseTo(area * 3, 6);
+  });
+
+  it('column loads accumulate storey by storey: each storey adds one floor and one storey of column', () => {
+    const r = analyseScheme(gridScheme([0, 5, 10], [0, 5], { storeys: 4 }));
+    const rows = r.loads.columns.filter((c) => c.columnId === 'C1_0').sort((a, b) => a.storey - b.storey);
+    expect(rows).toHaveLength(4);
+    const d1 = rows[0].deadKN - rows[1].deadKN;
+    const d2 = rows[1].deadKN - rows[2].deadKN;
+    expect(d1).toBeCloseTo(d2, 9);
+    expect(rows[0].factoredKN).toBeCloseTo(1.5 * (rows[0].deadKN + rows[0].liveKN), 9);
+    // section needed shrinks or stays going up
+    const sizes = r.sizes.columns.find((c) => c.columnId === 'C1_0')!.storeys;
+    for (let i = 1; i < sizes.length; i++) expect(sizes[i].requiredSideMm).toBeLessThanOrEqual(sizes[i - 1].requiredSideMm);
+  });
+
+  it('the tributary-area cross-check stays near the reaction-based load for an interior column of a regular grid', () => {
+    const r = analyseScheme(gridScheme([0, 5, 10, 15], [0, 5, 10, 15], { storeys: 3 }));
+    const c = base(r).get('C1_1')!;
+    const ratio = c.tributaryKN / (c.deadKN + c.liveKN);
+    expect(ratio).toBeGreaterThan(0.85);
+    expect(ratio).toBeLessThan(1.15);
+  });
+
+  it('a mirror-image layout gives mirror-image column loads (fast-check)', () => {
+    fc.assert(
+      fc.property(
+        fc.array(fc.double({ min: 3, max: 8, noNaN: true }), { minLength: 1, maxLength: 3 }),
+        fc.array(fc.double({ min: 3, max: 8, noNaN: true }), { minLength: 1, maxLength: 3 }),
+        fc.double({ min: 0, max: 2, noNaN: true }),
+        (bx, by, over) => {
+          const xs = [0];
+          bx.forEach((b) => xs.push(xs[xs.length - 1] + b));
+          const ys = [0];
+          by.forEach((b) => ys.push(ys[ys.length - 1] + b));
+          const W = xs[xs.length - 1];
+          const a = gridScheme(xs, ys);
+          a.grid[xs.length].overhangEndM = over > 0.5 ? over : undefined; // cantilever at the east end of Y0
+          const m = gridScheme(xs.map((x) => W - x).reverse(), ys);
+          m.grid[xs.length].overhangStartM = over > 0.5 ? over : undefined;
+          const ra = base(analyseScheme(a));
+          const rm = base(analyseScheme(m));
+          const n = xs.length;
+          for (let i = 0; i < n; i++)
+            for (let j = 0; j < ys.length; j++) {
+              const p = ra.get(`C${i}_${j}`)!;
+              const q = rm.get(`C${n - 1 - i}_${j}`)!;
+              expect(Math.abs(p.deadKN - q.deadKN)).toBeLessThan(1e-6);
+              expect(Math.abs(p.liveKN - q.liveKN)).toBeLessThan(1e-6);
+            }
+        },
+      ),
+      { numRuns: 40 },
+    );
+  });
+
+  it('beam sizes say whether span/depth or moment governs, and adopt the larger rounded up to 25 mm', () => {
+    const r = analyseScheme(gridScheme([0, 7.5], [0, 4, 8]));
+    for (const b of r.sizes.beams) {
+      expect(b.adoptedDepthMm).toBeGreaterThanOrEqual(Math.max(b.fromMomentMm, b.fromSpanDepthMm));
+      expect(b.adoptedDepthMm % 25).toBe(0);
+      expect(b.governs).toBe(b.fromMomentMm > b.fromSpanDepthMm ? 'moment' : 'span/depth');
+    }
+    // a 7.5 m simply supported span: span/depth needs 7500/20 + 50 = 425 mm (IS 456 cl. 23.2.1)
+    const long = r.sizes.beams.find((b) => b.spanM === 7.5)!;
+    expect(long.fromSpanDepthMm).toBeCloseTo(425, 9);
+  });
+});
+
+describe('checks', () => {
+  const failed = (s: Scheme, rule: string) => analyseScheme(s).checks.filter((c) => c.ruleId === rule && c.status === 'fail');
+
+  it('flags a simply supported span over the practice limit and says the limit is common practice', () => {
+    const f = failed(gridScheme([0, 7], [0, 4]), 'beam.span');
+    expect(f.map((c) => c.elements[0])).toEqual(['B-Y0/X0-X1', 'B-Y1/X0-X1']);
+    expect(f[0]).toMatchObject({ limit: 6, value: 7, sourceKind: 'practice' });
+  });
+
+  it('a per-project override moves the limit and is marked as the project setting', () => {
+    const s = gridScheme([0, 7], [0, 4], { limitOverrides: { beamSpanSimpleMaxM: 7.5 } });
+    const c = analyseScheme(s).checks.filter((x) => x.ruleId === 'beam.span' && x.value === 7);
+    expect(c.every((x) => x.status === 'pass' && x.sourceKind === 'project')).toBe(true);
+  });
+
+  it('flags two columns closer than the merge distance and suggests one column between them', () => {
+    const s = gridScheme([0, 5], [0, 5]);
+    s.columns.push({ id: 'K', label: 'K', x: 5.9, y: 5, widthMm: 300, depthMm: 300, orientationDeg: 0 });
+    const f = failed(s, 'column.merge');
+    expect(f).toHaveLength(1);
+    expect(f[0].elements.sort()).toEqual(['C1_1', 'K']);
+    expect(f[0].message).toMatch(/\(5\.45, 5\)/);
+  });
+
+  it('flags column spacing beyond the economical range', () => {
+    expect(failed(gridScheme([0, 7.2], [0, 5]), 'column.spacing').length).toBe(2);
+    expect(failed(gridScheme([0, 5], [0, 5]), 'column.spacing').length).toBe(0);
+  });
+
+  it('flags a secondary beam landing mid-span on a long primary span and names the spans a column there would give', () => {
+    const s = gridScheme([0, 8], [0, 6], {}, { secondaryBeams: [{ id: 'SB', start: { x: 3, y: 0 }, end: { x: 3, y: 6 } }] });
+    const f = failed(s, 'beam.point-load-on-long-span');
+    expect(f).toHaveLength(2);
+    expect(f[0].message).toMatch(/spans of 3 m and 5 m/);
+    // its load reaches the columns: the total still balances
+    const r = analyseScheme(s);
+    const live = r.loads.columns.filter((c) => c.storey === 1).reduce((a, c) => a + c.liveKN, 0);
+    expect(live).toBeCloseTo(8 * 6 * 3, 6);
+  });
+
+  it('flags a column wider than the wall it stands in', () => {
+    const s = gridScheme([0, 5], [0, 5]);
+    s.grid[0].wallThicknessMm = 230;
+    const f = failed(s, 'column.wider-than-wall');
+    expect(f.map((c) => c.elements[0]).sort()).toEqual(['C0_0', 'C0_1']);
+    expect(f[0]).toMatchObject({ value: 400, limit: 230 });
+  });
+
+  it('flags a slab thinner than span/depth needs (IS 456 cl. 24.1, two-way)', () => {
+    const f = failed(gridScheme([0, 5, 10], [0, 5], { slabThicknessMm: 110 }), 'slab.thickness');
+    expect(f.length).toBe(2);
+    expect(f[0].source).toMatch(/IS 456:2000 cl\. 24\.1/);
+  });
+
+  it('flags a given beam shallower than needed, and a beam that leaves too little headroom', () => {
+    const s = gridScheme([0, 6], [0, 4], { storeyHeightM: 2.6 });
+    s.grid.forEach((g) => (g.beamDepthMm = 250));
+    expect(failed(s, 'beam.depth').length).toBeGreaterThan(0);
+    const t = gridScheme([0, 6], [0, 4], { storeyHeightM: 2.6 });
+    t.grid.forEach((g) => (g.beamDepthMm = 600));
+    const h = failed(t, 'beam.headroom');
+    expect(h.length).toBe(4);
+    expect(h[0].value).toBeCloseTo(2.0, 9);
+  });
+
+  it('checks stair riser, tread, 2R + T and flight length against the family limits', () => {
+    const stairs = [{ id: 'F1', riserMm: 185, treadMm: 260, risers: 16, widthM: 1, use: 'residential' as const }];
+    const is = failed(gridScheme([0, 5], [0, 5], {}, { stairs }), 'stair.risers-per-flight');
+    expect(is).toHaveLength(1); // NBC 2016: 15 risers, from memory
+    const aci = analyseScheme(gridScheme([0, 5], [0, 5], { codeFamily: 'ACI318' }, { stairs })).checks.filter((c) => c.ruleId.startsWith('stair.') && c.status === 'fail');
+    // IBC 2015 §1011.5.2 dwelling units: riser ≤ 197 mm, tread ≥ 254 mm: both pass; 2R + T = 630 passes
+    expect(aci).toEqual([]);
+    const other = failed(gridScheme([0, 5], [0, 5], {}, { stairs: [{ ...stairs[0], use: 'other', risers: 10 }] }), 'stair.riser');
+    expect(other[0]).toMatchObject({ limit: 150 }); // NBC, other buildings
+    const steep = failed(gridScheme([0, 5], [0, 5], {}, { stairs: [{ ...stairs[0], riserMm: 200, treadMm: 240, risers: 10 }] }), 'stair.2r-plus-t');
+    expect(steep).toHaveLength(0); // 640 mm is comfortable
+    const bad = analyseScheme(gridScheme([0, 5], [0, 5], {}, { stairs: [{ ...stairs[0], riserMm: 200, treadMm: 300, risers: 10 }] })).checks.filter((c) => c.status === 'fail').map((c) => c.ruleId);
+    expect(bad).toEqual(expect.arrayContaining(['stair.riser', 'stair.2r-plus-t']));
+  });
+
+  it('flags a column section too small for its load and gives the square side that would do', () => {
+    const s = gridScheme([0, 6, 12], [0, 6, 12], { storeys: 8 });
+    s.columns.forEach((c) => ((c.widthMm = 230), (c.depthMm = 230)));
+    const f = failed(s, 'column.capacity');
+    expect(f.map((c) => c.elements[0])).toContain('C1_1');
+    expect(f[0].source).toMatch(/IS 456:2000 cl\. 39\.3/);
+  });
+});
+
+describe('footings at the site', () => {
+  it('offers shift, strap and combined options for a column whose pad would cross a property line', () => {
+    const r = analyseScheme(demoScheme());
+    const a2 = r.footings.boundary.find((o) => o.columnId === 'A2')!;
+    expect(a2).toBeDefined();
+    expect(a2.propertyLine).toBe(3);
+    expect(a2.distanceToLineM).toBeCloseTo(0.2, 9);
+    expect(a2.interiorColumnId).toBe('B2');
+    expect(a2.shift.shiftM).toBeGreaterThanOrEqual(a2.crossingM);
+    expect(a2.shift.newPosition.x).toBeCloseTo(0.2 + a2.shift.shiftM, 9);
+    const st = a2.strap!;
+    expect(st.r1KN + st.r2KN).toBeCloseTo(r.sizes.footings.find((f) => f.columnId === 'A2')!.serviceKN + r.sizes.footings.find((f) => f.columnId === 'B2')!.serviceKN, 6);
+    expect(a2.combinedRectangular!.projectionPastSecondM).toBeGreaterThan(0);
+    // interior columns far from the lines get none
+    expect(r.footings.boundary.find((o) => o.columnId === 'C3')).toBeUndefined();
+    expect(r.checks.filter((c) => c.ruleId === 'footing.crosses-property-line').length).toBe(r.footings.boundary.length);
+  });
+
+  it('proposes a combined footing where two isolated pads would overlap', () => {
+    const s = gridScheme([0, 2.0], [0, 9], { storeys: 8, bearingPressureKPa: 100 });
+    const r = analyseScheme(s);
+    expect(r.footings.combined.length).toBe(2);
+    const o = r.footings.combined[0];
+    expect(o.gapM).toBeLessThan(0.3);
+    expect(o.lengthM).toBeGreaterThan(o.spacingM);
+    expect(r.checks.filter((c) => c.ruleId === 'footing.overlap' && c.status === 'fail')).toHaveLength(2);
+  });
+});
+
+describe('comparison', () => {
+  it('with one column fewer, the variant has longer spans and deeper beams, and the beams drive its cost', () => {
+    const c = compareSchemes(demoScheme(), demoSchemeVariant());
+    expect(c.ok).toBe(true);
+    const d = Object.fromEntries(c.differences.map((x) => [x.item, x]));
+    expect(d['columns'].delta).toBe(-1);
+    expect(d['longest beam span'].b).toBeCloseTo(8.4, 9);
+    expect(d['deepest beam'].delta).toBeGreaterThan(0);
+    expect(c.costDrivers[0].member).toBe('beams');
+    expect(c.costDrivers[0].delta).toBeGreaterThan(0);
+    expect(c.summary[0]).toMatch(/1 column fewer/);
+    expect(c.summary.join(' ')).toMatch(/beams \(\+/);
+  });
+  it('the variant raises the point-load suggestion where the secondary beam lands in the long span', () => {
+    const f = analyseScheme(demoSchemeVariant()).checks.filter((x) => x.ruleId === 'beam.point-load-on-long-span' && x.status === 'fail');
+    expect(f.map((x) => x.elements[1])).toContain('B-B/2-4');
+  });
+});
+
+describe('validation', () => {
+  it('names the element and field of each problem instead of throwing', () => {
+    const s = demoScheme() as unknown as Record<string, any>;
+    s['columns'][2].widthMm = -10;
+    s['grid'][0].y = 3; // both x and y
+    s['basis'].codeFamily = 'BS8110';
+    s['secondaryBeams'][0].end = { x: 9, y: 9 };
+    s['basis'].limitOverrides = { spanEverything: 1 };
+    const p = validateScheme(s);
+    expect(p).toEqual(
+      expect.arrayContaining([
+        expect.objectContaining({ path: 'columns[2].widthMm', elementId: 'A3', field: 'widthMm' }),
+        expect.objectContaining({ path: 'grid[0].x', elementId: 'A' }),
+        expect.objectContaining({ path: 'basis.codeFamily' }),
+        expect.objectContaining({ path: 'secondaryBeams[0].end', elementId: 'SB1' }),
+        expect.objectContaining({ path: 'basis.limitOverrides.spanEverything' }),
+      ]),
+    );
+    const r = analyseScheme(s as unknown as Scheme);
+    expect(r.ok).toBe(false);
+    expect(r.problems).toEqual(p);
+  });
+  it('survives any JSON value', () => {
+    fc.assert(
+      fc.property(fc.jsonValue(), (v) => {
+        expect(() => analyseScheme(v as unknown as Scheme)).not.toThrow();
+        expect(validateScheme(v).length).toBeGreaterThan(0);
+      }),
+      { numRuns: 200 },
+    );
+  });
+  it('reports duplicate ids and columns on the same spot', () => {
+    const s = demoScheme();
+    s.columns.push({ ...s.columns[0], id: 'A1' });
+    s.columns.push({ ...s.columns[1], id: 'Z9' });
+    const p = validateScheme(s);
+    expect(p.some((x) => x.message.includes('duplicate id "A1"'))).toBe(true);
+    expect(p.some((x) => x.elementId === 'Z9' && x.message.includes('same spot'))).toBe(true);
+  });
+});
