@@ -1,0 +1,110 @@
+// The structural scheme document: one layout of one building, versioned. The server validates
+// with this schema before storing a scheme; the engine (@trabeate/structural) then runs its own
+// engineering validation and names any problem by element and field.
+// Units: SI. Plan coordinates and lengths in m; sections in mm (fields ending Mm); loads kN,
+// kN/m, kPa; strengths MPa.
+import { z } from 'zod';
+
+const positive = z.number().positive();
+const nonNegative = z.number().nonnegative();
+
+export const codeFamilySchema = z.enum(['IS456', 'ACI318', 'EN1992']);
+export type CodeFamilyValue = z.infer<typeof codeFamilySchema>;
+
+export const unitRatesSchema = z.object({
+  currency: z.string().min(1).max(8),
+  concretePerM3: nonNegative,
+  steelPerKg: nonNegative,
+  formworkPerM2: nonNegative,
+});
+
+export const designBasisSchema = z.object({
+  codeFamily: codeFamilySchema,
+  concreteMPa: z.number().min(10).max(120),
+  steelMPa: z.number().min(200).max(700),
+  imposedKPa: nonNegative,
+  roofImposedKPa: nonNegative.optional(),
+  superimposedDeadKPa: nonNegative,
+  wallLoadKNPerM: nonNegative,
+  bearingPressureKPa: positive,
+  foundingDepthM: nonNegative,
+  storeys: z.number().int().min(1).max(200),
+  storeyHeightM: positive,
+  slabThicknessMm: positive.optional(),
+  beamWidthMm: positive,
+  rates: unitRatesSchema,
+  limitOverrides: z.record(z.string(), nonNegative).optional(),
+});
+
+export const pointSchema = z.object({ x: z.number(), y: z.number() });
+
+export const plotBoundarySchema = z
+  .object({
+    vertices: z.array(pointSchema).min(3),
+    propertyLines: z.array(z.number().int().nonnegative()),
+  })
+  .refine((b) => b.propertyLines.every((k) => k < b.vertices.length), { message: 'a property line index is beyond the last segment', path: ['propertyLines'] });
+
+export const gridLineSchema = z
+  .object({
+    id: z.string().min(1),
+    label: z.string().min(1),
+    x: z.number().optional(),
+    y: z.number().optional(),
+    overhangStartM: nonNegative.optional(),
+    overhangEndM: nonNegative.optional(),
+    wallThicknessMm: nonNegative.optional(),
+    beamWidthMm: positive.optional(),
+    beamDepthMm: positive.optional(),
+  })
+  .refine((g) => (g.x === undefined) !== (g.y === undefined), { message: 'a grid line sets exactly one of x or y', path: ['x'] });
+
+export const columnSchema = z.object({
+  id: z.string().min(1),
+  label: z.string().min(1),
+  x: z.number(),
+  y: z.number(),
+  widthMm: positive,
+  depthMm: positive,
+  orientationDeg: z.union([z.literal(0), z.literal(90)]),
+});
+
+export const secondaryBeamSchema = z.object({
+  id: z.string().min(1),
+  start: pointSchema,
+  end: pointSchema,
+  widthMm: positive.optional(),
+  depthMm: positive.optional(),
+  carriesWall: z.boolean().optional(),
+});
+
+export const stairFlightSchema = z.object({
+  id: z.string().min(1),
+  riserMm: positive,
+  treadMm: positive,
+  risers: z.number().int().min(1),
+  widthM: positive,
+  use: z.enum(['residential', 'other']),
+});
+
+const uniqueIds = (list: readonly { id: string }[]) => new Set(list.map((e) => e.id)).size === list.length;
+
+export const schemeSchema = z
+  .object({
+    schemaVersion: z.literal(1),
+    id: z.string().min(1),
+    name: z.string().min(1).max(200),
+    basis: designBasisSchema,
+    boundary: plotBoundarySchema,
+    grid: z.array(gridLineSchema),
+    columns: z.array(columnSchema),
+    secondaryBeams: z.array(secondaryBeamSchema),
+    stairs: z.array(stairFlightSchema),
+  })
+  .superRefine((s, ctx) => {
+    for (const key of ['grid', 'columns', 'secondaryBeams', 'stairs'] as const) {
+      if (!uniqueIds(s[key])) ctx.addIssue({ code: 'custom', message: `ids in ${key} must be unique`, path: [key] });
+    }
+  });
+
+export type SchemeDocument = z.infer<typeof schemeSchema>;
