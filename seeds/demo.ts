@@ -1,30 +1,42 @@
 import type { Knex } from 'knex';
+import { DEMO } from './demo-data';
+import { seedIdentityAccounts } from './identity';
 
 // The demo is a scenario of our own invention: a small structural consultancy in the fictional
 // town of Marrowby, its two client organisations and their projects. No real people or firms.
-export const DEMO = {
-  firm: { id: '0b8c2d1e-0000-4000-8000-000000000001', name: 'Sable Quay Structural', slug: 'sable-quay' },
-  clients: {
-    fenwick: { id: '0b8c2d1e-0000-4000-8000-000000000101', name: 'Fenwick Row Developments' },
-    harbourlight: { id: '0b8c2d1e-0000-4000-8000-000000000102', name: 'Harbourlight Schools Trust' },
-  },
-  users: {
-    principal: { id: '0b8c2d1e-0000-4000-8000-000000000201', email: 'ines.varga@sablequay.example', name: 'Ines Varga-Holm' },
-    engineerA: { id: '0b8c2d1e-0000-4000-8000-000000000202', email: 'tomas.ekwueme@sablequay.example', name: 'Tomas Ekwueme' },
-    engineerB: { id: '0b8c2d1e-0000-4000-8000-000000000203', email: 'priya.lindqvist@sablequay.example', name: 'Priya Lindqvist' },
-    fenwickContact: { id: '0b8c2d1e-0000-4000-8000-000000000204', email: 'odile.marchetti@fenwickrow.example', name: 'Odile Marchetti' },
-    harbourlightContact: { id: '0b8c2d1e-0000-4000-8000-000000000205', email: 'rafe.okonkwo@harbourlight.example', name: 'Rafe Okonkwo' },
-  },
-  projects: {
-    kestrel: { id: '0b8c2d1e-0000-4000-8000-000000000301', reference: 'SQ-2026-014' },
-    alder: { id: '0b8c2d1e-0000-4000-8000-000000000302', reference: 'SQ-2026-021' },
-  },
-} as const;
+export { DEMO } from './demo-data';
 
-/** Inserts the demo scenario unless it is already there; safe to run again. */
+/**
+ * Inserts the demo scenario unless it is already there, then adds what later steps brought (project
+ * memberships, identity accounts) where missing; safe to run again.
+ */
 export async function seedDemo(db: Knex): Promise<boolean> {
   const existing = await db('firms').where({ id: DEMO.firm.id }).first();
-  if (existing) return false;
+  if (!existing) await insertCore(db);
+  await seedMemberships(db);
+  await seedIdentityAccounts(db);
+  return !existing;
+}
+
+/**
+ * Tomas is assigned to Kestrel Yard and Priya to Alder Lane; each client's contact belongs to
+ * their own organisation's project.
+ */
+async function seedMemberships(db: Knex): Promise<void> {
+  const u = DEMO.users;
+  const p = DEMO.projects;
+  await db('project_members')
+    .insert([
+      { project_id: p.kestrel.id, user_id: u.engineerA.id, added_by: u.principal.id },
+      { project_id: p.alder.id, user_id: u.engineerB.id, added_by: u.principal.id },
+      { project_id: p.kestrel.id, user_id: u.fenwickContact.id, added_by: u.principal.id },
+      { project_id: p.alder.id, user_id: u.harbourlightContact.id, added_by: u.principal.id },
+    ])
+    .onConflict(['project_id', 'user_id'])
+    .ignore();
+}
+
+async function insertCore(db: Knex): Promise<void> {
   await db.transaction(async (trx) => {
     await trx('firms').insert({ ...DEMO.firm, default_currency: 'EUR' });
     await trx('client_organisations').insert([
@@ -72,5 +84,4 @@ export async function seedDemo(db: Knex): Promise<boolean> {
       },
     ]);
   });
-  return true;
 }

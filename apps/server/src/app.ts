@@ -1,21 +1,34 @@
 import { randomUUID } from 'node:crypto';
 import { existsSync } from 'node:fs';
 import path from 'node:path';
+import { randomBytes } from 'node:crypto';
+import cookieParser from 'cookie-parser';
+import { doubleCsrf } from 'csrf-csrf';
 import express, { type Express } from 'express';
 import helmet from 'helmet';
 import { pinoHttp } from 'pino-http';
-import type { Config } from './core/config';
+import { mountRoutes, route } from './access/registry';
+import { authRoutes } from './auth/auth.routes';
+import { OidcClient } from './auth/oidc';
+import { signInRateLimit } from './auth/rate-limit';
+import { loadCaller, sessionMiddleware } from './auth/session';
+import type { AuthConfig, Config } from './core/config';
 import { apiNotFound, errorHandler } from './core/errors';
 import type { Logger } from './core/logger';
 import type { Db } from './db/db';
-import { healthRoutes } from './health/health.routes';
+import { healthHandler } from './health/health.routes';
+import { peopleRoutes } from './people/people.routes';
+import { projectRoutes } from './projects/projects.routes';
 
 export interface AppDeps {
-  config: Pick<Config, 'CLIENT_DIST' | 'TRUST_PROXY'>;
+  config: Pick<Config, 'CLIENT_DIST' | 'TRUST_PROXY'> & Partial<AuthConfig> & Partial<Pick<Config, 'NODE_ENV'>>;
   db: Db;
   logger: Logger;
   version?: string;
 }
+
+/** The cookie Angular's HttpClient reads and echoes as X-XSRF-TOKEN on every state change. */
+export const CSRF_COOKIE = 'XSRF-TOKEN';
 
 const REQUEST_ID = /^[\w.:-]{1,128}$/;
 
@@ -53,9 +66,68 @@ export function createApp({ config, db, logger, version = '0.1.0' }: AppDeps): E
     }),
   );
 
+  const publicUrl = (config.PUBLIC_URL ?? 'http://127.0.0.1:4310').replace(/\/$/, '');
+  const secureCookies = publicUrl.startsWith('https:');
+  // Config refuses a missing secret in production; elsewhere a per-process one keeps tests and
+  // a quick local run working (sessions then end when the process restarts).
+  const secrets = (config.SESSION_SECRET ?? randomBytes(32).toString('hex')).split(',').map((x) => x.trim()).filter(Boolean);
+  if (!config.SESSION_SECRET) logger.warn('SESSION_SECRET is not set: using a random secret for this process only');
+  const absoluteHours = config.SESSION_ABSOLUTE_HOURS ?? 12;
+
+  const csrf = doubleCsrf({
+    getSecret: () => secrets,
+    getSessionIdentifier: (req) => req.sessionID ?? '',
+    cookieName: CSRF_COOKIE,
+    // Readable by the page (that is the point of the double submit); bound to the session by its HMAC.
+    cookieOptions: { httpOnly: false, sameSite: 'lax', secure: secureCookies, path: '/' },
+    getCsrfTokenFromRequest: (req) => req.headers['x-xsrf-token'] as string | undefined,
+  });
+
+  const oidc =
+    config.OIDC_ISSUER && config.OIDC_CLIENT_ID && config.OIDC_CLIENT_SECRET
+      ? new OidcClient(
+          {
+            issuer: config.OIDC_ISSUER,
+            clientId: config.OIDC_CLIENT_ID,
+            clientSecret: config.OIDC_CLIENT_SECRET,
+            scopes: config.OIDC_SCOPES ?? 'openid email profile',
+            allowInsecureHttp: config.OIDC_ALLOW_INSECURE_HTTP ?? false,
+            redirectUri: `${publicUrl}/api/auth/callback`,
+            postLogoutRedirectUri: `${publicUrl}/`,
+          },
+          logger,
+        )
+      : undefined;
+
+  const routes = [
+    route('get', '/health', 'public', healthHandler(db, version)),
+    ...authRoutes({
+      db,
+      oidc,
+      publicUrl,
+      absoluteHours,
+      rateLimit: signInRateLimit(db, config.SIGN_IN_RATE_LIMIT ?? 30),
+      issueCsrfToken: (req, res, overwrite) => void csrf.generateCsrfToken(req, res, { overwrite }),
+      clearCsrfToken: (res) => void res.clearCookie(CSRF_COOKIE, { path: '/' }),
+    }),
+    ...peopleRoutes(db, { publicUrl, invitationTtlDays: config.INVITATION_TTL_DAYS ?? 14 }),
+    ...projectRoutes(db),
+  ];
+
   const api = express.Router();
   api.use(express.json({ limit: '1mb' }));
-  api.use('/health', healthRoutes(db, version));
+  api.use(cookieParser());
+  api.use(
+    sessionMiddleware(db, {
+      secrets,
+      idleMinutes: config.SESSION_IDLE_MINUTES ?? 60,
+      absoluteHours,
+      secureCookies,
+    }),
+  );
+  api.use(loadCaller(db, absoluteHours));
+  // Every API route, with its access rule; the authorization matrix test reads this list.
+  app.locals['routes'] = mountRoutes(api, routes, { db, csrfValid: (req) => csrf.validateRequest(req) });
   api.use(apiNotFound);
   app.use('/api', api);
 

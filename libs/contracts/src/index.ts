@@ -1,4 +1,5 @@
 // The request/response shapes shared by the API and the client. Each schema is a zod object:
 // the server validates with it, the client takes its types with z.infer.
 export * from './health';
+export * from './auth';
 export * from './scheme';

@@ -3,6 +3,7 @@ import { z } from 'zod';
 // Every setting comes from the environment and is checked once, at start-up, so a bad deployment
 // fails with a message naming the variable instead of failing later inside a request.
 const port = z.coerce.number().int().min(0).max(65535);
+const bool = z.enum(['true', 'false']).transform((v) => v === 'true');
 
 const configSchema = z.object({
   NODE_ENV: z.enum(['development', 'test', 'production']).default('development'),
@@ -16,13 +17,59 @@ const configSchema = z.object({
   CLIENT_DIST: z.string().optional(),
   PUBLIC_URL: z.url().default('http://127.0.0.1:4310'),
   SHUTDOWN_GRACE_MS: z.coerce.number().int().min(0).default(10_000),
-  TRUST_PROXY: z
-    .enum(['true', 'false'])
-    .default('false')
-    .transform((v) => v === 'true'),
+  TRUST_PROXY: bool.default(false),
+
+  // Sign-in through any OpenID Connect provider (locally apps/identity on loopback).
+  OIDC_ISSUER: z.url().optional(),
+  OIDC_CLIENT_ID: z.string().min(1).optional(),
+  OIDC_CLIENT_SECRET: z.string().min(1).optional(),
+  OIDC_SCOPES: z.string().default('openid email profile'),
+  // Plain http to the provider: only for a provider on this machine (checked below).
+  OIDC_ALLOW_INSECURE_HTTP: bool.default(false),
+  // Comma-separated; the first signs new cookies, the others are still accepted (rotation).
+  SESSION_SECRET: z.string().min(32, 'must be at least 32 characters').optional(),
+  SESSION_IDLE_MINUTES: z.coerce.number().int().min(1).max(24 * 60).default(60),
+  SESSION_ABSOLUTE_HOURS: z.coerce.number().int().min(1).max(24 * 30).default(12),
+  // Sign-in starts and callbacks allowed per client address in each 15-minute window.
+  SIGN_IN_RATE_LIMIT: z.coerce.number().int().min(1).default(30),
+  INVITATION_TTL_DAYS: z.coerce.number().int().min(1).max(90).default(14),
+}).superRefine((c, ctx) => {
+  const issue = (path: string, message: string) => ctx.addIssue({ code: 'custom', path: [path], message });
+  if (c.OIDC_ISSUER && (!c.OIDC_CLIENT_ID || !c.OIDC_CLIENT_SECRET)) {
+    issue('OIDC_CLIENT_ID', 'and OIDC_CLIENT_SECRET are required when OIDC_ISSUER is set');
+  }
+  if (c.NODE_ENV === 'production') {
+    if (!c.OIDC_ISSUER) issue('OIDC_ISSUER', 'is required in production (the URL of the firm\'s OpenID Connect provider)');
+    if (!c.SESSION_SECRET) issue('SESSION_SECRET', 'is required in production (a random string of at least 32 characters)');
+  }
+  if (c.OIDC_ISSUER && !c.OIDC_ISSUER.startsWith('https:')) {
+    if (!c.OIDC_ALLOW_INSECURE_HTTP) issue('OIDC_ISSUER', 'must be https (set OIDC_ALLOW_INSECURE_HTTP=true only for a provider on loopback)');
+    else if (!isLoopback(c.OIDC_ISSUER)) issue('OIDC_ALLOW_INSECURE_HTTP', 'is allowed only for an issuer on loopback (127.0.0.1, ::1, localhost)');
+  }
 });
 
 export type Config = z.infer<typeof configSchema>;
+
+/** The settings sign-in needs, in one piece; absent when sign-in is not configured. */
+export type AuthConfig = Pick<
+  Config,
+  | 'PUBLIC_URL'
+  | 'OIDC_ISSUER'
+  | 'OIDC_CLIENT_ID'
+  | 'OIDC_CLIENT_SECRET'
+  | 'OIDC_SCOPES'
+  | 'OIDC_ALLOW_INSECURE_HTTP'
+  | 'SESSION_SECRET'
+  | 'SESSION_IDLE_MINUTES'
+  | 'SESSION_ABSOLUTE_HOURS'
+  | 'SIGN_IN_RATE_LIMIT'
+  | 'INVITATION_TTL_DAYS'
+>;
+
+export function isLoopback(url: string): boolean {
+  const host = new URL(url).hostname;
+  return host === '127.0.0.1' || host === '[::1]' || host === 'localhost';
+}
 
 export class ConfigError extends Error {
   constructor(readonly problems: string[]) {

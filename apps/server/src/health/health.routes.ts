@@ -1,4 +1,4 @@
-import { Router } from 'express';
+import { Router, type RequestHandler } from 'express';
 import type { Health } from '@trabeate/contracts';
 import type { Db } from '../db/db';
 
@@ -7,7 +7,12 @@ const startedAt = Date.now();
 /** GET /api/health: is the API up, and can it reach PostgreSQL? Always 200 so probes can read the body. */
 export function healthRoutes(db: Db, version: string): Router {
   const router = Router();
-  router.get('/', async (_req, res) => {
+  router.get('/', healthHandler(db, version));
+  return router;
+}
+
+export function healthHandler(db: Db, version: string): RequestHandler {
+  return async (_req, res) => {
     const database = await probeDatabase(db);
     const body: Health = {
       status: database.status === 'up' ? 'ok' : 'degraded',
@@ -16,8 +21,7 @@ export function healthRoutes(db: Db, version: string): Router {
       database,
     };
     res.json(body);
-  });
-  return router;
+  };
 }
 
 async function probeDatabase(db: Db): Promise<Health['database']> {

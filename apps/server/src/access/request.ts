@@ -1,0 +1,48 @@
+import type { Caller } from './policy';
+
+/** The signed-in identity kept in the session (set at the sign-in callback). */
+export interface SessionAuth {
+  /** Trabeate's user id, or null for someone the provider knows but Trabeate has not invited. */
+  userId: string | null;
+  issuer: string;
+  subject: string;
+  email: string | null;
+  name: string | null;
+  signedInAt: number;
+  idToken: string;
+}
+
+/** A sign-in in progress: the checks the callback must see again. */
+export interface PendingSignIn {
+  state: string;
+  nonce: string;
+  codeVerifier: string;
+  returnTo: string;
+  startedAt: number;
+}
+
+export interface VisibleProject {
+  id: string;
+  firm_id: string;
+  client_organisation_id: string;
+}
+
+declare module 'express-session' {
+  interface SessionData {
+    auth?: SessionAuth;
+    signIn?: PendingSignIn;
+  }
+}
+
+declare module 'express-serve-static-core' {
+  interface Request {
+    /** The person with access making this request (set by the session middleware). */
+    caller?: Caller;
+    /** The project named by :projectId, loaded by the access guard once visibility is checked. */
+    project?: VisibleProject;
+    /** Why a session cookie came with no live session (for the 401 message). */
+    sessionProblem?: 'expired';
+  }
+}
+
+export {};

@@ -1,0 +1,125 @@
+import { createHash, randomBytes } from 'node:crypto';
+import type { InvitationCreated, Person, PersonPatch, Role } from '@trabeate/contracts';
+import { invitationCreateSchema } from '@trabeate/contracts';
+import type { z } from 'zod';
+import type { Db } from '../db/db';
+import { HttpError, notFound } from '../core/errors';
+import type { Caller } from '../access/policy';
+import { endSessionsOf } from '../auth/session';
+import { listPeople } from './people.repository';
+
+export const hashToken = (token: string): string => createHash('sha256').update(token).digest('hex');
+
+const kindOf = (role: Role) => (role === 'client' ? { firm_role: null } : { firm_role: role, client_organisation_id: null });
+
+/**
+ * Invites a person by e-mail: creates (or re-opens) their record with the role, their project
+ * memberships and an invitation whose link is returned once. Their first sign-in with that e-mail
+ * binds the account.
+ */
+export async function invite(
+  db: Db,
+  caller: Caller,
+  input: z.output<typeof invitationCreateSchema>,
+  opts: { publicUrl: string; ttlDays: number },
+): Promise<InvitationCreated> {
+  const token = randomBytes(32).toString('base64url');
+  const expiresAt = new Date(Date.now() + opts.ttlDays * 86_400_000);
+  const userId = await db.transaction(async (trx) => {
+    if (input.clientOrganisationId) {
+      const org = await trx('client_organisations').where({ id: input.clientOrganisationId, firm_id: caller.firmId }).first('id');
+      if (!org) throw new HttpError(400, 'validation_failed', 'No client organisation with this id.', { 'body.clientOrganisationId': ['unknown client organisation'] });
+    }
+    const projectIds = [...new Set(input.projectIds)];
+    if (input.role === 'principal' && projectIds.length) {
+      throw new HttpError(400, 'validation_failed', 'The principal sees every project; leave projectIds empty.', { 'body.projectIds': ['must be empty for a principal'] });
+    }
+    if (projectIds.length) {
+      const projects = await trx('projects').whereIn('id', projectIds).where({ firm_id: caller.firmId }).select('id', 'client_organisation_id');
+      const wrong = projectIds.filter((id) => {
+        const p = projects.find((x) => x.id === id);
+        return !p || (input.role === 'client' && p.client_organisation_id !== input.clientOrganisationId);
+      });
+      if (wrong.length) {
+        throw new HttpError(400, 'validation_failed', input.role === 'client'
+          ? "A client contact can join only their own organisation's projects."
+          : 'Some projects do not exist.', { 'body.projectIds': wrong.map((id) => `not allowed: ${id}`) });
+      }
+    }
+    const existing = await trx('users').where({ firm_id: caller.firmId }).whereRaw('lower(email) = lower(?)', [input.email]).forUpdate().first();
+    if (existing && !existing.disabled_at && existing.oidc_subject) {
+      throw new HttpError(409, 'conflict', `${input.email} already has access to Trabeate.`);
+    }
+    const row = {
+      email: input.email,
+      display_name: input.displayName,
+      firm_role: input.role === 'client' ? null : input.role,
+      client_organisation_id: input.role === 'client' ? input.clientOrganisationId : null,
+      disabled_at: null,
+      oidc_issuer: null,
+      oidc_subject: null,
+      updated_at: trx.fn.now(),
+    };
+    let id: string;
+    if (existing) {
+      id = existing.id;
+      await trx('users').where({ id }).update(row);
+      await trx('project_members').where({ user_id: id }).del();
+      await trx('invitations').where({ user_id: id }).whereNull('accepted_at').del();
+    } else {
+      [{ id }] = await trx('users').insert({ ...row, firm_id: caller.firmId }).returning('id');
+    }
+    if (projectIds.length) {
+      await trx('project_members').insert(projectIds.map((project_id) => ({ project_id, user_id: id, added_by: caller.userId })));
+    }
+    await trx('invitations').insert({ firm_id: caller.firmId, user_id: id, token_hash: hashToken(token), invited_by: caller.userId, expires_at: expiresAt });
+    return id;
+  });
+  const [person] = await listPeople(db, caller.firmId, userId);
+  return {
+    person,
+    invitation: { url: `${opts.publicUrl.replace(/\/$/, '')}/invitations/${token}`, expiresAt: expiresAt.toISOString() },
+  };
+}
+
+/** Changes a person's name, role or organisation. Changing kind (firm/client) or organisation clears their projects. */
+export async function updatePerson(db: Db, caller: Caller, id: string, patch: PersonPatch): Promise<Person> {
+  await db.transaction(async (trx) => {
+    const user = await trx('users').where({ id, firm_id: caller.firmId }).forUpdate().first();
+    if (!user) throw notFound('No person with this id.');
+    const currentRole: Role = user.firm_role ?? 'client';
+    const role = patch.role ?? currentRole;
+    if (id === caller.userId && role !== currentRole) {
+      throw new HttpError(403, 'forbidden', 'You cannot change your own role; ask another principal.');
+    }
+    const orgId = role === 'client' ? (patch.clientOrganisationId ?? user.client_organisation_id) : null;
+    if (role === 'client') {
+      if (!orgId) throw new HttpError(400, 'validation_failed', 'A client contact needs a client organisation.', { 'body.clientOrganisationId': ['required for a client contact'] });
+      const org = await trx('client_organisations').where({ id: orgId, firm_id: caller.firmId }).first('id');
+      if (!org) throw new HttpError(400, 'validation_failed', 'No client organisation with this id.', { 'body.clientOrganisationId': ['unknown client organisation'] });
+    } else if (patch.clientOrganisationId) {
+      throw new HttpError(400, 'validation_failed', "Firm staff do not belong to a client organisation.", { 'body.clientOrganisationId': ['must be empty for firm staff'] });
+    }
+    // Memberships mean something else once the kind or organisation changes, so they start again.
+    const clear = (role !== currentRole && (role === 'client' || currentRole === 'client' || role === 'principal'))
+      || orgId !== user.client_organisation_id;
+    await trx('users').where({ id }).update({
+      display_name: patch.displayName ?? user.display_name,
+      ...kindOf(role),
+      client_organisation_id: orgId,
+      updated_at: trx.fn.now(),
+    });
+    if (clear) await trx('project_members').where({ user_id: id }).del();
+  });
+  const [person] = await listPeople(db, caller.firmId, id);
+  return person;
+}
+
+/** Removes a person's access and ends all their sessions at once. */
+export async function removeAccess(db: Db, caller: Caller, id: string): Promise<void> {
+  if (id === caller.userId) throw new HttpError(403, 'forbidden', 'You cannot remove your own access.');
+  const updated = await db('users').where({ id, firm_id: caller.firmId }).update({ disabled_at: db.fn.now(), updated_at: db.fn.now() });
+  if (!updated) throw notFound('No person with this id.');
+  await db('invitations').where({ user_id: id }).whereNull('accepted_at').del();
+  await endSessionsOf(db, id);
+}
