@@ -1,0 +1,196 @@
+import { randomUUID } from 'node:crypto';
+import request from 'supertest';
+import type TestAgent from 'supertest/lib/agent';
+import { projectDetailSchema } from '@trabeate/contracts';
+import { DEMO } from '../../seeds/demo';
+import { hashToken } from '../../apps/server/src/people/people.service';
+import { testApp, type TestApp } from '../support/app';
+import { signIn, xsrfToken } from '../support/identity';
+
+// The callers every route is tried with. The project under test is Kestrel Yard (Fenwick's):
+// Tomas is assigned to it, Priya is not; Odile is Fenwick's contact on it; Rafe is another client's.
+const CALLERS = {
+  anonymous: null,
+  principal: DEMO.users.principal,
+  assignedEngineer: DEMO.users.engineerA,
+  unassignedEngineer: DEMO.users.engineerB,
+  projectClient: DEMO.users.fenwickContact,
+  otherClient: DEMO.users.harbourlightContact,
+} as const;
+type CallerName = keyof typeof CALLERS;
+type Expected = Record<CallerName, number>;
+
+const all = (status: number): Expected => ({
+  anonymous: status, principal: status, assignedEngineer: status, unassignedEngineer: status, projectClient: status, otherClient: status,
+});
+const principalOnly = (ok: number): Expected => ({
+  anonymous: 401, principal: ok, assignedEngineer: 403, unassignedEngineer: 403, projectClient: 403, otherClient: 403,
+});
+const signedIn = (ok: number): Expected => ({ ...all(ok), anonymous: 401 });
+
+const KESTREL = DEMO.projects.kestrel.id;
+// People the mutating rows act on, so no row changes what another row sees.
+const SPARE = { patch: randomUUID(), remove: randomUUID(), member: randomUUID() };
+const INVITE_TOKEN = 'matrix-invitation-token-0123456789abcdef';
+
+interface Entry {
+  expect: Expected;
+  /** Concrete path (below /api) to request. */
+  path: string;
+  body?: (caller: CallerName) => object;
+  /** Sign the caller in afresh for this row (the request ends the session). */
+  freshSession?: boolean;
+}
+
+/** Every API route, keyed "METHOD /path" exactly as declared; a route missing here fails the test. */
+const MATRIX: Record<string, Entry> = {
+  'GET /health': { path: '/health', expect: all(200) },
+  'GET /auth/login': { path: '/auth/login?returnTo=/projects', expect: all(302) },
+  // No sign-in is in progress for these callers, so every callback is refused the same way.
+  'GET /auth/callback': { path: '/auth/callback?code=x&state=y', expect: all(400) },
+  'POST /auth/logout': { path: '/auth/logout', expect: all(200), freshSession: true },
+  'GET /me': { path: '/me', expect: signedIn(200) },
+  'GET /people': { path: '/people', expect: principalOnly(200) },
+  'GET /client-organisations': { path: '/client-organisations', expect: principalOnly(200) },
+  'POST /invitations': {
+    path: '/invitations',
+    body: (c) => ({ email: `matrix-${c}@sablequay.example`, displayName: `Matrix ${c}`, role: 'engineer', projectIds: [] }),
+    expect: principalOnly(201),
+  },
+  'GET /invitations/:token': { path: `/invitations/${INVITE_TOKEN}`, expect: all(200) },
+  'PATCH /people/:id': { path: `/people/${SPARE.patch}`, body: () => ({ displayName: 'Renamed' }), expect: principalOnly(200) },
+  'DELETE /people/:id/access': { path: `/people/${SPARE.remove}/access`, expect: principalOnly(204) },
+  'GET /projects': { path: '/projects', expect: signedIn(200) },
+  'GET /projects/:projectId': {
+    path: `/projects/${KESTREL}`,
+    expect: { anonymous: 401, principal: 200, assignedEngineer: 200, unassignedEngineer: 404, projectClient: 200, otherClient: 404 },
+  },
+  'PUT /projects/:projectId/members/:userId': {
+    path: `/projects/${KESTREL}/members/${SPARE.member}`,
+    expect: { anonymous: 401, principal: 204, assignedEngineer: 403, unassignedEngineer: 404, projectClient: 403, otherClient: 404 },
+  },
+  'DELETE /projects/:projectId/members/:userId': {
+    path: `/projects/${KESTREL}/members/${SPARE.member}`,
+    expect: { anonymous: 401, principal: 204, assignedEngineer: 403, unassignedEngineer: 404, projectClient: 403, otherClient: 404 },
+  },
+};
+
+describe('authorization matrix: every API route against every kind of caller', () => {
+  let t: TestApp;
+  const agents = {} as Record<CallerName, TestAgent>;
+
+  const signedInAgent = async (name: CallerName): Promise<TestAgent> => {
+    const api = request.agent(t.app);
+    const who = CALLERS[name];
+    if (who) {
+      const steps = await signIn(api, t.identity!, who.email);
+      if (steps.callback?.status !== 302) throw new Error(`${name} could not sign in`);
+    }
+    return api;
+  };
+
+  beforeAll(async () => {
+    t = await testApp({ seed: true, identity: true });
+    await t.db('users').insert([
+      { id: SPARE.patch, firm_id: DEMO.firm.id, email: 'spare.patch@sablequay.example', display_name: 'Spare One', firm_role: 'engineer' },
+      { id: SPARE.remove, firm_id: DEMO.firm.id, email: 'spare.remove@sablequay.example', display_name: 'Spare Two', firm_role: 'engineer' },
+      { id: SPARE.member, firm_id: DEMO.firm.id, email: 'spare.member@sablequay.example', display_name: 'Spare Three', firm_role: 'engineer' },
+    ]);
+    await t.db('invitations').insert({
+      firm_id: DEMO.firm.id, user_id: SPARE.patch, token_hash: hashToken(INVITE_TOKEN), expires_at: new Date(Date.now() + 86_400_000),
+    });
+    for (const name of Object.keys(CALLERS) as CallerName[]) agents[name] = await signedInAgent(name);
+  });
+  afterAll(() => t.close());
+
+  it('has an entry for every declared route, and no entry for a route that does not exist', () => {
+    const declared = (t.app.locals['routes'] as Array<{ method: string; path: string }>).map((r) => `${r.method.toUpperCase()} ${r.path}`);
+    expect(declared.sort()).toEqual(Object.keys(MATRIX).sort());
+  });
+
+  const rows = Object.entries(MATRIX).flatMap(([key, entry]) =>
+    (Object.keys(CALLERS) as CallerName[]).map((caller) => [key, caller, entry.expect[caller], entry] as const),
+  );
+
+  it.each(rows)('%s as %s answers %i', async (key, caller, status, entry) => {
+    const method = key.split(' ')[0].toLowerCase() as 'get' | 'post' | 'put' | 'patch' | 'delete';
+    const api = entry.freshSession ? await signedInAgent(caller) : agents[caller];
+    let req = api[method](`/api${entry.path}`);
+    if (method !== 'get' && caller !== 'anonymous') {
+      await api.get('/api/me'); // as the client would have: it receives the XSRF-TOKEN cookie
+      req = req.set('X-XSRF-TOKEN', xsrfToken(api));
+    }
+    const res = await (entry.body ? req.send(entry.body(caller)) : req);
+    expect({ status: res.status, body: res.status >= 400 ? res.body : undefined }).toEqual(
+      expect.objectContaining({ status }),
+    );
+    if (status === 403) expect(res.body.error.message).toEqual(expect.any(String));
+  });
+});
+
+describe('what each caller sees', () => {
+  let t: TestApp;
+  beforeAll(async () => {
+    t = await testApp({ seed: true, identity: true });
+  });
+  afterAll(() => t.close());
+
+  const as = async (user: { email: string }) => {
+    const api = request.agent(t.app);
+    await signIn(api, t.identity!, user.email);
+    return api;
+  };
+
+  it('lists only the projects each caller may see', async () => {
+    const ids = async (user: { email: string }) => ((await (await as(user)).get('/api/projects')).body as Array<{ id: string }>).map((p) => p.id).sort();
+    expect(await ids(DEMO.users.principal)).toEqual([DEMO.projects.kestrel.id, DEMO.projects.alder.id].sort());
+    expect(await ids(DEMO.users.engineerA)).toEqual([DEMO.projects.kestrel.id]);
+    expect(await ids(DEMO.users.engineerB)).toEqual([DEMO.projects.alder.id]);
+    expect(await ids(DEMO.users.fenwickContact)).toEqual([DEMO.projects.kestrel.id]);
+    expect(await ids(DEMO.users.harbourlightContact)).toEqual([DEMO.projects.alder.id]);
+  });
+
+  it('answers a hidden project exactly as a project that does not exist, so its existence does not leak', async () => {
+    const api = await as(DEMO.users.harbourlightContact);
+    const hidden = await api.get(`/api/projects/${DEMO.projects.kestrel.id}`);
+    const missing = await api.get(`/api/projects/${randomUUID()}`);
+    const garbage = await api.get('/api/projects/not-a-uuid');
+    for (const res of [hidden, missing, garbage]) {
+      expect(res.status).toBe(404);
+      expect(res.body.error).toMatchObject({ code: 'not_found', message: 'No project with this id.' });
+    }
+  });
+
+  it('gives engineers nothing financial, and the principal and the client the estimated cost', async () => {
+    const detail = async (user: { email: string }) =>
+      projectDetailSchema.parse((await (await as(user)).get(`/api/projects/${DEMO.projects.kestrel.id}`)).body);
+    const engineer = await detail(DEMO.users.engineerA);
+    expect(engineer.finance).toBeNull();
+    expect(engineer.abilities).toEqual({ work: true, manage: false, seeFinance: false, pay: false, acknowledge: false });
+    expect((await detail(DEMO.users.principal)).finance).toEqual({ estimatedCost: 4_850_000, currency: 'EUR' });
+    const client = await detail(DEMO.users.fenwickContact);
+    expect(client.finance).toEqual({ estimatedCost: 4_850_000, currency: 'EUR' });
+    expect(client.abilities).toEqual({ work: false, manage: false, seeFinance: true, pay: true, acknowledge: true });
+  });
+
+  it('says why when a visible project refuses an action', async () => {
+    const api = await as(DEMO.users.fenwickContact);
+    await api.get('/api/me');
+    const res = await api.put(`/api/projects/${DEMO.projects.kestrel.id}/members/${DEMO.users.engineerB.id}`).set('X-XSRF-TOKEN', xsrfToken(api));
+    expect(res.status).toBe(403);
+    expect(res.body.error).toMatchObject({ code: 'forbidden', message: "Only the firm's principal can manage this project's team and settings." });
+  });
+
+  it('refuses a state change without the X-XSRF-TOKEN header, or with one from another session', async () => {
+    const principal = await as(DEMO.users.principal);
+    const body = { email: 'csrf.probe@sablequay.example', displayName: 'Probe', role: 'engineer' };
+    const none = await principal.post('/api/invitations').send(body);
+    expect(none.status).toBe(403);
+    expect(none.body.error.code).toBe('csrf_failed');
+    const other = await as(DEMO.users.engineerA);
+    await other.get('/api/me');
+    const foreign = await principal.post('/api/invitations').set('X-XSRF-TOKEN', xsrfToken(other)).send(body);
+    expect(foreign.status).toBe(403);
+    expect(await t.db('users').where({ email: body.email }).first()).toBeUndefined();
+  });
+});
