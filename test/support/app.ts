@@ -20,12 +20,12 @@ export interface TestApp {
  * `identity`, the real local provider runs in-process and the app signs in against it.
  */
 export async function testApp(
-  opts: { seed?: boolean; identity?: boolean; config?: Partial<AppDeps['config']> } = {},
+  opts: { seed?: boolean; identity?: boolean; config?: Partial<AppDeps['config']>; logger?: AppDeps['logger'] } = {},
 ): Promise<TestApp> {
   const { db, drop } = await freshDatabase();
   if (opts.seed) await seedDemo(db);
   const identity = opts.identity ? await startIdentity(db) : undefined;
-  const logger = createLogger(process.env.TEST_LOG_LEVEL ?? 'silent');
+  const logger = opts.logger ?? createLogger(process.env.TEST_LOG_LEVEL ?? 'silent');
   const config: AppDeps['config'] = {
     TRUST_PROXY: false,
     PUBLIC_URL: TEST_PUBLIC_URL,

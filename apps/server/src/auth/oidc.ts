@@ -96,9 +96,10 @@ export class OidcClient {
 }
 
 function isNetworkFailure(err: unknown): boolean {
-  for (let e: unknown = err; e instanceof Error; e = (e as Error & { cause?: unknown }).cause) {
-    if (e.name === 'AbortError' || e.name === 'TimeoutError' || (e instanceof TypeError && /fetch failed/.test(e.message))) return true;
-    if ('code' in e && typeof e.code === 'string' && /^(ECONNREFUSED|ECONNRESET|ETIMEDOUT|ENOTFOUND|UND_ERR)/.test(e.code)) return true;
+  // Checked by name, not instanceof: fetch's errors may come from another realm (undici, test VMs).
+  for (let e = err as (Error & { cause?: unknown; code?: unknown }) | undefined; e && typeof e === 'object'; e = e.cause as typeof e) {
+    if (e.name === 'AbortError' || e.name === 'TimeoutError' || (e.name === 'TypeError' && /fetch failed/.test(e.message))) return true;
+    if (typeof e.code === 'string' && /^(ECONNREFUSED|ECONNRESET|ETIMEDOUT|ENOTFOUND|UND_ERR)/.test(e.code)) return true;
   }
   if (err instanceof client.ResponseBodyError && err.status >= 500) return true;
   return false;
