@@ -1,13 +1,17 @@
-import { provideHttpClient, withFetch } from '@angular/common/http';
+import { provideHttpClient, withFetch, withInterceptors, withXsrfConfiguration } from '@angular/common/http';
 import {
   ApplicationConfig,
   ErrorHandler,
+  inject,
+  provideAppInitializer,
   provideBrowserGlobalErrorListeners,
   provideZonelessChangeDetection,
 } from '@angular/core';
 import { MAT_ICON_DEFAULT_OPTIONS } from '@angular/material/icon';
 import { provideRouter, withComponentInputBinding } from '@angular/router';
 import { routes } from './app.routes';
+import { authInterceptor } from './core/auth/auth.interceptor';
+import { Session } from './core/auth/session';
 import { NoticeErrorHandler } from './core/notice-error-handler';
 
 export const appConfig: ApplicationConfig = {
@@ -15,7 +19,15 @@ export const appConfig: ApplicationConfig = {
     provideZonelessChangeDetection(),
     provideBrowserGlobalErrorListeners(),
     provideRouter(routes, withComponentInputBinding()),
-    provideHttpClient(withFetch()),
+    provideHttpClient(
+      withFetch(),
+      // The server's CSRF check uses Angular's defaults: cookie XSRF-TOKEN, header X-XSRF-TOKEN
+      // (sent on relative-URL writes only, which is all this app makes).
+      withXsrfConfiguration({ cookieName: 'XSRF-TOKEN', headerName: 'X-XSRF-TOKEN' }),
+      withInterceptors([authInterceptor]),
+    ),
+    // Ask who is signed in at once, without holding up the first paint; guards wait for it.
+    provideAppInitializer(() => void inject(Session).load()),
     // The static symbols font from @fontsource registers this family name; see styles.scss.
     { provide: MAT_ICON_DEFAULT_OPTIONS, useValue: { fontSet: 'material-symbols-outlined' } },
     { provide: ErrorHandler, useClass: NoticeErrorHandler },

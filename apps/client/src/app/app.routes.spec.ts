@@ -1,44 +1,76 @@
 import { provideHttpClient } from '@angular/common/http';
 import { HttpTestingController, provideHttpClientTesting } from '@angular/common/http/testing';
 import { TestBed } from '@angular/core/testing';
-import { Router, provideRouter } from '@angular/router';
+import { Router, provideRouter, withComponentInputBinding } from '@angular/router';
 import { RouterTestingHarness } from '@angular/router/testing';
+import type { Me } from '@trabeate/contracts';
 import { routes } from './app.routes';
+import { grantedMe } from './core/auth/testing';
 
 describe('app routes', () => {
   let harness: RouterTestingHarness;
+  let backend: HttpTestingController;
 
   beforeEach(async () => {
     TestBed.configureTestingModule({
-      providers: [provideRouter(routes), provideHttpClient(), provideHttpClientTesting()],
+      providers: [provideRouter(routes, withComponentInputBinding()), provideHttpClient(), provideHttpClientTesting()],
     });
     harness = await RouterTestingHarness.create();
+    backend = TestBed.inject(HttpTestingController);
   });
 
   const shownText = () => (harness.routeNativeElement?.textContent ?? '').replace(/\s+/g, ' ');
 
-  it('opens Projects for the bare address', async () => {
-    await harness.navigateByUrl('/');
+  /** Navigates, answering the one /api/me question the guards ask. */
+  async function open(url: string, me: Me | 'anonymous'): Promise<void> {
+    const done = harness.navigateByUrl(url);
+    await new Promise((r) => setTimeout(r));
+    const req = backend.match('/api/me');
+    for (const r of req) {
+      if (me === 'anonymous') r.flush({ error: { code: 'unauthenticated', message: 'x' } }, { status: 401, statusText: 'Unauthorized' });
+      else r.flush(me);
+    }
+    await done;
+    harness.detectChanges();
+  }
+
+  it('opens Projects for the bare address when signed in, and asks the server for the list', async () => {
+    await open('/', grantedMe('engineer'));
     expect(TestBed.inject(Router).url).toBe('/projects');
-    expect(shownText()).toContain('Projects are being built next');
+    backend.expectOne('/api/projects').flush([]);
+    await harness.fixture.whenStable();
+    expect(shownText()).toContain('No projects to show yet');
+  });
+
+  it('sends an anonymous visitor at the bare address to the sign-in page', async () => {
+    await open('/', 'anonymous');
+    expect(TestBed.inject(Router).url).toBe('/sign-in?returnTo=%2Fprojects');
+    expect(shownText()).toContain('Sign in to Trabeate');
   });
 
   it.each([
-    ['/projects', 'Projects are being built next', 'Design basis, Column layout, Beam framing'],
     ['/drawings', 'The drawing register is on its way', 'purpose of issue'],
     ['/fees', 'Fees and invoices are coming soon', 'adding up to 100 %'],
   ])('%s shows a designed placeholder that says what is coming', async (url, heading, detail) => {
-    await harness.navigateByUrl(url);
+    await open(url, grantedMe('principal'));
     expect(shownText()).toContain(heading);
     expect(shownText()).toContain('What is coming');
     expect(shownText()).toContain(detail);
   });
 
-  it('/status loads the status page, which asks the server for its health', async () => {
+  it('/status is public: it loads without asking who is signed in and asks the server for its health', async () => {
     await harness.navigateByUrl('/status');
     harness.detectChanges();
-    TestBed.inject(HttpTestingController).expectOne('/api/health');
+    backend.expectNone('/api/me');
+    backend.expectOne('/api/health');
     expect(shownText()).toContain('System status');
+  });
+
+  it('/invitations/:token is public and asks for the invitation preview', async () => {
+    await harness.navigateByUrl('/invitations/abc123abc123abc123abc123');
+    harness.detectChanges();
+    backend.expectNone('/api/me');
+    backend.expectOne('/api/invitations/abc123abc123abc123abc123');
   });
 
   it('an unknown address says there is no page there', async () => {

@@ -1,25 +1,67 @@
 import { Routes } from '@angular/router';
+import { noAccessGuard, roleGuard, signedInGuard, signedOutGuard } from './core/auth/guards';
 
 // Every feature is its own lazy chunk so the first load stays small on a site-office connection.
+// Guards only steer navigation; the server checks the same rules on every request.
 export const routes: Routes = [
-  // Projects are the firm's everyday starting point, so the bare address opens them.
+  // Projects are the firm's everyday starting point, so the bare address opens them (or sign-in).
   { path: '', pathMatch: 'full', redirectTo: 'projects' },
+  {
+    path: 'sign-in',
+    title: 'Sign in · Trabeate',
+    canActivate: [signedOutGuard],
+    loadComponent: () => import('./core/auth/sign-in-page').then((m) => m.SignInPage),
+  },
+  {
+    path: 'no-access',
+    title: 'No access yet · Trabeate',
+    canActivate: [noAccessGuard],
+    loadComponent: () => import('./core/auth/no-access-page').then((m) => m.NoAccessPage),
+  },
+  {
+    path: 'not-permitted',
+    title: 'Not part of your role · Trabeate',
+    canActivate: [signedInGuard],
+    loadComponent: () => import('./core/auth/not-permitted-page').then((m) => m.NotPermittedPage),
+  },
+  {
+    // Public: an invited person opens this before they have an account.
+    path: 'invitations/:token',
+    title: 'Invitation · Trabeate',
+    loadComponent: () => import('./features/invitations/invitation-page').then((m) => m.InvitationPage),
+  },
   {
     path: 'projects',
     title: 'Projects · Trabeate',
+    canActivate: [signedInGuard],
     loadComponent: () => import('./features/projects/projects-page').then((m) => m.ProjectsPage),
+  },
+  {
+    path: 'projects/:projectId',
+    title: 'Project · Trabeate',
+    canActivate: [signedInGuard],
+    loadComponent: () => import('./features/projects/project-detail-page').then((m) => m.ProjectDetailPage),
   },
   {
     path: 'drawings',
     title: 'Drawings · Trabeate',
+    canActivate: [signedInGuard],
     loadComponent: () => import('./features/drawings/drawings-page').then((m) => m.DrawingsPage),
   },
   {
     path: 'fees',
     title: 'Fees · Trabeate',
+    canActivate: [signedInGuard, roleGuard('principal', 'client')],
     loadComponent: () => import('./features/fees/fees-page').then((m) => m.FeesPage),
   },
   {
+    path: 'people',
+    title: 'People · Trabeate',
+    canActivate: [signedInGuard, roleGuard('principal')],
+    loadComponent: () => import('./features/people/people-page').then((m) => m.PeoplePage),
+  },
+  {
+    // Public, so a signed-out person can still see whether the server and database are up.
     path: 'status',
     title: 'System status · Trabeate',
     loadComponent: () => import('./features/status/status-page').then((m) => m.StatusPage),

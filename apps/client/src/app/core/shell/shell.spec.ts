@@ -1,7 +1,13 @@
 import { BreakpointObserver, BreakpointState } from '@angular/cdk/layout';
+import { provideHttpClient } from '@angular/common/http';
+import { HttpTestingController, provideHttpClientTesting } from '@angular/common/http/testing';
 import { ComponentFixture, TestBed } from '@angular/core/testing';
 import { provideRouter } from '@angular/router';
+import type { Me } from '@trabeate/contracts';
 import { BehaviorSubject, map } from 'rxjs';
+import { PageLocation } from '../auth/page-location';
+import { Session } from '../auth/session';
+import { grantedMe } from '../auth/testing';
 import { Shell } from './shell';
 
 /** Stands in for the browser's media queries so a test can pick the screen width. */
@@ -15,18 +21,46 @@ class FakeBreakpoints {
 describe('Shell', () => {
   let fixture: ComponentFixture<Shell>;
   let breakpoints: FakeBreakpoints;
+  let backend: HttpTestingController;
+  let went: string[];
   const el = (): HTMLElement => fixture.nativeElement as HTMLElement;
   const menuButton = () => el().querySelector('button[aria-label="Show or hide navigation"]');
+  const navItems = () =>
+    Array.from(el().querySelectorAll<HTMLAnchorElement>('nav[aria-label="Main"] a')).map((a) => [
+      a.getAttribute('data-testid'),
+      a.querySelector('[matListItemTitle]')?.textContent?.trim(),
+      a.getAttribute('href'),
+    ]);
 
-  beforeEach(async () => {
-    breakpoints = new FakeBreakpoints();
-    TestBed.configureTestingModule({
-      imports: [Shell],
-      providers: [provideRouter([]), { provide: BreakpointObserver, useValue: breakpoints }],
-    });
+  /** Starts the shell with /api/me answering as given. */
+  async function start(me: Me | 'anonymous'): Promise<void> {
+    const loaded = TestBed.inject(Session).load();
+    const req = backend.expectOne('/api/me');
+    if (me === 'anonymous') req.flush({ error: { code: 'unauthenticated', message: 'Sign in first.' } }, { status: 401, statusText: 'Unauthorized' });
+    else req.flush(me);
+    await loaded;
     fixture = TestBed.createComponent(Shell);
     await fixture.whenStable();
+  }
+
+  beforeEach(() => {
+    breakpoints = new FakeBreakpoints();
+    went = [];
+    TestBed.configureTestingModule({
+      imports: [Shell],
+      providers: [
+        provideRouter([]),
+        provideHttpClient(),
+        provideHttpClientTesting(),
+        { provide: BreakpointObserver, useValue: breakpoints },
+        { provide: PageLocation, useValue: { assign: (url: string) => went.push(url) } },
+      ],
+    });
+    backend = TestBed.inject(HttpTestingController);
   });
+
+  describe('for a principal', () => {
+    beforeEach(() => start(grantedMe('principal', 'Aster Pellow')));
 
   it('shows the Trabeate wordmark linking home', () => {
     const home = el().querySelector('a.wordmark');
@@ -34,14 +68,29 @@ describe('Shell', () => {
     expect(home?.getAttribute('href')).toBe('/');
   });
 
-  it('offers navigation to Projects, Drawings, Fees and System status', () => {
-    const links = Array.from(el().querySelectorAll<HTMLAnchorElement>('nav[aria-label="Main"] a'));
-    expect(links.map((a) => [a.querySelector('[matListItemTitle]')?.textContent?.trim(), a.getAttribute('href')])).toEqual([
-      ['Projects', '/projects'],
-      ['Drawings', '/drawings'],
-      ['Fees', '/fees'],
-      ['System status', '/status'],
+  it('offers Projects, Drawings, Fees, People and System status', () => {
+    expect(navItems()).toEqual([
+      ['nav-projects', 'Projects', '/projects'],
+      ['nav-drawings', 'Drawings', '/drawings'],
+      ['nav-fees', 'Fees', '/fees'],
+      ['nav-people', 'People', '/people'],
+      ['nav-status', 'System status', '/status'],
     ]);
+  });
+
+  it('shows the signed-in name and role, and signs out from the account panel', async () => {
+    const account = el().querySelector<HTMLButtonElement>('[data-testid="user-menu"]');
+    expect(account?.querySelector('[data-testid="user-name"]')?.textContent).toBe('Aster Pellow');
+    expect(account?.querySelector('[data-testid="user-role"]')?.textContent).toBe('Principal');
+    expect(el().querySelector('[data-testid="sign-out"]')).toBeNull();
+
+    account?.click();
+    await fixture.whenStable();
+    expect(account?.getAttribute('aria-expanded')).toBe('true');
+    (el().querySelector('[data-testid="sign-out"]') as HTMLButtonElement).click();
+    backend.expectOne('/api/auth/logout').flush({ endSessionUrl: null });
+    await new Promise((r) => setTimeout(r));
+    expect(went).toEqual(['/']);
   });
 
   it('carries the caution that results are preliminary and final design needs a licensed engineer', () => {
@@ -73,5 +122,45 @@ describe('Shell', () => {
     await fixture.whenStable();
     expect(nav?.classList).toContain('mat-drawer-opened');
     expect(button.getAttribute('aria-expanded')).toBe('true');
+  });
+  });
+
+  describe('for an engineer', () => {
+    beforeEach(() => start(grantedMe('engineer', 'Cato Brennagh')));
+
+    it('offers Projects, Drawings and System status, with no Fees and no People', () => {
+      expect(navItems()).toEqual([
+        ['nav-projects', 'Projects', '/projects'],
+        ['nav-drawings', 'Drawings', '/drawings'],
+        ['nav-status', 'System status', '/status'],
+      ]);
+      expect(el().querySelector('[data-testid="user-role"]')?.textContent).toBe('Engineer');
+    });
+  });
+
+  describe('for a client contact', () => {
+    beforeEach(() => start(grantedMe('client', 'Maud Ferrier')));
+
+    it('offers Projects, Drawings, Fees (their invoices) and System status, with no People', () => {
+      expect(navItems()).toEqual([
+        ['nav-projects', 'Projects', '/projects'],
+        ['nav-drawings', 'Drawings', '/drawings'],
+        ['nav-fees', 'Fees', '/fees'],
+        ['nav-status', 'System status', '/status'],
+      ]);
+      expect(el().querySelector('[data-testid="nav-fees"]')?.textContent).toContain('Your invoices');
+      expect(el().querySelector('[data-testid="user-role"]')?.textContent).toBe('Client contact');
+    });
+  });
+
+  describe('for a visitor who is not signed in', () => {
+    beforeEach(() => start('anonymous'));
+
+    it('offers only the public System status page and a way to sign in', () => {
+      expect(navItems()).toEqual([['nav-status', 'System status', '/status']]);
+      expect(el().querySelector('[data-testid="user-menu"]')).toBeNull();
+      (el().querySelector('[data-testid="toolbar-sign-in"]') as HTMLButtonElement).click();
+      expect(went).toEqual(['/api/auth/login?returnTo=%2F']);
+    });
   });
 });

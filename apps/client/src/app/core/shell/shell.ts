@@ -1,20 +1,49 @@
 import { BreakpointObserver } from '@angular/cdk/layout';
-import { ChangeDetectionStrategy, Component, inject, viewChild } from '@angular/core';
+import { ChangeDetectionStrategy, Component, ElementRef, computed, inject, signal, viewChild } from '@angular/core';
 import { toSignal } from '@angular/core/rxjs-interop';
 import { MatIconButton } from '@angular/material/button';
 import { MatIcon } from '@angular/material/icon';
 import { MatListItem, MatListItemIcon, MatListItemLine, MatListItemTitle, MatNavList } from '@angular/material/list';
 import { MatSidenav, MatSidenavContainer, MatSidenavContent } from '@angular/material/sidenav';
 import { MatToolbar } from '@angular/material/toolbar';
-import { RouterLink, RouterLinkActive, RouterOutlet } from '@angular/router';
+import { Router, RouterLink, RouterLinkActive, RouterOutlet } from '@angular/router';
+import type { Role } from '@trabeate/contracts';
 import { map } from 'rxjs';
+import { Session } from '../auth/session';
 
 export interface NavLink {
   readonly path: string;
   readonly label: string;
   readonly hint: string;
   readonly icon: string;
+  /** For `data-testid="nav-<id>"`. */
+  readonly id: string;
 }
+
+const STATUS_LINK: NavLink = { id: 'status', path: '/status', label: 'System status', hint: 'Server and database', icon: 'monitor_heart' };
+const PROJECTS: NavLink = { id: 'projects', path: '/projects', label: 'Projects', hint: 'Buildings, stages, schemes', icon: 'apartment' };
+const DRAWINGS: NavLink = { id: 'drawings', path: '/drawings', label: 'Drawings', hint: 'Revisions and transmittals', icon: 'architecture' };
+
+/**
+ * What each role is offered. The server refuses the rest anyway; this keeps people away from
+ * pages that would only say no.
+ */
+export const NAV_BY_ROLE: Readonly<Record<Role, readonly NavLink[]>> = {
+  principal: [
+    PROJECTS,
+    DRAWINGS,
+    { id: 'fees', path: '/fees', label: 'Fees', hint: 'Agreements and invoices', icon: 'receipt_long' },
+    { id: 'people', path: '/people', label: 'People', hint: 'Staff, clients, invitations', icon: 'group' },
+    STATUS_LINK,
+  ],
+  engineer: [PROJECTS, DRAWINGS, STATUS_LINK],
+  client: [
+    PROJECTS,
+    DRAWINGS,
+    { id: 'fees', path: '/fees', label: 'Fees', hint: 'Your invoices', icon: 'receipt_long' },
+    STATUS_LINK,
+  ],
+};
 
 /** Below this width the navigation folds into a drawer so the page keeps the full width. */
 export const NARROW_QUERY = '(max-width: 839.98px)';
@@ -40,8 +69,15 @@ export const NARROW_QUERY = '(max-width: 839.98px)';
   templateUrl: './shell.html',
   styleUrl: './shell.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
+  host: {
+    '(document:keydown.escape)': 'accountOpen.set(false)',
+    '(document:click)': 'closeAccountOnOutsideClick($event)',
+  },
 })
 export class Shell {
+  private readonly host = inject<ElementRef<HTMLElement>>(ElementRef);
+  protected readonly accountOpen = signal(false);
+
   private readonly drawer = viewChild.required<MatSidenav>('drawer');
 
   protected readonly narrow = toSignal(
@@ -51,12 +87,30 @@ export class Shell {
     { initialValue: false },
   );
 
-  protected readonly links: readonly NavLink[] = [
-    { path: '/projects', label: 'Projects', hint: 'Buildings, stages, schemes', icon: 'apartment' },
-    { path: '/drawings', label: 'Drawings', hint: 'Revisions and transmittals', icon: 'architecture' },
-    { path: '/fees', label: 'Fees', hint: 'Agreements and invoices', icon: 'receipt_long' },
-    { path: '/status', label: 'System status', hint: 'Server and database', icon: 'monitor_heart' },
-  ];
+  protected readonly session = inject(Session);
+  private readonly router = inject(Router);
+
+  /** Signed-out visitors see only what is public. */
+  protected readonly links = computed<readonly NavLink[]>(() => {
+    const role = this.session.role();
+    return role ? NAV_BY_ROLE[role] : [STATUS_LINK];
+  });
+
+  protected readonly anonymous = computed(() => this.session.state().status === 'anonymous');
+
+  protected signIn(): void {
+    this.session.signIn(this.router.url);
+  }
+
+  protected closeAccountOnOutsideClick(event: Event): void {
+    if (!this.accountOpen()) return;
+    const account = this.host.nativeElement.querySelector('.account');
+    if (account && event.target instanceof Node && !account.contains(event.target)) this.accountOpen.set(false);
+  }
+
+  protected signOut(): void {
+    void this.session.signOut();
+  }
 
   /** On a narrow screen the drawer covers the page, so picking a link should put it away. */
   protected afterNavigate(): void {
