@@ -47,6 +47,11 @@ export function createApp({ config, db, logger, version = '0.1.0' }: AppDeps): E
         res.setHeader('X-Request-Id', id);
         return id;
       },
+      // One short line per request; headers and query strings stay out of the logs (cookies, codes).
+      serializers: {
+        req: (req: { id: unknown; method: string; url: string }) => ({ id: req.id, method: req.method, url: req.url.split('?')[0] }),
+        res: (res: { statusCode: number }) => ({ statusCode: res.statusCode }),
+      },
       customLogLevel: (_req, res, err) => (err || res.statusCode >= 500 ? 'error' : res.statusCode >= 400 ? 'warn' : 'info'),
     }),
   );
