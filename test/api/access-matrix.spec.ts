@@ -7,6 +7,9 @@ import { hashToken } from '../../apps/server/src/people/people.service';
 import { testApp, type TestApp } from '../support/app';
 import { signIn, xsrfToken } from '../support/identity';
 
+// Each sign-in runs argon2 at the provider; with two workers a file's set-up takes a few seconds.
+jest.setTimeout(30_000);
+
 // The callers every route is tried with. The project under test is Kestrel Yard (Fenwick's):
 // Tomas is assigned to it, Priya is not; Odile is Fenwick's contact on it; Rafe is another client's.
 const CALLERS = {

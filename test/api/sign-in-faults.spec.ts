@@ -5,6 +5,9 @@ import { testApp, type TestApp } from '../support/app';
 import { signIn } from '../support/identity';
 import { capturingLogger } from '../support/logs';
 
+// Each sign-in runs argon2 at the provider; with two workers a file's set-up takes a few seconds.
+jest.setTimeout(30_000);
+
 const logged = (lines: Array<Record<string, unknown>>, text: RegExp) => lines.some((l) => text.test(String(l['msg'])));
 
 describe('sign-in faults: each gets a clear answer, a log line and no crash', () => {

@@ -4,6 +4,9 @@ import { DEMO } from '../../seeds/demo';
 import { testApp, type TestApp } from '../support/app';
 import { signIn, xsrfToken } from '../support/identity';
 
+// Each sign-in runs argon2 at the provider; with two workers a file's set-up takes a few seconds.
+jest.setTimeout(30_000);
+
 interface Case {
   role: Role;
   user: { id: string; email: string; name: string };
