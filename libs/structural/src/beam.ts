@@ -100,18 +100,8 @@ function intensity(ld: LinearLoad, t: number): number {
   return h <= 0 ? 0 : ld.startKNPerM + ((ld.endKNPerM - ld.startKNPerM) * (t - ld.fromM)) / h;
 }
 
-/** Integral of w(t)·kernel(t) over [a, b] within a linear load, by 3-point Gauss (exact to degree 5). */
-function gauss(ld: LinearLoad, a: number, b: number, kernel: (t: number) => number): number {
-  if (b <= a) return 0;
-  const m = (a + b) / 2;
-  const h = (b - a) / 2;
-  let s = 0;
-  for (let g = 0; g < 3; g++) {
-    const t = m + GX[g] * h;
-    s += GW[g] * intensity(ld, t) * kernel(t);
-  }
-  return s * h;
-}
+// The kernels below are written out inline (no closures): these loops run millions of times
+// in a full scheme analysis.
 
 /** Fixed-end and simply-supported end actions of a member's loads. */
 export interface MemberTerms {
@@ -127,7 +117,6 @@ export interface MemberTerms {
 export function memberTerms(L: number, loads: readonly BeamLoad[]): MemberTerms {
   let fa = 0;
   let fb = 0;
-  let ra = 0;
   let rb = 0;
   let total = 0;
   const L2 = L * L;
@@ -137,32 +126,33 @@ export function memberTerms(L: number, loads: readonly BeamLoad[]): MemberTerms 
       const b = L - a;
       fa += (ld.forceKN * a * b * b) / L2;
       fb += (ld.forceKN * a * a * b) / L2;
-      ra += (ld.forceKN * b) / L;
       rb += (ld.forceKN * a) / L;
       total += ld.forceKN;
     } else {
-      fa += gauss(ld, ld.fromM, ld.toM, (t) => (t * (L - t) * (L - t)) / L2);
-      fb += gauss(ld, ld.fromM, ld.toM, (t) => (t * t * (L - t)) / L2);
-      const w = ((ld.startKNPerM + ld.endKNPerM) / 2) * (ld.toM - ld.fromM);
-      const rbi = gauss(ld, ld.fromM, ld.toM, (t) => t / L);
-      rb += rbi;
-      ra += w - rbi;
-      total += w;
+      const h = (ld.toM - ld.fromM) / 2;
+      if (h <= 0) continue;
+      const m = (ld.fromM + ld.toM) / 2;
+      // 3-point Gauss: exact for the degree-4 integrands w(t)·t·(L − t)² and w(t)·t²·(L − t)
+      for (let g = 0; g < 3; g++) {
+        const t = m + GX[g] * h;
+        const w = GW[g] * h * intensity(ld, t);
+        const b = L - t;
+        fa += (w * t * b * b) / L2;
+        fb += (w * t * t * b) / L2;
+        rb += (w * t) / L;
+        total += w;
+      }
     }
   }
-  return { fa, fb, ra, rb, total };
+  return { fa, fb, ra: total - rb, rb, total };
 }
 
-/** Simply-supported bending moment (kN·m) and shear (kN) at x of a member's loads. */
-export function simpleMomentShear(L: number, loads: readonly BeamLoad[], ra: number, x: number): [number, number] {
+/** Simply-supported bending moment at x (kN·m) of a member's loads, with start reaction ra (kN). */
+export function simpleMoment(L: number, loads: readonly BeamLoad[], ra: number, x: number): number {
   let m = ra * x;
-  let v = ra;
   for (const ld of loads) {
     if (ld.kind === 'point') {
-      if (ld.atM < x || (ld.atM === x && x >= L)) {
-        m -= ld.forceKN * (x - ld.atM);
-        v -= ld.forceKN;
-      }
+      if (ld.atM < x) m -= ld.forceKN * (x - ld.atM);
     } else if (ld.fromM < x) {
       const e = ld.toM < x ? ld.toM : x;
       const h = e - ld.fromM;
@@ -170,25 +160,59 @@ export function simpleMomentShear(L: number, loads: readonly BeamLoad[], ra: num
       const wb = intensity(ld, e);
       const d = x - ld.fromM;
       m -= wa * h * (d - h / 2) + (wb - wa) * (d * h / 2 - (h * h) / 3);
-      v -= ((wa + wb) / 2) * h;
     }
   }
-  return [m, v];
+  return m;
+}
+
+/** Simply-supported shear at x (kN, just to the right of any point load at x). */
+export function simpleShear(L: number, loads: readonly BeamLoad[], ra: number, x: number): number {
+  let v = ra;
+  for (const ld of loads) {
+    if (ld.kind === 'point') {
+      if (ld.atM < x || (ld.atM === x && x >= L)) v -= ld.forceKN;
+    } else if (ld.fromM < x) {
+      const e = ld.toM < x ? ld.toM : x;
+      v -= ((ld.startKNPerM + intensity(ld, e)) / 2) * (e - ld.fromM);
+    }
+  }
+  return v;
+}
+
+/** Simply-supported moment (kN·m) and shear (kN) at x of a member's loads. */
+export function simpleMomentShear(L: number, loads: readonly BeamLoad[], ra: number, x: number): [number, number] {
+  return [simpleMoment(L, loads, ra, x), simpleShear(L, loads, ra, x)];
+}
+
+/** Deflection at x of a unit load at t on a simple span L, times EI (m³). */
+function unitDeflection(L: number, x: number, t: number): number {
+  if (t <= x) {
+    const r = L - x;
+    return (t * r * (L * L - t * t - r * r)) / (6 * L);
+  }
+  const b = L - t;
+  return (b * x * (L * L - b * b - x * x)) / (6 * L);
 }
 
 /** Simply-supported deflection (m, downward) at x of a member's loads, EI in kN·m². */
-function simpleDeflection(L: number, ei: number, loads: readonly BeamLoad[], x: number): number {
-  const left = (t: number) => (t * (L - x) * (L * L - t * t - (L - x) * (L - x))) / (6 * L); // load at t <= x
-  const right = (t: number) => {
-    const b = L - t;
-    return (b * x * (L * L - b * b - x * x)) / (6 * L); // load at t >= x
-  };
+export function simpleDeflection(L: number, ei: number, loads: readonly BeamLoad[], x: number): number {
   let y = 0;
   for (const ld of loads) {
-    if (ld.kind === 'point') y += ld.forceKN * (ld.atM <= x ? left(ld.atM) : right(ld.atM));
-    else {
-      y += gauss(ld, ld.fromM, Math.min(ld.toM, x), left);
-      y += gauss(ld, Math.max(ld.fromM, x), ld.toM, right);
+    if (ld.kind === 'point') {
+      y += ld.forceKN * unitDeflection(L, x, ld.atM);
+      continue;
+    }
+    // split at x, where the kernel has a kink; each piece is then integrated exactly
+    for (let piece = 0; piece < 2; piece++) {
+      const a = piece === 0 ? ld.fromM : Math.max(ld.fromM, x);
+      const b = piece === 0 ? Math.min(ld.toM, x) : ld.toM;
+      if (b <= a) continue;
+      const m = (a + b) / 2;
+      const h = (b - a) / 2;
+      for (let g = 0; g < 3; g++) {
+        const t = m + GX[g] * h;
+        y += GW[g] * h * intensity(ld, t) * unitDeflection(L, x, t);
+      }
     }
   }
   return y / ei;
@@ -273,10 +297,14 @@ export function groupLoads(nMembers: number, loads: readonly BeamLoad[]): BeamLo
  * Solves the prepared system for member load terms: nodal displacements (m, rad) and internal
  * end moments (kN·m, sagging positive), two per member.
  */
-export function solveTerms(p: PreparedBeam, t: readonly MemberTerms[]): { u: Float64Array; endMoments: Float64Array } {
+export function solveTerms(
+  p: PreparedBeam,
+  t: readonly MemberTerms[],
+  buf?: { rhs: Float64Array; u: Float64Array; endMoments: Float64Array },
+): { u: Float64Array; endMoments: Float64Array } {
   const { model, dof } = p;
   const nm = model.members.length;
-  const rhs = new Float64Array(p.nEq);
+  const rhs = buf ? buf.rhs.fill(0) : new Float64Array(p.nEq);
   for (let i = 0; i < nm; i++) {
     const L = model.members[i].lengthM;
     const { fa, fb, ra, rb } = t[i];
@@ -287,9 +315,9 @@ export function solveTerms(p: PreparedBeam, t: readonly MemberTerms[]): { u: Flo
     if (d3 >= 0) rhs[d3] += fb;
   }
   if (p.nEq > 0) solveBand(p.band, rhs);
-  const u = new Float64Array(dof.length);
+  const u = buf ? buf.u : new Float64Array(dof.length);
   for (let k = 0; k < dof.length; k++) u[k] = dof[k] >= 0 ? rhs[dof[k]] : 0;
-  const endMoments = new Float64Array(2 * nm);
+  const endMoments = buf ? buf.endMoments : new Float64Array(2 * nm);
   for (let i = 0; i < nm; i++) {
     const { lengthM: L, eiKNm2: ei } = model.members[i];
     const c = ei / (L * L);
@@ -310,9 +338,9 @@ export function solvePrepared(p: PreparedBeam, loadsByMember: BeamLoad[][], term
 }
 
 /** Vertical reactions (kN, upward) at every node from member terms and end moments; zero at free nodes. */
-export function nodeReactions(model: BeamModel, t: readonly MemberTerms[], endMoments: Float64Array): Float64Array {
+export function nodeReactions(model: BeamModel, t: readonly MemberTerms[], endMoments: Float64Array, into?: Float64Array): Float64Array {
   const nm = model.members.length;
-  const r = new Float64Array(nm + 1);
+  const r = into ? into.fill(0) : new Float64Array(nm + 1);
   for (let i = 0; i < nm; i++) {
     const L = model.members[i].lengthM;
     const d = (endMoments[2 * i + 1] - endMoments[2 * i]) / L;

@@ -2,8 +2,11 @@
 // patterned over all spans, alternate spans, and adjacent pairs with alternates beyond (the
 // arrangements of IS 456 cl. 22.4.1 and ACI 318-19 §6.4.3). One factorisation serves every
 // arrangement; each is a fresh right-hand side of the banded system.
-import { BeamLoad, BeamModel, groupLoads, memberStateAt, memberTerms, MemberTerms, nodeReactions, PreparedBeam, prepareBeam, simpleMomentShear, solvePrepared, solveTerms } from './beam';
+import { BeamLoad, BeamModel, groupLoads, memberTerms, MemberTerms, nodeReactions, PreparedBeam, prepareBeam, simpleDeflection, simpleMoment, simpleShear, solveTerms } from './beam';
 import type { Combination } from './codes';
+
+const DEFLECTION_POINTS = [0.3, 0.4, 0.45, 0.5, 0.55, 0.6, 0.7];
+const DEFLECTION_POINTS_CANTILEVER = [0, 0.3, 0.4, 0.5, 0.6, 0.7, 1];
 
 export interface MemberEnvelope {
   /** largest sagging moment, kN·m, where (m from the member start) and under which arrangement */
@@ -32,17 +35,75 @@ export interface BeamEnvelope {
   patternsTried: number;
 }
 
-/** The imposed-load arrangements of a beam with n members: label and member set. */
-export function loadPatterns(model: BeamModel): { label: string; members: boolean[] }[] {
+/**
+ * Scans one load arrangement over every member's sample points and keeps the extremes in acc
+ * (7 numbers per member). Kept apart and allocation-free: it is the innermost loop of a scheme.
+ */
+function scanArrangement(
+  from: number, to: number, nSeg: number, lengths: Float64Array,
+  m0D: Float64Array, m0L: Float64Array, v0D: Float64Array, v0L: Float64Array,
+  endMoments: Float64Array, gd: number, gLive: number, loaded: Uint8Array, id: number, acc: Float64Array,
+): void {
+  const ns = nSeg + 1;
+  for (let i = from; i <= to; i++) {
+    const L = lengths[i];
+    const ml = endMoments[2 * i], mr = endMoments[2 * i + 1];
+    const gl = loaded[i] ? gLive : 0;
+    const base = i * ns;
+    const o = i * 7;
+    let bestK = 0;
+    let bestM = -Infinity;
+    let minM = Infinity;
+    let minK = 0;
+    for (let k = 0; k < ns; k++) {
+      const xi = k / nSeg;
+      const m = gd * m0D[base + k] + gl * m0L[base + k] + ml + (mr - ml) * xi;
+      if (m > bestM) { bestM = m; bestK = k; }
+      if (m < minM) { minM = m; minK = k; }
+    }
+    if (minM < acc[o + 3]) { acc[o + 3] = minM; acc[o + 4] = (minK / nSeg) * L; acc[o + 5] = id; }
+    // a parabola through the best sample and its neighbours finds the peak between samples
+    // (exact under uniform load)
+    let peak = bestM;
+    let peakX = (bestK / nSeg) * L;
+    if (bestK > 0 && bestK < nSeg) {
+      const at = (k: number) => gd * m0D[base + k] + gl * m0L[base + k] + ml + (mr - ml) * (k / nSeg);
+      const a0 = at(bestK - 1), a1 = bestM, a2 = at(bestK + 1);
+      const den = a0 - 2 * a1 + a2;
+      if (den < 0) {
+        const off = (0.5 * (a0 - a2)) / den;
+        if (Math.abs(off) <= 1) {
+          peak = a1 - 0.25 * (a0 - a2) * off;
+          peakX = ((bestK + off) / nSeg) * L;
+        }
+      }
+    }
+    if (peak > acc[o]) { acc[o] = peak; acc[o + 1] = peakX; acc[o + 2] = id; }
+    // shear peaks just inside the ends for these loads
+    const dv = (mr - ml) / L;
+    const v0 = Math.abs(gd * v0D[base] + gl * v0L[base] + dv);
+    const v1 = Math.abs(gd * v0D[base + nSeg] + gl * v0L[base + nSeg] + dv);
+    const v = v0 > v1 ? v0 : v1;
+    if (v > acc[o + 6]) acc[o + 6] = v;
+  }
+}
+
+/**
+ * The imposed-load arrangements of a beam with n members: label, loaded members, and the members
+ * whose moments the arrangement is meant for (null: all). An adjacent-span arrangement serves the
+ * moment over its support (IS 456 cl. 22.4.1(c)), so only the two spans beside it are scanned;
+ * span moments come from the all-span and alternate-span arrangements (cl. 22.4.1(b)).
+ */
+export function loadPatterns(model: BeamModel): { label: string; members: boolean[]; scope: [number, number] | null }[] {
   const n = model.members.length;
   const mk = (f: (i: number) => boolean) => Array.from({ length: n }, (_, i) => f(i));
-  const out = [
-    { label: 'all spans', members: mk(() => true) },
-    { label: 'dead only', members: mk(() => false) },
+  const out: { label: string; members: boolean[]; scope: [number, number] | null }[] = [
+    { label: 'all spans', members: mk(() => true), scope: null },
+    { label: 'dead only', members: mk(() => false), scope: null },
   ];
   if (n > 1) {
-    out.push({ label: 'alternate spans (odd)', members: mk((i) => i % 2 === 0) });
-    out.push({ label: 'alternate spans (even)', members: mk((i) => i % 2 === 1) });
+    out.push({ label: 'alternate spans (odd)', members: mk((i) => i % 2 === 0), scope: null });
+    out.push({ label: 'alternate spans (even)', members: mk((i) => i % 2 === 1), scope: null });
   }
   for (let node = 1; node < n; node++) {
     if (model.supports[node] === 'free') continue;
@@ -50,6 +111,7 @@ export function loadPatterns(model: BeamModel): { label: string; members: boolea
     out.push({
       label: `adjacent spans at support ${node}`,
       members: mk((i) => (i >= node ? (i - node) % 2 === 0 : (node - 1 - i) % 2 === 0)),
+      scope: [node - 1, node],
     });
   }
   return out;
@@ -81,27 +143,39 @@ export function envelopeBeam(
     const L = model.members[i].lengthM;
     for (let k = 0; k < ns; k++) {
       const x = (L * k) / nSeg;
-      const [md, vd] = simpleMomentShear(L, dBy[i], tD[i].ra, x);
-      const [ml, vl] = simpleMomentShear(L, lBy[i], tL[i].ra, x);
-      m0D[i * ns + k] = md; v0D[i * ns + k] = vd;
-      m0L[i * ns + k] = ml; v0L[i * ns + k] = vl;
+      m0D[i * ns + k] = simpleMoment(L, dBy[i], tD[i].ra, x);
+      m0L[i * ns + k] = simpleMoment(L, lBy[i], tL[i].ra, x);
+      if (k === 0 || k === nSeg) {
+        // just inside the ends
+        const xe = k === 0 ? 0 : L * (1 - 1e-12);
+        v0D[i * ns + k] = simpleShear(L, dBy[i], tD[i].ra, xe);
+        v0L[i * ns + k] = simpleShear(L, lBy[i], tL[i].ra, xe);
+      }
     }
   }
-  const env: MemberEnvelope[] = model.members.map(() => ({
-    maxMomentKNm: -Infinity, maxMomentAtM: 0, maxPattern: '',
-    minMomentKNm: Infinity, minMomentAtM: 0, minPattern: '',
-    maxShearKN: 0, serviceDeflectionMm: 0, serviceDeflectionAtM: 0,
-  }));
+  // per member: max moment, its x, its arrangement; min moment, its x, its arrangement; max |shear|
+  const acc = new Float64Array(nm * 7);
+  for (let i = 0; i < nm; i++) {
+    acc[i * 7] = -Infinity;
+    acc[i * 7 + 3] = Infinity;
+  }
+  const lengths = new Float64Array(nm);
+  model.members.forEach((m, i) => (lengths[i] = m.lengthM));
   const maxR = new Array<number>(nm + 1).fill(-Infinity);
   const patterns = loadPatterns(model);
+  const labels: string[] = [];
   const terms: MemberTerms[] = model.members.map(() => ({ fa: 0, fb: 0, ra: 0, rb: 0, total: 0 }));
-  let tried = 0;
+  const buf = { rhs: new Float64Array(p.nEq), u: new Float64Array(2 * (nm + 1)), endMoments: new Float64Array(2 * nm) };
+  const rBuf = new Float64Array(nm + 1);
+  const loaded = new Uint8Array(nm);
   for (const c of combos) {
     for (const pat of patterns) {
       if (c.live === 0 && pat.label !== 'dead only') continue;
       if (c.live !== 0 && pat.label === 'dead only') continue;
-      tried++;
+      const id = labels.length;
+      labels.push(`${c.id}, imposed on ${pat.label}`);
       for (let i = 0; i < nm; i++) {
+        loaded[i] = pat.members[i] ? 1 : 0;
         const gl = pat.members[i] ? c.live : 0;
         const d = tD[i], l = tL[i], t = terms[i];
         t.fa = c.dead * d.fa + gl * l.fa;
@@ -110,65 +184,37 @@ export function envelopeBeam(
         t.rb = c.dead * d.rb + gl * l.rb;
         t.total = c.dead * d.total + gl * l.total;
       }
-      const { endMoments } = solveTerms(p, terms);
-      const r = nodeReactions(model, terms, endMoments);
+      const { endMoments } = solveTerms(p, terms, buf);
+      const r = nodeReactions(model, terms, endMoments, rBuf);
       for (let n = 0; n <= nm; n++) if (r[n] > maxR[n]) maxR[n] = r[n];
-      const label = `${c.id}, imposed on ${pat.label}`;
-      for (let i = 0; i < nm; i++) {
-        const L = model.members[i].lengthM;
-        const ml = endMoments[2 * i], mr = endMoments[2 * i + 1];
-        const gl = pat.members[i] ? c.live : 0;
-        const dv = (mr - ml) / L;
-        const e = env[i];
-        let bestK = -1;
-        let bestM = -Infinity;
-        let prev2 = 0, prev1 = 0, atBest: [number, number, number] = [0, 0, 0];
-        for (let k = 0; k < ns; k++) {
-          const xi = k / nSeg;
-          const idx = i * ns + k;
-          const m = c.dead * m0D[idx] + gl * m0L[idx] + ml * (1 - xi) + mr * xi;
-          if (k >= 2 && bestK === k - 1) atBest = [prev2, prev1, m];
-          if (m > bestM) { bestM = m; bestK = k; }
-          if (m < e.minMomentKNm) { e.minMomentKNm = m; e.minMomentAtM = xi * L; e.minPattern = label; }
-          // shear just inside the ends is where it peaks for these loads
-          if (k === 0 || k === nSeg) {
-            const v = Math.abs(c.dead * v0D[idx] + gl * v0L[idx] + dv);
-            if (v > e.maxShearKN) e.maxShearKN = v;
-          }
-          prev2 = prev1;
-          prev1 = m;
-        }
-        // a parabola through the best sample and its neighbours finds the peak between samples
-        // (exact under uniform load)
-        let peak = bestM;
-        let peakX = (bestK / nSeg) * L;
-        if (bestK > 0 && bestK < nSeg) {
-          const [a0, a1, a2] = atBest;
-          const den = a0 - 2 * a1 + a2;
-          if (den < 0) {
-            const off = (0.5 * (a0 - a2)) / den;
-            if (Math.abs(off) <= 1) {
-              peak = a1 - 0.25 * (a0 - a2) * off;
-              peakX = ((bestK + off) / nSeg) * L;
-            }
-          }
-        }
-        if (peak > e.maxMomentKNm) { e.maxMomentKNm = peak; e.maxMomentAtM = peakX; e.maxPattern = label; }
-      }
+      scanArrangement(pat.scope ? pat.scope[0] : 0, pat.scope ? pat.scope[1] : nm - 1, nSeg, lengths, m0D, m0L, v0D, v0L, endMoments, c.dead, c.live, loaded, id, acc);
     }
   }
+  const env: MemberEnvelope[] = model.members.map((_, i) => ({
+    maxMomentKNm: acc[i * 7], maxMomentAtM: acc[i * 7 + 1], maxPattern: labels[acc[i * 7 + 2]] ?? '',
+    minMomentKNm: acc[i * 7 + 3], minMomentAtM: acc[i * 7 + 4], minPattern: labels[acc[i * 7 + 5]] ?? '',
+    maxShearKN: acc[i * 7 + 6], serviceDeflectionMm: 0, serviceDeflectionAtM: 0,
+  }));
+  const tried = labels.length;
   // service: dead and imposed on all spans
   const sD = solveTerms(p, tD);
   const sL = solveTerms(p, tL);
   const rD = nodeReactions(model, tD, sD.endMoments);
   const rL = nodeReactions(model, tL, sL.endMoments);
-  const all = groupLoads(nm, [...dead, ...live]);
-  const sol = solvePrepared(p, all);
+  // service deflection: chord between the end deflections, plus each member's own loads and end
+  // moments on a simple span (superposition of the dead and imposed solutions)
   for (let i = 0; i < nm; i++) {
-    const L = model.members[i].lengthM;
-    for (let k = 0; k <= nSeg; k++) {
-      const x = (L * k) / nSeg;
-      const y = memberStateAt(p, sol, i, x).y * 1000;
+    const { lengthM: L, eiKNm2: ei } = model.members[i];
+    const ml = sD.endMoments[2 * i] + sL.endMoments[2 * i];
+    const mr = sD.endMoments[2 * i + 1] + sL.endMoments[2 * i + 1];
+    const v1 = -(sD.u[2 * i] + sL.u[2 * i]);
+    const v2 = -(sD.u[2 * i + 2] + sL.u[2 * i + 2]);
+    // the largest deflection lies in the middle half of a span, or at a free end
+    const ends = model.supports[i] === 'free' || model.supports[i + 1] === 'free';
+    for (const xi of ends ? DEFLECTION_POINTS_CANTILEVER : DEFLECTION_POINTS) {
+      const x = L * xi;
+      const yEnd = ((L * L) / (6 * ei)) * (ml * (2 * xi - 3 * xi * xi + xi * xi * xi) + mr * (xi - xi * xi * xi));
+      const y = (v1 * (1 - xi) + v2 * xi + simpleDeflection(L, ei, dBy[i], x) + simpleDeflection(L, ei, lBy[i], x) + yEnd) * 1000;
       if (Math.abs(y) > Math.abs(env[i].serviceDeflectionMm)) {
         env[i].serviceDeflectionMm = y;
         env[i].serviceDeflectionAtM = x;

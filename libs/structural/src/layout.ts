@@ -152,8 +152,16 @@ export function deriveLayout(scheme: Scheme): Layout {
   }
   const lineById = new Map(lines.map((l) => [l.id, l]));
 
+  const covers = (l: BeamLine, runs: 'x' | 'y', at: number, from: number, to: number) =>
+    l.runs === runs && near(l.at, at) && l.nodes[0].s <= from + ON_LINE_TOL_M && l.nodes[l.nodes.length - 1].s >= to - ON_LINE_TOL_M;
+  // bays look lines up by their exact grid coordinate; anything else scans with the tolerance
+  const exact = new Map<string, BeamLine[]>();
+  for (const l of lines) {
+    const k = `${l.runs}${l.at}`;
+    exact.set(k, [...(exact.get(k) ?? []), l]);
+  }
   const lineCovers = (runs: 'x' | 'y', at: number, from: number, to: number): BeamLine | undefined =>
-    lines.find((l) => l.runs === runs && near(l.at, at) && l.nodes[0].s <= from + ON_LINE_TOL_M && l.nodes[l.nodes.length - 1].s >= to - ON_LINE_TOL_M);
+    (exact.get(`${runs}${at}`) ?? []).find((l) => covers(l, runs, at, from, to)) ?? lines.find((l) => covers(l, runs, at, from, to));
 
   // secondary beams: must be axis-parallel with both ends on perpendicular beam lines
   const secondaries: SecondaryFrame[] = [];

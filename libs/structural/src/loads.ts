@@ -84,7 +84,17 @@ function addProfileToLine(line: BeamLine, profile: Profile, k: number, out: Beam
     const [s0, w0] = profile[i];
     const [s1, w1] = profile[i + 1];
     if (s1 - s0 <= 1e-12) continue;
-    for (const m of line.members) {
+    // first member that ends after s0 (members are in order along the line)
+    let lo = 0;
+    let hi = line.members.length;
+    while (lo < hi) {
+      const mid = (lo + hi) >> 1;
+      if (line.members[mid].endS <= s0 + 1e-9) lo = mid + 1;
+      else hi = mid;
+    }
+    for (let mi = lo; mi < line.members.length; mi++) {
+      const m = line.members[mi];
+      if (m.startS >= s1 - 1e-9) break;
       const a = Math.max(s0, m.startS);
       const b = Math.min(s1, m.endS);
       if (b - a <= 1e-9) continue;

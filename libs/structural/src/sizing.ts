@@ -16,26 +16,41 @@ export interface SlabSize {
   kind: SourceKind;
 }
 
-/** Which sides of a panel have a neighbouring panel (continuity), by shared edges. */
-function neighbours(p: Panel, all: Panel[]): { x: number; y: number } {
-  let x = 0, y = 0;
-  const eq = (a: number, b: number) => Math.abs(a - b) < 1e-6;
-  const overlaps = (a1: number, a2: number, b1: number, b2: number) => Math.min(a2, b2) - Math.max(a1, b1) > 1e-6;
-  for (const q of all) {
-    if (q === p) continue;
-    if ((eq(q.x2, p.x1) || eq(q.x1, p.x2)) && overlaps(p.y1, p.y2, q.y1, q.y2)) x++;
-    if ((eq(q.y2, p.y1) || eq(q.y1, p.y2)) && overlaps(p.x1, p.x2, q.x1, q.x2)) y++;
+/** Counts neighbouring panels across x and across y for each panel (edges that share a length). */
+function neighbourCounts(all: Panel[]): Map<Panel, { x: number; y: number }> {
+  // panel edges grouped by the coordinate of the line they lie on
+  const vert = new Map<string, Panel[]>();
+  const horiz = new Map<string, Panel[]>();
+  const push = (m: Map<string, Panel[]>, k: string, p: Panel) => {
+    const l = m.get(k);
+    if (l) l.push(p);
+    else m.set(k, [p]);
+  };
+  for (const p of all) {
+    push(vert, p.x1.toFixed(3), p);
+    push(vert, p.x2.toFixed(3), p);
+    push(horiz, p.y1.toFixed(3), p);
+    push(horiz, p.y2.toFixed(3), p);
   }
-  return { x: Math.min(x, 2), y: Math.min(y, 2) };
+  const overlaps = (a1: number, a2: number, b1: number, b2: number) => Math.min(a2, b2) - Math.max(a1, b1) > 1e-6;
+  const out = new Map<Panel, { x: number; y: number }>();
+  for (const p of all) {
+    let x = 0, y = 0;
+    for (const xv of [p.x1, p.x2]) if ((vert.get(xv.toFixed(3)) ?? []).some((q) => q !== p && overlaps(p.y1, p.y2, q.y1, q.y2) && (q.x2 <= p.x1 + 1e-6 || q.x1 >= p.x2 - 1e-6))) x++;
+    for (const yv of [p.y1, p.y2]) if ((horiz.get(yv.toFixed(3)) ?? []).some((q) => q !== p && overlaps(p.x1, p.x2, q.x1, q.x2) && (q.y2 <= p.y1 + 1e-6 || q.y1 >= p.y2 - 1e-6))) y++;
+    out.set(p, { x, y });
+  }
+  return out;
 }
 
 /**
  * Required slab thickness (mm) per panel; one-way when long/short ≥ oneWayAspect. Spans m, fy MPa.
  */
 export function slabSizes(family: CodeFamily, layout: Layout, fy: number, oneWayAspect: number, coverMm: number, minMm: number): SlabSize[] {
+  const counts = neighbourCounts(layout.panels);
   return layout.panels.map((p) => {
     const oneWay = p.ly / p.lx > oneWayAspect;
-    const n = neighbours(p, layout.panels);
+    const n = counts.get(p) as { x: number; y: number };
     // continuity across the short span: neighbours in the direction the short span runs
     const shortAlongX = p.x2 - p.x1 <= p.y2 - p.y1;
     const k = shortAlongX ? n.x : n.y;
@@ -115,8 +130,16 @@ export interface ColumnStoreySize {
 }
 
 /** Column section for a factored axial load (kN), strengths MPa, steel ratio of gross area. */
+const sourceCache = new Map<string, string>();
+
 export function columnSize(family: CodeFamily, factoredKN: number, fck: number, fy: number, steelRatio: number, minSideMm: number, providedMm: [number, number]): Omit<ColumnStoreySize, 'storey'> {
   const perMm2 = columnCapacityKN(family, 1, 1, fck, fy, steelRatio);
+  const key = `${family}${steelRatio}`;
+  let source = sourceCache.get(key);
+  if (source === undefined) {
+    source = `${perMm2.source}, steel ${(steelRatio * 100).toFixed(1)} % of gross area assumed`;
+    sourceCache.set(key, source);
+  }
   const requiredAreaMm2 = factoredKN / perMm2.value;
   const side = Math.max(roundUp(Math.sqrt(requiredAreaMm2), 25), minSideMm);
   const provided = columnCapacityKN(family, providedMm[0], providedMm[1], fck, fy, steelRatio).value;
@@ -126,6 +149,6 @@ export function columnSize(family: CodeFamily, factoredKN: number, fck: number, 
     requiredSideMm: side,
     providedCapacityKN: provided,
     utilisation: factoredKN / provided,
-    source: `${perMm2.source}, steel ${(steelRatio * 100).toFixed(1)} % of gross area assumed`,
+    source,
   };
 }
