@@ -3,12 +3,15 @@
 import { CLIENT_DIST } from './lib/client-build';
 import { Cluster } from './lib/postgres';
 import { log } from './lib/proc';
-import { apiService, clientBuildStep, databaseStep, DEV_PORTS, postgresService, startAll } from './lib/services';
+import { apiService, clientBuildStep, databaseStep, DEV_PORTS, identityService, localSignIn, postgresService, startAll } from './lib/services';
 
 async function main(): Promise<void> {
   const cluster = new Cluster({ name: 'pg-dev', port: DEV_PORTS.postgres });
   const database = 'trabeate';
+  // A fixed local secret keeps sessions across restarts of `npm start`; never used in production.
+  const signIn = localSignIn(cluster.url(database), DEV_PORTS, 'local-development-session-secret-not-for-production');
   const env = {
+    ...signIn.api,
     NODE_ENV: 'development',
     DATABASE_URL: cluster.url(database),
     CLIENT_DIST,
@@ -19,6 +22,7 @@ async function main(): Promise<void> {
     postgresService(cluster),
     databaseStep(cluster, database, { seed: true }),
     clientBuildStep(),
+    identityService({ ...signIn.identity, LOG_LEVEL: process.env.LOG_LEVEL ?? 'info' }, DEV_PORTS.identity),
     apiService(env, DEV_PORTS.api),
   ];
 
@@ -42,6 +46,7 @@ async function main(): Promise<void> {
   }
   log('start', '');
   log('start', `Trabeate is running at http://127.0.0.1:${DEV_PORTS.api}/  (Ctrl-C stops everything)`);
+  log('start', `Local sign-in at http://127.0.0.1:${DEV_PORTS.identity}/ (demo accounts: see README, local only)`);
   log('start', '');
 }
 

@@ -2,12 +2,13 @@
 // every Jest suite (libs, client, api, build, e2e) in one run, stops everything and prints a
 // summary. Exits non-zero on any failure. Pass suite names to run only those.
 import { spawn } from 'node:child_process';
+import { randomBytes } from 'node:crypto';
 import { existsSync, mkdirSync, readFileSync } from 'node:fs';
 import path from 'node:path';
 import { CLIENT_DIST } from './lib/client-build';
 import { Cluster } from './lib/postgres';
 import { log } from './lib/proc';
-import { apiService, clientBuildStep, databaseStep, freePort, postgresService, startAll, TEST_PORTS, type Service } from './lib/services';
+import { apiService, clientBuildStep, databaseStep, freePort, identityService, localSignIn, postgresService, startAll, TEST_PORTS, type Service } from './lib/services';
 
 const SUITES = ['libs', 'client', 'api', 'build', 'e2e'] as const;
 type Suite = (typeof SUITES)[number];
@@ -31,7 +32,11 @@ async function main(): Promise<number> {
   const suites: Suite[] = chosen.length ? chosen : [...SUITES];
   const needs = (k: 'db' | 'client' | 'api') => suites.some((s) => NEEDS[s][k]);
 
-  const ports = { postgres: await freePort(TEST_PORTS.postgres), api: await freePort(TEST_PORTS.api) };
+  const ports = {
+    postgres: await freePort(TEST_PORTS.postgres),
+    api: await freePort(TEST_PORTS.api),
+    identity: await freePort(TEST_PORTS.identity),
+  };
   const cluster = needs('db') ? new Cluster({ name: `pg-test-${process.pid}`, port: ports.postgres, fast: true }) : undefined;
   const services: Service[] = [];
   if (cluster) {
@@ -41,8 +46,11 @@ async function main(): Promise<number> {
   }
   if (needs('client')) services.push(clientBuildStep(process.env.CI === 'true'));
   if (needs('api') && cluster) {
+    // The e2e API signs in against the real local provider, on the same seeded database.
+    const signIn = localSignIn(cluster.url('trabeate_e2e'), ports, randomBytes(32).toString('hex'));
+    services.push(identityService({ ...signIn.identity, LOG_LEVEL: 'warn' }, ports.identity));
     services.push(
-      apiService({ NODE_ENV: 'test', DATABASE_URL: cluster.url('trabeate_e2e'), CLIENT_DIST, LOG_LEVEL: 'warn',
+      apiService({ ...signIn.api, NODE_ENV: 'test', DATABASE_URL: cluster.url('trabeate_e2e'), CLIENT_DIST, LOG_LEVEL: 'warn',
         PUBLIC_URL: `http://127.0.0.1:${ports.api}` }, ports.api),
     );
   }
@@ -70,7 +78,10 @@ async function main(): Promise<number> {
     env.TEST_PG_ADMIN_URL = cluster.url('postgres');
     env.TEST_DB_TEMPLATE = 'trabeate_template';
   }
-  if (needs('api')) env.E2E_BASE_URL = `http://127.0.0.1:${ports.api}`;
+  if (needs('api')) {
+    env.E2E_BASE_URL = `http://127.0.0.1:${ports.api}`;
+    env.E2E_IDENTITY_URL = `http://127.0.0.1:${ports.identity}`;
+  }
   const jestArgs = ['jest', '--maxWorkers=2', '--json', `--outputFile=${results}`, '--selectProjects', ...suites,
     ...args.filter((a) => a.startsWith('-'))];
   const code = await new Promise<number>((resolve) => {

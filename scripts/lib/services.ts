@@ -5,7 +5,7 @@ import { httpOk, log, startChild, stopChild, waitFor } from './proc';
 /**
  * Every service the product needs locally, in start order. Each has a start, a readiness check
  * and a stop; the start and test commands run this same list with different ports and data.
- * Later features add their local fakes (identity provider, S3, SMTP, payments) here.
+ * Later features add their local fakes (S3, SMTP, payments) here.
  */
 export interface Service {
   name: string;
@@ -17,10 +17,61 @@ export interface Service {
 export interface Ports {
   postgres: number;
   api: number;
+  identity: number;
 }
 
-export const DEV_PORTS: Ports = { postgres: 5442, api: 4310 };
-export const TEST_PORTS: Ports = { postgres: 5443, api: 4320 };
+export const DEV_PORTS: Ports = { postgres: 5442, api: 4310, identity: 4311 };
+export const TEST_PORTS: Ports = { postgres: 5443, api: 4320, identity: 4321 };
+
+/**
+ * The local identity provider and the API's settings for it. LOCAL ONLY: the client secret is
+ * fixed and public; production points the API at the firm's own provider.
+ */
+export function localSignIn(databaseUrl: string, ports: Ports, sessionSecret: string): { identity: Record<string, string>; api: Record<string, string> } {
+  const apiUrl = `http://127.0.0.1:${ports.api}`;
+  const client = { id: 'trabeate-local', secret: 'local-only-client-secret-not-for-production' };
+  return {
+    identity: {
+      IDENTITY_DATABASE_URL: databaseUrl,
+      IDENTITY_PORT: String(ports.identity),
+      IDENTITY_ISSUER: `http://127.0.0.1:${ports.identity}`,
+      IDENTITY_CLIENT_ID: client.id,
+      IDENTITY_CLIENT_SECRET: client.secret,
+      IDENTITY_REDIRECT_URIS: `${apiUrl}/api/auth/callback`,
+      IDENTITY_POST_LOGOUT_REDIRECT_URIS: `${apiUrl}/`,
+    },
+    api: {
+      OIDC_ISSUER: `http://127.0.0.1:${ports.identity}`,
+      OIDC_CLIENT_ID: client.id,
+      OIDC_CLIENT_SECRET: client.secret,
+      OIDC_ALLOW_INSECURE_HTTP: 'true',
+      SESSION_SECRET: sessionSecret,
+    },
+  };
+}
+
+export function identityService(env: Record<string, string>, port: number): Service {
+  let child: ChildProcess | undefined;
+  return {
+    name: 'identity',
+    start: async () => {
+      child = startChild('identity', process.execPath, ['--import', 'tsx', 'apps/identity/src/main.ts'], {
+        env: { ...process.env, ...env, IDENTITY_PORT: String(port) },
+      });
+      child.once('exit', (code, signal) => {
+        if (code !== 0 && signal === null) log('identity', `exited with code ${code}`);
+      });
+    },
+    ready: () =>
+      waitFor('the identity provider', async () => {
+        if (child?.exitCode !== null && child?.exitCode !== undefined) throw new Error('the identity provider process exited');
+        return httpOk(`http://127.0.0.1:${port}/.well-known/openid-configuration`);
+      }),
+    stop: async () => {
+      if (child) await stopChild(child);
+    },
+  };
+}
 
 export function postgresService(cluster: Cluster): Service {
   return {

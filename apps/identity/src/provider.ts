@@ -30,7 +30,8 @@ export interface IdentityProviderOptions {
 const PAGE_HEADERS: Record<string, string> = {
   'Content-Security-Policy': "default-src 'none'; style-src 'unsafe-inline'; img-src data:; frame-ancestors 'none'; base-uri 'none'",
   'X-Content-Type-Options': 'nosniff',
-  'Referrer-Policy': 'no-referrer',
+  // same-origin, not no-referrer: with no-referrer browsers send "Origin: null" on the form post.
+  'Referrer-Policy': 'same-origin',
   'Cache-Control': 'no-store',
 };
 
