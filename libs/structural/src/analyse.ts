@@ -245,7 +245,11 @@ export function analyseScheme(scheme: Scheme): SchemeResult {
 
   // column loads storey by storey, and by tributary area as a cross-check
   const trib = tributaries(layout);
-  const factored = (d: number, lv: number) => combos.reduce((m, c) => Math.max(m, c.dead * d + c.live * lv), 0);
+  const factored = (d: number, lv: number) => {
+    let m = 0;
+    for (const c of combos) m = Math.max(m, c.dead * d + c.live * lv);
+    return m;
+  };
   const columnRows: ColumnLoadRow[] = [];
   const colSizes: SchemeResult['sizes']['columns'] = [];
   const footingRows: SchemeResult['sizes']['footings'] = [];
@@ -253,31 +257,42 @@ export function analyseScheme(scheme: Scheme): SchemeResult {
   const steel = limits.columnSteelRatio.value;
   const floorLv = levels.get('floor');
   const roofLv = levels.get('roof') as LevelLoads;
+  // beam self-weight and wall per metre of each line, per level kind, for the tributary cross-check
+  const lineLineLoad = new Map<string, [number, number]>();
+  for (const l of layout.lines) {
+    const beamSw = (l.widthMm / 1000) * Math.max(((lineDepth.get(l.id) as number) - slabT) / 1000, 0) * gamma;
+    lineLineLoad.set(l.id, [beamSw + (l.wallThicknessMm > 0 ? b.wallLoadKNPerM : 0), beamSw]);
+  }
+  const noLoad: [number, number] = [0, 0];
+  const zeroR = { floor: noLoad, roof: noLoad };
+  const minSide = limits.columnMinSideMm.value;
   for (const c of scheme.columns) {
-    const r = colR.get(c.id) ?? { floor: [0, 0], roof: [0, 0] };
+    const r = colR.get(c.id) ?? zeroR;
     const sw = (c.widthMm / 1000) * (c.depthMm / 1000) * b.storeyHeightM * gamma;
     const t = trib.get(c.id);
-    const tribLevel = (lv: LevelLoads | undefined) => {
-      if (!lv || !t) return 0;
-      let v = t.area * (lv.slabDeadKPa + lv.liveKPa);
+    let tribFloor = 0;
+    let tribRoof = 0;
+    if (t) {
+      if (floorLv) tribFloor = t.area * (floorLv.slabDeadKPa + floorLv.liveKPa);
+      tribRoof = t.area * (roofLv.slabDeadKPa + roofLv.liveKPa);
       for (const seg of t.lengths) {
-        const line = layout.lineById.get(seg.lineId) as BeamLine;
-        const beamSw = (line.widthMm / 1000) * Math.max(((lineDepth.get(line.id) as number) - slabT) / 1000, 0) * gamma;
-        const wall = lv.kind === 'floor' && line.wallThicknessMm > 0 ? b.wallLoadKNPerM : 0;
-        v += seg.lengthM * (beamSw + wall);
+        const w = lineLineLoad.get(seg.lineId) as [number, number];
+        tribFloor += seg.lengthM * w[0];
+        tribRoof += seg.lengthM * w[1];
       }
-      return v;
-    };
-    const tribFloor = tribLevel(floorLv);
-    const tribRoof = tribLevel(roofLv);
+      if (!floorLv) tribFloor = 0;
+    }
     const storeys: ColumnStoreySize[] = [];
+    const provided: [number, number] = [c.widthMm, c.depthMm];
     for (let s = 1; s <= N; s++) {
       const floorsAbove = N - s; // floor levels s..N-1
       const dead = floorsAbove * r.floor[0] + r.roof[0] + (N - s + 1) * sw;
       const live = floorsAbove * r.floor[1] + r.roof[1];
       const pu = factored(dead, live);
       columnRows.push({ columnId: c.id, storey: s, deadKN: dead, liveKN: live, factoredKN: pu, tributaryKN: floorsAbove * tribFloor + tribRoof + (N - s + 1) * sw });
-      storeys.push({ storey: s, ...columnSize(family, pu, fck, fy, steel, limits.columnMinSideMm.value, [c.widthMm, c.depthMm]) });
+      const size = columnSize(family, pu, fck, fy, steel, minSide, provided);
+      size.storey = s;
+      storeys.push(size);
     }
     colSizes.push({ columnId: c.id, providedMm: [c.widthMm, c.depthMm], storeys });
     const base = columnRows[columnRows.length - N];

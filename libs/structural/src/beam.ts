@@ -228,6 +228,9 @@ export interface PreparedBeam {
   band: BandMatrix;
   /** node positions from the first node, m */
   xs: number[];
+  /** per member: length (m) and EI/L² (kN) for recovering end moments */
+  len: Float64Array;
+  eiOverL2: Float64Array;
   ok: boolean;
 }
 
@@ -274,7 +277,13 @@ export function prepareBeam(model: BeamModel): PreparedBeam {
     }
   });
   const ok = nEq === 0 ? true : factorBand(band);
-  return { model, dof, nEq, band, xs, ok };
+  const len = new Float64Array(model.members.length);
+  const eiOverL2 = new Float64Array(model.members.length);
+  model.members.forEach((mb, i) => {
+    len[i] = mb.lengthM;
+    eiOverL2[i] = mb.eiKNm2 / (mb.lengthM * mb.lengthM);
+  });
+  return { model, dof, nEq, band, xs, len, eiOverL2, ok };
 }
 
 /** Nodal solution and member end actions of one load case. */
@@ -328,6 +337,35 @@ export function solveTerms(
     endMoments[2 * i + 1] = m2;
   }
   return { u, endMoments };
+}
+
+/**
+ * The same solve as solveTerms on packed terms (fa, fb, ra, rb per member in one array), writing
+ * into caller-owned buffers: the form the envelope uses for its many arrangements.
+ */
+export function solvePacked(p: PreparedBeam, T: Float64Array, rhs: Float64Array, u: Float64Array, endMoments: Float64Array): void {
+  const { dof, len, eiOverL2 } = p;
+  const nm = len.length;
+  rhs.fill(0);
+  for (let i = 0; i < nm; i++) {
+    const L = len[i];
+    const fa = T[4 * i], fb = T[4 * i + 1], ra = T[4 * i + 2], rb = T[4 * i + 3];
+    const d0 = dof[2 * i], d1 = dof[2 * i + 1], d2 = dof[2 * i + 2], d3 = dof[2 * i + 3];
+    const sh = (fa - fb) / L;
+    if (d0 >= 0) rhs[d0] -= ra + sh;
+    if (d1 >= 0) rhs[d1] -= fa;
+    if (d2 >= 0) rhs[d2] -= rb - sh;
+    if (d3 >= 0) rhs[d3] += fb;
+  }
+  if (p.nEq > 0) solveBand(p.band, rhs);
+  for (let k = 0; k < dof.length; k++) u[k] = dof[k] >= 0 ? rhs[dof[k]] : 0;
+  for (let i = 0; i < nm; i++) {
+    const L = len[i];
+    const c = eiOverL2[i];
+    const v1 = u[2 * i], th1 = u[2 * i + 1], v2 = u[2 * i + 2], th2 = u[2 * i + 3];
+    endMoments[2 * i] = -(c * (6 * v1 + 4 * L * th1 - 6 * v2 + 2 * L * th2) + T[4 * i]);
+    endMoments[2 * i + 1] = c * (6 * v1 + 2 * L * th1 - 6 * v2 + 4 * L * th2) - T[4 * i + 1];
+  }
 }
 
 /** Solves one load case on a prepared beam. */

@@ -2,11 +2,11 @@
 // patterned over all spans, alternate spans, and adjacent pairs with alternates beyond (the
 // arrangements of IS 456 cl. 22.4.1 and ACI 318-19 §6.4.3). One factorisation serves every
 // arrangement; each is a fresh right-hand side of the banded system.
-import { BeamLoad, BeamModel, groupLoads, memberTerms, MemberTerms, nodeReactions, PreparedBeam, prepareBeam, simpleDeflection, simpleMoment, simpleShear, solveTerms } from './beam';
+import { BeamLoad, BeamModel, groupLoads, memberTerms, nodeReactions, PreparedBeam, prepareBeam, simpleDeflection, simpleMoment, simpleShear, solvePacked, solveTerms } from './beam';
 import type { Combination } from './codes';
 
-const DEFLECTION_POINTS = [0.3, 0.4, 0.45, 0.5, 0.55, 0.6, 0.7];
-const DEFLECTION_POINTS_CANTILEVER = [0, 0.3, 0.4, 0.5, 0.6, 0.7, 1];
+const DEFLECTION_POINTS = [0.4, 0.5, 0.6];
+const DEFLECTION_POINTS_CANTILEVER = [0, 0.5, 1];
 
 export interface MemberEnvelope {
   /** largest sagging moment, kN·m, where (m from the member start) and under which arrangement */
@@ -67,8 +67,10 @@ function scanArrangement(
     let peak = bestM;
     let peakX = (bestK / nSeg) * L;
     if (bestK > 0 && bestK < nSeg) {
-      const at = (k: number) => gd * m0D[base + k] + gl * m0L[base + k] + ml + (mr - ml) * (k / nSeg);
-      const a0 = at(bestK - 1), a1 = bestM, a2 = at(bestK + 1);
+      const kl = bestK - 1, kr = bestK + 1;
+      const a0 = gd * m0D[base + kl] + gl * m0L[base + kl] + ml + (mr - ml) * (kl / nSeg);
+      const a1 = bestM;
+      const a2 = gd * m0D[base + kr] + gl * m0L[base + kr] + ml + (mr - ml) * (kr / nSeg);
       const den = a0 - 2 * a1 + a2;
       if (den < 0) {
         const off = (0.5 * (a0 - a2)) / den;
@@ -96,25 +98,47 @@ function scanArrangement(
  */
 export function loadPatterns(model: BeamModel): { label: string; members: boolean[]; scope: [number, number] | null }[] {
   const n = model.members.length;
-  const mk = (f: (i: number) => boolean) => Array.from({ length: n }, (_, i) => f(i));
-  const out: { label: string; members: boolean[]; scope: [number, number] | null }[] = [
-    { label: 'all spans', members: mk(() => true), scope: null },
-    { label: 'dead only', members: mk(() => false), scope: null },
-  ];
-  if (n > 1) {
-    out.push({ label: 'alternate spans (odd)', members: mk((i) => i % 2 === 0), scope: null });
-    out.push({ label: 'alternate spans (even)', members: mk((i) => i % 2 === 1), scope: null });
-  }
-  for (let node = 1; node < n; node++) {
-    if (model.supports[node] === 'free') continue;
-    // spans node-1 and node loaded, then every other span beyond on both sides
-    out.push({
-      label: `adjacent spans at support ${node}`,
-      members: mk((i) => (i >= node ? (i - node) % 2 === 0 : (node - 1 - i) % 2 === 0)),
-      scope: [node - 1, node],
-    });
-  }
+  return arrangements(model).map((a) => {
+    const members: boolean[] = [];
+    for (let i = 0; i < n; i++) members.push(isLoaded(a, i));
+    return { label: arrangementLabel(a), members, scope: a.kind === 'adjacent' ? [a.node - 1, a.node] : null };
+  });
+}
+
+/** An arrangement in compact form: which spans carry imposed load is computed, not stored. */
+interface Arrangement {
+  kind: 'all' | 'none' | 'odd' | 'even' | 'adjacent';
+  /** the support an adjacent-span arrangement serves */
+  node: number;
+}
+
+function arrangements(model: BeamModel): Arrangement[] {
+  const n = model.members.length;
+  const out: Arrangement[] = [{ kind: 'all', node: 0 }, { kind: 'none', node: 0 }];
+  if (n > 1) out.push({ kind: 'odd', node: 0 }, { kind: 'even', node: 0 });
+  // spans node-1 and node loaded, then every other span beyond on both sides
+  for (let node = 1; node < n; node++) if (model.supports[node] !== 'free') out.push({ kind: 'adjacent', node });
   return out;
+}
+
+function isLoaded(a: Arrangement, i: number): boolean {
+  switch (a.kind) {
+    case 'all': return true;
+    case 'none': return false;
+    case 'odd': return i % 2 === 0;
+    case 'even': return i % 2 === 1;
+    default: return i >= a.node ? (i - a.node) % 2 === 0 : (a.node - 1 - i) % 2 === 0;
+  }
+}
+
+function arrangementLabel(a: Arrangement): string {
+  switch (a.kind) {
+    case 'all': return 'all spans';
+    case 'none': return 'dead only';
+    case 'odd': return 'alternate spans (odd)';
+    case 'even': return 'alternate spans (even)';
+    default: return `adjacent spans at support ${a.node}`;
+  }
 }
 
 /**
@@ -161,41 +185,49 @@ export function envelopeBeam(
   }
   const lengths = new Float64Array(nm);
   model.members.forEach((m, i) => (lengths[i] = m.lengthM));
-  const maxR = new Array<number>(nm + 1).fill(-Infinity);
-  const patterns = loadPatterns(model);
-  const labels: string[] = [];
-  const terms: MemberTerms[] = model.members.map(() => ({ fa: 0, fb: 0, ra: 0, rb: 0, total: 0 }));
-  const buf = { rhs: new Float64Array(p.nEq), u: new Float64Array(2 * (nm + 1)), endMoments: new Float64Array(2 * nm) };
-  const rBuf = new Float64Array(nm + 1);
+  const maxR = model.supports.map((sp) => (sp === 'free' ? 0 : -Infinity));
+  const patterns = arrangements(model);
+  // arrangement of each scan, as (combination index, arrangement index); labels are made at the end
+  const scans: [number, number][] = [];
+  // packed terms: dead and imposed apart, and the combination of one arrangement
+  const TD = new Float64Array(4 * nm), TL = new Float64Array(4 * nm), T = new Float64Array(4 * nm);
+  for (let i = 0; i < nm; i++) {
+    TD[4 * i] = tD[i].fa; TD[4 * i + 1] = tD[i].fb; TD[4 * i + 2] = tD[i].ra; TD[4 * i + 3] = tD[i].rb;
+    TL[4 * i] = tL[i].fa; TL[4 * i + 1] = tL[i].fb; TL[4 * i + 2] = tL[i].ra; TL[4 * i + 3] = tL[i].rb;
+  }
+  const rhs = new Float64Array(p.nEq), u = new Float64Array(2 * (nm + 1)), endMoments = new Float64Array(2 * nm);
   const loaded = new Uint8Array(nm);
-  for (const c of combos) {
-    for (const pat of patterns) {
-      if (c.live === 0 && pat.label !== 'dead only') continue;
-      if (c.live !== 0 && pat.label === 'dead only') continue;
-      const id = labels.length;
-      labels.push(`${c.id}, imposed on ${pat.label}`);
+  for (let ci = 0; ci < combos.length; ci++) {
+    const c = combos[ci];
+    for (let pi = 0; pi < patterns.length; pi++) {
+      const pat = patterns[pi];
+      if ((c.live === 0) !== (pat.kind === 'none')) continue;
+      const id = scans.length;
+      scans.push([ci, pi]);
       for (let i = 0; i < nm; i++) {
-        loaded[i] = pat.members[i] ? 1 : 0;
-        const gl = pat.members[i] ? c.live : 0;
-        const d = tD[i], l = tL[i], t = terms[i];
-        t.fa = c.dead * d.fa + gl * l.fa;
-        t.fb = c.dead * d.fb + gl * l.fb;
-        t.ra = c.dead * d.ra + gl * l.ra;
-        t.rb = c.dead * d.rb + gl * l.rb;
-        t.total = c.dead * d.total + gl * l.total;
+        const on = isLoaded(pat, i);
+        loaded[i] = on ? 1 : 0;
+        const gl = on ? c.live : 0;
+        for (let q = 4 * i; q < 4 * i + 4; q++) T[q] = c.dead * TD[q] + gl * TL[q];
       }
-      const { endMoments } = solveTerms(p, terms, buf);
-      const r = nodeReactions(model, terms, endMoments, rBuf);
-      for (let n = 0; n <= nm; n++) if (r[n] > maxR[n]) maxR[n] = r[n];
-      scanArrangement(pat.scope ? pat.scope[0] : 0, pat.scope ? pat.scope[1] : nm - 1, nSeg, lengths, m0D, m0L, v0D, v0L, endMoments, c.dead, c.live, loaded, id, acc);
+      solvePacked(p, T, rhs, u, endMoments);
+      // reactions: simply-supported reactions plus the end-moment couple of each member
+      for (let n = 0; n <= nm; n++) {
+        let r = 0;
+        if (n > 0) r += T[4 * (n - 1) + 3] - (endMoments[2 * n - 1] - endMoments[2 * n - 2]) / lengths[n - 1];
+        if (n < nm) r += T[4 * n + 2] + (endMoments[2 * n + 1] - endMoments[2 * n]) / lengths[n];
+        if (model.supports[n] !== 'free' && r > maxR[n]) maxR[n] = r;
+      }
+      scanArrangement(pat.kind === 'adjacent' ? pat.node - 1 : 0, pat.kind === 'adjacent' ? pat.node : nm - 1, nSeg, lengths, m0D, m0L, v0D, v0L, endMoments, c.dead, c.live, loaded, id, acc);
     }
   }
+  const scanLabel = (id: number) => (scans[id] ? `${combos[scans[id][0]].id}, imposed on ${arrangementLabel(patterns[scans[id][1]])}` : '');
   const env: MemberEnvelope[] = model.members.map((_, i) => ({
-    maxMomentKNm: acc[i * 7], maxMomentAtM: acc[i * 7 + 1], maxPattern: labels[acc[i * 7 + 2]] ?? '',
-    minMomentKNm: acc[i * 7 + 3], minMomentAtM: acc[i * 7 + 4], minPattern: labels[acc[i * 7 + 5]] ?? '',
+    maxMomentKNm: acc[i * 7], maxMomentAtM: acc[i * 7 + 1], maxPattern: scanLabel(acc[i * 7 + 2]),
+    minMomentKNm: acc[i * 7 + 3], minMomentAtM: acc[i * 7 + 4], minPattern: scanLabel(acc[i * 7 + 5]),
     maxShearKN: acc[i * 7 + 6], serviceDeflectionMm: 0, serviceDeflectionAtM: 0,
   }));
-  const tried = labels.length;
+  const tried = scans.length;
   // service: dead and imposed on all spans
   const sD = solveTerms(p, tD);
   const sL = solveTerms(p, tL);

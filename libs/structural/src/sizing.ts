@@ -132,7 +132,7 @@ export interface ColumnStoreySize {
 /** Column section for a factored axial load (kN), strengths MPa, steel ratio of gross area. */
 const sourceCache = new Map<string, string>();
 
-export function columnSize(family: CodeFamily, factoredKN: number, fck: number, fy: number, steelRatio: number, minSideMm: number, providedMm: [number, number]): Omit<ColumnStoreySize, 'storey'> {
+export function columnSize(family: CodeFamily, factoredKN: number, fck: number, fy: number, steelRatio: number, minSideMm: number, providedMm: [number, number]): ColumnStoreySize {
   const perMm2 = columnCapacityKN(family, 1, 1, fck, fy, steelRatio);
   const key = `${family}${steelRatio}`;
   let source = sourceCache.get(key);
@@ -144,6 +144,7 @@ export function columnSize(family: CodeFamily, factoredKN: number, fck: number, 
   const side = Math.max(roundUp(Math.sqrt(requiredAreaMm2), 25), minSideMm);
   const provided = columnCapacityKN(family, providedMm[0], providedMm[1], fck, fy, steelRatio).value;
   return {
+    storey: 0,
     factoredKN,
     requiredAreaMm2,
     requiredSideMm: side,
