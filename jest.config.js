@@ -2,7 +2,7 @@
 const swc = ['@swc/jest', { jsc: { parser: { syntax: 'typescript' }, target: 'es2022' }, module: { type: 'commonjs' } }];
 const aliases = { '^@trabeate/(.*)$': '<rootDir>/libs/$1/src/index.ts' };
 // ESM-only packages that Jest's loader must transform to load them on Node 20.
-const esmOnly = ['openid-client', 'oauth4webapi', 'jose', 'oidc-provider'].join('|');
+const esmOnly = ['openid-client', 'oauth4webapi', 'jose', 'oidc-provider', 'file-type', 'strtok3', 'token-types', 'uint8array-extras', '@tokenizer/inflate', '@borewit/text-codec'].join('|');
 
 const node = (displayName, testMatch, extra = {}) => ({
   displayName,
@@ -20,8 +20,8 @@ module.exports = {
   projects: [
     require('./jest.libs.config.js'),
     '<rootDir>/apps/client/jest.config.mjs',
-    node('api', ['<rootDir>/test/api/**/*.spec.ts', '<rootDir>/apps/server/src/**/*.spec.ts'], { testTimeout: 20_000 }),
+    node('api', ['<rootDir>/test/api/**/*.spec.ts', '<rootDir>/apps/server/src/**/*.spec.ts'], { setupFilesAfterEnv: ['<rootDir>/test/support/jest-timeout-api.ts'] }),
     node('build', ['<rootDir>/test/build/**/*.spec.ts']),
-    node('e2e', ['<rootDir>/test/e2e/**/*.spec.ts'], { testTimeout: 60_000 }),
+    node('e2e', ['<rootDir>/test/e2e/**/*.spec.ts'], { setupFilesAfterEnv: ['<rootDir>/test/support/jest-timeout-e2e.ts'] }),
   ],
 };
