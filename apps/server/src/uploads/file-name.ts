@@ -1,0 +1,36 @@
+import path from 'node:path';
+
+// Names Windows refuses for a file, with or without an extension (CON.pdf is as bad as CON).
+const RESERVED = /^(con|prn|aux|nul|com[0-9¹²³]|lpt[0-9¹²³]|conin\$|conout\$)$/i;
+const MAX_LENGTH = 180;
+
+/**
+ * A name that is safe to store, show and offer as a download, kept readable: no folders, no
+ * control or bidirectional-override characters, no characters Windows forbids, no reserved
+ * device names, no leading dots, at most 180 characters with the extension kept.
+ */
+export function safeFileName(original: string, fallback = 'file'): string {
+  // Browsers send a bare name, but some old clients send a whole path with either separator.
+  let name = original.normalize('NFC').split(/[\\/]/).pop() ?? '';
+  name = name
+    // C0/C1 controls and Unicode format characters (bidi overrides can fake an extension).
+    .replace(/[\u0000-\u001f\u007f-\u009f\u061c\u200b-\u200f\u202a-\u202e\u2066-\u2069\ufeff]/g, '')
+    .replace(/[<>:"|?*]/g, '_')
+    .replace(/\s+/g, ' ')
+    .trim()
+    .replace(/^[.\s]+/, '') // no hidden files, no "..": a leading dot is dropped
+    .replace(/[.\s]+$/, ''); // Windows drops trailing dots and spaces itself
+  const ext = path.extname(name);
+  let stem = ext ? name.slice(0, -ext.length) : name;
+  if (RESERVED.test(stem.split('.')[0])) stem = `_${stem}`;
+  if (!stem) stem = fallback;
+  const cleanExt = ext.length <= 16 ? ext.toLowerCase() : '';
+  const room = MAX_LENGTH - cleanExt.length;
+  if (stem.length > room) stem = Array.from(stem).slice(0, room).join('').trimEnd();
+  return `${stem}${cleanExt}`;
+}
+
+/** The lower-case extension without the dot ('' when there is none). */
+export function extensionOf(fileName: string): string {
+  return path.extname(fileName).slice(1).toLowerCase();
+}
