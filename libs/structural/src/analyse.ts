@@ -1,13 +1,13 @@
 // The whole derivation for one scheme: layout, loads, beam-line envelopes, sizes, column loads
 // storey by storey, footings against the site, checks, quantities and cost.
-import type { BeamLoad, BeamModel, Support } from './beam';
+import type { BeamModel, Support } from './beam';
 import { prepareBeam, PreparedBeam } from './beam';
 import { check, Check, columnSpacingChecks, columnWallChecks, pointLoadChecks, RULES, spanChecks, stairChecks } from './checks';
 import { CAUTION, codeDefaults, Combination, concreteModulusMPa, beamDepthRule, Limits, resolveLimits } from './codes';
-import { envelopeBeam, MemberEnvelope } from './envelope';
+import { envelopeParts, loadPart, LoadPart, MemberEnvelope } from './envelope';
 import { isolatedFooting, IsolatedFooting, roundUp } from './footings';
 import { BeamLine, columnPlan, deriveLayout, Layout, SpanKind } from './layout';
-import { levelLoads, LevelLoads, PanelLoad, SecondaryLoad } from './loads';
+import { levelLoads, LevelLoads, PanelLoad, SecondaryLoad, slabShapes } from './loads';
 import type { CodeFamily, Problem, Scheme } from './model';
 import { costOf, Cost, Quantities, QuantityTally } from './quantities';
 import { boundaryOptions, BoundaryOptions, FootingSite, overlappingFootings, OverlapCombined } from './site';
@@ -172,23 +172,29 @@ export function analyseScheme(scheme: Scheme): SchemeResult {
 
   // levels: every floor below the roof is alike; the roof differs (imposed load, no walls above)
   const kinds: { kind: LevelKind; count: number }[] = N >= 2 ? [{ kind: 'floor', count: N - 1 }, { kind: 'roof', count: 1 }] : [{ kind: 'roof', count: 1 }];
+  const shapes = slabShapes(layout, limits.slabOneWayAspect.value);
   const levels = new Map<LevelKind, LevelLoads>();
   for (const k of kinds) {
     levels.set(
       k.kind,
-      levelLoads(layout, {
+      levelLoads(layout, shapes, {
         kind: k.kind,
         slabThicknessMm: slabT,
         superimposedDeadKPa: b.superimposedDeadKPa,
         liveKPa: k.kind === 'roof' ? (b.roofImposedKPa ?? b.imposedKPa) : b.imposedKPa,
         wallLoadKNPerM: b.wallLoadKNPerM,
         unitWeightKNm3: gamma,
-        oneWayAspect: limits.slabOneWayAspect.value,
         lineDepthMm: lineDepth,
         secondaryDepthMm: secDepth,
         secondaryWidthMm: secWidth,
       }),
     );
+  }
+  // the slab's share of each line, reduced once and scaled per level
+  const shapeParts = new Map<string, LoadPart>();
+  for (const l of layout.lines) {
+    const p = prepared.get(l.id) as PreparedBeam;
+    if (p.ok) shapeParts.set(l.id, loadPart(p, shapes.lines.get(l.id) ?? []));
   }
 
   const checks: Check[] = [];
@@ -205,13 +211,14 @@ export function analyseScheme(scheme: Scheme): SchemeResult {
   for (const k of kinds) {
     const lv = levels.get(k.kind) as LevelLoads;
     for (const l of layout.lines) {
-      const set = lv.lines.get(l.id) as { dead: BeamLoad[]; live: BeamLoad[] };
       const p = prepared.get(l.id) as PreparedBeam;
       if (!p.ok) {
         checks.push({ ruleId: 'beam.unstable', severity: 'error', status: 'fail', elements: [l.id], message: `beam line ${l.label} is not held up by its columns`, value: 0, limit: 1, unit: '', sense: 'min', source: 'statics', sourceKind: 'derived' });
         continue;
       }
-      const env = envelopeBeam(models.get(l.id) as BeamModel, set.dead, set.live, combos, { prepared: p });
+      const shape = shapeParts.get(l.id) as LoadPart;
+      const extra = loadPart(p, lv.extraDead.get(l.id) ?? []);
+      const env = envelopeParts(p, [[shape, lv.slabDeadKPa], [extra, 1]], [[shape, lv.liveKPa]], combos);
       l.nodes.forEach((n, i) => {
         if (n.columnId) addR(n.columnId, k.kind, env.deadReactionsKN[i], env.liveReactionsKN[i]);
       });

@@ -2,9 +2,10 @@
 // patterned over all spans, alternate spans, and adjacent pairs with alternates beyond (the
 // arrangements of IS 456 cl. 22.4.1 and ACI 318-19 §6.4.3). One factorisation serves every
 // arrangement; each is a fresh right-hand side of the banded system.
-import { BeamLoad, BeamModel, groupLoads, memberTerms, nodeReactions, PreparedBeam, prepareBeam, simpleDeflection, simpleMoment, simpleShear, solvePacked, solveTerms } from './beam';
+import { BeamLoad, BeamModel, groupLoads, memberTerms, PreparedBeam, prepareBeam, simpleDeflection, simpleMoment, simpleShear, solvePacked } from './beam';
 import type { Combination } from './codes';
 
+// three points per member: the largest deflection lies near mid-span, or at a free end
 const DEFLECTION_POINTS = [0.4, 0.5, 0.6];
 const DEFLECTION_POINTS_CANTILEVER = [0, 0.5, 1];
 
@@ -83,8 +84,8 @@ function scanArrangement(
     if (peak > acc[o]) { acc[o] = peak; acc[o + 1] = peakX; acc[o + 2] = id; }
     // shear peaks just inside the ends for these loads
     const dv = (mr - ml) / L;
-    const v0 = Math.abs(gd * v0D[base] + gl * v0L[base] + dv);
-    const v1 = Math.abs(gd * v0D[base + nSeg] + gl * v0L[base + nSeg] + dv);
+    const v0 = Math.abs(gd * v0D[2 * i] + gl * v0L[2 * i] + dv);
+    const v1 = Math.abs(gd * v0D[2 * i + 1] + gl * v0L[2 * i + 1] + dv);
     const v = v0 > v1 ? v0 : v1;
     if (v > acc[o + 6]) acc[o + 6] = v;
   }
@@ -142,6 +143,63 @@ function arrangementLabel(a: Arrangement): string {
 }
 
 /**
+ * One group of loads on a beam, reduced once to what every arrangement needs: packed fixed-end
+ * and simple-span terms (fa, fb, ra, rb per member), simple-span moments at the sample points,
+ * shears just inside the ends and simple-span deflections at the deflection points. Loads that
+ * keep their shape from level to level (a slab's share, per kPa) are reduced once and scaled.
+ */
+export interface LoadPart {
+  terms: Float64Array;
+  m0: Float64Array;
+  v0: Float64Array;
+  defl: Float64Array;
+  nSeg: number;
+}
+
+function deflectionPoints(model: BeamModel, i: number): number[] {
+  return model.supports[i] === 'free' || model.supports[i + 1] === 'free' ? DEFLECTION_POINTS_CANTILEVER : DEFLECTION_POINTS;
+}
+
+/** Reduces loads (kN, kN/m, member coordinates in m) on a prepared beam to a LoadPart. */
+export function loadPart(p: PreparedBeam, loads: readonly BeamLoad[] | BeamLoad[][], nSeg = 10): LoadPart {
+  const model = p.model;
+  const nm = model.members.length;
+  const by = loads.length > 0 && Array.isArray(loads[0]) ? (loads as BeamLoad[][]) : groupLoads(nm, loads as BeamLoad[]);
+  const ns = nSeg + 1;
+  const terms = new Float64Array(4 * nm);
+  const m0 = new Float64Array(nm * ns);
+  const v0 = new Float64Array(2 * nm);
+  const defl = new Float64Array(3 * nm);
+  for (let i = 0; i < nm; i++) {
+    const L = model.members[i].lengthM;
+    const li = by[i];
+    if (li.length === 0) continue;
+    const t = memberTerms(L, li);
+    terms[4 * i] = t.fa; terms[4 * i + 1] = t.fb; terms[4 * i + 2] = t.ra; terms[4 * i + 3] = t.rb;
+    for (let k = 0; k < ns; k++) m0[i * ns + k] = simpleMoment(L, li, t.ra, (L * k) / nSeg);
+    v0[2 * i] = simpleShear(L, li, t.ra, 0);
+    v0[2 * i + 1] = simpleShear(L, li, t.ra, L * (1 - 1e-12));
+    const pts = deflectionPoints(model, i);
+    for (let q = 0; q < 3; q++) defl[3 * i + q] = simpleDeflection(L, model.members[i].eiKNm2, li, L * pts[q]);
+  }
+  return { terms, m0, v0, defl, nSeg };
+}
+
+/** Σ factor × part, into fresh arrays. */
+function combineParts(parts: readonly (readonly [LoadPart, number])[], nm: number, nSeg: number): LoadPart {
+  const ns = nSeg + 1;
+  const out: LoadPart = { terms: new Float64Array(4 * nm), m0: new Float64Array(nm * ns), v0: new Float64Array(2 * nm), defl: new Float64Array(3 * nm), nSeg };
+  for (const [part, f] of parts) {
+    if (f === 0) continue;
+    for (let q = 0; q < out.terms.length; q++) out.terms[q] += f * part.terms[q];
+    for (let q = 0; q < out.m0.length; q++) out.m0[q] += f * part.m0[q];
+    for (let q = 0; q < out.v0.length; q++) out.v0[q] += f * part.v0[q];
+    for (let q = 0; q < out.defl.length; q++) out.defl[q] += f * part.defl[q];
+  }
+  return out;
+}
+
+/**
  * Envelope of moments (kN·m) and shears (kN) for factored combinations of dead and imposed line
  * loads (kN, kN/m), EI in kN·m²; also service reactions and deflections (mm).
  */
@@ -153,48 +211,40 @@ export function envelopeBeam(
   opts: { samplesPerMember?: number; prepared?: PreparedBeam } = {},
 ): BeamEnvelope {
   const p = opts.prepared ?? prepareBeam(model);
-  const nm = model.members.length;
   if (!p.ok) return { ok: false, members: [], deadReactionsKN: [], liveReactionsKN: [], maxFactoredReactionsKN: [], patternsTried: 0 };
   const nSeg = opts.samplesPerMember ?? 10;
-  const dBy = groupLoads(nm, dead);
-  const lBy = groupLoads(nm, live);
-  const tD = model.members.map((m, i) => memberTerms(m.lengthM, dBy[i]));
-  const tL = model.members.map((m, i) => memberTerms(m.lengthM, lBy[i]));
-  const ns = nSeg + 1;
-  const m0D = new Float64Array(nm * ns), m0L = new Float64Array(nm * ns);
-  const v0D = new Float64Array(nm * ns), v0L = new Float64Array(nm * ns);
-  for (let i = 0; i < nm; i++) {
-    const L = model.members[i].lengthM;
-    for (let k = 0; k < ns; k++) {
-      const x = (L * k) / nSeg;
-      m0D[i * ns + k] = simpleMoment(L, dBy[i], tD[i].ra, x);
-      m0L[i * ns + k] = simpleMoment(L, lBy[i], tL[i].ra, x);
-      if (k === 0 || k === nSeg) {
-        // just inside the ends
-        const xe = k === 0 ? 0 : L * (1 - 1e-12);
-        v0D[i * ns + k] = simpleShear(L, dBy[i], tD[i].ra, xe);
-        v0L[i * ns + k] = simpleShear(L, lBy[i], tL[i].ra, xe);
-      }
-    }
-  }
+  return envelopeParts(p, [[loadPart(p, dead, nSeg), 1]], [[loadPart(p, live, nSeg), 1]], combos);
+}
+
+/**
+ * The envelope from load parts: dead = Σ factor × part, imposed likewise (parts from loadPart,
+ * all with the same number of samples). Units as envelopeBeam.
+ */
+export function envelopeParts(
+  p: PreparedBeam,
+  deadParts: readonly (readonly [LoadPart, number])[],
+  liveParts: readonly (readonly [LoadPart, number])[],
+  combos: readonly Combination[],
+): BeamEnvelope {
+  const model = p.model;
+  const nm = model.members.length;
+  if (!p.ok) return { ok: false, members: [], deadReactionsKN: [], liveReactionsKN: [], maxFactoredReactionsKN: [], patternsTried: 0 };
+  const nSeg = (deadParts[0] ?? liveParts[0])?.[0].nSeg ?? 10;
+  const D = combineParts(deadParts, nm, nSeg);
+  const Lv = combineParts(liveParts, nm, nSeg);
+  const TD = D.terms, TL = Lv.terms, m0D = D.m0, m0L = Lv.m0, v0D = D.v0, v0L = Lv.v0;
   // per member: max moment, its x, its arrangement; min moment, its x, its arrangement; max |shear|
   const acc = new Float64Array(nm * 7);
   for (let i = 0; i < nm; i++) {
     acc[i * 7] = -Infinity;
     acc[i * 7 + 3] = Infinity;
   }
-  const lengths = new Float64Array(nm);
-  model.members.forEach((m, i) => (lengths[i] = m.lengthM));
+  const lengths = p.len;
   const maxR = model.supports.map((sp) => (sp === 'free' ? 0 : -Infinity));
   const patterns = arrangements(model);
   // arrangement of each scan, as (combination index, arrangement index); labels are made at the end
   const scans: [number, number][] = [];
-  // packed terms: dead and imposed apart, and the combination of one arrangement
-  const TD = new Float64Array(4 * nm), TL = new Float64Array(4 * nm), T = new Float64Array(4 * nm);
-  for (let i = 0; i < nm; i++) {
-    TD[4 * i] = tD[i].fa; TD[4 * i + 1] = tD[i].fb; TD[4 * i + 2] = tD[i].ra; TD[4 * i + 3] = tD[i].rb;
-    TL[4 * i] = tL[i].fa; TL[4 * i + 1] = tL[i].fb; TL[4 * i + 2] = tL[i].ra; TL[4 * i + 3] = tL[i].rb;
-  }
+  const T = new Float64Array(4 * nm);
   const rhs = new Float64Array(p.nEq), u = new Float64Array(2 * (nm + 1)), endMoments = new Float64Array(2 * nm);
   const loaded = new Uint8Array(nm);
   for (let ci = 0; ci < combos.length; ci++) {
@@ -227,31 +277,42 @@ export function envelopeBeam(
     minMomentKNm: acc[i * 7 + 3], minMomentAtM: acc[i * 7 + 4], minPattern: scanLabel(acc[i * 7 + 5]),
     maxShearKN: acc[i * 7 + 6], serviceDeflectionMm: 0, serviceDeflectionAtM: 0,
   }));
-  const tried = scans.length;
   // service: dead and imposed on all spans
-  const sD = solveTerms(p, tD);
-  const sL = solveTerms(p, tL);
-  const rD = nodeReactions(model, tD, sD.endMoments);
-  const rL = nodeReactions(model, tL, sL.endMoments);
+  const sD = new Float64Array(2 * nm), uD = new Float64Array(2 * (nm + 1));
+  const sL = new Float64Array(2 * nm), uL = new Float64Array(2 * (nm + 1));
+  solvePacked(p, TD, rhs, uD, sD);
+  solvePacked(p, TL, rhs, uL, sL);
+  const rD = new Array<number>(nm + 1).fill(0);
+  const rL = new Array<number>(nm + 1).fill(0);
+  for (let n = 0; n <= nm; n++) {
+    if (model.supports[n] === 'free') continue;
+    if (n > 0) {
+      rD[n] += TD[4 * (n - 1) + 3] - (sD[2 * n - 1] - sD[2 * n - 2]) / lengths[n - 1];
+      rL[n] += TL[4 * (n - 1) + 3] - (sL[2 * n - 1] - sL[2 * n - 2]) / lengths[n - 1];
+    }
+    if (n < nm) {
+      rD[n] += TD[4 * n + 2] + (sD[2 * n + 1] - sD[2 * n]) / lengths[n];
+      rL[n] += TL[4 * n + 2] + (sL[2 * n + 1] - sL[2 * n]) / lengths[n];
+    }
+  }
   // service deflection: chord between the end deflections, plus each member's own loads and end
-  // moments on a simple span (superposition of the dead and imposed solutions)
+  // moments on a simple span
   for (let i = 0; i < nm; i++) {
     const { lengthM: L, eiKNm2: ei } = model.members[i];
-    const ml = sD.endMoments[2 * i] + sL.endMoments[2 * i];
-    const mr = sD.endMoments[2 * i + 1] + sL.endMoments[2 * i + 1];
-    const v1 = -(sD.u[2 * i] + sL.u[2 * i]);
-    const v2 = -(sD.u[2 * i + 2] + sL.u[2 * i + 2]);
-    // the largest deflection lies in the middle half of a span, or at a free end
-    const ends = model.supports[i] === 'free' || model.supports[i + 1] === 'free';
-    for (const xi of ends ? DEFLECTION_POINTS_CANTILEVER : DEFLECTION_POINTS) {
-      const x = L * xi;
+    const ml = sD[2 * i] + sL[2 * i];
+    const mr = sD[2 * i + 1] + sL[2 * i + 1];
+    const v1 = -(uD[2 * i] + uL[2 * i]);
+    const v2 = -(uD[2 * i + 2] + uL[2 * i + 2]);
+    const pts = deflectionPoints(model, i);
+    for (let q = 0; q < 3; q++) {
+      const xi = pts[q];
       const yEnd = ((L * L) / (6 * ei)) * (ml * (2 * xi - 3 * xi * xi + xi * xi * xi) + mr * (xi - xi * xi * xi));
-      const y = (v1 * (1 - xi) + v2 * xi + simpleDeflection(L, ei, dBy[i], x) + simpleDeflection(L, ei, lBy[i], x) + yEnd) * 1000;
+      const y = (v1 * (1 - xi) + v2 * xi + D.defl[3 * i + q] + Lv.defl[3 * i + q] + yEnd) * 1000;
       if (Math.abs(y) > Math.abs(env[i].serviceDeflectionMm)) {
         env[i].serviceDeflectionMm = y;
-        env[i].serviceDeflectionAtM = x;
+        env[i].serviceDeflectionAtM = L * xi;
       }
     }
   }
-  return { ok: true, members: env, deadReactionsKN: [...rD], liveReactionsKN: [...rL], maxFactoredReactionsKN: maxR, patternsTried: tried };
+  return { ok: true, members: env, deadReactionsKN: rD, liveReactionsKN: rL, maxFactoredReactionsKN: maxR, patternsTried: scans.length };
 }

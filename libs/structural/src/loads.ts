@@ -2,7 +2,7 @@
 // (IS 456 cl. 24.5), beam self-weight, walls, and the reactions of secondary beams landing on
 // primary beams as point loads. Dead and imposed loads are kept apart so that combinations and
 // patterns can be formed later.
-import type { BeamLoad, LinearLoad } from './beam';
+import type { BeamLoad } from './beam';
 import { memberTerms } from './beam';
 import type { BeamLine, Layout, Panel } from './layout';
 
@@ -34,17 +34,10 @@ export interface PanelLoad {
   equivalent: ReturnType<typeof twoWayEquivalentLoads> | { longBeamKNPerM: number };
 }
 
-export interface LineLoadSet {
-  dead: BeamLoad[];
-  live: BeamLoad[];
-}
-
 export interface SecondaryLoad {
   id: string;
   lengthM: number;
-  dead: BeamLoad[];
-  live: BeamLoad[];
-  /** reactions at start and end, kN */
+  /** reactions at start and end, kN (service) */
   deadReactions: [number, number];
   liveReactions: [number, number];
 }
@@ -53,9 +46,21 @@ export interface LevelLoads {
   kind: 'floor' | 'roof';
   slabDeadKPa: number;
   liveKPa: number;
-  lines: Map<string, LineLoadSet>;
+  /** per line: dead load other than the slab (self-weight, walls, secondary beams' own weight) */
+  extraDead: Map<string, BeamLoad[]>;
   secondaries: SecondaryLoad[];
   panels: PanelLoad[];
+}
+
+/**
+ * Slab load shapes, the same on every level: per beam line, the load of 1 kPa on the slabs
+ * (kN/m per kPa, and kN per kPa where a secondary beam lands), and per secondary beam its own
+ * share and reactions per kPa.
+ */
+export interface SlabShapes {
+  lines: Map<string, BeamLoad[]>;
+  secondaries: Map<string, { shape: BeamLoad[]; reactions: [number, number] }>;
+  panels: { panel: Panel; twoWay: boolean }[];
 }
 
 /** A load shape along an edge: breakpoints (position m, intensity per kPa of slab load, kN/m per kPa). */
@@ -111,6 +116,52 @@ function pointOnLine(line: BeamLine, s: number, p: number, out: BeamLoad[]): voi
   out.push({ kind: 'point', member: m.index, atM: Math.min(Math.max(s - m.startS, 0), m.lengthM), forceKN: p });
 }
 
+/** Slab shapes of a layout (see SlabShapes); one-way beyond oneWayAspect (long/short). */
+export function slabShapes(layout: Layout, oneWayAspect: number): SlabShapes {
+  const lines = new Map<string, BeamLoad[]>();
+  for (const l of layout.lines) lines.set(l.id, []);
+  const secById = new Map(layout.secondaries.map((s) => [s.beam.id, s]));
+  const secShape = new Map<string, BeamLoad[]>();
+  for (const s of layout.secondaries) secShape.set(s.beam.id, []);
+  const panels: SlabShapes['panels'] = [];
+  for (const p of layout.panels) {
+    const { twoWay, profiles } = panelEdgeProfiles(p, oneWayAspect);
+    panels.push({ panel: p, twoWay });
+    p.edges.forEach((e, k) => {
+      const prof = profiles[k];
+      if (prof.length === 0) return;
+      if (e.carrier.type === 'line') {
+        const line = layout.lineById.get(e.carrier.lineId);
+        const out = lines.get(e.carrier.lineId);
+        if (line && out) addProfileToLine(line, prof, 1, out);
+      } else {
+        const sec = secById.get(e.carrier.id);
+        const out = secShape.get(e.carrier.id);
+        if (!sec || !out) return;
+        const pseudo: BeamLine = {
+          id: sec.beam.id, gridLineId: '', label: sec.beam.id, runs: sec.runs, at: sec.at, nodes: [], widthMm: 0, specifiedDepthMm: null, wallThicknessMm: 0,
+          members: [{ index: 0, id: sec.beam.id, startS: sec.from, endS: sec.to, lengthM: sec.lengthM, kind: 'simple' }],
+        };
+        addProfileToLine(pseudo, prof, 1, out);
+      }
+    });
+  }
+  const secondaries = new Map<string, { shape: BeamLoad[]; reactions: [number, number] }>();
+  for (const s of layout.secondaries) {
+    const shape = secShape.get(s.beam.id) as BeamLoad[];
+    const t = memberTerms(s.lengthM, shape);
+    secondaries.set(s.beam.id, { shape, reactions: [t.ra, t.rb] });
+    if (s.supports.length === 2) {
+      s.supports.forEach((sup, k) => {
+        const line = layout.lineById.get(sup.lineId);
+        const out = lines.get(sup.lineId);
+        if (line && out) pointOnLine(line, sup.s, k === 0 ? t.ra : t.rb, out);
+      });
+    }
+  }
+  return { lines, secondaries, panels };
+}
+
 export interface LevelInput {
   kind: 'floor' | 'roof';
   slabThicknessMm: number;
@@ -118,19 +169,18 @@ export interface LevelInput {
   liveKPa: number;
   wallLoadKNPerM: number;
   unitWeightKNm3: number;
-  oneWayAspect: number;
   /** depth assumed for self-weight per line id, mm */
   lineDepthMm: Map<string, number>;
   secondaryDepthMm: Map<string, number>;
   secondaryWidthMm: Map<string, number>;
 }
 
-/** Loads of one level on every beam line; kPa in, kN and kN/m out. */
-export function levelLoads(layout: Layout, inp: LevelInput): LevelLoads {
+/** Loads of one level: slab intensities (kPa) for the shapes, and the other dead loads (kN, kN/m) per line. */
+export function levelLoads(layout: Layout, shapes: SlabShapes, inp: LevelInput): LevelLoads {
   const t = inp.slabThicknessMm / 1000;
   const slabDead = t * inp.unitWeightKNm3 + inp.superimposedDeadKPa;
   const live = inp.liveKPa;
-  const lines = new Map<string, LineLoadSet>();
+  const extraDead = new Map<string, BeamLoad[]>();
   for (const l of layout.lines) {
     const dead: BeamLoad[] = [];
     const depth = inp.lineDepthMm.get(l.id) ?? 450;
@@ -140,38 +190,11 @@ export function levelLoads(layout: Layout, inp: LevelInput): LevelLoads {
       const w = sw + (m.kind === 'cantilever' ? 0 : wall);
       if (w > 0) dead.push({ kind: 'linear', member: m.index, fromM: 0, toM: m.lengthM, startKNPerM: w, endKNPerM: w });
     }
-    lines.set(l.id, { dead, live: [] });
+    extraDead.set(l.id, dead);
   }
-  const secProfiles = new Map<string, { dead: LinearLoad[]; live: LinearLoad[] }>();
-  const secById = new Map(layout.secondaries.map((s) => [s.beam.id, s]));
-  for (const s of layout.secondaries) secProfiles.set(s.beam.id, { dead: [], live: [] });
-
-  const panels: PanelLoad[] = [];
-  for (const p of layout.panels) {
-    const { twoWay, profiles } = panelEdgeProfiles(p, inp.oneWayAspect);
-    p.edges.forEach((e, k) => {
-      const prof = profiles[k];
-      if (prof.length === 0) return;
-      if (e.carrier.type === 'line') {
-        const line = layout.lineById.get(e.carrier.lineId);
-        const set = lines.get(e.carrier.lineId);
-        if (!line || !set) return;
-        addProfileToLine(line, prof, slabDead, set.dead);
-        addProfileToLine(line, prof, live, set.live);
-      } else {
-        const sec = secById.get(e.carrier.id);
-        const sp = secProfiles.get(e.carrier.id);
-        if (!sec || !sp) return;
-        const pseudo: BeamLine = {
-          id: sec.beam.id, gridLineId: '', label: sec.beam.id, runs: sec.runs, at: sec.at, nodes: [], widthMm: 0, specifiedDepthMm: null, wallThicknessMm: 0,
-          members: [{ index: 0, id: sec.beam.id, startS: sec.from, endS: sec.to, lengthM: sec.lengthM, kind: 'simple' }],
-        };
-        addProfileToLine(pseudo, prof, slabDead, sp.dead as BeamLoad[]);
-        addProfileToLine(pseudo, prof, live, sp.live as BeamLoad[]);
-      }
-    });
+  const panels: PanelLoad[] = shapes.panels.map(({ panel: p, twoWay }) => {
     const w = slabDead + live;
-    panels.push({
+    return {
       id: p.id,
       lxM: p.lx,
       lyM: p.ly,
@@ -180,29 +203,25 @@ export function levelLoads(layout: Layout, inp: LevelInput): LevelLoads {
       deadKPa: slabDead,
       liveKPa: live,
       equivalent: twoWay ? twoWayEquivalentLoads(w, p.lx, p.ly) : { longBeamKNPerM: (w * p.lx) / 2 },
-    });
-  }
-
+    };
+  });
   const secondaries: SecondaryLoad[] = [];
   for (const s of layout.secondaries) {
-    const sp = secProfiles.get(s.beam.id)!;
+    const sh = shapes.secondaries.get(s.beam.id) as { shape: BeamLoad[]; reactions: [number, number] };
     const b = (s.beam.widthMm ?? inp.secondaryWidthMm.get(s.beam.id) ?? 230) / 1000;
     const d = (s.beam.depthMm ?? inp.secondaryDepthMm.get(s.beam.id) ?? 400) / 1000;
-    const sw = b * Math.max(d - t, 0) * inp.unitWeightKNm3 + (inp.kind === 'floor' && s.beam.carriesWall ? inp.wallLoadKNPerM : 0);
-    const dead: BeamLoad[] = [...sp.dead, { kind: 'linear', member: 0, fromM: 0, toM: s.lengthM, startKNPerM: sw, endKNPerM: sw }];
-    const liveL: BeamLoad[] = [...sp.live];
-    const td = memberTerms(s.lengthM, dead);
-    const tl = memberTerms(s.lengthM, liveL);
-    secondaries.push({ id: s.beam.id, lengthM: s.lengthM, dead, live: liveL, deadReactions: [td.ra, td.rb], liveReactions: [tl.ra, tl.rb] });
-    if (s.supports.length === 2) {
-      s.supports.forEach((sup, k) => {
+    const own = b * Math.max(d - t, 0) * inp.unitWeightKNm3 + (inp.kind === 'floor' && s.beam.carriesWall ? inp.wallLoadKNPerM : 0);
+    const ownR = (own * s.lengthM) / 2;
+    const deadReactions: [number, number] = [slabDead * sh.reactions[0] + ownR, slabDead * sh.reactions[1] + ownR];
+    const liveReactions: [number, number] = [live * sh.reactions[0], live * sh.reactions[1]];
+    secondaries.push({ id: s.beam.id, lengthM: s.lengthM, deadReactions, liveReactions });
+    if (s.supports.length === 2 && ownR > 0) {
+      s.supports.forEach((sup) => {
         const line = layout.lineById.get(sup.lineId);
-        const set = lines.get(sup.lineId);
-        if (!line || !set) return;
-        pointOnLine(line, sup.s, k === 0 ? td.ra : td.rb, set.dead);
-        pointOnLine(line, sup.s, k === 0 ? tl.ra : tl.rb, set.live);
+        const out = extraDead.get(sup.lineId);
+        if (line && out) pointOnLine(line, sup.s, ownR, out);
       });
     }
   }
-  return { kind: inp.kind, slabDeadKPa: slabDead, liveKPa: live, lines, secondaries, panels };
+  return { kind: inp.kind, slabDeadKPa: slabDead, liveKPa: live, extraDead, secondaries, panels };
 }

@@ -19,25 +19,26 @@ export interface SlabSize {
 /** Counts neighbouring panels across x and across y for each panel (edges that share a length). */
 function neighbourCounts(all: Panel[]): Map<Panel, { x: number; y: number }> {
   // panel edges grouped by the coordinate of the line they lie on
-  const vert = new Map<string, Panel[]>();
-  const horiz = new Map<string, Panel[]>();
-  const push = (m: Map<string, Panel[]>, k: string, p: Panel) => {
+  const vert = new Map<number, Panel[]>();
+  const horiz = new Map<number, Panel[]>();
+  const key = (v: number) => Math.round(v * 1000);
+  const push = (m: Map<number, Panel[]>, k: number, p: Panel) => {
     const l = m.get(k);
     if (l) l.push(p);
     else m.set(k, [p]);
   };
   for (const p of all) {
-    push(vert, p.x1.toFixed(3), p);
-    push(vert, p.x2.toFixed(3), p);
-    push(horiz, p.y1.toFixed(3), p);
-    push(horiz, p.y2.toFixed(3), p);
+    push(vert, key(p.x1), p);
+    push(vert, key(p.x2), p);
+    push(horiz, key(p.y1), p);
+    push(horiz, key(p.y2), p);
   }
   const overlaps = (a1: number, a2: number, b1: number, b2: number) => Math.min(a2, b2) - Math.max(a1, b1) > 1e-6;
   const out = new Map<Panel, { x: number; y: number }>();
   for (const p of all) {
     let x = 0, y = 0;
-    for (const xv of [p.x1, p.x2]) if ((vert.get(xv.toFixed(3)) ?? []).some((q) => q !== p && overlaps(p.y1, p.y2, q.y1, q.y2) && (q.x2 <= p.x1 + 1e-6 || q.x1 >= p.x2 - 1e-6))) x++;
-    for (const yv of [p.y1, p.y2]) if ((horiz.get(yv.toFixed(3)) ?? []).some((q) => q !== p && overlaps(p.x1, p.x2, q.x1, q.x2) && (q.y2 <= p.y1 + 1e-6 || q.y1 >= p.y2 - 1e-6))) y++;
+    for (const xv of [p.x1, p.x2]) if ((vert.get(key(xv)) ?? []).some((q) => q !== p && overlaps(p.y1, p.y2, q.y1, q.y2) && (q.x2 <= p.x1 + 1e-6 || q.x1 >= p.x2 - 1e-6))) x++;
+    for (const yv of [p.y1, p.y2]) if ((horiz.get(key(yv)) ?? []).some((q) => q !== p && overlaps(p.x1, p.x2, q.x1, q.x2) && (q.y2 <= p.y1 + 1e-6 || q.y1 >= p.y2 - 1e-6))) y++;
     out.set(p, { x, y });
   }
   return out;
