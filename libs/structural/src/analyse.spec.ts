@@ -78,7 +78,7 @@ describe('analyseScheme', () => {
     expect(ratio).toBeLessThan(1.15);
   });
 
-  it('a mirror-image layout gives mirror-image column loads (fast-check)', () => {
+  it('random layouts: the columns carry the applied load, and a mirror-image layout gives mirror-image column loads (fast-check)', () => {
     fc.assert(
       fc.property(
         fc.array(fc.double({ min: 3, max: 8, noNaN: true }), { minLength: 1, maxLength: 3 }),
@@ -96,6 +96,12 @@ describe('analyseScheme', () => {
           m.grid[xs.length].overhangStartM = over > 0.5 ? over : undefined;
           const ra = base(analyseScheme(a));
           const rm = base(analyseScheme(m));
+          // statics: the columns carry everything applied (slab, beams including any cantilever, columns)
+          const cant = over > 0.5 ? over : 0;
+          const beamLen = xs.length * (ys[ys.length - 1] - ys[0]) + ys.length * W + cant;
+          const applied = W * (ys[ys.length - 1] - ys[0]) * (0.15 * 25 + 1) + beamLen * 0.25 * 0.35 * 25 + xs.length * ys.length * 0.4 * 0.4 * 3.2 * 25;
+          const carried = [...ra.values()].reduce((s, c) => s + c.deadKN, 0);
+          expect(Math.abs(carried - applied)).toBeLessThan(1e-6 * applied);
           const n = xs.length;
           for (let i = 0; i < n; i++)
             for (let j = 0; j < ys.length; j++) {

@@ -4,7 +4,8 @@
 
 /** Rounds up to a multiple of step (m), guarding against floating-point noise. */
 export function roundUp(v: number, step: number): number {
-  return Math.ceil(v / step - 1e-9) * step;
+  // the final rounding keeps 2.4 from printing as 2.4000000000000004
+  return Math.round(Math.ceil(v / step - 1e-9) * step * 1e9) / 1e9;
 }
 
 export interface IsolatedFooting {
