@@ -1,0 +1,2 @@
+export { createJobs, DEFAULT_MAIL_RETRY, MAIL_QUEUE } from './jobs';
+export type { Jobs, JobsOptions, MailJob, MailRequest, RetryPolicy } from './jobs';
