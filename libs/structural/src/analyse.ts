@@ -4,7 +4,7 @@ import type { BeamModel, Support } from './beam';
 import { prepareBeam, PreparedBeam } from './beam';
 import { check, Check, columnSpacingChecks, columnWallChecks, pointLoadChecks, RULES, spanChecks, stairChecks } from './checks';
 import { CAUTION, codeDefaults, Combination, concreteModulusMPa, beamDepthRule, Limits, resolveLimits } from './codes';
-import { envelopeParts, loadPart, LoadPart, MemberEnvelope } from './envelope';
+import { ArrangementCache, envelopeParts, loadPart, LoadPart, MemberEnvelope } from './envelope';
 import { isolatedFooting, IsolatedFooting, roundUp } from './footings';
 import { BeamLine, columnPlan, deriveLayout, Layout, SpanKind } from './layout';
 import { levelLoads, LevelLoads, PanelLoad, SecondaryLoad, slabShapes } from './loads';
@@ -192,6 +192,7 @@ export function analyseScheme(scheme: Scheme): SchemeResult {
   }
   // the slab's share of each line, reduced once and scaled per level
   const shapeParts = new Map<string, LoadPart>();
+  const arrangementCache: ArrangementCache = new Map();
   for (const l of layout.lines) {
     const p = prepared.get(l.id) as PreparedBeam;
     if (p.ok) shapeParts.set(l.id, loadPart(p, shapes.lines.get(l.id) ?? []));
@@ -218,7 +219,7 @@ export function analyseScheme(scheme: Scheme): SchemeResult {
       }
       const shape = shapeParts.get(l.id) as LoadPart;
       const extra = loadPart(p, lv.extraDead.get(l.id) ?? []);
-      const env = envelopeParts(p, [[shape, lv.slabDeadKPa], [extra, 1]], [[shape, lv.liveKPa]], combos);
+      const env = envelopeParts(p, [[shape, lv.slabDeadKPa], [extra, 1]], [[shape, lv.liveKPa]], combos, arrangementCache);
       l.nodes.forEach((n, i) => {
         if (n.columnId) addR(n.columnId, k.kind, env.deadReactionsKN[i], env.liveReactionsKN[i]);
       });
@@ -233,7 +234,20 @@ export function analyseScheme(scheme: Scheme): SchemeResult {
         level: k.kind,
         widthMm: l.widthMm,
         depthForSelfWeightMm: lineDepth.get(l.id) as number,
-        members: env.members.map((e, i) => ({ ...e, id: l.members[i].id, lengthM: l.members[i].lengthM, kind: l.members[i].kind })),
+        members: env.members.map((e, i) => ({
+          id: l.members[i].id,
+          lengthM: l.members[i].lengthM,
+          kind: l.members[i].kind,
+          maxMomentKNm: e.maxMomentKNm,
+          maxMomentAtM: e.maxMomentAtM,
+          maxPattern: e.maxPattern,
+          minMomentKNm: e.minMomentKNm,
+          minMomentAtM: e.minMomentAtM,
+          minPattern: e.minPattern,
+          maxShearKN: e.maxShearKN,
+          serviceDeflectionMm: e.serviceDeflectionMm,
+          serviceDeflectionAtM: e.serviceDeflectionAtM,
+        })),
         reactions: l.nodes.map((n, i) => ({ s: n.s, columnId: n.columnId, deadKN: env.deadReactionsKN[i], liveKN: env.liveReactionsKN[i], maxFactoredKN: env.maxFactoredReactionsKN[i] })),
         patternsTried: env.patternsTried,
       });
@@ -246,7 +260,11 @@ export function analyseScheme(scheme: Scheme): SchemeResult {
     for (const m of l.members) {
       const M = designMoment.get(m.id) ?? 0;
       const d = beamDepth(family, m.kind, m.lengthM, l.widthMm, M, fck, fy, cover);
-      beams.push({ memberId: m.id, lineId: l.id, spanM: m.lengthM, condition: m.kind, widthMm: l.widthMm, designMomentKNm: M, providedDepthMm: l.specifiedDepthMm, ...d });
+      beams.push({
+        memberId: m.id, lineId: l.id, spanM: m.lengthM, condition: m.kind, widthMm: l.widthMm,
+        fromSpanDepthMm: d.fromSpanDepthMm, spanDepthSource: d.spanDepthSource, designMomentKNm: M, fromMomentMm: d.fromMomentMm,
+        momentSource: d.momentSource, governs: d.governs, adoptedDepthMm: d.adoptedDepthMm, providedDepthMm: l.specifiedDepthMm,
+      });
     }
   }
 
@@ -305,14 +323,21 @@ export function analyseScheme(scheme: Scheme): SchemeResult {
     const base = columnRows[columnRows.length - N];
     const service = base.deadKN + base.liveKN;
     const f = isolatedFooting(service, b.bearingPressureKPa, limits.footingAllowance.value, base.factoredKN);
-    footingRows.push({ columnId: c.id, serviceKN: service, factoredKN: base.factoredKN, ...f });
+    footingRows.push({
+      columnId: c.id, serviceKN: service, factoredKN: base.factoredKN, areaM2: f.areaM2, sideM: f.sideM,
+      adoptedSideM: f.adoptedSideM, factoredPressureKPa: f.factoredPressureKPa, thicknessM: f.thicknessM,
+    });
     const plan = columnPlan(c);
     sites.push({ columnId: c.id, x: c.x, y: c.y, bx: plan.bx, by: plan.by, serviceKN: service, sideM: f.adoptedSideM });
   }
-  const ratio = (() => {
-    const tot = footingRows.reduce((a, f) => [a[0] + f.factoredKN, a[1] + f.serviceKN], [0, 0]);
-    return tot[1] > 0 ? tot[0] / tot[1] : 1.5;
-  })();
+  // overall load factor, to quote strap moments factored as well as at service
+  let sumFactored = 0;
+  let sumService = 0;
+  for (const f of footingRows) {
+    sumFactored += f.factoredKN;
+    sumService += f.serviceKN;
+  }
+  const ratio = sumService > 0 ? sumFactored / sumService : 1.5;
   const boundary = boundaryOptions(scheme.boundary, layout, sites, b.bearingPressureKPa, limits.footingAllowance.value, ratio);
   const combined = overlappingFootings(sites, limits.footingMinGapM.value, b.bearingPressureKPa, limits.footingAllowance.value);
 
@@ -376,7 +401,9 @@ export function analyseScheme(scheme: Scheme): SchemeResult {
   }
   for (const cs of colSizes) {
     for (const st of cs.storeys) {
-      const [w, d] = st.utilisation <= 1 ? [cs.providedMm[0] / 1000, cs.providedMm[1] / 1000] : [st.requiredSideMm / 1000, st.requiredSideMm / 1000];
+      const ok = st.utilisation <= 1;
+      const w = (ok ? cs.providedMm[0] : st.requiredSideMm) / 1000;
+      const d = (ok ? cs.providedMm[1] : st.requiredSideMm) / 1000;
       tally.add('columns', w * d * b.storeyHeightM, 2 * (w + d) * b.storeyHeightM);
     }
   }

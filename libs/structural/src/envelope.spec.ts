@@ -52,3 +52,36 @@ describe('envelope with patterned imposed load', () => {
     expect(p.find((x) => x.label === 'adjacent spans at support 1')?.members).toEqual([true, true, false, true]);
   });
 });
+
+describe('envelope from load parts', () => {
+  it('a shared imposed-load shape, scaled per level and cached between levels, gives the same envelope as the loads themselves', async () => {
+    const { envelopeParts, loadPart } = await import('./envelope');
+    const { prepareBeam } = await import('./beam');
+    const model = continuousBeam({ spansM: [4, 6, 5, 3], eiKNm2: 25000, rightCantileverM: 1.5 });
+    const shape: BeamLoad[] = [
+      { kind: 'linear', member: 0, fromM: 0, toM: 2, startKNPerM: 0, endKNPerM: 2 },
+      { kind: 'linear', member: 0, fromM: 2, toM: 4, startKNPerM: 2, endKNPerM: 0 },
+      { kind: 'linear', member: 1, fromM: 0, toM: 6, startKNPerM: 2.5, endKNPerM: 2.5 },
+      { kind: 'point', member: 2, atM: 2, forceKN: 6 },
+      { kind: 'linear', member: 4, fromM: 0, toM: 1.5, startKNPerM: 1, endKNPerM: 1 },
+    ];
+    const extra = [0, 1, 2, 3].map((i) => uniformLoad(i, 4, model.members[i].lengthM));
+    const scale = (ls: BeamLoad[], f: number): BeamLoad[] => ls.map((l) => (l.kind === 'point' ? { ...l, forceKN: l.forceKN * f } : { ...l, startKNPerM: l.startKNPerM * f, endKNPerM: l.endKNPerM * f }));
+    const p = prepareBeam(model);
+    const sp = loadPart(p, shape);
+    const cache = new Map();
+    const combos: Combination[] = [{ id: 'a', dead: 1.4, live: 0, source: 'x' }, { id: 'b', dead: 1.2, live: 1.6, source: 'x' }];
+    for (const [sd, l] of [[5, 3], [4, 1.5]]) {
+      const viaParts = envelopeParts(p, [[sp, sd], [loadPart(p, extra), 1]], [[sp, l]], combos, cache);
+      const direct = envelopeBeam(model, [...scale(shape, sd), ...extra], scale(shape, l), combos);
+      viaParts.members.forEach((m, i) => {
+        expect(m.maxMomentKNm).toBeCloseTo(direct.members[i].maxMomentKNm, 9);
+        expect(m.minMomentKNm).toBeCloseTo(direct.members[i].minMomentKNm, 9);
+        expect(m.maxShearKN).toBeCloseTo(direct.members[i].maxShearKN, 9);
+        expect(m.serviceDeflectionMm).toBeCloseTo(direct.members[i].serviceDeflectionMm, 9);
+      });
+      viaParts.maxFactoredReactionsKN.forEach((r, n) => expect(r).toBeCloseTo(direct.maxFactoredReactionsKN[n], 9));
+    }
+    expect(cache.size).toBe(1);
+  });
+});

@@ -216,6 +216,23 @@ export function envelopeBeam(
   return envelopeParts(p, [[loadPart(p, dead, nSeg), 1]], [[loadPart(p, live, nSeg), 1]], combos);
 }
 
+/** Solutions per unit factor of one imposed-load part, by arrangement index; shared between levels. */
+export type ArrangementCache = Map<LoadPart, Map<number, { em: Float64Array; r: Float64Array }>>;
+
+/** Vertical reactions (kN) at the nodes from packed terms and end moments; zero at free nodes. */
+function reactionsOf(model: BeamModel, lengths: Float64Array, T: Float64Array, em: Float64Array): Float64Array {
+  const nm = lengths.length;
+  const r = new Float64Array(nm + 1);
+  for (let n = 0; n <= nm; n++) {
+    if (model.supports[n] === 'free') continue;
+    let v = 0;
+    if (n > 0) v += T[4 * (n - 1) + 3] - (em[2 * n - 1] - em[2 * n - 2]) / lengths[n - 1];
+    if (n < nm) v += T[4 * n + 2] + (em[2 * n + 1] - em[2 * n]) / lengths[n];
+    r[n] = v;
+  }
+  return r;
+}
+
 /**
  * The envelope from load parts: dead = Σ factor × part, imposed likewise (parts from loadPart,
  * all with the same number of samples). Units as envelopeBeam.
@@ -225,6 +242,7 @@ export function envelopeParts(
   deadParts: readonly (readonly [LoadPart, number])[],
   liveParts: readonly (readonly [LoadPart, number])[],
   combos: readonly Combination[],
+  cache?: ArrangementCache,
 ): BeamEnvelope {
   const model = p.model;
   const nm = model.members.length;
@@ -244,9 +262,40 @@ export function envelopeParts(
   const patterns = arrangements(model);
   // arrangement of each scan, as (combination index, arrangement index); labels are made at the end
   const scans: [number, number][] = [];
+  const rhs = new Float64Array(p.nEq), u = new Float64Array(2 * (nm + 1));
+  // service solutions: dead on all spans, imposed on all spans
+  const sD = new Float64Array(2 * nm), uD = new Float64Array(2 * (nm + 1));
+  const sL = new Float64Array(2 * nm), uL = new Float64Array(2 * (nm + 1));
+  solvePacked(p, TD, rhs, uD, sD);
+  solvePacked(p, TL, rhs, uL, sL);
+  const rD = reactionsOf(model, lengths, TD, sD);
+  const rL = reactionsOf(model, lengths, TL, sL);
+  // Every arrangement is dead on all spans plus imposed on some: by superposition only the
+  // imposed part needs a solve, and that solve serves every combination. When the imposed load
+  // is one part times a factor, the solution per unit factor is cached for the next level too.
+  const single = liveParts.length === 1 ? liveParts[0] : null;
+  const scale = single ? single[1] : 1;
+  const shared = single && cache ? (cache.get(single[0]) ?? new Map<number, { em: Float64Array; r: Float64Array }>()) : null;
+  if (single && cache && shared) cache.set(single[0], shared);
+  const basis = single ? single[0].terms : TL;
   const T = new Float64Array(4 * nm);
-  const rhs = new Float64Array(p.nEq), u = new Float64Array(2 * (nm + 1)), endMoments = new Float64Array(2 * nm);
+  const em = new Float64Array(2 * nm);
   const loaded = new Uint8Array(nm);
+  const masked = new Map<number, { em: Float64Array; r: Float64Array }>();
+  const solveMasked = (pi: number) => {
+    const hit = shared?.get(pi) ?? masked.get(pi);
+    if (hit) return hit;
+    const pat = patterns[pi];
+    for (let i = 0; i < nm; i++) {
+      const on = isLoaded(pat, i);
+      for (let q = 4 * i; q < 4 * i + 4; q++) T[q] = on ? basis[q] : 0;
+    }
+    const e = new Float64Array(2 * nm);
+    solvePacked(p, T, rhs, u, e);
+    const out = { em: e, r: reactionsOf(model, lengths, T, e) };
+    (shared ?? masked).set(pi, out);
+    return out;
+  };
   for (let ci = 0; ci < combos.length; ci++) {
     const c = combos[ci];
     for (let pi = 0; pi < patterns.length; pi++) {
@@ -254,21 +303,20 @@ export function envelopeParts(
       if ((c.live === 0) !== (pat.kind === 'none')) continue;
       const id = scans.length;
       scans.push([ci, pi]);
-      for (let i = 0; i < nm; i++) {
-        const on = isLoaded(pat, i);
-        loaded[i] = on ? 1 : 0;
-        const gl = on ? c.live : 0;
-        for (let q = 4 * i; q < 4 * i + 4; q++) T[q] = c.dead * TD[q] + gl * TL[q];
+      const gl = c.live * scale;
+      if (pat.kind === 'none') {
+        for (let q = 0; q < 2 * nm; q++) em[q] = c.dead * sD[q];
+        for (let n = 0; n <= nm; n++) if (model.supports[n] !== 'free' && c.dead * rD[n] > maxR[n]) maxR[n] = c.dead * rD[n];
+      } else {
+        const ms = solveMasked(pi);
+        for (let q = 0; q < 2 * nm; q++) em[q] = c.dead * sD[q] + gl * ms.em[q];
+        for (let n = 0; n <= nm; n++) {
+          const r = c.dead * rD[n] + gl * ms.r[n];
+          if (model.supports[n] !== 'free' && r > maxR[n]) maxR[n] = r;
+        }
       }
-      solvePacked(p, T, rhs, u, endMoments);
-      // reactions: simply-supported reactions plus the end-moment couple of each member
-      for (let n = 0; n <= nm; n++) {
-        let r = 0;
-        if (n > 0) r += T[4 * (n - 1) + 3] - (endMoments[2 * n - 1] - endMoments[2 * n - 2]) / lengths[n - 1];
-        if (n < nm) r += T[4 * n + 2] + (endMoments[2 * n + 1] - endMoments[2 * n]) / lengths[n];
-        if (model.supports[n] !== 'free' && r > maxR[n]) maxR[n] = r;
-      }
-      scanArrangement(pat.kind === 'adjacent' ? pat.node - 1 : 0, pat.kind === 'adjacent' ? pat.node : nm - 1, nSeg, lengths, m0D, m0L, v0D, v0L, endMoments, c.dead, c.live, loaded, id, acc);
+      for (let i = 0; i < nm; i++) loaded[i] = isLoaded(pat, i) ? 1 : 0;
+      scanArrangement(pat.kind === 'adjacent' ? pat.node - 1 : 0, pat.kind === 'adjacent' ? pat.node : nm - 1, nSeg, lengths, m0D, m0L, v0D, v0L, em, c.dead, c.live, loaded, id, acc);
     }
   }
   const scanLabel = (id: number) => (scans[id] ? `${combos[scans[id][0]].id}, imposed on ${arrangementLabel(patterns[scans[id][1]])}` : '');
@@ -277,24 +325,6 @@ export function envelopeParts(
     minMomentKNm: acc[i * 7 + 3], minMomentAtM: acc[i * 7 + 4], minPattern: scanLabel(acc[i * 7 + 5]),
     maxShearKN: acc[i * 7 + 6], serviceDeflectionMm: 0, serviceDeflectionAtM: 0,
   }));
-  // service: dead and imposed on all spans
-  const sD = new Float64Array(2 * nm), uD = new Float64Array(2 * (nm + 1));
-  const sL = new Float64Array(2 * nm), uL = new Float64Array(2 * (nm + 1));
-  solvePacked(p, TD, rhs, uD, sD);
-  solvePacked(p, TL, rhs, uL, sL);
-  const rD = new Array<number>(nm + 1).fill(0);
-  const rL = new Array<number>(nm + 1).fill(0);
-  for (let n = 0; n <= nm; n++) {
-    if (model.supports[n] === 'free') continue;
-    if (n > 0) {
-      rD[n] += TD[4 * (n - 1) + 3] - (sD[2 * n - 1] - sD[2 * n - 2]) / lengths[n - 1];
-      rL[n] += TL[4 * (n - 1) + 3] - (sL[2 * n - 1] - sL[2 * n - 2]) / lengths[n - 1];
-    }
-    if (n < nm) {
-      rD[n] += TD[4 * n + 2] + (sD[2 * n + 1] - sD[2 * n]) / lengths[n];
-      rL[n] += TL[4 * n + 2] + (sL[2 * n + 1] - sL[2 * n]) / lengths[n];
-    }
-  }
   // service deflection: chord between the end deflections, plus each member's own loads and end
   // moments on a simple span
   for (let i = 0; i < nm; i++) {
@@ -314,5 +344,5 @@ export function envelopeParts(
       }
     }
   }
-  return { ok: true, members: env, deadReactionsKN: rD, liveReactionsKN: rL, maxFactoredReactionsKN: maxR, patternsTried: scans.length };
+  return { ok: true, members: env, deadReactionsKN: [...rD], liveReactionsKN: [...rL], maxFactoredReactionsKN: maxR, patternsTried: scans.length };
 }
