@@ -192,16 +192,95 @@ export function analyseScheme(scheme: Scheme): SchemeResult {
   }
   // the slab's share of each line, reduced once and scaled per level
   const shapeParts = new Map<string, LoadPart>();
-  const arrangementCache: ArrangementCache = new Map();
   for (const l of layout.lines) {
     const p = prepared.get(l.id) as PreparedBeam;
     if (p.ok) shapeParts.set(l.id, loadPart(p, shapes.lines.get(l.id) ?? []));
   }
 
   const checks: Check[] = [];
+  const { beamLines, colR, designMoment } = analyseLevels(layout, kinds, levels, prepared, shapeParts, lineDepth, combos, checks);
+
+  // beam sizes
+  const beams: BeamSize[] = [];
+  for (const l of layout.lines) {
+    for (const m of l.members) {
+      const M = designMoment.get(m.id) ?? 0;
+      const d = beamDepth(family, m.kind, m.lengthM, l.widthMm, M, fck, fy, cover);
+      beams.push({
+        memberId: m.id, lineId: l.id, spanM: m.lengthM, condition: m.kind, widthMm: l.widthMm,
+        fromSpanDepthMm: d.fromSpanDepthMm, spanDepthSource: d.spanDepthSource, designMomentKNm: M, fromMomentMm: d.fromMomentMm,
+        momentSource: d.momentSource, governs: d.governs, adoptedDepthMm: d.adoptedDepthMm, providedDepthMm: l.specifiedDepthMm,
+      });
+    }
+  }
+
+  // column loads storey by storey, and by tributary area as a cross-check
+  const { columnRows, colSizes, footingRows, sites } = columnPhase(scheme, layout, levels, colR, lineDepth, slabT, gamma, combos, limits);
+
+  // overall load factor, to quote strap moments factored as well as at service
+  let sumFactored = 0;
+  let sumService = 0;
+  for (const f of footingRows) {
+    sumFactored += f.factoredKN;
+    sumService += f.serviceKN;
+  }
+  const ratio = sumService > 0 ? sumFactored / sumService : 1.5;
+  const boundary = boundaryOptions(scheme.boundary, layout, sites, b.bearingPressureKPa, limits.footingAllowance.value, ratio);
+  const combined = overlappingFootings(sites, limits.footingMinGapM.value, b.bearingPressureKPa, limits.footingAllowance.value);
+
+  // checks
+  checks.push(...spanChecks(layout, limits), ...columnSpacingChecks(scheme, layout, limits), ...columnWallChecks(scheme, layout), ...pointLoadChecks(layout, limits), ...stairChecks(scheme, limits));
+  sizeChecks(checks, limits, b.storeyHeightM, slabT, slabPanels, beams, colSizes, boundary, combined);
+
+  // quantities
+  const { quantities, summary } = schemeQuantities(scheme, layout, slabT, beams, colSizes, footingRows, secDepth, secWidth, limits);
+  const cost = costOf(quantities, b.rates);
+
+  return {
+    caution: CAUTION,
+    ok: true,
+    problems: [],
+    schemeId: scheme.id,
+    schemeName: scheme.name,
+    codeFamily: family,
+    codeTitle: defaults.title,
+    limits,
+    combinations: combos,
+    checks,
+    loads: {
+      slabThicknessMm: slabT,
+      levels: kinds.map((k) => {
+        const lv = levels.get(k.kind) as LevelLoads;
+        return { kind: k.kind, count: k.count, slabDeadKPa: lv.slabDeadKPa, liveKPa: lv.liveKPa, panels: lv.panels, secondaries: lv.secondaries };
+      }),
+      columns: columnRows,
+    },
+    beamLines,
+    sizes: { slab: { adoptedMm: slabT, providedMm: b.slabThicknessMm ?? null, panels: slabPanels }, beams, columns: colSizes, footings: footingRows },
+    footings: { boundary, combined },
+    quantities,
+    cost,
+    summary,
+  };
+}
+
+type ColumnReactions = Map<string, Record<LevelKind, [number, number]>>;
+
+/** Envelope of every beam line on every distinct level; column reactions per level kind (kN). */
+function analyseLevels(
+  layout: Layout,
+  kinds: { kind: LevelKind; count: number }[],
+  levels: Map<LevelKind, LevelLoads>,
+  prepared: Map<string, PreparedBeam>,
+  shapeParts: Map<string, LoadPart>,
+  lineDepth: Map<string, number>,
+  combos: Combination[],
+  checks: Check[],
+): { beamLines: BeamLineResult[]; colR: ColumnReactions; designMoment: Map<string, number> } {
+  const arrangementCache: ArrangementCache = new Map();
   const beamLines: BeamLineResult[] = [];
   // column reactions per level kind: dead, live
-  const colR = new Map<string, Record<LevelKind, [number, number]>>();
+  const colR: ColumnReactions = new Map();
   const addR = (id: string, kind: LevelKind, d: number, lv: number) => {
     const e = colR.get(id) ?? { floor: [0, 0], roof: [0, 0] };
     e[kind][0] += d;
@@ -254,21 +333,132 @@ export function analyseScheme(scheme: Scheme): SchemeResult {
     }
   }
 
-  // beam sizes
-  const beams: BeamSize[] = [];
-  for (const l of layout.lines) {
-    for (const m of l.members) {
-      const M = designMoment.get(m.id) ?? 0;
-      const d = beamDepth(family, m.kind, m.lengthM, l.widthMm, M, fck, fy, cover);
-      beams.push({
-        memberId: m.id, lineId: l.id, spanM: m.lengthM, condition: m.kind, widthMm: l.widthMm,
-        fromSpanDepthMm: d.fromSpanDepthMm, spanDepthSource: d.spanDepthSource, designMomentKNm: M, fromMomentMm: d.fromMomentMm,
-        momentSource: d.momentSource, governs: d.governs, adoptedDepthMm: d.adoptedDepthMm, providedDepthMm: l.specifiedDepthMm,
-      });
+  return { beamLines, colR, designMoment };
+}
+
+/** Checks on the sizes the engine derived: slab, beam depth and headroom, column steel and capacity, footings. */
+function sizeChecks(
+  checks: Check[],
+  limits: Limits,
+  storeyHeightM: number,
+  slabT: number,
+  slabPanels: SlabSize[],
+  beams: BeamSize[],
+  colSizes: SchemeResult['sizes']['columns'],
+  boundary: BoundaryOptions[],
+  combined: OverlapCombined[],
+): void {
+  const steel = limits.columnSteelRatio.value;
+  for (const p of slabPanels) {
+    const lim = { value: p.requiredMm, unit: 'mm', source: p.source, kind: p.kind };
+    checks.push(check(RULES.slabThickness, 'error', [p.panelId], `slab ${p.panelId} (${p.spanning}, ${p.lxM.toFixed(2)} × ${p.lyM.toFixed(2)} m): ${slabT} mm against ${p.requiredMm} mm needed`, slabT, lim, 'min'));
+  }
+  const headroom = limits.headroomUnderBeamMinM;
+  for (const bs of beams) {
+    const depth = bs.providedDepthMm ?? bs.adoptedDepthMm;
+    if (bs.providedDepthMm !== null) {
+      const lim = { value: bs.adoptedDepthMm, unit: 'mm', source: bs.governs === 'moment' ? bs.momentSource : bs.spanDepthSource, kind: 'code' as const };
+      checks.push(check(RULES.beamDepth, 'error', [bs.memberId], `${bs.memberId}: ${bs.providedDepthMm} mm deep against ${bs.adoptedDepthMm} mm needed (${bs.governs} governs)`, bs.providedDepthMm, lim, 'min'));
     }
+    const clear = storeyHeightM - depth / 1000;
+    checks.push(check(RULES.beamHeadroom, 'warning', [bs.memberId], `${bs.memberId}: ${clear.toFixed(2)} m clear under a ${depth} mm beam`, clear, headroom, 'min'));
+  }
+  checks.push(check(RULES.columnSteel, 'error', [], `assumed column steel ${(steel * 100).toFixed(2)} % (at least ${(limits.columnSteelRatioMin.value * 100).toFixed(1)} %)`, steel, limits.columnSteelRatioMin, 'min'));
+  checks.push(check(RULES.columnSteel, 'error', [], `assumed column steel ${(steel * 100).toFixed(2)} % (at most ${(limits.columnSteelRatioMax.value * 100).toFixed(1)} %)`, steel, limits.columnSteelRatioMax, 'max'));
+  for (const cs of colSizes) {
+    const g = cs.storeys[0];
+    const lim = { value: g.providedCapacityKN, unit: 'kN', source: g.source, kind: 'code' as const };
+    checks.push(check(RULES.columnCapacity, 'error', [cs.columnId], `column ${cs.columnId} (${cs.providedMm[0]} × ${cs.providedMm[1]} mm) carries ${g.factoredKN.toFixed(0)} kN in the lowest storey against ${g.providedCapacityKN.toFixed(0)} kN; ${g.requiredSideMm} mm square would do`, g.factoredKN, lim, 'max'));
+  }
+  for (const o of boundary) {
+    const lim = { value: o.distanceToLineM, unit: 'm', source: `property line ${o.propertyLine} (scheme)`, kind: 'project' as const };
+    checks.push({ ...check(RULES.footingLine, 'warning', [o.columnId], `the isolated footing of ${o.columnId} would cross property line ${o.propertyLine} by ${o.crossingM.toFixed(2)} m; see the footing options`, o.distanceToLineM + o.crossingM, lim, 'max'), status: 'fail' });
+  }
+  for (const o of combined) {
+    checks.push(check(RULES.footingOverlap, 'warning', [...o.columnIds], `the footings of ${o.columnIds.join(' and ')} ${o.gapM < 0 ? 'overlap' : 'leave ' + o.gapM.toFixed(2) + ' m'}; a combined footing ${o.lengthM.toFixed(1)} × ${o.adoptedWidthM.toFixed(1)} m serves both`, o.gapM, limits.footingMinGapM, 'min'));
   }
 
-  // column loads storey by storey, and by tributary area as a cross-check
+}
+
+/** Quantities by member type (m³, kg, m²) and the summary figures the comparison uses. */
+function schemeQuantities(
+  scheme: Scheme,
+  layout: Layout,
+  slabT: number,
+  beams: BeamSize[],
+  colSizes: SchemeResult['sizes']['columns'],
+  footingRows: SchemeResult['sizes']['footings'],
+  secDepth: Map<string, number>,
+  secWidth: Map<string, number>,
+  limits: Limits,
+): { quantities: Quantities; summary: SchemeResult['summary'] } {
+  const b = scheme.basis;
+  const N = b.storeys;
+  const tally = new QuantityTally();
+  const t = slabT / 1000;
+  const panelArea = layout.panels.reduce((a, p) => a + (p.x2 - p.x1) * (p.y2 - p.y1), 0);
+  tally.add('slabs', panelArea * t * N, panelArea * N);
+  const depthOf = new Map(beams.map((x) => [x.memberId, (x.providedDepthMm ?? x.adoptedDepthMm) / 1000]));
+  let beamLength = 0;
+  let longest = 0;
+  let deepest = 0;
+  let spans = 0;
+  for (const l of layout.lines) {
+    for (const m of l.members) {
+      const D = depthOf.get(m.id) as number;
+      const web = Math.max(D - t, 0);
+      tally.add('beams', (l.widthMm / 1000) * web * m.lengthM * N, (l.widthMm / 1000 + 2 * web) * m.lengthM * N);
+      beamLength += m.lengthM;
+      longest = Math.max(longest, m.lengthM);
+      deepest = Math.max(deepest, D * 1000);
+      spans++;
+    }
+  }
+  for (const s of layout.secondaries) {
+    const D = (secDepth.get(s.beam.id) as number) / 1000;
+    const B = (secWidth.get(s.beam.id) as number) / 1000;
+    tally.add('beams', B * Math.max(D - t, 0) * s.lengthM * N, (B + 2 * Math.max(D - t, 0)) * s.lengthM * N);
+    beamLength += s.lengthM;
+  }
+  for (const cs of colSizes) {
+    for (const st of cs.storeys) {
+      const ok = st.utilisation <= 1;
+      const w = (ok ? cs.providedMm[0] : st.requiredSideMm) / 1000;
+      const d = (ok ? cs.providedMm[1] : st.requiredSideMm) / 1000;
+      tally.add('columns', w * d * b.storeyHeightM, 2 * (w + d) * b.storeyHeightM);
+    }
+  }
+  for (const f of footingRows) tally.add('footings', f.adoptedSideM ** 2 * f.thicknessM, 4 * f.adoptedSideM * f.thicknessM);
+  for (const f of scheme.stairs) {
+    const R = f.riserMm / 1000, T = f.treadMm / 1000;
+    const incl = f.risers * Math.sqrt(R * R + T * T);
+    tally.add('stairs', f.widthM * (incl * 0.15 + (f.risers * R * T) / 2) * N, f.widthM * incl * N + f.risers * R * f.widthM * N);
+  }
+  const quantities = tally.finish(limits, [
+    'Reinforcement from typical kg/m³ ratios per member type (common practice), not a bar schedule.',
+    'Beam lengths are centre-line lengths; beam concrete below the slab only; stairs with a 150 mm waist (common practice).',
+    'Footings are priced as isolated pads; the boundary and combined options are listed for choice.',
+  ]);
+  return { quantities, summary: { columns: scheme.columns.length, beamSpans: spans, beamLengthM: beamLength, longestSpanM: longest, deepestBeamMm: deepest } };
+}
+
+/** Column loads per storey (kN), column sections, isolated footings, and the footing sites. */
+function columnPhase(
+  scheme: Scheme,
+  layout: Layout,
+  levels: Map<LevelKind, LevelLoads>,
+  colR: ColumnReactions,
+  lineDepth: Map<string, number>,
+  slabT: number,
+  gamma: number,
+  combos: Combination[],
+  limits: Limits,
+): { columnRows: ColumnLoadRow[]; colSizes: SchemeResult['sizes']['columns']; footingRows: SchemeResult['sizes']['footings']; sites: FootingSite[] } {
+  const b = scheme.basis;
+  const N = b.storeys;
+  const family = b.codeFamily;
+  const fck = b.concreteMPa;
+  const fy = b.steelMPa;
   const trib = tributaries(layout);
   const factored = (d: number, lv: number) => {
     let m = 0;
@@ -330,120 +520,5 @@ export function analyseScheme(scheme: Scheme): SchemeResult {
     const plan = columnPlan(c);
     sites.push({ columnId: c.id, x: c.x, y: c.y, bx: plan.bx, by: plan.by, serviceKN: service, sideM: f.adoptedSideM });
   }
-  // overall load factor, to quote strap moments factored as well as at service
-  let sumFactored = 0;
-  let sumService = 0;
-  for (const f of footingRows) {
-    sumFactored += f.factoredKN;
-    sumService += f.serviceKN;
-  }
-  const ratio = sumService > 0 ? sumFactored / sumService : 1.5;
-  const boundary = boundaryOptions(scheme.boundary, layout, sites, b.bearingPressureKPa, limits.footingAllowance.value, ratio);
-  const combined = overlappingFootings(sites, limits.footingMinGapM.value, b.bearingPressureKPa, limits.footingAllowance.value);
-
-  // checks
-  checks.push(...spanChecks(layout, limits), ...columnSpacingChecks(scheme, layout, limits), ...columnWallChecks(scheme, layout), ...pointLoadChecks(layout, limits), ...stairChecks(scheme, limits));
-  for (const p of slabPanels) {
-    const lim = { value: p.requiredMm, unit: 'mm', source: p.source, kind: p.kind };
-    checks.push(check(RULES.slabThickness, 'error', [p.panelId], `slab ${p.panelId} (${p.spanning}, ${p.lxM.toFixed(2)} × ${p.lyM.toFixed(2)} m): ${slabT} mm against ${p.requiredMm} mm needed`, slabT, lim, 'min'));
-  }
-  const headroom = limits.headroomUnderBeamMinM;
-  for (const bs of beams) {
-    const depth = bs.providedDepthMm ?? bs.adoptedDepthMm;
-    if (bs.providedDepthMm !== null) {
-      const lim = { value: bs.adoptedDepthMm, unit: 'mm', source: bs.governs === 'moment' ? bs.momentSource : bs.spanDepthSource, kind: 'code' as const };
-      checks.push(check(RULES.beamDepth, 'error', [bs.memberId], `${bs.memberId}: ${bs.providedDepthMm} mm deep against ${bs.adoptedDepthMm} mm needed (${bs.governs} governs)`, bs.providedDepthMm, lim, 'min'));
-    }
-    const clear = b.storeyHeightM - depth / 1000;
-    checks.push(check(RULES.beamHeadroom, 'warning', [bs.memberId], `${bs.memberId}: ${clear.toFixed(2)} m clear under a ${depth} mm beam`, clear, headroom, 'min'));
-  }
-  checks.push(check(RULES.columnSteel, 'error', [], `assumed column steel ${(steel * 100).toFixed(2)} % (at least ${(limits.columnSteelRatioMin.value * 100).toFixed(1)} %)`, steel, limits.columnSteelRatioMin, 'min'));
-  checks.push(check(RULES.columnSteel, 'error', [], `assumed column steel ${(steel * 100).toFixed(2)} % (at most ${(limits.columnSteelRatioMax.value * 100).toFixed(1)} %)`, steel, limits.columnSteelRatioMax, 'max'));
-  for (const cs of colSizes) {
-    const g = cs.storeys[0];
-    const lim = { value: g.providedCapacityKN, unit: 'kN', source: g.source, kind: 'code' as const };
-    checks.push(check(RULES.columnCapacity, 'error', [cs.columnId], `column ${cs.columnId} (${cs.providedMm[0]} × ${cs.providedMm[1]} mm) carries ${g.factoredKN.toFixed(0)} kN in the lowest storey against ${g.providedCapacityKN.toFixed(0)} kN; ${g.requiredSideMm} mm square would do`, g.factoredKN, lim, 'max'));
-  }
-  for (const o of boundary) {
-    const lim = { value: o.distanceToLineM, unit: 'm', source: `property line ${o.propertyLine} (scheme)`, kind: 'project' as const };
-    checks.push({ ...check(RULES.footingLine, 'warning', [o.columnId], `the isolated footing of ${o.columnId} would cross property line ${o.propertyLine} by ${o.crossingM.toFixed(2)} m; see the footing options`, o.distanceToLineM + o.crossingM, lim, 'max'), status: 'fail' });
-  }
-  for (const o of combined) {
-    checks.push(check(RULES.footingOverlap, 'warning', [...o.columnIds], `the footings of ${o.columnIds.join(' and ')} ${o.gapM < 0 ? 'overlap' : 'leave ' + o.gapM.toFixed(2) + ' m'}; a combined footing ${o.lengthM.toFixed(1)} × ${o.adoptedWidthM.toFixed(1)} m serves both`, o.gapM, limits.footingMinGapM, 'min'));
-  }
-
-  // quantities
-  const tally = new QuantityTally();
-  const t = slabT / 1000;
-  const panelArea = layout.panels.reduce((a, p) => a + (p.x2 - p.x1) * (p.y2 - p.y1), 0);
-  tally.add('slabs', panelArea * t * N, panelArea * N);
-  const depthOf = new Map(beams.map((x) => [x.memberId, (x.providedDepthMm ?? x.adoptedDepthMm) / 1000]));
-  let beamLength = 0;
-  let longest = 0;
-  let deepest = 0;
-  let spans = 0;
-  for (const l of layout.lines) {
-    for (const m of l.members) {
-      const D = depthOf.get(m.id) as number;
-      const web = Math.max(D - t, 0);
-      tally.add('beams', (l.widthMm / 1000) * web * m.lengthM * N, (l.widthMm / 1000 + 2 * web) * m.lengthM * N);
-      beamLength += m.lengthM;
-      longest = Math.max(longest, m.lengthM);
-      deepest = Math.max(deepest, D * 1000);
-      spans++;
-    }
-  }
-  for (const s of layout.secondaries) {
-    const D = (secDepth.get(s.beam.id) as number) / 1000;
-    const B = (secWidth.get(s.beam.id) as number) / 1000;
-    tally.add('beams', B * Math.max(D - t, 0) * s.lengthM * N, (B + 2 * Math.max(D - t, 0)) * s.lengthM * N);
-    beamLength += s.lengthM;
-  }
-  for (const cs of colSizes) {
-    for (const st of cs.storeys) {
-      const ok = st.utilisation <= 1;
-      const w = (ok ? cs.providedMm[0] : st.requiredSideMm) / 1000;
-      const d = (ok ? cs.providedMm[1] : st.requiredSideMm) / 1000;
-      tally.add('columns', w * d * b.storeyHeightM, 2 * (w + d) * b.storeyHeightM);
-    }
-  }
-  for (const f of footingRows) tally.add('footings', f.adoptedSideM ** 2 * f.thicknessM, 4 * f.adoptedSideM * f.thicknessM);
-  for (const f of scheme.stairs) {
-    const R = f.riserMm / 1000, T = f.treadMm / 1000;
-    const incl = f.risers * Math.hypot(R, T);
-    tally.add('stairs', f.widthM * (incl * 0.15 + (f.risers * R * T) / 2) * N, f.widthM * incl * N + f.risers * R * f.widthM * N);
-  }
-  const quantities = tally.finish(limits, [
-    'Reinforcement from typical kg/m³ ratios per member type (common practice), not a bar schedule.',
-    'Beam lengths are centre-line lengths; beam concrete below the slab only; stairs with a 150 mm waist (common practice).',
-    'Footings are priced as isolated pads; the boundary and combined options are listed for choice.',
-  ]);
-  const cost = costOf(quantities, b.rates);
-
-  return {
-    caution: CAUTION,
-    ok: true,
-    problems: [],
-    schemeId: scheme.id,
-    schemeName: scheme.name,
-    codeFamily: family,
-    codeTitle: defaults.title,
-    limits,
-    combinations: combos,
-    checks,
-    loads: {
-      slabThicknessMm: slabT,
-      levels: kinds.map((k) => {
-        const lv = levels.get(k.kind) as LevelLoads;
-        return { kind: k.kind, count: k.count, slabDeadKPa: lv.slabDeadKPa, liveKPa: lv.liveKPa, panels: lv.panels, secondaries: lv.secondaries };
-      }),
-      columns: columnRows,
-    },
-    beamLines,
-    sizes: { slab: { adoptedMm: slabT, providedMm: b.slabThicknessMm ?? null, panels: slabPanels }, beams, columns: colSizes, footings: footingRows },
-    footings: { boundary, combined },
-    quantities,
-    cost,
-    summary: { columns: scheme.columns.length, beamSpans: spans, beamLengthM: beamLength, longestSpanM: longest, deepestBeamMm: deepest },
-  };
+  return { columnRows, colSizes, footingRows, sites };
 }

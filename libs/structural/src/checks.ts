@@ -96,7 +96,9 @@ export function columnSpacingChecks(scheme: Scheme, layout: Layout, limits: Limi
   const lim = limits.columnMergeDistanceM;
   for (let i = 0; i < cs.length; i++) {
     for (let j = i + 1; j < cs.length && cs[j].x - cs[i].x < lim.value; j++) {
-      const d = Math.hypot(cs[j].x - cs[i].x, cs[j].y - cs[i].y);
+      const dx = cs[j].x - cs[i].x;
+      const dy = cs[j].y - cs[i].y;
+      const d = Math.sqrt(dx * dx + dy * dy);
       if (d < lim.value)
         out.push(check(RULES.columnMerge, 'warning', [cs[i].id, cs[j].id], `columns ${cs[i].id} and ${cs[j].id} are ${r2(d)} m apart: one column at (${r2((cs[i].x + cs[j].x) / 2)}, ${r2((cs[i].y + cs[j].y) / 2)}) could serve both`, d, lim, 'min'));
     }

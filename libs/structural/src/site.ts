@@ -143,7 +143,7 @@ export function overlappingFootings(sites: FootingSite[], minGapM: number, qaKPa
       const half = (a.sideM + b.sideM) / 2;
       const gap = Math.max(Math.abs(b.x - a.x) - half, Math.abs(b.y - a.y) - half);
       if (gap >= minGapM) continue;
-      const s = Math.hypot(b.x - a.x, b.y - a.y);
+      const s = Math.sqrt((b.x - a.x) ** 2 + (b.y - a.y) ** 2);
       const xbar = (b.serviceKN * s) / (a.serviceKN + b.serviceKN);
       const halfL = Math.max(xbar + a.sideM / 2, s - xbar + b.sideM / 2);
       const lengthM = roundUp(2 * halfL, 0.1);
