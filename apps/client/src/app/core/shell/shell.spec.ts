@@ -28,18 +28,26 @@ describe('Shell', () => {
   const navItems = () =>
     Array.from(el().querySelectorAll<HTMLAnchorElement>('nav[aria-label="Main"] a')).map((a) => [
       a.getAttribute('data-testid'),
-      a.querySelector('[matListItemTitle]')?.textContent?.trim(),
+      a.querySelector('.nav-title')?.textContent?.trim(),
       a.getAttribute('href'),
     ]);
 
   /** Starts the shell with /api/me answering as given. */
-  async function start(me: Me | 'anonymous'): Promise<void> {
+  async function start(me: Me | 'anonymous', outbox: 'absent' | 'present' = 'absent'): Promise<void> {
     const loaded = TestBed.inject(Session).load();
     const req = backend.expectOne('/api/me');
     if (me === 'anonymous') req.flush({ error: { code: 'unauthenticated', message: 'Sign in first.' } }, { status: 401, statusText: 'Unauthorized' });
     else req.flush(me);
     await loaded;
     fixture = TestBed.createComponent(Shell);
+    // Not whenStable yet: the outbox question is a pending task until it is answered.
+    fixture.detectChanges();
+    TestBed.tick();
+    // Only the principal asks whether the server keeps a development outbox.
+    for (const probe of backend.match('/api/dev/outbox')) {
+      if (outbox === 'present') probe.flush([]);
+      else probe.flush({ error: { code: 'not_found', message: 'Not found.' } }, { status: 404, statusText: 'Not Found' });
+    }
     await fixture.whenStable();
   }
 
@@ -125,6 +133,21 @@ describe('Shell', () => {
   });
   });
 
+  describe('for a principal where the server keeps mail in its local fake', () => {
+    beforeEach(() => start(grantedMe('principal', 'Aster Pellow'), 'present'));
+
+    it('adds the development Outbox before System status', () => {
+      expect(navItems()).toEqual([
+        ['nav-projects', 'Projects', '/projects'],
+        ['nav-drawings', 'Drawings', '/drawings'],
+        ['nav-fees', 'Fees', '/fees'],
+        ['nav-people', 'People', '/people'],
+        ['nav-outbox', 'Outbox', '/dev/outbox'],
+        ['nav-status', 'System status', '/status'],
+      ]);
+    });
+  });
+
   describe('for an engineer', () => {
     beforeEach(() => start(grantedMe('engineer', 'Cato Brennagh')));
 
@@ -135,6 +158,8 @@ describe('Shell', () => {
         ['nav-status', 'System status', '/status'],
       ]);
       expect(el().querySelector('[data-testid="user-role"]')?.textContent).toBe('Engineer');
+      // Nobody but the principal asks for the outbox at all.
+      backend.expectNone('/api/dev/outbox');
     });
   });
 

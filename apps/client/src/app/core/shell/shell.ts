@@ -1,9 +1,9 @@
 import { BreakpointObserver } from '@angular/cdk/layout';
+import { httpResource } from '@angular/common/http';
 import { ChangeDetectionStrategy, Component, ElementRef, computed, inject, signal, viewChild } from '@angular/core';
 import { toSignal } from '@angular/core/rxjs-interop';
 import { MatIconButton } from '@angular/material/button';
 import { MatIcon } from '@angular/material/icon';
-import { MatListItem, MatListItemIcon, MatListItemLine, MatListItemTitle, MatNavList } from '@angular/material/list';
 import { MatSidenav, MatSidenavContainer, MatSidenavContent } from '@angular/material/sidenav';
 import { MatToolbar } from '@angular/material/toolbar';
 import { Router, RouterLink, RouterLinkActive, RouterOutlet } from '@angular/router';
@@ -22,6 +22,8 @@ export interface NavLink {
 
 const STATUS_LINK: NavLink = { id: 'status', path: '/status', label: 'System status', hint: 'Server and database', icon: 'monitor_heart' };
 const PROJECTS: NavLink = { id: 'projects', path: '/projects', label: 'Projects', hint: 'Buildings, stages, schemes', icon: 'apartment' };
+/** Only when the server runs with the local mail fake; see `Shell.links`. */
+export const OUTBOX_LINK: NavLink = { id: 'outbox', path: '/dev/outbox', label: 'Outbox', hint: 'Mail kept by the local fake', icon: 'outgoing_mail' };
 const DRAWINGS: NavLink = { id: 'drawings', path: '/drawings', label: 'Drawings', hint: 'Revisions and transmittals', icon: 'architecture' };
 
 /**
@@ -57,11 +59,6 @@ export const NARROW_QUERY = '(max-width: 839.98px)';
     MatSidenavContainer,
     MatSidenav,
     MatSidenavContent,
-    MatNavList,
-    MatListItem,
-    MatListItemIcon,
-    MatListItemTitle,
-    MatListItemLine,
     RouterLink,
     RouterLinkActive,
     RouterOutlet,
@@ -90,10 +87,18 @@ export class Shell {
   protected readonly session = inject(Session);
   private readonly router = inject(Router);
 
+  /**
+   * The development outbox exists only where the server keeps mail in its local fake; anywhere else
+   * it answers 404, and the link stays away. Only the principal may read it.
+   */
+  private readonly outbox = httpResource<unknown>(() => (this.session.isPrincipal() ? '/api/dev/outbox' : undefined));
+
   /** Signed-out visitors see only what is public. */
   protected readonly links = computed<readonly NavLink[]>(() => {
     const role = this.session.role();
-    return role ? NAV_BY_ROLE[role] : [STATUS_LINK];
+    if (!role) return [STATUS_LINK];
+    const links = NAV_BY_ROLE[role];
+    return role === 'principal' && this.outbox.hasValue() ? [...links.slice(0, -1), OUTBOX_LINK, ...links.slice(-1)] : links;
   });
 
   protected readonly anonymous = computed(() => this.session.state().status === 'anonymous');
