@@ -36,10 +36,18 @@ describe('analyseScheme', () => {
     expect(CAUTION).toMatch(/licensed structural engineer/);
     expect(compareSchemes(demoScheme(), demoSchemeVariant()).caution).toBe(CAUTION);
     expect(analyseScheme({} as Scheme).caution).toBe(CAUTION);
-    for (const c of r.checks) {
+    expect(r.checks.length).toBeGreaterThan(0);
+    for (const c of [...r.checks, ...r.passed.map((p) => p.tightest)]) {
       expect(c.ruleId).toMatch(/^[a-z]+\.[a-z0-9-]+$/);
       expect(c.source.length).toBeGreaterThan(3);
+      expect(c.limit).toEqual(expect.any(Number));
     }
+    expect(r.checks.every((c) => c.status === 'fail')).toBe(true);
+    // errors come first
+    const sev = r.checks.map((c) => ['error', 'warning', 'info'].indexOf(c.severity));
+    expect(sev).toEqual([...sev].sort((a, b) => a - b));
+    // 3 × 4 bays, one of them split by the secondary beam SB1
+    expect(r.passed.find((p) => p.ruleId === 'slab.thickness')!.count).toBe(13);
   });
 
   it('column loads from beam reactions add up to the load applied on the floor (statics)', () => {
@@ -139,9 +147,11 @@ describe('checks', () => {
   });
 
   it('a per-project override moves the limit and is marked as the project setting', () => {
-    const s = gridScheme([0, 7], [0, 4], { limitOverrides: { beamSpanSimpleMaxM: 7.5 } });
-    const c = analyseScheme(s).checks.filter((x) => x.ruleId === 'beam.span' && x.value === 7);
-    expect(c.every((x) => x.status === 'pass' && x.sourceKind === 'project')).toBe(true);
+    const r = analyseScheme(gridScheme([0, 7], [0, 4], { limitOverrides: { beamSpanSimpleMaxM: 7.5 } }));
+    expect(r.checks.filter((x) => x.ruleId === 'beam.span')).toEqual([]);
+    const p = r.passed.find((x) => x.ruleId === 'beam.span')!;
+    expect(p.count).toBe(4);
+    expect(p.tightest).toMatchObject({ status: 'pass', value: 7, limit: 7.5, sourceKind: 'project' });
   });
 
   it('flags two columns closer than the merge distance and suggests one column between them', () => {

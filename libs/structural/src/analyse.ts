@@ -2,7 +2,7 @@
 // storey by storey, footings against the site, checks, quantities and cost.
 import type { BeamModel, Support } from './beam';
 import { prepareBeam, PreparedBeam } from './beam';
-import { check, Check, columnSpacingChecks, columnWallChecks, pointLoadChecks, RULES, spanChecks, stairChecks } from './checks';
+import { check, Check, PassedRule, splitChecks, columnSpacingChecks, columnWallChecks, pointLoadChecks, RULES, spanChecks, stairChecks } from './checks';
 import { CAUTION, codeDefaults, Combination, concreteModulusMPa, beamDepthRule, Limits, resolveLimits } from './codes';
 import { ArrangementCache, envelopeParts, loadPart, LoadPart, MemberEnvelope } from './envelope';
 import { isolatedFooting, IsolatedFooting, roundUp } from './footings';
@@ -51,7 +51,10 @@ export interface SchemeResult {
   codeTitle: string;
   limits: Limits | null;
   combinations: Combination[];
+  /** checks that failed, in full (errors first) */
   checks: Check[];
+  /** checks that passed, per rule: how many and the one nearest its limit */
+  passed: PassedRule[];
   loads: {
     slabThicknessMm: number;
     levels: { kind: LevelKind; count: number; slabDeadKPa: number; liveKPa: number; panels: PanelLoad[]; secondaries: SecondaryLoad[] }[];
@@ -84,6 +87,7 @@ function emptyResult(scheme: unknown, problems: Problem[]): SchemeResult {
     limits: null,
     combinations: [],
     checks: [],
+    passed: [],
     loads: { slabThicknessMm: 0, levels: [], columns: [] },
     beamLines: [],
     sizes: { slab: { adoptedMm: 0, providedMm: null, panels: [] }, beams: [], columns: [], footings: [] },
@@ -236,6 +240,7 @@ export function analyseScheme(scheme: Scheme): SchemeResult {
   const { quantities, summary } = schemeQuantities(scheme, layout, slabT, beams, colSizes, footingRows, secDepth, secWidth, limits);
   const cost = costOf(quantities, b.rates);
 
+  const split = splitChecks(checks);
   return {
     caution: CAUTION,
     ok: true,
@@ -246,7 +251,8 @@ export function analyseScheme(scheme: Scheme): SchemeResult {
     codeTitle: defaults.title,
     limits,
     combinations: combos,
-    checks,
+    checks: split.failed,
+    passed: split.passed,
     loads: {
       slabThicknessMm: slabT,
       levels: kinds.map((k) => {

@@ -44,6 +44,38 @@ export const RULES = {
   footingOverlap: 'footing.overlap',
 } as const;
 
+/** The checks of one rule that passed: how many, and the one nearest its limit in full. */
+export interface PassedRule {
+  ruleId: string;
+  count: number;
+  tightest: Check;
+}
+
+/**
+ * Splits checks into the failures (kept in full, errors first) and a summary of the passes per
+ * rule, which is what a person needs from thousands of passing checks on a large scheme.
+ */
+export function splitChecks(all: Check[]): { failed: Check[]; passed: PassedRule[] } {
+  const failed: Check[] = [];
+  const passed = new Map<string, PassedRule>();
+  const margin = (c: Check) => (c.sense === 'max' ? c.limit - c.value : c.value - c.limit) / (Math.abs(c.limit) || 1);
+  for (const c of all) {
+    if (c.status === 'fail') {
+      failed.push(c);
+      continue;
+    }
+    const p = passed.get(c.ruleId);
+    if (!p) passed.set(c.ruleId, { ruleId: c.ruleId, count: 1, tightest: c });
+    else {
+      p.count++;
+      if (margin(c) < margin(p.tightest)) p.tightest = c;
+    }
+  }
+  const rank: Record<Severity, number> = { error: 0, warning: 1, info: 2 };
+  failed.sort((a, b) => rank[a.severity] - rank[b.severity]);
+  return { failed, passed: [...passed.values()] };
+}
+
 /** Builds a check against a limit; the message gets the verdict appended. */
 export function check(ruleId: string, severity: Severity, elements: string[], message: string, value: number, limit: Limit, sense: 'max' | 'min', limitValue = limit.value): Check {
   const ok = sense === 'max' ? value <= limitValue + 1e-9 : value >= limitValue - 1e-9;
