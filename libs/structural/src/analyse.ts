@@ -233,7 +233,9 @@ export function analyseScheme(scheme: Scheme): SchemeResult {
   const combined = overlappingFootings(sites, limits.footingMinGapM.value, b.bearingPressureKPa, limits.footingAllowance.value);
 
   // checks
-  checks.push(...spanChecks(layout, limits), ...columnSpacingChecks(scheme, layout, limits), ...columnWallChecks(scheme, layout), ...pointLoadChecks(layout, limits), ...stairChecks(scheme, limits));
+  for (const list of [spanChecks(layout, limits), columnSpacingChecks(scheme, layout, limits), columnWallChecks(scheme, layout), pointLoadChecks(layout, limits), stairChecks(scheme, limits)]) {
+    for (const c of list) checks.push(c);
+  }
   sizeChecks(checks, limits, b.storeyHeightM, slabT, slabPanels, beams, colSizes, boundary, combined);
 
   // quantities
