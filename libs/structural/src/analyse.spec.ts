@@ -177,6 +177,10 @@ describe('checks', () => {
     const r = analyseScheme(s);
     const live = r.loads.columns.filter((c) => c.storey === 1).reduce((a, c) => a + c.liveKN, 0);
     expect(live).toBeCloseTo(8 * 6 * 3, 6);
+    // dead: slab, the four primary beams, the secondary beam (350 mm deep by span/depth, IS 456 cl. 23.2.1: 6000/20 + 50), columns
+    const dead = r.loads.columns.filter((c) => c.storey === 1).reduce((a, c) => a + c.deadKN, 0);
+    const expected = 8 * 6 * (0.15 * 25 + 1) + 2 * (8 + 6) * 0.25 * 0.35 * 25 + 6 * 0.25 * (0.35 - 0.15) * 25 + 4 * 0.4 * 0.4 * 3.2 * 25;
+    expect(dead).toBeCloseTo(expected, 6);
   });
 
   it('flags a column wider than the wall it stands in', () => {
@@ -306,6 +310,11 @@ describe('validation', () => {
       }),
       { numRuns: 200 },
     );
+  });
+  it('reports two grid lines on the same coordinate', () => {
+    const s = demoScheme();
+    s.grid.push({ id: 'B2x', label: "B'", x: 4.42 });
+    expect(validateScheme(s)).toEqual([expect.objectContaining({ path: `grid[${s.grid.length - 1}].x`, elementId: 'B2x' })]);
   });
   it('reports duplicate ids and columns on the same spot', () => {
     const s = demoScheme();

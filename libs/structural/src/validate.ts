@@ -147,6 +147,20 @@ export function validateScheme(input: unknown): Problem[] {
     c.num(g, base, 'beamDepthMm', { gt: 0, optional: true }, id);
   });
 
+  // two grid lines on the same coordinate would make a bay of zero width
+  const seenAt = new Map<string, string>();
+  grid.forEach((g, i) => {
+    if (!isObj(g)) return;
+    const axis = g['x'] !== undefined ? 'x' : 'y';
+    const v = g[axis];
+    if (typeof v !== 'number' || !Number.isFinite(v) || (g['x'] !== undefined && g['y'] !== undefined)) return;
+    const key = `${axis}${Math.round(v * 20)}`;
+    const id = typeof g['id'] === 'string' ? g['id'] : undefined;
+    const other = seenAt.get(key);
+    if (other !== undefined) c.add(`grid[${i}].${axis}`, axis, `lies within 0.05 m of grid line ${other}`, id);
+    else seenAt.set(key, id ?? `#${i}`);
+  });
+
   const cols = c.arr(input, 'columns');
   uniqueIds(c, cols, 'columns');
   const pos: { id: string; x: number; y: number; i: number }[] = [];
