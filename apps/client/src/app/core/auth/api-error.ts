@@ -31,3 +31,13 @@ export function fieldErrors(err: unknown): Record<string, string> {
   }
   return out;
 }
+
+/** Field errors keyed by their path inside the body (`body.designBasis.concreteMPa` → `designBasis.concreteMPa`). */
+export function fieldErrorsByPath(err: unknown): Record<string, string> {
+  const out: Record<string, string> = {};
+  for (const [key, messages] of Object.entries(apiError(err)?.fields ?? {})) {
+    const path = key.replace(/^body\./, '');
+    if (messages.length && !(path in out)) out[path] = messages[0];
+  }
+  return out;
+}

@@ -1,0 +1,159 @@
+import { provideHttpClient } from '@angular/common/http';
+import { HttpTestingController, provideHttpClientTesting } from '@angular/common/http/testing';
+import { ComponentFixture, TestBed } from '@angular/core/testing';
+import { Router, provideRouter } from '@angular/router';
+import type { ProjectPage } from '@trabeate/contracts';
+import { ProjectFormPage } from './project-form-page';
+
+const ORG = { id: '00000000-0000-4000-8000-000000000101', name: 'Quillon Terrace Homes' };
+const PROJECT_ID = '00000000-0000-4000-8000-000000000301';
+
+describe('ProjectFormPage', () => {
+  let fixture: ComponentFixture<ProjectFormPage>;
+  let backend: HttpTestingController;
+  const el = () => fixture.nativeElement as HTMLElement;
+  const input = (name: string) => el().querySelector(`[data-testid="field-${name}"]`) as HTMLInputElement;
+  const type = async (name: string, value: string) => {
+    const i = input(name);
+    i.value = value;
+    i.dispatchEvent(new Event('input'));
+    await fixture.whenStable();
+  };
+  const errorBeside = (name: string) => input(name).closest('mat-form-field')?.querySelector('mat-error')?.textContent?.trim();
+  const settle = async () => {
+    await new Promise((r) => setTimeout(r));
+    await fixture.whenStable();
+  };
+
+  async function open(projectId?: string, project?: Partial<ProjectPage>): Promise<void> {
+    TestBed.configureTestingModule({
+      imports: [ProjectFormPage],
+      providers: [provideRouter([]), provideHttpClient(), provideHttpClientTesting()],
+    });
+    backend = TestBed.inject(HttpTestingController);
+    fixture = TestBed.createComponent(ProjectFormPage);
+    if (projectId) fixture.componentRef.setInput('projectId', projectId);
+    fixture.detectChanges();
+    TestBed.tick();
+    backend.expectOne('/api/client-organisations').flush([ORG]);
+    if (projectId) backend.expectOne(`/api/projects/${projectId}/full`).flush(project ?? {});
+    await settle();
+  }
+
+  /** Fills what a new project needs beyond the starting values. */
+  async function fillValid(): Promise<void> {
+    await type('reference', 'QTH-2026/04');
+    await type('name', 'Ferrow Lane apartments');
+    fixture.componentInstance['form'].controls.clientOrganisationId.setValue(ORG.id);
+    await fixture.whenStable();
+  }
+
+  afterEach(() => backend.verify());
+
+  it('checks the reference as it is typed, with the rule the server applies', async () => {
+    await open();
+    await type('reference', '-bad ref');
+    expect(errorBeside('reference')).toBe('Use letters, digits and . _ / - only, starting with a letter or digit.');
+    await type('reference', 'Q');
+    expect(errorBeside('reference')).toBe('Reference needs at least 2 characters.');
+    await type('reference', 'QTH-7');
+    expect(errorBeside('reference')).toBeUndefined();
+  });
+
+  it('holds design basis values to the contract’s limits, in their units', async () => {
+    await open();
+    await type('concreteMPa', '8');
+    expect(errorBeside('concreteMPa')).toBe('Concrete strength must be at least 10 MPa.');
+    await type('steelMPa', '900');
+    expect(errorBeside('steelMPa')).toBe('Reinforcement yield strength can be at most 700 MPa.');
+    await type('bearingPressureKPa', '0');
+    expect(errorBeside('bearingPressureKPa')).toBe('Allowable bearing pressure must be more than 0 kPa.');
+    await type('storeys', '2.5');
+    expect(errorBeside('storeys')).toBe('Storeys must be a whole number.');
+    await type('currency', 'eur');
+    expect(errorBeside('currency')).toBe('A three-letter currency code such as EUR.');
+  });
+
+  it('sends nothing while the form is invalid, and says what needs attention', async () => {
+    await open();
+    (el().querySelector('[data-testid="save-project"]') as HTMLButtonElement).click();
+    await fixture.whenStable();
+    backend.expectNone('/api/projects');
+    expect(el().querySelector('[data-testid="form-error"]')?.textContent).toContain('Some fields need attention');
+    expect(errorBeside('name')).toBe('Name is required.');
+  });
+
+  it('creates once however often Create is pressed, then opens the new project', async () => {
+    await open();
+    await fillValid();
+    const navigate = jest.spyOn(TestBed.inject(Router), 'navigate').mockResolvedValue(true);
+    const button = el().querySelector('[data-testid="save-project"]') as HTMLButtonElement;
+    button.click();
+    button.click();
+    await fixture.whenStable();
+    expect(button.disabled).toBe(true);
+    const req = backend.expectOne('/api/projects');
+    expect(req.request.method).toBe('POST');
+    expect(req.request.body).toMatchObject({
+      reference: 'QTH-2026/04',
+      name: 'Ferrow Lane apartments',
+      clientOrganisationId: ORG.id,
+      storeys: 4,
+      floorAreaM2: null,
+      currency: 'EUR',
+      designBasis: { codeFamily: 'EN1992', concreteMPa: 30, steelMPa: 500, bearingPressureKPa: 150 },
+    });
+    req.flush({ id: PROJECT_ID, reference: 'QTH-2026/04' });
+    await settle();
+    expect(navigate).toHaveBeenCalledWith(['/projects', PROJECT_ID]);
+  });
+
+  it('puts the server’s field messages beside the fields they concern, nested ones included', async () => {
+    await open();
+    await fillValid();
+    (el().querySelector('[data-testid="save-project"]') as HTMLButtonElement).click();
+    backend.expectOne('/api/projects').flush(
+      {
+        error: {
+          code: 'validation_failed',
+          message: 'Invalid body.reference: already used',
+          fields: { 'body.reference': ['Reference QTH-2026/04 is already used by another project.'], 'body.designBasis.concreteMPa': ['Too high for this code family.'] },
+        },
+      },
+      { status: 400, statusText: 'Bad Request' },
+    );
+    await settle();
+    expect(errorBeside('reference')).toBe('Reference QTH-2026/04 is already used by another project.');
+    expect(errorBeside('concreteMPa')).toBe('Too high for this code family.');
+    // Changing the value clears the server's complaint; the local rules take over again.
+    await type('reference', 'QTH-2026/05');
+    expect(errorBeside('reference')).toBeUndefined();
+  });
+
+  it('when editing, fills the form from the project and saves with PATCH', async () => {
+    const project: Partial<ProjectPage> = {
+      id: PROJECT_ID,
+      reference: 'QTH-1',
+      name: 'Block one',
+      clientOrganisation: ORG,
+      siteAddress: '4 Ferrow Lane',
+      buildingUse: 'Apartments',
+      storeys: 6,
+      storeyHeightM: 3.1,
+      floorAreaM2: 1800,
+      finance: { estimatedCost: 2_400_000, currency: 'GBP' },
+      designBasis: { codeFamily: 'IS456', concreteMPa: 25, steelMPa: 415, imposedKPa: 2, superimposedDeadKPa: 1, bearingPressureKPa: 200, foundingDepthM: 2 },
+    };
+    await open(PROJECT_ID, project);
+    expect(input('reference').value).toBe('QTH-1');
+    expect(input('concreteMPa').value).toBe('25');
+    await type('name', 'Block one, revised');
+    jest.spyOn(TestBed.inject(Router), 'navigate').mockResolvedValue(true);
+    (el().querySelector('[data-testid="save-project"]') as HTMLButtonElement).click();
+    const req = backend.expectOne(`/api/projects/${PROJECT_ID}`);
+    expect(req.request.method).toBe('PATCH');
+    expect(req.request.body).toMatchObject({ name: 'Block one, revised', currency: 'GBP', designBasis: { codeFamily: 'IS456', steelMPa: 415 } });
+    req.flush({});
+    await settle();
+  });
+});
