@@ -5,6 +5,8 @@ import { projectDetailSchema } from '@trabeate/contracts';
 import { DEMO } from '../../seeds/demo';
 import { hashToken } from '../../apps/server/src/people/people.service';
 import { testApp, type TestApp } from '../support/app';
+import { startFakeSmtp, tinyPdf } from '../support/fakes';
+import type { FakeSmtp } from '../../scripts/fakes/smtp';
 import { signIn, xsrfToken } from '../support/identity';
 
 // Each sign-in runs argon2 at the provider; with two workers a file's set-up takes a few seconds.
@@ -35,6 +37,9 @@ const KESTREL = DEMO.projects.kestrel.id;
 // People the mutating rows act on, so no row changes what another row sees.
 const SPARE = { patch: randomUUID(), remove: randomUUID(), member: randomUUID() };
 const INVITE_TOKEN = 'matrix-invitation-token-0123456789abcdef';
+// A second project of Fenwick's with the same team, for the rows that change a project's state.
+const SPARE_PROJECT = randomUUID();
+const SPARE_FILE = randomUUID();
 
 interface Entry {
   expect: Expected;
@@ -43,7 +48,14 @@ interface Entry {
   body?: (caller: CallerName) => object;
   /** Sign the caller in afresh for this row (the request ends the session). */
   freshSession?: boolean;
+  /** Sent as a multipart file in the field "file". */
+  attach?: (caller: CallerName) => { data: Buffer; name: string };
 }
+
+// Visible to the principal, the assigned engineer and the project's client; hidden from the others.
+const onProject = (principal: number, engineer: number, client: number): Expected => ({
+  anonymous: 401, principal, assignedEngineer: engineer, unassignedEngineer: 404, projectClient: client, otherClient: 404,
+});
 
 /** Every API route, keyed "METHOD /path" exactly as declared; a route missing here fails the test. */
 const MATRIX: Record<string, Entry> = {
@@ -64,6 +76,39 @@ const MATRIX: Record<string, Entry> = {
   'PATCH /people/:id': { path: `/people/${SPARE.patch}`, body: () => ({ displayName: 'Renamed' }), expect: principalOnly(200) },
   'DELETE /people/:id/access': { path: `/people/${SPARE.remove}/access`, expect: principalOnly(204) },
   'GET /projects': { path: '/projects', expect: signedIn(200) },
+  'POST /projects': {
+    path: '/projects',
+    body: (c) => ({
+      reference: `MX-${c}`, name: `Matrix ${c}`, clientOrganisationId: DEMO.clients.fenwick.id, storeys: 3, storeyHeightM: 3, currency: 'EUR',
+      designBasis: { codeFamily: 'EN1992', concreteMPa: 30, steelMPa: 500, imposedKPa: 2, superimposedDeadKPa: 1, bearingPressureKPa: 150, foundingDepthM: 1 },
+    }),
+    expect: principalOnly(201),
+  },
+  'GET /projects/:projectId/full': { path: `/projects/${KESTREL}/full`, expect: onProject(200, 200, 200) },
+  'PATCH /projects/:projectId': { path: `/projects/${SPARE_PROJECT}`, body: () => ({ siteAddress: '2 Matrix Lane' }), expect: onProject(200, 403, 403) },
+  'POST /projects/:projectId/archive': { path: `/projects/${SPARE_PROJECT}/archive`, expect: onProject(200, 403, 403) },
+  'POST /projects/:projectId/restore': { path: `/projects/${SPARE_PROJECT}/restore`, expect: onProject(200, 403, 403) },
+  'GET /projects/:projectId/stages': { path: `/projects/${KESTREL}/stages`, expect: onProject(200, 200, 200) },
+  'PATCH /projects/:projectId/stages/:stageKey': {
+    path: `/projects/${SPARE_PROJECT}/stages/stairs`, body: () => ({ dueDate: '2027-03-01' }), expect: onProject(200, 403, 403),
+  },
+  // Only the assigned engineer starts a stage: the principal passes the guard and is refused by the workflow.
+  'POST /projects/:projectId/stages/:stageKey/transitions': {
+    path: `/projects/${SPARE_PROJECT}/stages/design_basis/transitions`, body: () => ({ action: 'start' }), expect: onProject(403, 200, 403),
+  },
+  'GET /projects/:projectId/stages/:stageKey/comments': { path: `/projects/${KESTREL}/stages/column_layout/comments`, expect: onProject(200, 200, 200) },
+  'POST /projects/:projectId/stages/:stageKey/comments': {
+    path: `/projects/${SPARE_PROJECT}/stages/column_layout/comments`, body: (c) => ({ body: `Note from ${c}` }), expect: onProject(201, 201, 403),
+  },
+  'GET /projects/:projectId/stages/:stageKey/deliverables': { path: `/projects/${KESTREL}/stages/beam_framing/deliverables`, expect: onProject(200, 200, 200) },
+  'POST /projects/:projectId/stages/:stageKey/deliverables': {
+    path: `/projects/${SPARE_PROJECT}/stages/column_layout/deliverables`, attach: (c) => ({ data: tinyPdf(), name: `matrix-${c}.pdf` }), expect: onProject(201, 201, 403),
+  },
+  'GET /projects/:projectId/deliverables/:deliverableId/download': {
+    path: `/projects/${KESTREL}/deliverables/${SPARE_FILE}/download`, expect: onProject(200, 200, 200),
+  },
+  'GET /projects/:projectId/activity': { path: `/projects/${KESTREL}/activity`, expect: onProject(200, 200, 200) },
+  'GET /dev/outbox': { path: '/dev/outbox', expect: principalOnly(200) },
   'GET /projects/:projectId': {
     path: `/projects/${KESTREL}`,
     expect: { anonymous: 401, principal: 200, assignedEngineer: 200, unassignedEngineer: 404, projectClient: 200, otherClient: 404 },
@@ -92,8 +137,28 @@ describe('authorization matrix: every API route against every kind of caller', (
     return api;
   };
 
+  let smtp: FakeSmtp;
+
   beforeAll(async () => {
-    t = await testApp({ seed: true, identity: true });
+    smtp = await startFakeSmtp({ httpPort: 0 });
+    t = await testApp({ seed: true, identity: true, config: { DEV_OUTBOX_URL: `http://127.0.0.1:${smtp.httpPort}` } });
+    await t.db('projects').insert({
+      id: SPARE_PROJECT, firm_id: DEMO.firm.id, reference: 'SQ-MATRIX', name: 'Matrix annex', client_organisation_id: DEMO.clients.fenwick.id, storeys: 2,
+    });
+    await t.db('stages').insert(['design_basis', 'column_layout', 'beam_framing', 'slab_panels', 'stairs', 'foundations'].map((key, i) => ({
+      project_id: SPARE_PROJECT, key, position: i + 1, assignee_id: key === 'design_basis' ? DEMO.users.engineerA.id : null,
+    })));
+    await t.db('project_members').insert([
+      { project_id: SPARE_PROJECT, user_id: DEMO.users.engineerA.id },
+      { project_id: SPARE_PROJECT, user_id: DEMO.users.fenwickContact.id },
+    ]);
+    const { Readable } = await import('node:stream');
+    const pdf = tinyPdf();
+    await t.store.putStream(`matrix/${SPARE_FILE}.pdf`, Readable.from([pdf]), { contentType: 'application/pdf' });
+    await t.db('deliverables').insert({
+      id: SPARE_FILE, project_id: KESTREL, stage_key: 'beam_framing', file_name: 'Beam schedule.pdf', version: 1, object_key: `matrix/${SPARE_FILE}.pdf`,
+      size_bytes: pdf.length, sha256: '0'.repeat(64), content_type: 'application/pdf', detected_type: 'pdf', uploaded_by: DEMO.users.engineerA.id,
+    });
     await t.db('users').insert([
       { id: SPARE.patch, firm_id: DEMO.firm.id, email: 'spare.patch@sablequay.example', display_name: 'Spare One', firm_role: 'engineer' },
       { id: SPARE.remove, firm_id: DEMO.firm.id, email: 'spare.remove@sablequay.example', display_name: 'Spare Two', firm_role: 'engineer' },
@@ -104,7 +169,10 @@ describe('authorization matrix: every API route against every kind of caller', (
     });
     for (const name of Object.keys(CALLERS) as CallerName[]) agents[name] = await signedInAgent(name);
   });
-  afterAll(() => t.close());
+  afterAll(async () => {
+    await t.close();
+    await smtp.stop();
+  });
 
   it('has an entry for every declared route, and no entry for a route that does not exist', () => {
     const declared = (t.app.locals['routes'] as Array<{ method: string; path: string }>).map((r) => `${r.method.toUpperCase()} ${r.path}`);
@@ -122,6 +190,10 @@ describe('authorization matrix: every API route against every kind of caller', (
     if (method !== 'get' && caller !== 'anonymous') {
       await api.get('/api/me'); // as the client would have: it receives the XSRF-TOKEN cookie
       req = req.set('X-XSRF-TOKEN', xsrfToken(api));
+    }
+    if (entry.attach) {
+      const file = entry.attach(caller);
+      req = req.attach('file', file.data, { filename: file.name, contentType: 'application/pdf' });
     }
     const res = await (entry.body ? req.send(entry.body(caller)) : req);
     expect({ status: res.status, body: res.status >= 400 ? res.body : undefined }).toEqual(
@@ -145,7 +217,7 @@ describe('what each caller sees', () => {
   };
 
   it('lists only the projects each caller may see', async () => {
-    const ids = async (user: { email: string }) => ((await (await as(user)).get('/api/projects')).body as Array<{ id: string }>).map((p) => p.id).sort();
+    const ids = async (user: { email: string }) => ((await (await as(user)).get('/api/projects')).body.items as Array<{ id: string }>).map((p) => p.id).sort();
     expect(await ids(DEMO.users.principal)).toEqual([DEMO.projects.kestrel.id, DEMO.projects.alder.id].sort());
     expect(await ids(DEMO.users.engineerA)).toEqual([DEMO.projects.kestrel.id]);
     expect(await ids(DEMO.users.engineerB)).toEqual([DEMO.projects.alder.id]);

@@ -60,7 +60,7 @@ describe('people, invitations and access changes', () => {
     await ensureAccount(t.db, { email: 'Juno.Farrant@sablequay.example', name: 'Juno F.', password: DEMO_PASSWORD });
     const juno = await as('juno.farrant@sablequay.example');
     expect(meSchema.parse((await juno.get('/api/me')).body)).toMatchObject({ access: 'granted', user: { role: 'engineer', displayName: 'Juno Farrant' } });
-    expect(((await juno.get('/api/projects')).body as Array<{ id: string }>).map((p) => p.id)).toEqual([DEMO.projects.alder.id]);
+    expect(((await juno.get('/api/projects')).body.items as Array<{ id: string }>).map((p) => p.id)).toEqual([DEMO.projects.alder.id]);
     expect((await request(t.app).get(`/api/invitations/${token}`)).body.status).toBe('accepted');
   });
 

@@ -4,7 +4,12 @@ import { createApp, type AppDeps } from '../../apps/server/src/app';
 import { createLogger } from '../../apps/server/src/core/logger';
 import type { Db } from '../../apps/server/src/db/db';
 import { seedDemo } from '../../seeds/demo';
+import { createJobs, type Jobs, type RetryPolicy } from '../../apps/server/src/jobs';
+import { createMailTransport, mailConfigSchema } from '../../apps/server/src/mail';
+import type { ObjectStore } from '../../apps/server/src/storage';
+import type { FakeS3 } from '../../scripts/fakes/s3';
 import { freshDatabase } from './database';
+import { fakeObjectStore } from './fakes';
 import { startIdentity, TEST_CLIENT, TEST_PUBLIC_URL, type TestIdentity } from './identity';
 
 export interface TestApp {
@@ -12,19 +17,56 @@ export interface TestApp {
   db: Db;
   /** The local identity provider serving this file's database (when asked for). */
   identity?: TestIdentity;
+  /** The S3 fake (in this process) and the store the app writes deliverables to. */
+  s3: FakeS3;
+  store: ObjectStore;
+  /** The mail queue; its worker runs only when `mail` was given. */
+  jobs: Jobs;
   close: () => Promise<void>;
 }
+
+/** Short waits for tests; production uses DEFAULT_MAIL_RETRY (minutes, doubling). */
+export const TEST_MAIL_RETRY: RetryPolicy = { retryLimit: 5, retryDelay: 1, retryBackoff: false };
 
 /**
  * The real app on its own fresh database (optionally with the demo data), not listening. With
  * `identity`, the real local provider runs in-process and the app signs in against it.
  */
 export async function testApp(
-  opts: { seed?: boolean; identity?: boolean; config?: Partial<AppDeps['config']>; logger?: AppDeps['logger'] } = {},
+  opts: {
+    seed?: boolean;
+    identity?: boolean;
+    config?: Partial<AppDeps['config']>;
+    logger?: AppDeps['logger'];
+    /** Run the mail worker against an SMTP server on this loopback port. */
+    mail?: { smtpPort: number };
+  } = {},
 ): Promise<TestApp> {
-  const { db, drop } = await freshDatabase();
-  if (opts.seed) await seedDemo(db);
-  const identity = opts.identity ? await startIdentity(db) : undefined;
+  const { db, url, drop } = await freshDatabase();
+  const files = await fakeObjectStore();
+  const jobs = createJobs({
+    databaseUrl: url,
+    transport: opts.mail ? createMailTransport(mailConfigSchema.parse({ SMTP_PORT: String(opts.mail.smtpPort) })) : undefined,
+    mailFrom: 'Trabeate <notices@trabeate.invalid>',
+    retry: TEST_MAIL_RETRY,
+    pollingIntervalSeconds: 0.5,
+  });
+  let identity: TestIdentity | undefined;
+  const close = async () => {
+    await identity?.stop();
+    await jobs.stop();
+    await files.close();
+    await drop();
+  };
+  try {
+    await jobs.start();
+    if (opts.seed) await seedDemo(db);
+    identity = opts.identity ? await startIdentity(db) : undefined;
+  } catch (err) {
+    // pg-boss keeps timers running; a set-up that fails must not leave them to outlive the test file.
+    await close();
+    throw err;
+  }
   const logger = opts.logger ?? createLogger(process.env.TEST_LOG_LEVEL ?? 'silent');
   const config: AppDeps['config'] = {
     TRUST_PROXY: false,
@@ -36,14 +78,14 @@ export async function testApp(
       : {}),
     ...opts.config,
   };
-  const app = createApp({ config, db, logger });
+  const app = createApp({ config, db, logger, store: files.store, jobs });
   return {
     app,
     db,
     identity,
-    close: async () => {
-      await identity?.stop();
-      await drop();
-    },
+    s3: files.s3,
+    store: files.store,
+    jobs,
+    close,
   };
 }

@@ -12,19 +12,31 @@ import { authRoutes } from './auth/auth.routes';
 import { OidcClient } from './auth/oidc';
 import { signInRateLimit } from './auth/rate-limit';
 import { loadCaller, sessionMiddleware } from './auth/session';
-import type { AuthConfig, Config } from './core/config';
+import { outboxUrlOf, type AuthConfig, type Config } from './core/config';
 import { apiNotFound, errorHandler } from './core/errors';
 import type { Logger } from './core/logger';
 import type { Db } from './db/db';
 import { healthHandler } from './health/health.routes';
 import { peopleRoutes } from './people/people.routes';
 import { projectRoutes } from './projects/projects.routes';
+import { activityRoutes } from './activity/activity.routes';
+import { deliverableRoutes } from './deliverables/deliverables.routes';
+import type { Jobs } from './jobs';
+import { createNotices } from './notices/notices';
+import { outboxRoutes } from './outbox/outbox.routes';
+import { stageRoutes } from './stages/stages.routes';
+import type { ObjectStore } from './storage';
 
 export interface AppDeps {
-  config: Pick<Config, 'CLIENT_DIST' | 'TRUST_PROXY'> & Partial<AuthConfig> & Partial<Pick<Config, 'NODE_ENV'>>;
+  config: Pick<Config, 'CLIENT_DIST' | 'TRUST_PROXY'> & Partial<AuthConfig> &
+    Partial<Pick<Config, 'NODE_ENV' | 'UPLOAD_MAX_BYTES' | 'DEV_OUTBOX_URL' | 'MAIL_OUTBOX_URL'>>;
   db: Db;
   logger: Logger;
   version?: string;
+  /** Deliverable files; without it, uploads and downloads answer 503. */
+  store?: ObjectStore;
+  /** The pg-boss queue that e-mail notices go through (main.ts always gives one). */
+  jobs?: Jobs;
 }
 
 /** The cookie Angular's HttpClient reads and echoes as X-XSRF-TOKEN on every state change. */
@@ -33,7 +45,7 @@ export const CSRF_COOKIE = 'XSRF-TOKEN';
 const REQUEST_ID = /^[\w.:-]{1,128}$/;
 
 /** Builds the Express app without listening, so tests can mount it with supertest. */
-export function createApp({ config, db, logger, version = '0.1.0' }: AppDeps): Express {
+export function createApp({ config, db, logger, version = '0.1.0', store, jobs }: AppDeps): Express {
   const app = express();
   app.disable('x-powered-by');
   if (config.TRUST_PROXY) app.set('trust proxy', 1);
@@ -104,6 +116,8 @@ export function createApp({ config, db, logger, version = '0.1.0' }: AppDeps): E
         )
       : undefined;
 
+  const notices = createNotices(jobs, publicUrl, logger);
+
   const routes = [
     route('get', '/health', 'public', healthHandler(db, version)),
     ...authRoutes({
@@ -115,8 +129,12 @@ export function createApp({ config, db, logger, version = '0.1.0' }: AppDeps): E
       issueCsrfToken: (req, res, overwrite) => void csrf.generateCsrfToken(req, res, { overwrite }),
       clearCsrfToken: (res) => void res.clearCookie(CSRF_COOKIE, { path: '/' }),
     }),
-    ...peopleRoutes(db, { publicUrl, invitationTtlDays: config.INVITATION_TTL_DAYS ?? 14 }),
+    ...peopleRoutes(db, { publicUrl, invitationTtlDays: config.INVITATION_TTL_DAYS ?? 14, notices }),
     ...projectRoutes(db),
+    ...stageRoutes(db, notices),
+    ...deliverableRoutes(db, store, config.UPLOAD_MAX_BYTES ?? 1024 * 1024 * 1024),
+    ...activityRoutes(db),
+    ...outboxRoutes(outboxUrlOf(config)),
   ];
 
   const api = express.Router();

@@ -1,6 +1,9 @@
 import { createServer } from 'node:http';
 import { createApp } from './app';
-import { ConfigError, loadConfig } from './core/config';
+import { ConfigError, LOCAL_DEFAULTS, loadConfig } from './core/config';
+import { createJobs } from './jobs';
+import { createMailTransport } from './mail';
+import { createObjectStore, objectStoreConfigFrom } from './storage';
 import { createLogger } from './core/logger';
 import { gracefulShutdown } from './core/shutdown';
 import { createDb } from './db/db';
@@ -18,7 +21,17 @@ async function main(): Promise<void> {
   }
   const logger = createLogger(config.LOG_LEVEL);
   const db = createDb(config.DATABASE_URL, config.DATABASE_POOL_MAX);
-  const app = createApp({ config, db, logger });
+  const store = createObjectStore(objectStoreConfigFrom({ ...config, S3_BUCKET: config.S3_BUCKET ?? LOCAL_DEFAULTS.S3_BUCKET }));
+  // Every API process also works the mail queue: pg-boss shares the jobs out through PostgreSQL.
+  const jobs = createJobs({
+    databaseUrl: config.DATABASE_URL,
+    transport: createMailTransport({ ...config, SMTP_HOST: config.SMTP_HOST ?? LOCAL_DEFAULTS.SMTP_HOST }),
+    mailFrom: config.MAIL_FROM,
+    pollingIntervalSeconds: config.JOBS_POLL_SECONDS,
+    logger,
+  });
+  await jobs.start();
+  const app = createApp({ config, db, logger, store, jobs });
   const server = createServer(app);
   server.listen(config.PORT, config.HOST, () => {
     const address = server.address();
@@ -31,7 +44,12 @@ async function main(): Promise<void> {
     if (stopping) return;
     stopping = true;
     logger.info({ signal }, 'shutting down: finishing requests in flight');
-    gracefulShutdown(server, config.SHUTDOWN_GRACE_MS, () => db.destroy()).then(
+    gracefulShutdown(server, config.SHUTDOWN_GRACE_MS, async () => {
+      // A mail being sent finishes first; one not yet taken stays queued for another process.
+      await jobs.stop();
+      store.close();
+      await db.destroy();
+    }).then(
       () => {
         logger.info('stopped');
         process.exit(0);

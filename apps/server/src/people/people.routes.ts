@@ -6,6 +6,7 @@ import { notFound } from '../core/errors';
 import { validate } from '../core/validate';
 import { route, type RouteDecl } from '../access/registry';
 import type { Caller } from '../access/policy';
+import type { Notices } from '../notices/notices';
 import { listPeople } from './people.repository';
 import { hashToken, invite, removeAccess, updatePerson } from './people.service';
 
@@ -14,7 +15,7 @@ const tokenParams = z.object({ token: z.string().min(20).max(100) });
 // The guard has checked the rule, so a caller is present on every non-public route here.
 const callerOf = (req: Request): Caller => req.caller as Caller;
 
-export function peopleRoutes(db: Db, opts: { publicUrl: string; invitationTtlDays: number }): RouteDecl[] {
+export function peopleRoutes(db: Db, opts: { publicUrl: string; invitationTtlDays: number; notices?: Notices }): RouteDecl[] {
   return [
     route('get', '/people', 'principal', async (req, res) => {
       res.json(await listPeople(db, callerOf(req).firmId));
@@ -23,7 +24,7 @@ export function peopleRoutes(db: Db, opts: { publicUrl: string; invitationTtlDay
       res.json(await db('client_organisations').where({ firm_id: callerOf(req).firmId }).orderBy('name').select('id', 'name'));
     }),
     route('post', '/invitations', 'principal', validate({ body: invitationCreateSchema }), async (req, res) => {
-      const created = await invite(db, callerOf(req), req.body, { publicUrl: opts.publicUrl, ttlDays: opts.invitationTtlDays });
+      const created = await invite(db, callerOf(req), req.body, { publicUrl: opts.publicUrl, ttlDays: opts.invitationTtlDays, notices: opts.notices });
       req.log?.info({ personId: created.person.id, role: created.person.role }, 'invitation created');
       res.status(201).json(created);
     }),

@@ -7,8 +7,12 @@ import { HttpError, notFound } from '../core/errors';
 import type { Caller } from '../access/policy';
 import { endSessionsOf } from '../auth/session';
 import { listPeople } from './people.repository';
+import { insertActivity } from '../activity/activity.repository';
+import type { Notices } from '../notices/notices';
 
 export const hashToken = (token: string): string => createHash('sha256').update(token).digest('hex');
+
+const ROLE_WORDS: Record<Role, string> = { principal: 'a principal', engineer: 'an engineer', client: 'a client contact' };
 
 const kindOf = (role: Role) => (role === 'client' ? { firm_role: null } : { firm_role: role, client_organisation_id: null });
 
@@ -21,9 +25,10 @@ export async function invite(
   db: Db,
   caller: Caller,
   input: z.output<typeof invitationCreateSchema>,
-  opts: { publicUrl: string; ttlDays: number },
+  opts: { publicUrl: string; ttlDays: number; notices?: Notices },
 ): Promise<InvitationCreated> {
   const token = randomBytes(32).toString('base64url');
+  const url = `${opts.publicUrl.replace(/\/$/, '')}/invitations/${token}`;
   const expiresAt = new Date(Date.now() + opts.ttlDays * 86_400_000);
   const userId = await db.transaction(async (trx) => {
     if (input.clientOrganisationId) {
@@ -71,15 +76,28 @@ export async function invite(
     }
     if (projectIds.length) {
       await trx('project_members').insert(projectIds.map((project_id) => ({ project_id, user_id: id, added_by: caller.userId })));
+      await insertActivity(trx, projectIds.map((projectId) => ({
+        firmId: caller.firmId, projectId, actorId: caller.userId, action: 'membership.added', objectType: 'membership' as const, objectId: id,
+        summary: `${caller.displayName} invited ${input.displayName} to the project team`,
+      })));
     }
     await trx('invitations').insert({ firm_id: caller.firmId, user_id: id, token_hash: hashToken(token), invited_by: caller.userId, expires_at: expiresAt });
+    if (opts.notices) {
+      const firm = await trx('firms').where({ id: caller.firmId }).first('name');
+      // Queued in this transaction: an invitation that fails to save sends no mail.
+      await opts.notices.send(trx, {
+        to: input.email,
+        template: 'invitation',
+        data: {
+          recipientName: input.displayName, firmName: firm.name, invitedBy: caller.displayName,
+          role: ROLE_WORDS[input.role], link: url, expiresOn: expiresAt.toISOString().slice(0, 10),
+        },
+      });
+    }
     return id;
   });
   const [person] = await listPeople(db, caller.firmId, userId);
-  return {
-    person,
-    invitation: { url: `${opts.publicUrl.replace(/\/$/, '')}/invitations/${token}`, expiresAt: expiresAt.toISOString() },
-  };
+  return { person, invitation: { url, expiresAt: expiresAt.toISOString() } };
 }
 
 /** Changes a person's name, role or organisation. Changing kind (firm/client) or organisation clears their projects. */

@@ -1,71 +1,53 @@
 import type { Request } from 'express';
 import { z } from 'zod';
-import type { ProjectDetail, ProjectSummary } from '@trabeate/contracts';
+import {
+  projectCreateSchema,
+  projectListQuerySchema,
+  projectUpdateSchema,
+  type ProjectDetail,
+  type ProjectList,
+} from '@trabeate/contracts';
 import type { Db } from '../db/db';
 import { HttpError, notFound } from '../core/errors';
 import { validate } from '../core/validate';
 import { route, type RouteDecl } from '../access/registry';
 import { abilities, type Caller } from '../access/policy';
+import { insertActivity } from '../activity/activity.repository';
+import { getProject, listProjects, type ProjectListFilters } from './projects.repository';
+import { createProject, listItemOf, projectPage, setArchived, updateProject } from './projects.service';
 
 const callerOf = (req: Request): Caller => req.caller as Caller;
+const projectParams = z.object({ projectId: z.uuid() });
 const memberParams = z.object({ projectId: z.uuid(), userId: z.uuid() });
-
-interface ProjectRow {
-  id: string;
-  reference: string;
-  name: string;
-  client_organisation_id: string;
-  org_name: string;
-  site_address: string;
-  building_use: string;
-  storeys: number;
-  storey_height_m: string;
-  floor_area_m2: string | null;
-  estimated_cost: string | null;
-  currency: string;
-}
-
-function projectsQuery(db: Db, firmId: string) {
-  return db('projects as p')
-    .join('client_organisations as o', 'o.id', 'p.client_organisation_id')
-    .where('p.firm_id', firmId)
-    .select('p.id', 'p.reference', 'p.name', 'p.client_organisation_id', 'o.name as org_name', 'p.site_address', 'p.building_use',
-      'p.storeys', 'p.storey_height_m', 'p.floor_area_m2', 'p.estimated_cost', 'p.currency');
-}
-
-/** Limits a project query to what the caller may see (the same rule as canSeeProject in access/policy.ts). */
-function visibleTo<Q extends ReturnType<typeof projectsQuery>>(q: Q, caller: Caller): Q {
-  if (caller.role === 'principal') return q;
-  q.whereExists((sub) => sub.select(sub.client.raw('1')).from('project_members as m').whereRaw('m.project_id = p.id').andWhere('m.user_id', caller.userId));
-  if (caller.role === 'client') q.andWhere('p.client_organisation_id', caller.clientOrganisationId);
-  return q;
-}
-
-const summary = (r: ProjectRow): ProjectSummary => ({
-  id: r.id,
-  reference: r.reference,
-  name: r.name,
-  clientOrganisation: { id: r.client_organisation_id, name: r.org_name },
-  siteAddress: r.site_address,
-  buildingUse: r.building_use,
-  storeys: r.storeys,
-});
 
 export function projectRoutes(db: Db): RouteDecl[] {
   return [
-    route('get', '/projects', 'signedIn', async (req, res) => {
-      const rows: ProjectRow[] = await visibleTo(projectsQuery(db, callerOf(req).firmId), callerOf(req)).orderBy('p.reference');
-      res.json(rows.map(summary));
+    route('get', '/projects', 'signedIn', validate({ query: projectListQuerySchema }), async (req, res) => {
+      const q = res.locals['query'] as ProjectListFilters;
+      const { rows, total } = await listProjects(db, callerOf(req), q);
+      const body: ProjectList = { items: rows.map(listItemOf), total, page: q.page, pageSize: q.pageSize };
+      res.json(body);
     }),
+    route('post', '/projects', 'principal', validate({ body: projectCreateSchema }), async (req, res) => {
+      const page = await createProject(db, callerOf(req), req.body);
+      res.status(201).location(`/api/projects/${page.id}`).json(page);
+    }),
+    // The short form (team, abilities, finance) that the sign-in shell and the people pages use.
     route('get', '/projects/:projectId', 'project:read', async (req, res) => {
       const caller = callerOf(req);
-      const row: ProjectRow = await projectsQuery(db, caller.firmId).andWhere('p.id', req.project!.id).first();
+      const row = await getProject(db, caller.firmId, req.project!.id);
       const members = await db('project_members as m').join('users as u', 'u.id', 'm.user_id')
         .where('m.project_id', row.id).whereNull('u.disabled_at').orderBy('u.display_name')
         .select('u.id', 'u.display_name', 'u.firm_role');
       const can = abilities(caller.role);
       const body: ProjectDetail = {
-        ...summary(row),
+        id: row.id,
+        reference: row.reference,
+        name: row.name,
+        clientOrganisation: { id: row.client_organisation_id, name: row.org_name },
+        siteAddress: row.site_address,
+        buildingUse: row.building_use,
+        storeys: row.storeys,
         storeyHeightM: Number(row.storey_height_m),
         floorAreaM2: row.floor_area_m2 === null ? null : Number(row.floor_area_m2),
         members: members.map((m) => ({ id: m.id, displayName: m.display_name, role: m.firm_role ?? 'client' })),
@@ -73,6 +55,18 @@ export function projectRoutes(db: Db): RouteDecl[] {
         abilities: can,
       };
       res.json(body);
+    }),
+    route('get', '/projects/:projectId/full', 'project:read', validate({ params: projectParams }), async (req, res) => {
+      res.json(await projectPage(db, callerOf(req), req.project!.id));
+    }),
+    route('patch', '/projects/:projectId', 'project:manage', validate({ params: projectParams, body: projectUpdateSchema }), async (req, res) => {
+      res.json(await updateProject(db, callerOf(req), req.project!.id, req.body));
+    }),
+    route('post', '/projects/:projectId/archive', 'project:manage', validate({ params: projectParams }), async (req, res) => {
+      res.json(await setArchived(db, callerOf(req), req.project!.id, true));
+    }),
+    route('post', '/projects/:projectId/restore', 'project:manage', validate({ params: projectParams }), async (req, res) => {
+      res.json(await setArchived(db, callerOf(req), req.project!.id, false));
     }),
     route('put', '/projects/:projectId/members/:userId', 'project:manage', validate({ params: memberParams }), async (req, res) => {
       const caller = callerOf(req);
@@ -83,11 +77,32 @@ export function projectRoutes(db: Db): RouteDecl[] {
       if (!user.firm_role && user.client_organisation_id !== project.client_organisation_id) {
         throw new HttpError(409, 'conflict', "This person is a contact of another client organisation; they cannot join this project.");
       }
-      await db('project_members').insert({ project_id: project.id, user_id: user.id, added_by: caller.userId }).onConflict(['project_id', 'user_id']).ignore();
+      await db.transaction(async (trx) => {
+        const added = await trx('project_members').insert({ project_id: project.id, user_id: user.id, added_by: caller.userId })
+          .onConflict(['project_id', 'user_id']).ignore().returning('user_id');
+        if (added.length) {
+          await insertActivity(trx, {
+            firmId: caller.firmId, projectId: project.id, actorId: caller.userId, action: 'membership.added', objectType: 'membership', objectId: user.id,
+            summary: `${caller.displayName} added ${user.display_name} to the project team`,
+          });
+        }
+      });
       res.status(204).end();
     }),
     route('delete', '/projects/:projectId/members/:userId', 'project:manage', validate({ params: memberParams }), async (req, res) => {
-      await db('project_members').where({ project_id: req.project!.id, user_id: req.params['userId'] }).del();
+      const caller = callerOf(req);
+      const project = req.project!;
+      await db.transaction(async (trx) => {
+        const removed = await trx('project_members').where({ project_id: project.id, user_id: req.params['userId'] }).del();
+        if (!removed) return;
+        const user = await trx('users').where({ id: req.params['userId'] }).first('display_name');
+        // Stages the person was assigned to are left for the principal to assign again.
+        await trx('stages').where({ project_id: project.id, assignee_id: req.params['userId'] }).update({ assignee_id: null, updated_at: trx.fn.now() });
+        await insertActivity(trx, {
+          firmId: caller.firmId, projectId: project.id, actorId: caller.userId, action: 'membership.removed', objectType: 'membership', objectId: String(req.params['userId']),
+          summary: `${caller.displayName} removed ${user?.display_name ?? 'a person'} from the project team`,
+        });
+      });
       res.status(204).end();
     }),
   ];
