@@ -97,21 +97,35 @@ export function deriveLayout(scheme: Scheme): Layout {
   const xLines = sortedLabels(scheme.grid, 'x');
   const yLines = sortedLabels(scheme.grid, 'y');
   // label of the crossing grid line at a position, for readable span ids
-  const crossLabel = (runs: 'x' | 'y', s: number) => {
+  const crossLabel = (runs: 'x' | 'y', s: number): string => {
     const cross = runs === 'x' ? xLines : yLines;
-    const key = runs === 'x' ? 'x' : 'y';
-    return cross.find((g) => near(g[key] as number, s))?.label ?? s.toFixed(2);
+    for (const g of cross) if (near((runs === 'x' ? g.x : g.y) as number, s)) return g.label;
+    return s.toFixed(2);
+  };
+  // columns sorted on each plan axis, so that each grid line finds its own by binary search
+  const byX = [...scheme.columns].sort((a, b) => a.x - b.x);
+  const byY = [...scheme.columns].sort((a, b) => a.y - b.y);
+  const onLine = (sorted: Column[], axis: 'x' | 'y', at: number): Column[] => {
+    let lo = 0;
+    let hi = sorted.length;
+    while (lo < hi) {
+      const mid = (lo + hi) >> 1;
+      if (sorted[mid][axis] < at - ON_LINE_TOL_M) lo = mid + 1;
+      else hi = mid;
+    }
+    const out: Column[] = [];
+    for (let i = lo; i < sorted.length && sorted[i][axis] <= at + ON_LINE_TOL_M; i++) out.push(sorted[i]);
+    return out;
   };
 
   for (const g of scheme.grid) {
     const runs: 'x' | 'y' = g.y !== undefined ? 'x' : 'y';
     const at = (g.y ?? g.x) as number;
-    const cols = scheme.columns
-      .filter((c) => columnOnLine(c, g))
-      .map((c) => ({ s: runs === 'x' ? c.x : c.y, columnId: c.id }))
+    const cols = (g.x !== undefined ? onLine(byX, 'x', g.x) : onLine(byY, 'y', at))
+      .map((c) => ({ s: runs === 'x' ? c.x : c.y, columnId: c.id as string | null }))
       .sort((a, b) => a.s - b.s);
     if (cols.length < 2) continue;
-    for (const c of cols) onSomeLine.add(c.columnId);
+    for (const c of cols) onSomeLine.add(c.columnId as string);
     const nodes: LineNode[] = [];
     if (g.overhangStartM && g.overhangStartM > 0) nodes.push({ s: cols[0].s - g.overhangStartM, columnId: null });
     nodes.push(...cols);
@@ -183,6 +197,18 @@ export function deriveLayout(scheme: Scheme): Layout {
 
   // panels: grid bays enclosed by beams, split by secondary beams that cross the whole bay
   const panels: Panel[] = [];
+  const full = secondaries.filter((s) => s.supports.length === 2);
+  // one carrier object per beam line, shared by the panel edges it carries
+  const carriers = new Map<string, PanelEdge['carrier']>();
+  const carrierOf = (l: BeamLine): PanelEdge['carrier'] => {
+    let c = carriers.get(l.id);
+    if (!c) {
+      c = { type: 'line', lineId: l.id };
+      carriers.set(l.id, c);
+    }
+    return c;
+  };
+  const secondaryCarrier = (s: SecondaryFrame): PanelEdge['carrier'] => ({ type: 'secondary', id: s.beam.id });
   for (let i = 0; i + 1 < xLines.length; i++) {
     for (let j = 0; j + 1 < yLines.length; j++) {
       const x1 = xLines[i].x as number;
@@ -195,10 +221,14 @@ export function deriveLayout(scheme: Scheme): Layout {
       const east = lineCovers('y', x2, y1, y2);
       if (!south || !north || !west || !east) continue;
       // cuts by secondary beams running along y (constant x) or along x (constant y) across the bay
-      const cutsX = secondaries.filter((s) => s.runs === 'y' && s.at > x1 + ON_LINE_TOL_M && s.at < x2 - ON_LINE_TOL_M && near(s.from, y1) && near(s.to, y2) && s.supports.length === 2);
-      const cutsY = secondaries.filter((s) => s.runs === 'x' && s.at > y1 + ON_LINE_TOL_M && s.at < y2 - ON_LINE_TOL_M && near(s.from, x1) && near(s.to, x2) && s.supports.length === 2);
-      const xs = [{ v: x1, c: { type: 'line' as const, lineId: west.id } }, ...cutsX.sort((p, q) => p.at - q.at).map((s) => ({ v: s.at, c: { type: 'secondary' as const, id: s.beam.id } })), { v: x2, c: { type: 'line' as const, lineId: east.id } }];
-      const ys = [{ v: y1, c: { type: 'line' as const, lineId: south.id } }, ...cutsY.sort((p, q) => p.at - q.at).map((s) => ({ v: s.at, c: { type: 'secondary' as const, id: s.beam.id } })), { v: y2, c: { type: 'line' as const, lineId: north.id } }];
+      const cutsX: SecondaryFrame[] = [];
+      const cutsY: SecondaryFrame[] = [];
+      for (const s of full) {
+        if (s.runs === 'y' && s.at > x1 + ON_LINE_TOL_M && s.at < x2 - ON_LINE_TOL_M && near(s.from, y1) && near(s.to, y2)) cutsX.push(s);
+        else if (s.runs === 'x' && s.at > y1 + ON_LINE_TOL_M && s.at < y2 - ON_LINE_TOL_M && near(s.from, x1) && near(s.to, x2)) cutsY.push(s);
+      }
+      const xs = [{ v: x1, c: carrierOf(west) }, ...cutsX.sort((p, q) => p.at - q.at).map((s) => ({ v: s.at, c: secondaryCarrier(s) })), { v: x2, c: carrierOf(east) }];
+      const ys = [{ v: y1, c: carrierOf(south) }, ...cutsY.sort((p, q) => p.at - q.at).map((s) => ({ v: s.at, c: secondaryCarrier(s) })), { v: y2, c: carrierOf(north) }];
       let k = 0;
       for (let a = 0; a + 1 < xs.length; a++) {
         for (let b = 0; b + 1 < ys.length; b++) {
