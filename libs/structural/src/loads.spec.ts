@@ -42,3 +42,23 @@ describe('two-way slab loads on beams', () => {
     expect(area(profiles[0]) + area(profiles[1])).toBeCloseTo(36, 9);
   });
 });
+
+describe('merging the slab loads on a beam', () => {
+  it('sums overlapping trapezoids and triangles into one piecewise-linear load with the same statics', async () => {
+    const { mergeLinearLoads } = await import('./loads');
+    const { memberTerms } = await import('./beam');
+    const loads = [
+      { kind: 'linear' as const, member: 0, fromM: 0, toM: 2, startKNPerM: 0, endKNPerM: 2 },
+      { kind: 'linear' as const, member: 0, fromM: 2, toM: 4, startKNPerM: 2, endKNPerM: 2 },
+      { kind: 'linear' as const, member: 0, fromM: 4, toM: 6, startKNPerM: 2, endKNPerM: 0 },
+      { kind: 'linear' as const, member: 0, fromM: 0, toM: 1.5, startKNPerM: 0, endKNPerM: 1.5 },
+      { kind: 'linear' as const, member: 0, fromM: 1.5, toM: 6, startKNPerM: 1.5, endKNPerM: 0 },
+      { kind: 'point' as const, member: 0, atM: 3, forceKN: 7 },
+    ];
+    const merged = mergeLinearLoads(loads);
+    expect(merged.filter((l) => l.kind === 'linear')).toHaveLength(4); // breakpoints 0, 1.5, 2, 4, 6
+    const a = memberTerms(6, loads);
+    const b = memberTerms(6, merged);
+    for (const k of ['fa', 'fb', 'ra', 'rb', 'total'] as const) expect(b[k]).toBeCloseTo(a[k], 12);
+  });
+});

@@ -116,6 +116,47 @@ function pointOnLine(line: BeamLine, s: number, p: number, out: BeamLoad[]): voi
   out.push({ kind: 'point', member: m.index, atM: Math.min(Math.max(s - m.startS, 0), m.lengthM), forceKN: p });
 }
 
+/**
+ * Sums the linear loads on each member into one piecewise-linear load over the union of their
+ * breakpoints (exact: a sum of piecewise-linear functions is piecewise linear). Panels on both
+ * sides of a beam then cost one set of pieces instead of two. Point loads pass through.
+ */
+export function mergeLinearLoads(loads: readonly BeamLoad[]): BeamLoad[] {
+  const byMember = new Map<number, BeamLoad[]>();
+  const out: BeamLoad[] = [];
+  for (const l of loads) {
+    if (l.kind === 'point') out.push(l);
+    else {
+      const list = byMember.get(l.member);
+      if (list) list.push(l);
+      else byMember.set(l.member, [l]);
+    }
+  }
+  for (const [member, list] of byMember) {
+    const cuts = [...new Set(list.flatMap((l) => (l.kind === 'linear' ? [l.fromM, l.toM] : [])))].sort((a, b) => a - b);
+    const at = (t: number, side: -1 | 1) => {
+      let w = 0;
+      for (const l of list) {
+        if (l.kind !== 'linear') continue;
+        // the value just inside [fromM, toM] on the given side of t
+        const inside = side < 0 ? t > l.fromM + 1e-12 && t <= l.toM + 1e-12 : t >= l.fromM - 1e-12 && t < l.toM - 1e-12;
+        if (inside) w += l.toM - l.fromM <= 0 ? 0 : l.startKNPerM + ((l.endKNPerM - l.startKNPerM) * (t - l.fromM)) / (l.toM - l.fromM);
+      }
+      return w;
+    };
+    for (let k = 0; k + 1 < cuts.length; k++) {
+      const a = cuts[k];
+      const b = cuts[k + 1];
+      if (b - a <= 1e-12) continue;
+      const wa = at(a, 1);
+      const wb = at(b, -1);
+      if (wa === 0 && wb === 0) continue;
+      out.push({ kind: 'linear', member, fromM: a, toM: b, startKNPerM: wa, endKNPerM: wb });
+    }
+  }
+  return out;
+}
+
 /** Slab shapes of a layout (see SlabShapes); one-way beyond oneWayAspect (long/short). */
 export function slabShapes(layout: Layout, oneWayAspect: number): SlabShapes {
   const lines = new Map<string, BeamLoad[]>();
@@ -159,6 +200,7 @@ export function slabShapes(layout: Layout, oneWayAspect: number): SlabShapes {
       });
     }
   }
+  for (const [id, list] of lines) lines.set(id, mergeLinearLoads(list));
   return { lines, secondaries, panels };
 }
 
