@@ -2,7 +2,7 @@
 // storey by storey, footings against the site, checks, quantities and cost.
 import type { BeamModel, Support } from './beam';
 import { prepareBeam, PreparedBeam } from './beam';
-import { check, Check, PassedRule, splitChecks, columnSpacingChecks, columnWallChecks, pointLoadChecks, RULES, spanChecks, stairChecks } from './checks';
+import { check, Check, CheckList, PassedRule, columnSpacingChecks, columnWallChecks, pointLoadChecks, RULES, spanChecks, stairChecks } from './checks';
 import { CAUTION, codeDefaults, Combination, concreteModulusMPa, beamDepthRule, Limits, resolveLimits } from './codes';
 import { ArrangementCache, envelopeParts, loadPart, LoadPart, MemberEnvelope } from './envelope';
 import { isolatedFooting, IsolatedFooting, roundUp } from './footings';
@@ -201,7 +201,7 @@ export function analyseScheme(scheme: Scheme): SchemeResult {
     if (p.ok) shapeParts.set(l.id, loadPart(p, shapes.lines.get(l.id) ?? []));
   }
 
-  const checks: Check[] = [];
+  const checks = new CheckList();
   const { beamLines, colR, designMoment } = analyseLevels(layout, kinds, levels, prepared, shapeParts, lineDepth, combos, checks);
 
   // beam sizes
@@ -242,7 +242,7 @@ export function analyseScheme(scheme: Scheme): SchemeResult {
   const { quantities, summary } = schemeQuantities(scheme, layout, slabT, beams, colSizes, footingRows, secDepth, secWidth, limits);
   const cost = costOf(quantities, b.rates);
 
-  const split = splitChecks(checks);
+  const split = checks.result();
   return {
     caution: CAUTION,
     ok: true,
@@ -283,7 +283,7 @@ function analyseLevels(
   shapeParts: Map<string, LoadPart>,
   lineDepth: Map<string, number>,
   combos: Combination[],
-  checks: Check[],
+  checks: CheckList,
 ): { beamLines: BeamLineResult[]; colR: ColumnReactions; designMoment: Map<string, number> } {
   const arrangementCache: ArrangementCache = new Map();
   const beamLines: BeamLineResult[] = [];
@@ -346,7 +346,7 @@ function analyseLevels(
 
 /** Checks on the sizes the engine derived: slab, beam depth and headroom, column steel and capacity, footings. */
 function sizeChecks(
-  checks: Check[],
+  checks: CheckList,
   limits: Limits,
   storeyHeightM: number,
   slabT: number,

@@ -52,28 +52,42 @@ export interface PassedRule {
 }
 
 /**
- * Splits checks into the failures (kept in full, errors first) and a summary of the passes per
- * rule, which is what a person needs from thousands of passing checks on a large scheme.
+ * Collects checks as they are made: failures are kept in full, passes are folded at once into a
+ * per-rule summary (count and the pass nearest its limit), so that thousands of passing checks on
+ * a large scheme do not stay in memory.
  */
-export function splitChecks(all: Check[]): { failed: Check[]; passed: PassedRule[] } {
-  const failed: Check[] = [];
-  const passed = new Map<string, PassedRule>();
-  const margin = (c: Check) => (c.sense === 'max' ? c.limit - c.value : c.value - c.limit) / (Math.abs(c.limit) || 1);
-  for (const c of all) {
+export class CheckList {
+  private readonly failed: Check[] = [];
+  private readonly passed = new Map<string, PassedRule>();
+  push(c: Check): void {
     if (c.status === 'fail') {
-      failed.push(c);
-      continue;
+      this.failed.push(c);
+      return;
     }
-    const p = passed.get(c.ruleId);
-    if (!p) passed.set(c.ruleId, { ruleId: c.ruleId, count: 1, tightest: c });
+    const p = this.passed.get(c.ruleId);
+    if (!p) this.passed.set(c.ruleId, { ruleId: c.ruleId, count: 1, tightest: c });
     else {
       p.count++;
       if (margin(c) < margin(p.tightest)) p.tightest = c;
     }
   }
-  const rank: Record<Severity, number> = { error: 0, warning: 1, info: 2 };
-  failed.sort((a, b) => rank[a.severity] - rank[b.severity]);
-  return { failed, passed: [...passed.values()] };
+  /** Failures (errors first, then warnings, then information) and the summary of passes. */
+  result(): { failed: Check[]; passed: PassedRule[] } {
+    const rank: Record<Severity, number> = { error: 0, warning: 1, info: 2 };
+    return { failed: [...this.failed].sort((a, b) => rank[a.severity] - rank[b.severity]), passed: [...this.passed.values()] };
+  }
+}
+
+/** How far a check is inside its limit, relative to the limit. */
+function margin(c: Check): number {
+  return (c.sense === 'max' ? c.limit - c.value : c.value - c.limit) / (Math.abs(c.limit) || 1);
+}
+
+/** Splits a list of checks into failures and a per-rule summary of passes (see CheckList). */
+export function splitChecks(all: readonly Check[]): { failed: Check[]; passed: PassedRule[] } {
+  const list = new CheckList();
+  for (const c of all) list.push(c);
+  return list.result();
 }
 
 /** Builds a check against a limit; the message gets the verdict appended. */
