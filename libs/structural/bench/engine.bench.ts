@@ -68,7 +68,7 @@ const denseMs = median(dense);
 const bandMs = median(banded);
 const dofs = systems.reduce((a, s) => a + 2 * s.model.supports.length, 0);
 console.log(`Trabeate engine benchmark: ${scheme.columns.length} columns, ${scheme.basis.storeys} storeys, ${layout.lines.length} beam lines, ${layout.panels.length} slab panels, ${scheme.secondaryBeams.length} secondary beams`);
-console.log(`  checks: ${result.checks.length} failing, ${result.passed.reduce((a, p) => a + p.count, 0)} passing; column-storey rows: ${result.loads.columns.length}; beam-line analyses: ${result.beamLines.length}`);
+console.log(`  checks: ${result.checks.length} failing, ${result.passed.reduce((a, p) => a + p.count, 0)} passing; column loads: ${result.loads.columns.length} columns × ${scheme.basis.storeys} storeys; beam-line analyses: ${result.beamLines.length}`);
 console.log(`  machine load average (1 min) at the end: ${loadavg()[0].toFixed(2)} on ${cpus().length} cores`);
 console.log(`  full check and analysis (analyseScheme), median of ${RUNS} after ${WARMUP} warm-up runs: ${fullMs.toFixed(1)} ms  [min ${Math.min(...full).toFixed(1)}, max ${Math.max(...full).toFixed(1)}]`);
 console.log(`  stiffness solves only, banded LDLᵀ (${dofs} DOFs over all lines, ${systems.reduce((a, s) => a + s.rhs, 0)} right-hand sides): ${bandMs.toFixed(1)} ms`);

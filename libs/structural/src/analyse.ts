@@ -11,7 +11,7 @@ import { levelLoads, LevelLoads, PanelLoad, SecondaryLoad, slabShapes } from './
 import type { CodeFamily, Problem, Scheme } from './model';
 import { costOf, Cost, Quantities, QuantityTally } from './quantities';
 import { boundaryOptions, BoundaryOptions, FootingSite, overlappingFootings, OverlapCombined } from './site';
-import { beamDepth, BeamSize, columnSize, ColumnStoreySize, slabSizes, SlabSize } from './sizing';
+import { beamDepth, BeamSize, columnSize, slabSizes, SlabSize } from './sizing';
 import { validateScheme } from './validate';
 
 export type LevelKind = 'floor' | 'roof';
@@ -30,15 +30,28 @@ export interface BeamLineResult {
   patternsTried: number;
 }
 
-export interface ColumnLoadRow {
+/** Axial loads of one column, storey by storey: index 0 is storey 1, the lowest. kN. */
+export interface ColumnLoads {
   columnId: string;
-  /** storey 1 is the lowest */
-  storey: number;
-  deadKN: number;
-  liveKN: number;
-  factoredKN: number;
+  deadKN: number[];
+  liveKN: number[];
+  factoredKN: number[];
   /** service load (D + L) by tributary area, as a cross-check of deadKN + liveKN */
-  tributaryKN: number;
+  tributaryKN: number[];
+}
+
+/** The section a column needs, storey by storey (index 0 = storey 1), beside the section it has. */
+export interface ColumnSizes {
+  columnId: string;
+  providedMm: [number, number];
+  /** capacity of the given section, kN, and the formula with the assumed steel ratio */
+  providedCapacityKN: number;
+  source: string;
+  requiredAreaMm2: number[];
+  /** square side needed, rounded up to 25 mm and at least the minimum side, mm */
+  requiredSideMm: number[];
+  /** factored load / capacity of the given section */
+  utilisation: number[];
 }
 
 export interface SchemeResult {
@@ -58,13 +71,13 @@ export interface SchemeResult {
   loads: {
     slabThicknessMm: number;
     levels: { kind: LevelKind; count: number; slabDeadKPa: number; liveKPa: number; panels: PanelLoad[]; secondaries: SecondaryLoad[] }[];
-    columns: ColumnLoadRow[];
+    columns: ColumnLoads[];
   };
   beamLines: BeamLineResult[];
   sizes: {
     slab: { adoptedMm: number; providedMm: number | null; panels: SlabSize[] };
     beams: BeamSize[];
-    columns: { columnId: string; providedMm: [number, number]; storeys: ColumnStoreySize[] }[];
+    columns: ColumnSizes[];
     footings: ({ columnId: string; serviceKN: number; factoredKN: number } & IsolatedFooting)[];
   };
   footings: { boundary: BoundaryOptions[]; combined: OverlapCombined[] };
@@ -352,7 +365,7 @@ function sizeChecks(
   slabT: number,
   slabPanels: SlabSize[],
   beams: BeamSize[],
-  colSizes: SchemeResult['sizes']['columns'],
+  colSizes: ColumnSizes[],
   boundary: BoundaryOptions[],
   combined: OverlapCombined[],
 ): void {
@@ -374,9 +387,9 @@ function sizeChecks(
   checks.push(check(RULES.columnSteel, 'error', [], `assumed column steel ${(steel * 100).toFixed(2)} % (at least ${(limits.columnSteelRatioMin.value * 100).toFixed(1)} %)`, steel, limits.columnSteelRatioMin, 'min'));
   checks.push(check(RULES.columnSteel, 'error', [], `assumed column steel ${(steel * 100).toFixed(2)} % (at most ${(limits.columnSteelRatioMax.value * 100).toFixed(1)} %)`, steel, limits.columnSteelRatioMax, 'max'));
   for (const cs of colSizes) {
-    const g = cs.storeys[0];
-    const lim = { value: g.providedCapacityKN, unit: 'kN', source: g.source, kind: 'code' as const };
-    checks.push(check(RULES.columnCapacity, 'error', [cs.columnId], `column ${cs.columnId} (${cs.providedMm[0]} × ${cs.providedMm[1]} mm) carries ${g.factoredKN.toFixed(0)} kN in the lowest storey against ${g.providedCapacityKN.toFixed(0)} kN; ${g.requiredSideMm} mm square would do`, g.factoredKN, lim, 'max'));
+    const pu = cs.utilisation[0] * cs.providedCapacityKN;
+    const lim = { value: cs.providedCapacityKN, unit: 'kN', source: cs.source, kind: 'code' as const };
+    checks.push(check(RULES.columnCapacity, 'error', [cs.columnId], `column ${cs.columnId} (${cs.providedMm[0]} × ${cs.providedMm[1]} mm) carries ${pu.toFixed(0)} kN in the lowest storey against ${cs.providedCapacityKN.toFixed(0)} kN; ${cs.requiredSideMm[0]} mm square would do`, pu, lim, 'max'));
   }
   for (const o of boundary) {
     const lim = { value: o.distanceToLineM, unit: 'm', source: `property line ${o.propertyLine} (scheme)`, kind: 'project' as const };
@@ -394,7 +407,7 @@ function schemeQuantities(
   layout: Layout,
   slabT: number,
   beams: BeamSize[],
-  colSizes: SchemeResult['sizes']['columns'],
+  colSizes: ColumnSizes[],
   footingRows: SchemeResult['sizes']['footings'],
   secDepth: Map<string, number>,
   secWidth: Map<string, number>,
@@ -429,10 +442,10 @@ function schemeQuantities(
     beamLength += s.lengthM;
   }
   for (const cs of colSizes) {
-    for (const st of cs.storeys) {
-      const ok = st.utilisation <= 1;
-      const w = (ok ? cs.providedMm[0] : st.requiredSideMm) / 1000;
-      const d = (ok ? cs.providedMm[1] : st.requiredSideMm) / 1000;
+    for (let k = 0; k < cs.utilisation.length; k++) {
+      const ok = cs.utilisation[k] <= 1;
+      const w = (ok ? cs.providedMm[0] : cs.requiredSideMm[k]) / 1000;
+      const d = (ok ? cs.providedMm[1] : cs.requiredSideMm[k]) / 1000;
       tally.add('columns', w * d * b.storeyHeightM, 2 * (w + d) * b.storeyHeightM);
     }
   }
@@ -461,7 +474,7 @@ function columnPhase(
   gamma: number,
   combos: Combination[],
   limits: Limits,
-): { columnRows: ColumnLoadRow[]; colSizes: SchemeResult['sizes']['columns']; footingRows: SchemeResult['sizes']['footings']; sites: FootingSite[] } {
+): { columnRows: ColumnLoads[]; colSizes: ColumnSizes[]; footingRows: SchemeResult['sizes']['footings']; sites: FootingSite[] } {
   const b = scheme.basis;
   const N = b.storeys;
   const family = b.codeFamily;
@@ -473,8 +486,8 @@ function columnPhase(
     for (const c of combos) m = Math.max(m, c.dead * d + c.live * lv);
     return m;
   };
-  const columnRows: ColumnLoadRow[] = [];
-  const colSizes: SchemeResult['sizes']['columns'] = [];
+  const columnRows: ColumnLoads[] = [];
+  const colSizes: ColumnSizes[] = [];
   const footingRows: SchemeResult['sizes']['footings'] = [];
   const sites: FootingSite[] = [];
   const steel = limits.columnSteelRatio.value;
@@ -505,20 +518,28 @@ function columnPhase(
       }
       if (!floorLv) tribFloor = 0;
     }
-    const storeys: ColumnStoreySize[] = [];
     const provided: [number, number] = [c.widthMm, c.depthMm];
+    const row: ColumnLoads = { columnId: c.id, deadKN: [], liveKN: [], factoredKN: [], tributaryKN: [] };
+    const sizes: ColumnSizes = { columnId: c.id, providedMm: provided, providedCapacityKN: 0, source: '', requiredAreaMm2: [], requiredSideMm: [], utilisation: [] };
     for (let s = 1; s <= N; s++) {
       const floorsAbove = N - s; // floor levels s..N-1
       const dead = floorsAbove * r.floor[0] + r.roof[0] + (N - s + 1) * sw;
       const live = floorsAbove * r.floor[1] + r.roof[1];
       const pu = factored(dead, live);
-      columnRows.push({ columnId: c.id, storey: s, deadKN: dead, liveKN: live, factoredKN: pu, tributaryKN: floorsAbove * tribFloor + tribRoof + (N - s + 1) * sw });
+      row.deadKN.push(dead);
+      row.liveKN.push(live);
+      row.factoredKN.push(pu);
+      row.tributaryKN.push(floorsAbove * tribFloor + tribRoof + (N - s + 1) * sw);
       const size = columnSize(family, pu, fck, fy, steel, minSide, provided);
-      size.storey = s;
-      storeys.push(size);
+      sizes.providedCapacityKN = size.providedCapacityKN;
+      sizes.source = size.source;
+      sizes.requiredAreaMm2.push(size.requiredAreaMm2);
+      sizes.requiredSideMm.push(size.requiredSideMm);
+      sizes.utilisation.push(size.utilisation);
     }
-    colSizes.push({ columnId: c.id, providedMm: [c.widthMm, c.depthMm], storeys });
-    const base = columnRows[columnRows.length - N];
+    columnRows.push(row);
+    colSizes.push(sizes);
+    const base = { deadKN: row.deadKN[0], liveKN: row.liveKN[0], factoredKN: row.factoredKN[0] };
     const service = base.deadKN + base.liveKN;
     const f = isolatedFooting(service, b.bearingPressureKPa, limits.footingAllowance.value, base.factoredKN);
     footingRows.push({

@@ -25,7 +25,7 @@ export function compareResults(ra: SchemeResult, rb: SchemeResult): SchemeCompar
   const base = { caution: CAUTION, a: { id: ra.schemeId, name: ra.schemeName, cost: ra.cost.total }, b: { id: rb.schemeId, name: rb.schemeName, cost: rb.cost.total }, currency: ra.cost.currency };
   if (!ra.ok || !rb.ok) return { ...base, ok: false, differences: [], costDrivers: [], summary: ['One of the schemes has input problems; fix them to compare.'] };
   const row = (item: string, unit: string, a: number, b: number) => ({ item, unit, a, b, delta: b - a });
-  const maxCol = (r: SchemeResult) => r.sizes.columns.reduce((m, c) => Math.max(m, c.storeys[0]?.requiredSideMm ?? 0), 0);
+  const maxCol = (r: SchemeResult) => r.sizes.columns.reduce((m, c) => Math.max(m, c.requiredSideMm[0] ?? 0), 0);
   const concrete = (r: SchemeResult, m: MemberType) => r.quantities.rows.find((x) => x.member === m)?.concreteM3 ?? 0;
   const differences = [
     row('columns', 'no.', ra.summary.columns, rb.summary.columns),

@@ -15,11 +15,11 @@ export type { IsolatedFooting, RectCombined, TrapezoidCombined, StrapFooting } f
 export type { BoundaryOptions, OverlapCombined } from './site';
 export { beamDepth, columnSize } from './sizing';
 export type { BeamSize, ColumnStoreySize, SlabSize } from './sizing';
-export { RULES } from './checks';
-export type { Check, Severity } from './checks';
+export { RULES, CheckList, splitChecks } from './checks';
+export type { Check, PassedRule, Severity } from './checks';
 export type { Quantities, QuantityRow, Cost, CostRow, MemberType } from './quantities';
 export { analyseScheme } from './analyse';
-export type { SchemeResult, BeamLineResult, ColumnLoadRow, LevelKind } from './analyse';
+export type { SchemeResult, BeamLineResult, ColumnLoads, ColumnSizes, LevelKind } from './analyse';
 export { compareSchemes, compareResults } from './compare';
 export type { SchemeComparison } from './compare';
 export { demoScheme, demoSchemeVariant } from './demo';
