@@ -75,7 +75,8 @@ export async function up(knex: Knex): Promise<void> {
     t.text('stage_key');
     t.text('summary').notNullable();
     t.jsonb('details').notNullable().defaultTo('{}');
-    t.timestamp('at', { useTz: true }).notNullable().defaultTo(knex.fn.now());
+    // clock_timestamp, not now(): entries written in one transaction keep the order they were made in.
+    t.timestamp('at', { useTz: true }).notNullable().defaultTo(knex.raw('clock_timestamp()'));
   });
   await knex.raw(`alter table activity add constraint activity_object_type_known check (object_type in (${list(OBJECT_TYPES)}))`);
   await knex.raw('create index activity_project_at on activity (project_id, at desc, id desc)');

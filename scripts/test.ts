@@ -6,6 +6,7 @@ import { randomBytes } from 'node:crypto';
 import { existsSync, mkdirSync, readFileSync } from 'node:fs';
 import path from 'node:path';
 import { CLIENT_DIST } from './lib/client-build';
+import { fakeServicesEnv, s3Service, smtpService } from './lib/fake-services';
 import { Cluster } from './lib/postgres';
 import { log } from './lib/proc';
 import { apiService, clientBuildStep, databaseStep, freePort, identityService, localSignIn, postgresService, startAll, TEST_PORTS, type Service } from './lib/services';
@@ -36,6 +37,9 @@ async function main(): Promise<number> {
     postgres: await freePort(TEST_PORTS.postgres),
     api: await freePort(TEST_PORTS.api),
     identity: await freePort(TEST_PORTS.identity),
+    s3: await freePort(TEST_PORTS.s3),
+    smtp: await freePort(TEST_PORTS.smtp),
+    smtpHttp: await freePort(TEST_PORTS.smtpHttp),
   };
   const cluster = needs('db') ? new Cluster({ name: `pg-test-${process.pid}`, port: ports.postgres, fast: true }) : undefined;
   const services: Service[] = [];
@@ -48,10 +52,15 @@ async function main(): Promise<number> {
   if (needs('api') && cluster) {
     // The e2e API signs in against the real local provider, on the same seeded database.
     const signIn = localSignIn(cluster.url('trabeate_e2e'), ports, randomBytes(32).toString('hex'));
+    // The e2e API keeps files and mail in the local fakes (temporary folders, removed on stop).
+    services.push(s3Service({ port: ports.s3 }));
+    services.push(smtpService({ port: ports.smtp, httpPort: ports.smtpHttp }));
     services.push(identityService({ ...signIn.identity, LOG_LEVEL: 'warn' }, ports.identity));
     services.push(
       apiService({ ...signIn.api, NODE_ENV: 'test', DATABASE_URL: cluster.url('trabeate_e2e'), CLIENT_DIST, LOG_LEVEL: 'warn',
-        PUBLIC_URL: `http://127.0.0.1:${ports.api}` }, ports.api),
+        PUBLIC_URL: `http://127.0.0.1:${ports.api}`,
+        ...fakeServicesEnv({ port: ports.s3 }, { port: ports.smtp, httpPort: ports.smtpHttp }),
+        DEV_OUTBOX_URL: `http://127.0.0.1:${ports.smtpHttp}`, JOBS_POLL_SECONDS: '0.5' }, ports.api),
     );
   }
 
@@ -79,6 +88,7 @@ async function main(): Promise<number> {
     env.TEST_DB_TEMPLATE = 'trabeate_template';
   }
   if (needs('api')) {
+    env.E2E_OUTBOX_URL = `http://127.0.0.1:${ports.smtpHttp}`;
     env.E2E_BASE_URL = `http://127.0.0.1:${ports.api}`;
     env.E2E_IDENTITY_URL = `http://127.0.0.1:${ports.identity}`;
   }

@@ -18,10 +18,14 @@ export interface Ports {
   postgres: number;
   api: number;
   identity: number;
+  s3: number;
+  smtp: number;
+  /** The SMTP fake's JSON outbox (GET /messages). */
+  smtpHttp: number;
 }
 
-export const DEV_PORTS: Ports = { postgres: 5442, api: 4310, identity: 4311 };
-export const TEST_PORTS: Ports = { postgres: 5443, api: 4320, identity: 4321 };
+export const DEV_PORTS: Ports = { postgres: 5442, api: 4310, identity: 4311, s3: 4312, smtp: 4313, smtpHttp: 4314 };
+export const TEST_PORTS: Ports = { postgres: 5443, api: 4320, identity: 4321, s3: 4322, smtp: 4323, smtpHttp: 4324 };
 
 /**
  * The local identity provider and the API's settings for it. LOCAL ONLY: the client secret is

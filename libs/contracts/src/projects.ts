@@ -44,8 +44,20 @@ export const projectWriteSchema = z.object({
 /** POST /api/projects */
 export const projectCreateSchema = projectWriteSchema;
 export type ProjectCreate = z.input<typeof projectCreateSchema>;
-/** PATCH /api/projects/:projectId — any subset of the fields. */
-export const projectUpdateSchema = projectWriteSchema.partial().refine((v) => Object.keys(v).length > 0, { message: 'nothing to change' });
+/**
+ * PATCH /api/projects/:projectId — any subset of the fields. The create defaults are taken off
+ * first: with them, `.partial()` would fill every absent field with its default and a PATCH of the
+ * name alone would clear the site address.
+ */
+export const projectUpdateSchema = projectWriteSchema
+  .extend({
+    siteAddress: z.string().trim().max(300),
+    buildingUse: z.string().trim().max(300),
+    floorAreaM2: z.number().positive().max(10_000_000).nullable(),
+    estimatedCost: z.number().nonnegative().max(1e13).nullable(),
+  })
+  .partial()
+  .refine((v) => Object.keys(v).length > 0, { message: 'nothing to change' });
 export type ProjectUpdate = z.input<typeof projectUpdateSchema>;
 
 export const STAGE_KEYS = ['design_basis', 'column_layout', 'beam_framing', 'slab_panels', 'stairs', 'foundations'] as const;
