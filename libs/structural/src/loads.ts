@@ -2,7 +2,7 @@
 // (IS 456 cl. 24.5), beam self-weight, walls, and the reactions of secondary beams landing on
 // primary beams as point loads. Dead and imposed loads are kept apart so that combinations and
 // patterns can be formed later.
-import type { BeamLoad } from './beam';
+import type { BeamLoad, LinearLoad } from './beam';
 import { memberTerms } from './beam';
 import type { BeamLine, Layout, Panel } from './layout';
 
@@ -122,7 +122,7 @@ function pointOnLine(line: BeamLine, s: number, p: number, out: BeamLoad[]): voi
  * sides of a beam then cost one set of pieces instead of two. Point loads pass through.
  */
 export function mergeLinearLoads(loads: readonly BeamLoad[]): BeamLoad[] {
-  const byMember = new Map<number, BeamLoad[]>();
+  const byMember = new Map<number, LinearLoad[]>();
   const out: BeamLoad[] = [];
   for (const l of loads) {
     if (l.kind === 'point') out.push(l);
@@ -133,25 +133,27 @@ export function mergeLinearLoads(loads: readonly BeamLoad[]): BeamLoad[] {
     }
   }
   for (const [member, list] of byMember) {
-    const cuts = [...new Set(list.flatMap((l) => (l.kind === 'linear' ? [l.fromM, l.toM] : [])))].sort((a, b) => a - b);
-    const at = (t: number, side: -1 | 1) => {
-      let w = 0;
-      for (const l of list) {
-        if (l.kind !== 'linear') continue;
-        // the value just inside [fromM, toM] on the given side of t
-        const inside = side < 0 ? t > l.fromM + 1e-12 && t <= l.toM + 1e-12 : t >= l.fromM - 1e-12 && t < l.toM - 1e-12;
-        if (inside) w += l.toM - l.fromM <= 0 ? 0 : l.startKNPerM + ((l.endKNPerM - l.startKNPerM) * (t - l.fromM)) / (l.toM - l.fromM);
+    const cuts: number[] = [];
+    for (const l of list) cuts.push(l.fromM, l.toM);
+    cuts.sort((a, b) => a - b);
+    let prev = -Infinity;
+    for (const b of cuts) {
+      if (b - prev <= 1e-12) continue;
+      if (prev !== -Infinity) {
+        const a = prev;
+        // sum of the loads covering [a, b], at each end
+        let wa = 0;
+        let wb = 0;
+        for (const l of list) {
+          if (l.fromM > a + 1e-12 || l.toM < b - 1e-12) continue;
+          const h = l.toM - l.fromM;
+          const slope = (l.endKNPerM - l.startKNPerM) / h;
+          wa += l.startKNPerM + slope * (a - l.fromM);
+          wb += l.startKNPerM + slope * (b - l.fromM);
+        }
+        if (wa !== 0 || wb !== 0) out.push({ kind: 'linear', member, fromM: a, toM: b, startKNPerM: wa, endKNPerM: wb });
       }
-      return w;
-    };
-    for (let k = 0; k + 1 < cuts.length; k++) {
-      const a = cuts[k];
-      const b = cuts[k + 1];
-      if (b - a <= 1e-12) continue;
-      const wa = at(a, 1);
-      const wb = at(b, -1);
-      if (wa === 0 && wb === 0) continue;
-      out.push({ kind: 'linear', member, fromM: a, toM: b, startKNPerM: wa, endKNPerM: wb });
+      prev = b;
     }
   }
   return out;
