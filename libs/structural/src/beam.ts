@@ -114,6 +114,7 @@ export interface MemberTerms {
   total: number;
 }
 
+/** Fixed-end moments (kN·m) and simple-span reactions (kN) of a member's loads, span L in m. */
 export function memberTerms(L: number, loads: readonly BeamLoad[]): MemberTerms {
   let fa = 0;
   let fb = 0;

@@ -170,7 +170,7 @@ export function codeDefaults(family: CodeFamily): CodeDefaults {
   };
 }
 
-/** The defaults with a project's overrides applied; overridden limits say so. */
+/** The defaults with a project's overrides applied (each value in its limit's own unit); overridden limits say so. */
 export function resolveLimits(family: CodeFamily, overrides?: Partial<Record<string, number>>): Limits {
   const limits = { ...codeDefaults(family).limits };
   for (const [k, v] of Object.entries(overrides ?? {})) {

@@ -16,7 +16,7 @@ const Y = [
   { id: '5', y: 16.2 },
 ];
 
-/** The demo scheme (IS 456 family): 4 × 5 grid, 20 columns, property lines on the south and west. */
+/** The demo scheme (IS 456 family): 4 × 5 grid, 20 columns, property lines on the south and west. Units as the model (m, mm, kN, kPa, MPa). */
 export function demoScheme(): Scheme {
   const walls = new Set(['A', 'D', '1', '5', '3']);
   const grid: GridLine[] = [
@@ -67,7 +67,7 @@ export function demoScheme(): Scheme {
   };
 }
 
-/** The variant: column B3 left out, so lines B and 3 span two bays there. */
+/** The variant: column B3 left out, so lines B and 3 span two bays there (8.0 m and 8.4 m). Units as the model. */
 export function demoSchemeVariant(): Scheme {
   const s = demoScheme();
   return { ...s, id: 'tamarind-row-s2', name: 'Tamarind Row, scheme 2: without column B3', columns: s.columns.filter((c) => c.id !== 'B3') };

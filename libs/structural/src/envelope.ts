@@ -92,7 +92,7 @@ function scanArrangement(
 }
 
 /**
- * The imposed-load arrangements of a beam with n members: label, loaded members, and the members
+ * The imposed-load arrangements of a beam with n members (no units): label, loaded members, and the members
  * whose moments the arrangement is meant for (null: all). An adjacent-span arrangement serves the
  * moment over its support (IS 456 cl. 22.4.1(c)), so only the two spans beside it are scanned;
  * span moments come from the all-span and alternate-span arrangements (cl. 22.4.1(b)).

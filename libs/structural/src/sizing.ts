@@ -130,9 +130,13 @@ export interface ColumnStoreySize {
   source: string;
 }
 
-/** Column section for a factored axial load (kN), strengths MPa, steel ratio of gross area. */
 const sourceCache = new Map<string, string>();
 
+/**
+ * Column section for a factored axial load (kN), strengths MPa, steel ratio of the gross area,
+ * minimum side and given section in mm: area (mm²) and square side (mm) needed, the given
+ * section's capacity (kN) and its utilisation.
+ */
 export function columnSize(family: CodeFamily, factoredKN: number, fck: number, fy: number, steelRatio: number, minSideMm: number, providedMm: [number, number]): ColumnStoreySize {
   const perMm2 = columnCapacityKN(family, 1, 1, fck, fy, steelRatio);
   const key = `${family}${steelRatio}`;
