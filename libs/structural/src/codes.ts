@@ -257,7 +257,9 @@ export function slabDepthRule(
     }
     const base = condition === 'simple' ? 35 : 40;
     const ratio = fy > 250 ? base * 0.8 : base;
-    return { requiredMm: lx / ratio, measure: 'overall', ratio, source: 'IS 456:2000 cl. 24.1 Note 2 (two-way, short span/overall depth, × 0.8 for Fe 415)', kind: 'code' };
+    // the clause is stated for short spans up to 3.5 m and imposed loads up to 3 kPa
+    const scope = lxM > 3.5 ? '; stated for short spans up to 3.5 m, used beyond as a guide' : '';
+    return { requiredMm: lx / ratio, measure: 'overall', ratio, source: `IS 456:2000 cl. 24.1 Note 2 (two-way, short span/overall depth, × 0.8 for Fe 415${scope})`, kind: 'code' };
   }
   if (family === 'ACI318') {
     if (oneWay) {
