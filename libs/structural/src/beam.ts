@@ -5,6 +5,7 @@
 // Sign conventions: loads act downward and are positive; bending moments are positive when
 // sagging (tension at the bottom); deflections are reported positive downward.
 import { bandAdd, bandMatrix, BandMatrix, factorBand, solveBand } from './banded';
+import { CAUTION } from './codes';
 import type { Problem } from './model';
 
 export type Support = 'pin' | 'fixed' | 'free';
@@ -409,6 +410,8 @@ export interface MemberResult {
 }
 
 export interface BeamResult {
+  /** preliminary results only: see CAUTION */
+  caution: string;
   problems: Problem[];
   /** one per node: vertical reaction (kN, upward) and moment reaction (kN·m, anticlockwise); zero at free nodes */
   reactions: { node: number; xM: number; forceKN: number; momentKNm: number }[];
@@ -475,7 +478,7 @@ function validateBeam(model: BeamModel, loads: readonly BeamLoad[]): Problem[] {
  * Invalid input or an unstable support arrangement gives problems, not an exception.
  */
 export function analyseBeam(model: BeamModel, loads: readonly BeamLoad[], options: { samplesPerMember?: number } = {}): BeamResult {
-  const empty = (problems: Problem[]): BeamResult => ({ problems, reactions: [], members: [], nodes: [], totalLoadKN: 0 });
+  const empty = (problems: Problem[]): BeamResult => ({ caution: CAUTION, problems, reactions: [], members: [], nodes: [], totalLoadKN: 0 });
   const problems = validateBeam(model, loads);
   if (problems.length) return empty(problems);
   const p = prepareBeam(model);
@@ -561,7 +564,7 @@ export function analyseBeam(model: BeamModel, loads: readonly BeamLoad[], option
 
   const nodes = model.supports.map((_, n) => ({ node: n, xM: p.xs[n], deflectionMm: -s.u[2 * n] * 1000, rotationRad: s.u[2 * n + 1] }));
   const totalLoadKN = s.terms.reduce((a, t) => a + t.total, 0);
-  return { problems: [], reactions, members, nodes, totalLoadKN };
+  return { caution: CAUTION, problems: [], reactions, members, nodes, totalLoadKN };
 }
 
 /**

@@ -3,7 +3,7 @@
 // arrangements of IS 456 cl. 22.4.1 and ACI 318-19 §6.4.3). One factorisation serves every
 // arrangement; each is a fresh right-hand side of the banded system.
 import { BeamLoad, BeamModel, groupLoads, memberTerms, PreparedBeam, prepareBeam, simpleDeflection, simpleMoment, simpleShear, solvePacked } from './beam';
-import type { Combination } from './codes';
+import { CAUTION, Combination } from './codes';
 
 // three points per member: the largest deflection lies near mid-span, or at a free end
 const DEFLECTION_POINTS = [0.4, 0.5, 0.6];
@@ -26,6 +26,8 @@ export interface MemberEnvelope {
 }
 
 export interface BeamEnvelope {
+  /** preliminary results only: see CAUTION */
+  caution: string;
   ok: boolean;
   members: MemberEnvelope[];
   /** service reactions per node, all spans loaded, kN: dead and imposed apart */
@@ -211,7 +213,7 @@ export function envelopeBeam(
   opts: { samplesPerMember?: number; prepared?: PreparedBeam } = {},
 ): BeamEnvelope {
   const p = opts.prepared ?? prepareBeam(model);
-  if (!p.ok) return { ok: false, members: [], deadReactionsKN: [], liveReactionsKN: [], maxFactoredReactionsKN: [], patternsTried: 0 };
+  if (!p.ok) return { caution: CAUTION, ok: false, members: [], deadReactionsKN: [], liveReactionsKN: [], maxFactoredReactionsKN: [], patternsTried: 0 };
   const nSeg = opts.samplesPerMember ?? 10;
   return envelopeParts(p, [[loadPart(p, dead, nSeg), 1]], [[loadPart(p, live, nSeg), 1]], combos);
 }
@@ -246,7 +248,7 @@ export function envelopeParts(
 ): BeamEnvelope {
   const model = p.model;
   const nm = model.members.length;
-  if (!p.ok) return { ok: false, members: [], deadReactionsKN: [], liveReactionsKN: [], maxFactoredReactionsKN: [], patternsTried: 0 };
+  if (!p.ok) return { caution: CAUTION, ok: false, members: [], deadReactionsKN: [], liveReactionsKN: [], maxFactoredReactionsKN: [], patternsTried: 0 };
   const nSeg = (deadParts[0] ?? liveParts[0])?.[0].nSeg ?? 10;
   const D = combineParts(deadParts, nm, nSeg);
   const Lv = combineParts(liveParts, nm, nSeg);
@@ -344,5 +346,5 @@ export function envelopeParts(
       }
     }
   }
-  return { ok: true, members: env, deadReactionsKN: [...rD], liveReactionsKN: [...rL], maxFactoredReactionsKN: maxR, patternsTried: scans.length };
+  return { caution: CAUTION, ok: true, members: env, deadReactionsKN: [...rD], liveReactionsKN: [...rL], maxFactoredReactionsKN: maxR, patternsTried: scans.length };
 }
