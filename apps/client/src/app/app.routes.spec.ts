@@ -37,7 +37,7 @@ describe('app routes', () => {
   it('opens Projects for the bare address when signed in, and asks the server for the list', async () => {
     await open('/', grantedMe('engineer'));
     expect(TestBed.inject(Router).url).toBe('/projects');
-    backend.expectOne('/api/projects').flush([]);
+    backend.expectOne((r) => r.url === '/api/projects').flush({ items: [], total: 0, page: 1, pageSize: 25 });
     await harness.fixture.whenStable();
     expect(shownText()).toContain('No projects to show yet');
   });

@@ -37,10 +37,23 @@ export const routes: Routes = [
     loadComponent: () => import('./features/projects/projects-page').then((m) => m.ProjectsPage),
   },
   {
+    // Before `projects/:projectId`, so "new" is not read as a project id.
+    path: 'projects/new',
+    title: 'New project · Trabeate',
+    canActivate: [signedInGuard, roleGuard('principal')],
+    loadComponent: () => import('./features/projects/project-form-page').then((m) => m.ProjectFormPage),
+  },
+  {
     path: 'projects/:projectId',
     title: 'Project · Trabeate',
     canActivate: [signedInGuard],
-    loadComponent: () => import('./features/projects/project-detail-page').then((m) => m.ProjectDetailPage),
+    loadComponent: () => import('./features/projects/project-page').then((m) => m.ProjectPage),
+  },
+  {
+    path: 'projects/:projectId/edit',
+    title: 'Edit project · Trabeate',
+    canActivate: [signedInGuard, roleGuard('principal')],
+    loadComponent: () => import('./features/projects/project-form-page').then((m) => m.ProjectFormPage),
   },
   {
     path: 'drawings',
@@ -59,6 +72,13 @@ export const routes: Routes = [
     title: 'People · Trabeate',
     canActivate: [signedInGuard, roleGuard('principal')],
     loadComponent: () => import('./features/people/people-page').then((m) => m.PeoplePage),
+  },
+  {
+    // Development only: the server answers 404 here unless it runs with the local mail fake.
+    path: 'dev/outbox',
+    title: 'Outbox · Trabeate',
+    canActivate: [signedInGuard, roleGuard('principal')],
+    loadComponent: () => import('./features/dev-outbox/outbox-page').then((m) => m.OutboxPage),
   },
   {
     // Public, so a signed-out person can still see whether the server and database are up.

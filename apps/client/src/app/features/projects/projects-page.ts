@@ -24,7 +24,7 @@ import {
   MatTable,
 } from '@angular/material/table';
 import { Router, RouterLink } from '@angular/router';
-import type { ProjectList, ProjectListQuery } from '@trabeate/contracts';
+import type { ProjectList, ProjectListQuery, StageState } from '@trabeate/contracts';
 import { errorMessage } from '../../core/auth/api-error';
 import { Session } from '../../core/auth/session';
 import { EmptyState } from '../../shared/empty-state/empty-state';
@@ -140,13 +140,16 @@ export class ProjectsPage implements OnDestroy {
 
   protected readonly columns = ['reference', 'name', 'client', 'stage', 'late', 'updatedAt'];
   protected readonly pageSizes = PAGE_SIZES;
-  protected readonly stateLabels = STATE_LABELS;
   protected readonly filtered = computed(() => {
     const s = this.state();
     return !!s.q || !!s.client || s.status !== 'active';
   });
 
   private searchTimer?: ReturnType<typeof setTimeout>;
+
+  protected stateLabel(state: StageState): string {
+    return STATE_LABELS[state];
+  }
 
   protected message(err: unknown): string {
     return errorMessage(err);

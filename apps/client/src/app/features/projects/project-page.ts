@@ -1,0 +1,163 @@
+import { DatePipe, DecimalPipe } from '@angular/common';
+import { HttpClient, httpResource } from '@angular/common/http';
+import { ChangeDetectionStrategy, Component, computed, inject, input, signal, viewChild } from '@angular/core';
+import { MatButton, MatIconButton } from '@angular/material/button';
+import { MatOption } from '@angular/material/core';
+import { MatDialog } from '@angular/material/dialog';
+import { MatFormField, MatLabel } from '@angular/material/form-field';
+import { MatIcon } from '@angular/material/icon';
+import { MatProgressSpinner } from '@angular/material/progress-spinner';
+import { MatSelect } from '@angular/material/select';
+import { Router, RouterLink } from '@angular/router';
+import type { Person, ProjectPage as ProjectPageData, Stage, StageKey } from '@trabeate/contracts';
+import { firstValueFrom } from 'rxjs';
+import { errorMessage } from '../../core/auth/api-error';
+import { ROLE_LABELS } from '../../core/auth/session';
+import { Notice } from '../../core/notice';
+import { ConfirmDialog, ConfirmData } from '../../shared/confirm-dialog/confirm-dialog';
+import { ActivityLog } from './activity-log';
+import { STAGE_ORDER, STATE_LABELS, codeFamilyLabel } from './project-labels';
+import { ProjectsApi, projectUrl } from './projects-api';
+import { StagePanel } from './stages/stage-panel';
+
+/** One project: its facts, its six stages as a row of bays, the chosen stage's panel, and the log. */
+@Component({
+  selector: 'tb-project-page',
+  imports: [
+    ActivityLog,
+    DatePipe,
+    DecimalPipe,
+    MatButton,
+    MatIconButton,
+    MatFormField,
+    MatLabel,
+    MatIcon,
+    MatOption,
+    MatProgressSpinner,
+    MatSelect,
+    RouterLink,
+    StagePanel,
+  ],
+  templateUrl: './project-page.html',
+  styleUrls: ['../../shared/page/page.scss', './project-page.scss'],
+  changeDetection: ChangeDetectionStrategy.OnPush,
+})
+export class ProjectPage {
+  private readonly http = inject(HttpClient);
+  private readonly api = inject(ProjectsApi);
+  private readonly dialog = inject(MatDialog);
+  private readonly notice = inject(Notice);
+  private readonly router = inject(Router);
+
+  /** Route-bound `:projectId`. */
+  readonly projectId = input.required<string>();
+  /** Route-bound `?stage=`: the stage whose panel is open, kept in the address. */
+  readonly stage = input<string>();
+
+  protected readonly project = httpResource<ProjectPageData>(() => `${projectUrl(this.projectId())}/full`);
+  protected readonly data = computed(() => (this.project.hasValue() ? this.project.value() : undefined));
+  protected readonly stages = computed(() => {
+    const stages = this.data()?.stages ?? [];
+    return [...stages].sort((a, b) => STAGE_ORDER.indexOf(a.key) - STAGE_ORDER.indexOf(b.key));
+  });
+  /** The chosen stage, else the first one not yet approved (where the work is). */
+  protected readonly selected = computed<Stage | undefined>(() => {
+    const stages = this.stages();
+    return stages.find((s) => s.key === this.stage()) ?? stages.find((s) => s.state !== 'approved') ?? stages[0];
+  });
+
+  protected readonly stateLabels = STATE_LABELS;
+  protected readonly familyLabel = codeFamilyLabel;
+  protected readonly busy = signal(false);
+  private readonly activity = viewChild(ActivityLog);
+
+  /** The firm's people list is asked for only by someone who may manage the project. */
+  private readonly people = httpResource<Person[]>(() => (this.data()?.abilities.manage ? '/api/people' : undefined));
+  protected readonly candidates = computed(() => {
+    const p = this.data();
+    const all = this.people.hasValue() ? this.people.value() : [];
+    if (!p) return [];
+    const on = new Set(p.members.map((m) => m.id));
+    // The principal sees every project already; client contacts only join their own organisation's projects.
+    return all.filter(
+      (x) =>
+        x.status !== 'removed' &&
+        x.role !== 'principal' &&
+        !on.has(x.id) &&
+        (x.role !== 'client' || x.clientOrganisation?.id === p.clientOrganisation.id),
+    );
+  });
+  protected readonly toAdd = signal<string | null>(null);
+
+  protected loadError(err: unknown): string {
+    return errorMessage(err, 'The project could not be loaded. Check the connection and try again.');
+  }
+
+  protected roleLabel(role: keyof typeof ROLE_LABELS): string {
+    return ROLE_LABELS[role];
+  }
+
+  protected choose(key: StageKey): void {
+    void this.router.navigate([], { queryParams: { stage: key }, queryParamsHandling: 'merge', replaceUrl: true });
+  }
+
+  /** After any change on a stage: the stage states, counts and the log all move. */
+  protected refresh(): void {
+    this.project.reload();
+    this.activity()?.reload();
+  }
+
+  protected async toggleArchive(): Promise<void> {
+    const p = this.data();
+    if (!p || this.busy()) return;
+    const archive = !p.archivedAt;
+    const ref = this.dialog.open<ConfirmDialog, ConfirmData, boolean>(ConfirmDialog, {
+      data: archive
+        ? {
+            title: `Archive ${p.reference}?`,
+            message: 'An archived project leaves the active list and its stages can no longer move. You can bring it back later.',
+            confirm: 'Archive',
+          }
+        : { title: `Bring ${p.reference} back?`, message: 'The project returns to the active list.', confirm: 'Unarchive' },
+    });
+    if (!(await firstValueFrom(ref.afterClosed()))) return;
+    await this.guarded(async () => {
+      await this.api.setArchived(p.id, archive);
+      this.notice.show(archive ? 'Project archived.' : 'Project back in the active list.', 4000);
+      this.refresh();
+    });
+  }
+
+  protected addMember(): Promise<void> {
+    const userId = this.toAdd();
+    return userId ? this.changeMember('put', userId, 'Added to the project.') : Promise.resolve();
+  }
+
+  protected removeMember(userId: string): Promise<void> {
+    return this.changeMember('delete', userId, 'Taken off the project.');
+  }
+
+  private changeMember(method: 'put' | 'delete', userId: string, done: string): Promise<void> {
+    const url = `${projectUrl(this.projectId())}/members/${encodeURIComponent(userId)}`;
+    return this.guarded(async () => {
+      await firstValueFrom(method === 'put' ? this.http.put(url, {}) : this.http.delete(url));
+      this.toAdd.set(null);
+      this.notice.show(done, 4000);
+      this.refresh();
+    });
+  }
+
+  private async guarded(work: () => Promise<void>): Promise<void> {
+    if (this.busy()) return;
+    this.busy.set(true);
+    try {
+      await work();
+    } catch (err) {
+      // 401 and 403 are already announced by the interceptor.
+      const status = (err as { status?: number }).status;
+      if (status !== 401 && status !== 403) this.notice.show(errorMessage(err));
+    } finally {
+      this.busy.set(false);
+    }
+  }
+}

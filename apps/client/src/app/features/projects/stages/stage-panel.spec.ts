@@ -1,0 +1,178 @@
+import { HttpClient, provideHttpClient } from '@angular/common/http';
+import { HttpTestingController, provideHttpClientTesting } from '@angular/common/http/testing';
+import { ANIMATION_MODULE_TYPE, inject } from '@angular/core';
+import { ComponentFixture, TestBed } from '@angular/core/testing';
+import type { ProjectPage, Stage } from '@trabeate/contracts';
+import { UPLOAD_HTTP } from '../projects-api';
+import { StagePanel } from './stage-panel';
+
+const PROJECT_ID = '00000000-0000-4000-8000-000000000301';
+const ENGINEER = { id: '00000000-0000-4000-8000-000000000202', displayName: 'Cato Brennagh' };
+const BASE = `/api/projects/${PROJECT_ID}/stages/column_layout`;
+
+function stage(extra: Partial<Stage> = {}): Stage {
+  return {
+    key: 'column_layout',
+    title: 'Column layout',
+    position: 2,
+    state: 'in_progress',
+    assignee: ENGINEER,
+    dueDate: '2026-04-01',
+    late: false,
+    submittedAt: null,
+    approvedAt: null,
+    deliverableCount: 0,
+    commentCount: 0,
+    allowedActions: [],
+    ...extra,
+  };
+}
+
+function project(manage: boolean, work = true): ProjectPage {
+  return {
+    id: PROJECT_ID,
+    reference: 'QTH-1',
+    name: 'Block one',
+    clientOrganisation: { id: '00000000-0000-4000-8000-000000000101', name: 'Quillon Terrace Homes' },
+    siteAddress: '',
+    buildingUse: '',
+    storeys: 5,
+    storeyHeightM: 3,
+    floorAreaM2: null,
+    designBasis: null,
+    archivedAt: null,
+    finance: null,
+    members: [{ ...ENGINEER, role: 'engineer' }, { id: '00000000-0000-4000-8000-000000000203', displayName: 'Maud Ferrier', role: 'client' }],
+    stages: [],
+    abilities: { work, manage, seeFinance: manage, pay: false, acknowledge: false },
+  };
+}
+
+describe('StagePanel', () => {
+  let fixture: ComponentFixture<StagePanel>;
+  let backend: HttpTestingController;
+  let changed: number;
+  const el = () => fixture.nativeElement as HTMLElement;
+  const actionButtons = () => Array.from(el().querySelectorAll<HTMLButtonElement>('[data-testid^="action-"]')).map((b) => b.textContent?.trim());
+  // Not whenStable: an open request (an upload, a reload) keeps the app "unstable" until answered.
+  const settle = async (ms = 0) => {
+    await new Promise((r) => setTimeout(r, ms));
+    TestBed.tick();
+  };
+
+  async function open(s: Stage, manage: boolean): Promise<void> {
+    TestBed.configureTestingModule({
+      imports: [StagePanel],
+      providers: [provideHttpClient(), provideHttpClientTesting(), { provide: UPLOAD_HTTP, useFactory: () => inject(HttpClient) },
+        { provide: ANIMATION_MODULE_TYPE, useValue: 'NoopAnimations' },
+      ],
+    });
+    backend = TestBed.inject(HttpTestingController);
+    fixture = TestBed.createComponent(StagePanel);
+    fixture.componentRef.setInput('project', project(manage));
+    fixture.componentRef.setInput('stage', s);
+    changed = 0;
+    fixture.componentInstance.changed.subscribe(() => changed++);
+    fixture.detectChanges();
+    TestBed.tick();
+    backend.expectOne(`${BASE}/deliverables`).flush([]);
+    backend.expectOne(`${BASE}/comments`).flush([]);
+    await settle();
+  }
+
+  afterEach(() => {
+    document.querySelectorAll('.cdk-overlay-container').forEach((n) => n.remove());
+  });
+
+  it('offers exactly the actions the server allows the caller, in working order', async () => {
+    await open(stage({ state: 'under_review', allowedActions: ['return', 'approve'] }), true);
+    expect(actionButtons()).toEqual(['Approve', 'Return with comments']);
+  });
+
+  it('offers no actions when the server allows none (a client contact, or someone not on the stage)', async () => {
+    await open(stage({ allowedActions: [] }), false);
+    expect(el().querySelector('[data-testid="stage-actions"]')).toBeNull();
+    expect(el().querySelector('[data-testid="assignment"]')).toBeNull();
+  });
+
+  it('submits with one request and tells the page to read the project again', async () => {
+    await open(stage({ allowedActions: ['submit'] }), false);
+    (el().querySelector('[data-testid="action-submit"]') as HTMLButtonElement).click();
+    const req = backend.expectOne(`${BASE}/transitions`);
+    expect(req.request.body).toEqual({ action: 'submit' });
+    req.flush(stage({ state: 'under_review' }));
+    await settle();
+    backend.expectOne(`${BASE}/comments`).flush([]);
+    expect(changed).toBe(1);
+  });
+
+  it('will not return a stage without a comment, then sends the comment with the return', async () => {
+    await open(stage({ state: 'under_review', allowedActions: ['approve', 'return'] }), true);
+    (el().querySelector('[data-testid="action-return"]') as HTMLButtonElement).click();
+    await settle(50);
+    const confirm = document.querySelector('[data-testid="action-confirm"]') as HTMLButtonElement;
+    expect(confirm).not.toBeNull();
+    confirm.click();
+    await settle(50);
+    expect(document.querySelector('mat-error')?.textContent).toContain('Say what needs changing.');
+    backend.expectNone(`${BASE}/transitions`);
+
+    const text = document.querySelector('[data-testid="action-text"]') as HTMLTextAreaElement;
+    text.value = '   ';
+    text.dispatchEvent(new Event('input'));
+    confirm.click();
+    await settle(50);
+    backend.expectNone(`${BASE}/transitions`);
+
+    text.value = 'Column C4 clashes with the stair core; move it to grid D.';
+    text.dispatchEvent(new Event('input'));
+    confirm.click();
+    await settle(50);
+    const req = backend.expectOne(`${BASE}/transitions`);
+    expect(req.request.body).toEqual({ action: 'return', comment: 'Column C4 clashes with the stair core; move it to grid D.' });
+    req.flush(stage({ state: 'returned' }));
+    await settle(50);
+    backend.expectOne(`${BASE}/comments`).flush([]);
+  });
+
+  it('reopening asks for a reason and sends it as the reason', async () => {
+    await open(stage({ state: 'approved', allowedActions: ['reopen'] }), true);
+    (el().querySelector('[data-testid="action-reopen"]') as HTMLButtonElement).click();
+    await settle(50);
+    const text = document.querySelector('[data-testid="action-text"]') as HTMLTextAreaElement;
+    text.value = 'The architect moved the lift shaft.';
+    text.dispatchEvent(new Event('input'));
+    (document.querySelector('[data-testid="action-confirm"]') as HTMLButtonElement).click();
+    await settle(50);
+    expect(backend.expectOne(`${BASE}/transitions`).request.body).toEqual({ action: 'reopen', reason: 'The architect moved the lift shaft.' });
+  });
+
+  it('shows the server’s reason when a transition is refused (409), and refreshes the stage', async () => {
+    await open(stage({ allowedActions: ['submit'] }), false);
+    (el().querySelector('[data-testid="action-submit"]') as HTMLButtonElement).click();
+    backend
+      .expectOne(`${BASE}/transitions`)
+      .flush({ error: { code: 'conflict', message: 'Upload at least one deliverable before submitting.' } }, { status: 409, statusText: 'Conflict' });
+    await settle();
+    expect(el().querySelector('[data-testid="action-error"]')?.textContent).toContain('Upload at least one deliverable before submitting.');
+    expect(changed).toBe(1);
+  });
+
+  it('lets the principal assign an engineer from the project’s staff and set a due date', async () => {
+    await open(stage({ assignee: null, dueDate: null }), true);
+    const due = el().querySelector('[data-testid="due-date"]') as HTMLInputElement;
+    due.value = '2026-05-15';
+    due.dispatchEvent(new Event('change'));
+    fixture.componentInstance['assigneeId'].set(ENGINEER.id);
+    await settle();
+    (el().querySelector('[data-testid="save-assignment"]') as HTMLButtonElement).click();
+    const req = backend.expectOne(BASE);
+    expect(req.request.method).toBe('PATCH');
+    expect(req.request.body).toEqual({ assigneeId: ENGINEER.id, dueDate: '2026-05-15' });
+    // Client contacts are never offered as the stage's engineer.
+    expect(fixture.componentInstance['staff']().map((m: { displayName: string }) => m.displayName)).toEqual(['Cato Brennagh']);
+    req.flush(stage());
+    await settle();
+    backend.expectOne(`${BASE}/comments`).flush([]);
+  });
+});

@@ -1,0 +1,121 @@
+import { DatePipe } from '@angular/common';
+import { HttpErrorResponse } from '@angular/common/http';
+import { ChangeDetectionStrategy, Component, computed, inject, input, linkedSignal, output, signal, viewChild } from '@angular/core';
+import { MatButton } from '@angular/material/button';
+import { MatOption } from '@angular/material/core';
+import { MatDialog } from '@angular/material/dialog';
+import { MatFormField, MatHint, MatLabel } from '@angular/material/form-field';
+import { MatIcon } from '@angular/material/icon';
+import { MatInput } from '@angular/material/input';
+import { MatSelect } from '@angular/material/select';
+import type { ProjectPage, Stage, StageAction, StageTransition } from '@trabeate/contracts';
+import { firstValueFrom } from 'rxjs';
+import { errorMessage } from '../../../core/auth/api-error';
+import { Notice } from '../../../core/notice';
+import { ACTION_LABELS, STATE_LABELS } from '../project-labels';
+import { ProjectsApi } from '../projects-api';
+import { DeliverablesPanel } from './deliverables-panel';
+import { StageActionDialog, StageActionDialogData } from './stage-action-dialog';
+import { StageComments } from './stage-comments';
+
+const ACTION_ORDER: readonly StageAction[] = ['start', 'submit', 'approve', 'return', 'reopen'];
+const DONE: Readonly<Record<StageAction, string>> = {
+  start: 'Work started.',
+  submit: 'Submitted for review; the principal is told by e-mail.',
+  approve: 'Stage approved; the engineer is told by e-mail.',
+  return: 'Stage returned with your comment; the engineer is told by e-mail.',
+  reopen: 'Stage reopened.',
+};
+
+/** One stage: what the caller may do with it now, who has it and by when, its files and its thread. */
+@Component({
+  selector: 'tb-stage-panel',
+  imports: [DatePipe, DeliverablesPanel, MatButton, MatFormField, MatHint, MatIcon, MatInput, MatLabel, MatOption, MatSelect, StageComments],
+  templateUrl: './stage-panel.html',
+  styleUrl: './stage-panel.scss',
+  changeDetection: ChangeDetectionStrategy.OnPush,
+})
+export class StagePanel {
+  private readonly api = inject(ProjectsApi);
+  private readonly dialog = inject(MatDialog);
+  private readonly notice = inject(Notice);
+
+  readonly project = input.required<ProjectPage>();
+  readonly stage = input.required<Stage>();
+  /** Something about the stage changed on the server; the page reads the project again. */
+  readonly changed = output<void>();
+
+  private readonly comments = viewChild(StageComments);
+
+  protected readonly stateLabels = STATE_LABELS;
+  protected readonly actions = computed(() => ACTION_ORDER.filter((a) => this.stage().allowedActions.includes(a)));
+  protected readonly manage = computed(() => this.project().abilities.manage);
+  protected readonly work = computed(() => this.project().abilities.work);
+  /** Who can carry a stage: the firm's people on the project (never a client contact). */
+  protected readonly staff = computed(() => this.project().members.filter((m) => m.role !== 'client'));
+
+  protected readonly assigneeId = linkedSignal(() => this.stage().assignee?.id ?? '');
+  protected readonly dueDate = linkedSignal(() => this.stage().dueDate ?? '');
+  protected readonly assignmentChanged = computed(
+    () => this.assigneeId() !== (this.stage().assignee?.id ?? '') || this.dueDate() !== (this.stage().dueDate ?? ''),
+  );
+
+  protected readonly busy = signal(false);
+  /** Cleared whenever another stage is shown. */
+  protected readonly actionError = linkedSignal<Stage, string>({ source: this.stage, computation: () => '' });
+
+  protected label(action: StageAction): string {
+    return ACTION_LABELS[action];
+  }
+
+  protected async act(action: StageAction): Promise<void> {
+    if (this.busy()) return;
+    let body: StageTransition;
+    if (action === 'return' || action === 'reopen') {
+      const ref = this.dialog.open<StageActionDialog, StageActionDialogData, string>(StageActionDialog, {
+        data: { action, stageTitle: this.stage().title },
+      });
+      const text = await firstValueFrom(ref.afterClosed());
+      if (!text) return;
+      body = action === 'return' ? { action, comment: text } : { action, reason: text };
+    } else {
+      body = { action };
+    }
+    await this.run(async () => {
+      await this.api.transition(this.project().id, this.stage().key, body);
+      this.notice.show(DONE[action], 5000);
+    });
+  }
+
+  protected async saveAssignment(): Promise<void> {
+    await this.run(async () => {
+      await this.api.patchStage(this.project().id, this.stage().key, {
+        assigneeId: this.assigneeId() || null,
+        dueDate: this.dueDate() || null,
+      });
+      this.notice.show('Assignment saved.', 4000);
+    });
+  }
+
+  protected refreshed(): void {
+    this.changed.emit();
+  }
+
+  private async run(work: () => Promise<void>): Promise<void> {
+    if (this.busy()) return;
+    this.busy.set(true);
+    this.actionError.set('');
+    try {
+      await work();
+      this.comments()?.reload();
+      this.changed.emit();
+    } catch (err) {
+      const status = err instanceof HttpErrorResponse ? err.status : 0;
+      // 409: the stage moved on meanwhile (someone else acted); the server says how it stands.
+      if (status === 409) this.changed.emit();
+      if (status !== 401) this.actionError.set(errorMessage(err));
+    } finally {
+      this.busy.set(false);
+    }
+  }
+}
