@@ -87,6 +87,12 @@ export class ProjectPage {
         (x.role !== 'client' || x.clientOrganisation?.id === p.clientOrganisation.id),
     );
   });
+  /** The firm's engineers, for stage assignment (the principal only). */
+  protected readonly engineers = computed(() =>
+    this.people.hasValue()
+      ? this.people.value().filter((x) => x.role === 'engineer' && x.status !== 'removed').map((x) => ({ id: x.id, displayName: x.displayName }))
+      : undefined,
+  );
   protected readonly toAdd = signal<string | null>(null);
 
   protected loadError(err: unknown): string {

@@ -66,8 +66,9 @@ export class ProjectsApi {
     return firstValueFrom(this.http.patch(projectUrl(projectId), body));
   }
 
+  /** Archive, or bring back (`restore`) an archived project. */
   setArchived(projectId: string, archived: boolean): Promise<unknown> {
-    return firstValueFrom(this.http.post(`${projectUrl(projectId)}/${archived ? 'archive' : 'unarchive'}`, {}));
+    return firstValueFrom(this.http.post(`${projectUrl(projectId)}/${archived ? 'archive' : 'restore'}`, {}));
   }
 
   patchStage(projectId: string, stage: StageKey, body: StagePatch): Promise<Stage> {

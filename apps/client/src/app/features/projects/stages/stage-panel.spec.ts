@@ -158,7 +158,7 @@ describe('StagePanel', () => {
     expect(changed).toBe(1);
   });
 
-  it('lets the principal assign an engineer from the project’s staff and set a due date', async () => {
+  it('lets the principal assign an engineer and set a due date', async () => {
     await open(stage({ assignee: null, dueDate: null }), true);
     const due = el().querySelector('[data-testid="due-date"]') as HTMLInputElement;
     due.value = '2026-05-15';
@@ -169,7 +169,7 @@ describe('StagePanel', () => {
     const req = backend.expectOne(BASE);
     expect(req.request.method).toBe('PATCH');
     expect(req.request.body).toEqual({ assigneeId: ENGINEER.id, dueDate: '2026-05-15' });
-    // Client contacts are never offered as the stage's engineer.
+    // Only engineers carry a stage: not the client contact on the project.
     expect(fixture.componentInstance['staff']().map((m: { displayName: string }) => m.displayName)).toEqual(['Cato Brennagh']);
     req.flush(stage());
     await settle();

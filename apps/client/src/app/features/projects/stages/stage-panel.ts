@@ -51,8 +51,14 @@ export class StagePanel {
   protected readonly actions = computed(() => ACTION_ORDER.filter((a) => this.stage().allowedActions.includes(a)));
   protected readonly manage = computed(() => this.project().abilities.manage);
   protected readonly work = computed(() => this.project().abilities.work);
-  /** Who can carry a stage: the firm's people on the project (never a client contact). */
-  protected readonly staff = computed(() => this.project().members.filter((m) => m.role !== 'client'));
+  /**
+   * Who can carry a stage: the firm's engineers (the server adds one to the project team when
+   * assigned). Without the firm's list, the engineers already on the project.
+   */
+  readonly engineers = input<readonly { id: string; displayName: string }[] | undefined>();
+  protected readonly staff = computed(() => this.engineers() ?? this.project().members.filter((m) => m.role === 'engineer'));
+  /** Files change only while the work is open: not under review, not once approved. */
+  protected readonly canUpload = computed(() => this.work() && this.stage().state !== 'under_review' && this.stage().state !== 'approved');
 
   protected readonly assigneeId = linkedSignal(() => this.stage().assignee?.id ?? '');
   protected readonly dueDate = linkedSignal(() => this.stage().dueDate ?? '');
