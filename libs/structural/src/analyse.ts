@@ -372,31 +372,31 @@ function sizeChecks(
   const steel = limits.columnSteelRatio.value;
   for (const p of slabPanels) {
     const lim = { value: p.requiredMm, unit: 'mm', source: p.source, kind: p.kind };
-    checks.push(check(RULES.slabThickness, 'error', [p.panelId], `slab ${p.panelId} (${p.spanning}, ${p.lxM.toFixed(2)} × ${p.lyM.toFixed(2)} m): ${slabT} mm against ${p.requiredMm} mm needed`, slabT, lim, 'min'));
+    checks.push(check(RULES.slabThickness, 'error', [p.panelId], () => `slab ${p.panelId} (${p.spanning}, ${p.lxM.toFixed(2)} × ${p.lyM.toFixed(2)} m): ${slabT} mm against ${p.requiredMm} mm needed`, slabT, lim, 'min'));
   }
   const headroom = limits.headroomUnderBeamMinM;
   for (const bs of beams) {
     const depth = bs.providedDepthMm ?? bs.adoptedDepthMm;
     if (bs.providedDepthMm !== null) {
       const lim = { value: bs.adoptedDepthMm, unit: 'mm', source: bs.governs === 'moment' ? bs.momentSource : bs.spanDepthSource, kind: 'code' as const };
-      checks.push(check(RULES.beamDepth, 'error', [bs.memberId], `${bs.memberId}: ${bs.providedDepthMm} mm deep against ${bs.adoptedDepthMm} mm needed (${bs.governs} governs)`, bs.providedDepthMm, lim, 'min'));
+      checks.push(check(RULES.beamDepth, 'error', [bs.memberId], () => `${bs.memberId}: ${bs.providedDepthMm} mm deep against ${bs.adoptedDepthMm} mm needed (${bs.governs} governs)`, bs.providedDepthMm, lim, 'min'));
     }
     const clear = storeyHeightM - depth / 1000;
-    checks.push(check(RULES.beamHeadroom, 'warning', [bs.memberId], `${bs.memberId}: ${clear.toFixed(2)} m clear under a ${depth} mm beam`, clear, headroom, 'min'));
+    checks.push(check(RULES.beamHeadroom, 'warning', [bs.memberId], () => `${bs.memberId}: ${clear.toFixed(2)} m clear under a ${depth} mm beam`, clear, headroom, 'min'));
   }
-  checks.push(check(RULES.columnSteel, 'error', [], `assumed column steel ${(steel * 100).toFixed(2)} % (at least ${(limits.columnSteelRatioMin.value * 100).toFixed(1)} %)`, steel, limits.columnSteelRatioMin, 'min'));
-  checks.push(check(RULES.columnSteel, 'error', [], `assumed column steel ${(steel * 100).toFixed(2)} % (at most ${(limits.columnSteelRatioMax.value * 100).toFixed(1)} %)`, steel, limits.columnSteelRatioMax, 'max'));
+  checks.push(check(RULES.columnSteel, 'error', [], () => `assumed column steel ${(steel * 100).toFixed(2)} % (at least ${(limits.columnSteelRatioMin.value * 100).toFixed(1)} %)`, steel, limits.columnSteelRatioMin, 'min'));
+  checks.push(check(RULES.columnSteel, 'error', [], () => `assumed column steel ${(steel * 100).toFixed(2)} % (at most ${(limits.columnSteelRatioMax.value * 100).toFixed(1)} %)`, steel, limits.columnSteelRatioMax, 'max'));
   for (const cs of colSizes) {
     const pu = cs.utilisation[0] * cs.providedCapacityKN;
     const lim = { value: cs.providedCapacityKN, unit: 'kN', source: cs.source, kind: 'code' as const };
-    checks.push(check(RULES.columnCapacity, 'error', [cs.columnId], `column ${cs.columnId} (${cs.providedMm[0]} × ${cs.providedMm[1]} mm) carries ${pu.toFixed(0)} kN in the lowest storey against ${cs.providedCapacityKN.toFixed(0)} kN; ${cs.requiredSideMm[0]} mm square would do`, pu, lim, 'max'));
+    checks.push(check(RULES.columnCapacity, 'error', [cs.columnId], () => `column ${cs.columnId} (${cs.providedMm[0]} × ${cs.providedMm[1]} mm) carries ${pu.toFixed(0)} kN in the lowest storey against ${cs.providedCapacityKN.toFixed(0)} kN; ${cs.requiredSideMm[0]} mm square would do`, pu, lim, 'max'));
   }
   for (const o of boundary) {
     const lim = { value: o.distanceToLineM, unit: 'm', source: `property line ${o.propertyLine} (scheme)`, kind: 'project' as const };
-    checks.push({ ...check(RULES.footingLine, 'warning', [o.columnId], `the isolated footing of ${o.columnId} would cross property line ${o.propertyLine} by ${o.crossingM.toFixed(2)} m; see the footing options`, o.distanceToLineM + o.crossingM, lim, 'max'), status: 'fail' });
+    checks.push({ ...check(RULES.footingLine, 'warning', [o.columnId], () => `the isolated footing of ${o.columnId} would cross property line ${o.propertyLine} by ${o.crossingM.toFixed(2)} m; see the footing options`, o.distanceToLineM + o.crossingM, lim, 'max'), status: 'fail' });
   }
   for (const o of combined) {
-    checks.push(check(RULES.footingOverlap, 'warning', [...o.columnIds], `the footings of ${o.columnIds.join(' and ')} ${o.gapM < 0 ? 'overlap' : 'leave ' + o.gapM.toFixed(2) + ' m'}; a combined footing ${o.lengthM.toFixed(1)} × ${o.adoptedWidthM.toFixed(1)} m serves both`, o.gapM, limits.footingMinGapM, 'min'));
+    checks.push(check(RULES.footingOverlap, 'warning', [...o.columnIds], () => `the footings of ${o.columnIds.join(' and ')} ${o.gapM < 0 ? 'overlap' : 'leave ' + o.gapM.toFixed(2) + ' m'}; a combined footing ${o.lengthM.toFixed(1)} × ${o.adoptedWidthM.toFixed(1)} m serves both`, o.gapM, limits.footingMinGapM, 'min'));
   }
 
 }

@@ -44,6 +44,11 @@ export const RULES = {
   footingOverlap: 'footing.overlap',
 } as const;
 
+/** A check whose message is written only if a person will see it (a failure, or the tightest pass). */
+export type CheckDraft = Omit<Check, 'message'> & { message: string | (() => string) };
+
+const written = (d: CheckDraft): Check => (typeof d.message === 'string' ? (d as Check) : { ...d, message: d.message() });
+
 /** The checks of one rule that passed: how many, and the one nearest its limit in full. */
 export interface PassedRule {
   ruleId: string;
@@ -57,9 +62,9 @@ export interface PassedRule {
  * a large scheme do not stay in memory.
  */
 export class CheckList {
-  private readonly failed: Check[] = [];
-  private readonly passed = new Map<string, PassedRule>();
-  push(c: Check): void {
+  private readonly failed: CheckDraft[] = [];
+  private readonly passed = new Map<string, { ruleId: string; count: number; tightest: CheckDraft }>();
+  push(c: CheckDraft): void {
     if (c.status === 'fail') {
       this.failed.push(c);
       return;
@@ -74,24 +79,27 @@ export class CheckList {
   /** Failures (errors first, then warnings, then information) and the summary of passes. */
   result(): { failed: Check[]; passed: PassedRule[] } {
     const rank: Record<Severity, number> = { error: 0, warning: 1, info: 2 };
-    return { failed: [...this.failed].sort((a, b) => rank[a.severity] - rank[b.severity]), passed: [...this.passed.values()] };
+    return {
+      failed: this.failed.map(written).sort((a, b) => rank[a.severity] - rank[b.severity]),
+      passed: [...this.passed.values()].map((p) => ({ ruleId: p.ruleId, count: p.count, tightest: written(p.tightest) })),
+    };
   }
 }
 
 /** How far a check is inside its limit, relative to the limit. */
-function margin(c: Check): number {
+function margin(c: CheckDraft): number {
   return (c.sense === 'max' ? c.limit - c.value : c.value - c.limit) / (Math.abs(c.limit) || 1);
 }
 
 /** Splits a list of checks into failures and a per-rule summary of passes (see CheckList). */
-export function splitChecks(all: readonly Check[]): { failed: Check[]; passed: PassedRule[] } {
+export function splitChecks(all: readonly CheckDraft[]): { failed: Check[]; passed: PassedRule[] } {
   const list = new CheckList();
   for (const c of all) list.push(c);
   return list.result();
 }
 
 /** Builds a check against a limit; the message gets the verdict appended. */
-export function check(ruleId: string, severity: Severity, elements: string[], message: string, value: number, limit: Limit, sense: 'max' | 'min', limitValue = limit.value): Check {
+export function check(ruleId: string, severity: Severity, elements: string[], message: string | (() => string), value: number, limit: Limit, sense: 'max' | 'min', limitValue = limit.value): CheckDraft {
   const ok = sense === 'max' ? value <= limitValue + 1e-9 : value >= limitValue - 1e-9;
   return {
     ruleId,
@@ -111,30 +119,30 @@ export function check(ruleId: string, severity: Severity, elements: string[], me
 const r2 = (v: number) => Math.round(v * 100) / 100;
 
 /** Beam spans against the span limit for their support condition; spans in m. */
-export function spanChecks(layout: Layout, limits: Limits): Check[] {
-  const out: Check[] = [];
+export function spanChecks(layout: Layout, limits: Limits): CheckDraft[] {
+  const out: CheckDraft[] = [];
   for (const l of layout.lines) {
     for (const m of l.members) {
       const lim = m.kind === 'cantilever' ? limits.beamSpanCantileverMaxM : m.kind === 'simple' ? limits.beamSpanSimpleMaxM : limits.beamSpanContinuousMaxM;
       const cond = m.kind === 'cantilever' ? 'cantilever' : m.kind === 'simple' ? 'simply supported' : 'continuous';
-      out.push(check(RULES.beamSpan, 'warning', [m.id], `${m.id}: ${cond} span ${r2(m.lengthM)} m (limit ${lim.value} m)`, m.lengthM, lim, 'max'));
+      out.push(check(RULES.beamSpan, 'warning', [m.id], () => `${m.id}: ${cond} span ${r2(m.lengthM)} m (limit ${lim.value} m)`, m.lengthM, lim, 'max'));
     }
   }
   return out;
 }
 
 /** Spacing of neighbouring columns along each beam line, and columns close enough to merge; m. */
-export function columnSpacingChecks(scheme: Scheme, layout: Layout, limits: Limits): Check[] {
-  const out: Check[] = [];
+export function columnSpacingChecks(scheme: Scheme, layout: Layout, limits: Limits): CheckDraft[] {
+  const out: CheckDraft[] = [];
   for (const l of layout.lines) {
     const cols = l.nodes.filter((n) => n.columnId !== null);
     for (let i = 0; i + 1 < cols.length; i++) {
       const d = cols[i + 1].s - cols[i].s;
       const ids = [cols[i].columnId as string, cols[i + 1].columnId as string];
       if (d < limits.columnMergeDistanceM.value) continue; // reported by the merge rule
-      out.push(check(RULES.columnSpacing, 'warning', ids, `columns ${ids.join(' and ')} on line ${l.label} are ${r2(d)} m apart (economical at most ${limits.columnSpacingMaxM.value} m)`, d, limits.columnSpacingMaxM, 'max'));
+      out.push(check(RULES.columnSpacing, 'warning', ids, () => `columns ${ids.join(' and ')} on line ${l.label} are ${r2(d)} m apart (economical at most ${limits.columnSpacingMaxM.value} m)`, d, limits.columnSpacingMaxM, 'max'));
       if (d < limits.columnSpacingMinM.value)
-        out.push(check(RULES.columnSpacing, 'info', ids, `columns ${ids.join(' and ')} on line ${l.label} are ${r2(d)} m apart (economical at least ${limits.columnSpacingMinM.value} m)`, d, limits.columnSpacingMinM, 'min'));
+        out.push(check(RULES.columnSpacing, 'info', ids, () => `columns ${ids.join(' and ')} on line ${l.label} are ${r2(d)} m apart (economical at least ${limits.columnSpacingMinM.value} m)`, d, limits.columnSpacingMinM, 'min'));
     }
   }
   // any two columns closer than the merge distance, on a line or not (sorted sweep on x)
@@ -146,7 +154,7 @@ export function columnSpacingChecks(scheme: Scheme, layout: Layout, limits: Limi
       const dy = cs[j].y - cs[i].y;
       const d = Math.sqrt(dx * dx + dy * dy);
       if (d < lim.value)
-        out.push(check(RULES.columnMerge, 'warning', [cs[i].id, cs[j].id], `columns ${cs[i].id} and ${cs[j].id} are ${r2(d)} m apart: one column at (${r2((cs[i].x + cs[j].x) / 2)}, ${r2((cs[i].y + cs[j].y) / 2)}) could serve both`, d, lim, 'min'));
+        out.push(check(RULES.columnMerge, 'warning', [cs[i].id, cs[j].id], () => `columns ${cs[i].id} and ${cs[j].id} are ${r2(d)} m apart: one column at (${r2((cs[i].x + cs[j].x) / 2)}, ${r2((cs[i].y + cs[j].y) / 2)}) could serve both`, d, lim, 'min'));
     }
   }
   for (const id of layout.looseColumns)
@@ -155,8 +163,8 @@ export function columnSpacingChecks(scheme: Scheme, layout: Layout, limits: Limi
 }
 
 /** Columns wider across a wall than the wall itself; mm. */
-export function columnWallChecks(scheme: Scheme, layout: Layout): Check[] {
-  const out: Check[] = [];
+export function columnWallChecks(scheme: Scheme, layout: Layout): CheckDraft[] {
+  const out: CheckDraft[] = [];
   const byId = new Map(scheme.columns.map((c) => [c.id, c]));
   for (const l of layout.lines) {
     if (l.wallThicknessMm <= 0) continue;
@@ -166,15 +174,15 @@ export function columnWallChecks(scheme: Scheme, layout: Layout): Check[] {
       const plan = columnPlan(c);
       const across = (l.runs === 'x' ? plan.by : plan.bx) * 1000;
       const lim: Limit = { value: l.wallThicknessMm, unit: 'mm', source: `wall thickness on line ${l.label} (scheme)`, kind: 'project' };
-      out.push(check(RULES.columnWall, 'warning', [c.id, l.gridLineId], `column ${c.id} is ${across} mm across the ${l.wallThicknessMm} mm wall on line ${l.label}; turning it or reshaping it keeps it inside the wall`, across, lim, 'max'));
+      out.push(check(RULES.columnWall, 'warning', [c.id, l.gridLineId], () => `column ${c.id} is ${across} mm across the ${l.wallThicknessMm} mm wall on line ${l.label}; turning it or reshaping it keeps it inside the wall`, across, lim, 'max'));
     }
   }
   return out;
 }
 
 /** A secondary beam landing on a long primary span away from its supports suggests a column there. */
-export function pointLoadChecks(layout: Layout, limits: Limits): Check[] {
-  const out: Check[] = [];
+export function pointLoadChecks(layout: Layout, limits: Limits): CheckDraft[] {
+  const out: CheckDraft[] = [];
   for (const s of layout.secondaries) {
     if (s.supports.length < 2) {
       out.push({ ruleId: RULES.secondaryUnsupported, severity: 'error', status: 'fail', elements: [s.beam.id], message: `secondary beam ${s.beam.id} does not land on beam lines at both ends; its load is not carried`, value: s.supports.length, limit: 2, unit: 'supports', sense: 'min', source: 'statics', sourceKind: 'derived' });
@@ -187,15 +195,15 @@ export function pointLoadChecks(layout: Layout, limits: Limits): Check[] {
       const a = sup.s - m.startS;
       const frac = Math.min(a, m.lengthM - a) / m.lengthM;
       if (frac < limits.pointLoadEndZone.value) continue;
-      out.push(check(RULES.pointLoad, 'info', [s.beam.id, m.id], `${s.beam.id} lands ${r2(a)} m into the ${r2(m.lengthM)} m span ${m.id}; a column there would give spans of ${r2(a)} m and ${r2(m.lengthM - a)} m`, m.lengthM, limits.pointLoadLongSpanM, 'max'));
+      out.push(check(RULES.pointLoad, 'info', [s.beam.id, m.id], () => `${s.beam.id} lands ${r2(a)} m into the ${r2(m.lengthM)} m span ${m.id}; a column there would give spans of ${r2(a)} m and ${r2(m.lengthM - a)} m`, m.lengthM, limits.pointLoadLongSpanM, 'max'));
     }
   }
   return out;
 }
 
 /** Stair riser, tread, 2R + T and risers per flight; mm. */
-export function stairChecks(scheme: Scheme, limits: Limits): Check[] {
-  const out: Check[] = [];
+export function stairChecks(scheme: Scheme, limits: Limits): CheckDraft[] {
+  const out: CheckDraft[] = [];
   for (const f of scheme.stairs) {
     // a code family's residential limits apply to dwellings; other buildings get the stricter values where known
     const other = f.use === 'other';
@@ -203,13 +211,13 @@ export function stairChecks(scheme: Scheme, limits: Limits): Check[] {
       : scheme.basis.codeFamily === 'ACI318' && !other ? { ...limits.stairRiserMaxMm, value: 197, source: 'IBC 2015 §1011.5.2 exception, dwelling units' } : limits.stairRiserMaxMm;
     const treadMin = scheme.basis.codeFamily === 'IS456' && other ? { ...limits.stairTreadMinMm, value: 300, source: 'National Building Code of India, other buildings (as quoted)' }
       : scheme.basis.codeFamily === 'ACI318' && !other ? { ...limits.stairTreadMinMm, value: 254, source: 'IBC 2015 §1011.5.2 exception, dwelling units' } : limits.stairTreadMinMm;
-    out.push(check(RULES.stairRiser, 'error', [f.id], `${f.id}: riser ${f.riserMm} mm (at most ${riserMax.value} mm)`, f.riserMm, riserMax, 'max'));
-    out.push(check(RULES.stairRiser, 'error', [f.id], `${f.id}: riser ${f.riserMm} mm (at least ${limits.stairRiserMinMm.value} mm)`, f.riserMm, limits.stairRiserMinMm, 'min'));
-    out.push(check(RULES.stairTread, 'error', [f.id], `${f.id}: tread ${f.treadMm} mm (at least ${treadMin.value} mm)`, f.treadMm, treadMin, 'min'));
+    out.push(check(RULES.stairRiser, 'error', [f.id], () => `${f.id}: riser ${f.riserMm} mm (at most ${riserMax.value} mm)`, f.riserMm, riserMax, 'max'));
+    out.push(check(RULES.stairRiser, 'error', [f.id], () => `${f.id}: riser ${f.riserMm} mm (at least ${limits.stairRiserMinMm.value} mm)`, f.riserMm, limits.stairRiserMinMm, 'min'));
+    out.push(check(RULES.stairTread, 'error', [f.id], () => `${f.id}: tread ${f.treadMm} mm (at least ${treadMin.value} mm)`, f.treadMm, treadMin, 'min'));
     const rt = 2 * f.riserMm + f.treadMm;
-    out.push(check(RULES.stair2RT, 'warning', [f.id], `${f.id}: 2R + T = ${rt} mm (comfortable ${limits.stair2RTMinMm.value}–${limits.stair2RTMaxMm.value} mm)`, rt, limits.stair2RTMinMm, 'min'));
-    out.push(check(RULES.stair2RT, 'warning', [f.id], `${f.id}: 2R + T = ${rt} mm (comfortable ${limits.stair2RTMinMm.value}–${limits.stair2RTMaxMm.value} mm)`, rt, limits.stair2RTMaxMm, 'max'));
-    out.push(check(RULES.stairRisers, 'error', [f.id], `${f.id}: ${f.risers} risers in one flight (at most ${limits.stairRisersPerFlightMax.value})`, f.risers, limits.stairRisersPerFlightMax, 'max'));
+    out.push(check(RULES.stair2RT, 'warning', [f.id], () => `${f.id}: 2R + T = ${rt} mm (comfortable ${limits.stair2RTMinMm.value}–${limits.stair2RTMaxMm.value} mm)`, rt, limits.stair2RTMinMm, 'min'));
+    out.push(check(RULES.stair2RT, 'warning', [f.id], () => `${f.id}: 2R + T = ${rt} mm (comfortable ${limits.stair2RTMinMm.value}–${limits.stair2RTMaxMm.value} mm)`, rt, limits.stair2RTMaxMm, 'max'));
+    out.push(check(RULES.stairRisers, 'error', [f.id], () => `${f.id}: ${f.risers} risers in one flight (at most ${limits.stairRisersPerFlightMax.value})`, f.risers, limits.stairRisersPerFlightMax, 'max'));
   }
   return out;
 }
