@@ -4,7 +4,7 @@
 // Run: npm run bench:engine
 import { analyseScheme } from '../src/index';
 import { generatedScheme } from './generated';
-import { assembleDense, BeamModel, memberTerms, prepareBeam, solveTerms, Support } from '../src/beam';
+import { assembleDense, BeamModel, memberTerms, prepareBeam, solvePacked, Support } from '../src/beam';
 import { solveDense } from '../src/banded';
 import { deriveLayout } from '../src/layout';
 import { loadPatterns } from '../src/envelope';
@@ -49,8 +49,13 @@ const systems = layout.lines.map((l) => {
 });
 const banded = time(() => {
   for (const s of systems) {
+    // as the engine does: factorise once, then one forward and back substitution per right-hand side
     const p = prepareBeam(s.model);
-    for (let k = 0; k < s.rhs; k++) solveTerms(p, s.terms);
+    const nm = s.model.members.length;
+    const T = new Float64Array(4 * nm);
+    s.terms.forEach((t, i) => T.set([t.fa, t.fb, t.ra, t.rb], 4 * i));
+    const rhs = new Float64Array(p.nEq), u = new Float64Array(2 * (nm + 1)), em = new Float64Array(2 * nm);
+    for (let k = 0; k < s.rhs; k++) solvePacked(p, T, rhs, u, em);
   }
 });
 const dense = time(() => {
