@@ -176,12 +176,35 @@ export function loadPart(p: PreparedBeam, loads: readonly BeamLoad[] | BeamLoad[
     const L = model.members[i].lengthM;
     const li = by[i];
     if (li.length === 0) continue;
+    const pts = deflectionPoints(model, i);
+    // full-length uniform loads (self-weight, walls) in closed form
+    let w = 0;
+    let uniformOnly = true;
+    for (const l of li) {
+      if (l.kind === 'linear' && l.fromM === 0 && l.toM === L && l.startKNPerM === l.endKNPerM) w += l.startKNPerM;
+      else uniformOnly = false;
+    }
+    if (uniformOnly) {
+      const ei = model.members[i].eiKNm2;
+      terms[4 * i] = terms[4 * i + 1] = (w * L * L) / 12;
+      terms[4 * i + 2] = terms[4 * i + 3] = (w * L) / 2;
+      for (let k = 0; k < ns; k++) {
+        const x = (L * k) / nSeg;
+        m0[i * ns + k] = (w * x * (L - x)) / 2;
+      }
+      v0[2 * i] = (w * L) / 2;
+      v0[2 * i + 1] = (-w * L) / 2;
+      for (let q = 0; q < 3; q++) {
+        const x = L * pts[q];
+        defl[3 * i + q] = (w * x * (L * L * L - 2 * L * x * x + x * x * x)) / (24 * ei);
+      }
+      continue;
+    }
     const t = memberTerms(L, li);
     terms[4 * i] = t.fa; terms[4 * i + 1] = t.fb; terms[4 * i + 2] = t.ra; terms[4 * i + 3] = t.rb;
     for (let k = 0; k < ns; k++) m0[i * ns + k] = simpleMoment(L, li, t.ra, (L * k) / nSeg);
     v0[2 * i] = simpleShear(L, li, t.ra, 0);
     v0[2 * i + 1] = simpleShear(L, li, t.ra, L * (1 - 1e-12));
-    const pts = deflectionPoints(model, i);
     for (let q = 0; q < 3; q++) defl[3 * i + q] = simpleDeflection(L, model.members[i].eiKNm2, li, L * pts[q]);
   }
   return { terms, m0, v0, defl, nSeg };
