@@ -6,7 +6,7 @@ import { insertActivity } from '../activity/activity.repository';
 import { lockProject } from '../projects/projects.repository';
 import { lockStage } from '../stages/stages.repository';
 import { uploadRefusal } from '../stages/stage-rules';
-import { safeFileName, type StoredUpload } from '../uploads';
+import type { StoredUpload } from '../uploads';
 import { getDeliverable, insertDeliverable, nextVersion, type DeliverableRow } from './deliverables.repository';
 
 export const deliverableOf = (r: DeliverableRow): Deliverable => ({
@@ -32,18 +32,6 @@ export async function uploadCheck(db: Db, projectId: string, key: StageKey): Pro
 }
 
 /**
- * The upload module reads the multipart file name as Latin-1 (busboy's default), so a UTF-8 name
- * from a browser arrives as mojibake ("BÃ©ton.pdf"). Where the Latin-1 bytes are valid UTF-8, read
- * them again as UTF-8 and clean that. (Workaround until the module passes defParamCharset: 'utf8'.)
- */
-export function fileNameOf(file: Pick<StoredUpload, 'originalName' | 'safeName'>): string {
-  const bytes = Buffer.from(file.originalName, 'latin1');
-  if (!/[^\x00-\x7f]/.test(file.originalName) || Buffer.from(file.originalName, 'latin1').toString('latin1') !== file.originalName) return file.safeName;
-  const utf8 = bytes.toString('utf8');
-  return utf8.includes('\ufffd') ? file.safeName : safeFileName(utf8);
-}
-
-/**
  * Records a stored upload as the next version of its name on the stage. The stage row is locked,
  * so two uploads of the same name at once get versions n and n+1, never the same one.
  */
@@ -54,7 +42,7 @@ export async function recordUpload(db: Db, caller: Caller, projectId: string, ke
     if (!stage) throw notFound('No stage with this key.');
     const refusal = uploadRefusal({ key, state: stage.state, assigneeId: stage.assignee_id }, Boolean(project.archived_at));
     if (refusal) throw new HttpError(409, 'conflict', refusal);
-    const fileName = fileNameOf(file);
+    const fileName = file.safeName;
     const version = await nextVersion(trx, projectId, key, fileName);
     const id = await insertDeliverable(trx, {
       project_id: projectId,

@@ -22,6 +22,8 @@ export function deliverableUpload(opts: DeliverableUploadOptions): RequestHandle
   const field = opts.field ?? 'file';
   const parse = multer({
     storage: deliverableStorage(opts),
+    // Browsers send UTF-8 file names; busboy would read them as Latin-1 ("BÃ©ton.pdf") otherwise.
+    defParamCharset: 'utf8',
     limits: { files: 1, fileSize: opts.maxBytes, fields: 20, fieldSize: 16 * 1024, parts: 22, headerPairs: 100 },
   }).single(field);
 
