@@ -23,12 +23,14 @@ const NEEDS: Record<Suite, { db?: boolean; client?: boolean; api?: boolean }> = 
 
 async function main(): Promise<number> {
   const args = process.argv.slice(2);
-  const chosen = (args.filter((a) => !a.startsWith('-')) as Suite[]).filter(Boolean);
-  for (const s of chosen) {
-    if (!SUITES.includes(s)) {
-      log('test', `unknown suite "${s}"; choose from ${SUITES.join(', ')}`);
-      return 2;
-    }
+  // Leading suite names choose the suites; everything from the first other argument on goes to Jest
+  // (npm test -- api -t "health").
+  const firstOther = args.findIndex((a) => !(SUITES as readonly string[]).includes(a));
+  const chosen = (firstOther < 0 ? args : args.slice(0, firstOther)) as Suite[];
+  const passThrough = firstOther < 0 ? [] : args.slice(firstOther);
+  if (passThrough.length && !passThrough[0].startsWith('-')) {
+    log('test', `unknown suite "${passThrough[0]}"; choose from ${SUITES.join(', ')}`);
+    return 2;
   }
   const suites: Suite[] = chosen.length ? chosen : [...SUITES];
   const needs = (k: 'db' | 'client' | 'api') => suites.some((s) => NEEDS[s][k]);
@@ -93,7 +95,7 @@ async function main(): Promise<number> {
     env.E2E_IDENTITY_URL = `http://127.0.0.1:${ports.identity}`;
   }
   const jestArgs = ['jest', '--maxWorkers=2', '--json', `--outputFile=${results}`, '--selectProjects', ...suites,
-    ...args.filter((a) => a.startsWith('-'))];
+    ...passThrough];
   const code = await new Promise<number>((resolve) => {
     const child = spawn('npx', jestArgs, { stdio: 'inherit', env });
     child.on('exit', (c) => resolve(c ?? 1));

@@ -2,6 +2,7 @@ import { createServer } from 'node:http';
 import { createApp } from './app';
 import { ConfigError, LOCAL_DEFAULTS, loadConfig } from './core/config';
 import { createJobs } from './jobs';
+import { pruneExpired, PRUNE_CRON, PRUNE_JOB } from './maintenance/prune';
 import { createMailTransport } from './mail';
 import { createObjectStore, objectStoreConfigFrom } from './storage';
 import { createLogger } from './core/logger';
@@ -31,6 +32,9 @@ async function main(): Promise<void> {
     logger,
   });
   await jobs.start();
+  await jobs.every(PRUNE_JOB, PRUNE_CRON, async () => {
+    logger.info(await pruneExpired(db), 'pruned expired sessions and sign-in records');
+  });
   const app = createApp({ config, db, logger, store, jobs });
   const server = createServer(app);
   server.listen(config.PORT, config.HOST, () => {

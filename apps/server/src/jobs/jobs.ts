@@ -59,6 +59,11 @@ export interface Jobs {
    * workers until it commits. Returns the job id.
    */
   enqueueMail<N extends MailTemplateName>(request: MailRequest<N>, opts?: { trx?: Knex.Transaction }): Promise<string>;
+  /**
+   * Runs `handler` on a cron schedule (UTC). pg-boss keeps the schedule in PostgreSQL and queues
+   * one job per tick, so with any number of API processes the work runs once, not once each.
+   */
+  every(name: string, cron: string, handler: () => Promise<void>): Promise<void>;
   readonly boss: PgBoss;
 }
 
@@ -112,6 +117,19 @@ export function createJobs(opts: JobsOptions): Jobs {
       if (!started) return;
       started = false;
       await boss.stop({ graceful: true, wait: true, timeout: 10_000 });
+    },
+
+    async every(name, cron, handler) {
+      if (!(await boss.getQueue(name))) {
+        // A schedule that misses its tick must not pile up: one pending run at a time is enough.
+        await boss.createQueue(name, { name, policy: 'singleton', retryLimit: 2 }).catch(async (err) => {
+          if (!(await boss.getQueue(name))) throw err;
+        });
+      }
+      await boss.schedule(name, cron, {}, { tz: 'UTC' });
+      await boss.work(name, { pollingIntervalSeconds: opts.pollingIntervalSeconds ?? 2 }, async () => {
+        await handler();
+      });
     },
 
     async enqueueMail(request, { trx } = {}) {
