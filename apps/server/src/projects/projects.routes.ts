@@ -13,8 +13,8 @@ import { validate } from '../core/validate';
 import { route, type RouteDecl } from '../access/registry';
 import { abilities, type Caller } from '../access/policy';
 import { insertActivity } from '../activity/activity.repository';
-import { getProject, listProjects, type ProjectListFilters } from './projects.repository';
-import { createProject, listItemOf, projectPage, setArchived, updateProject } from './projects.service';
+import { listProjects, type ProjectListFilters } from './projects.repository';
+import { createProject, listItemOf, projectDetail, projectPage, setArchived, updateProject } from './projects.service';
 
 const callerOf = (req: Request): Caller => req.caller as Caller;
 const projectParams = z.object({ projectId: z.uuid() });
@@ -34,27 +34,8 @@ export function projectRoutes(db: Db): RouteDecl[] {
     }),
     // The short form (team, abilities, finance) that the sign-in shell and the people pages use.
     route('get', '/projects/:projectId', 'project:read', async (req, res) => {
-      const caller = callerOf(req);
-      const row = await getProject(db, caller.firmId, req.project!.id);
-      const members = await db('project_members as m').join('users as u', 'u.id', 'm.user_id')
-        .where('m.project_id', row.id).whereNull('u.disabled_at').orderBy('u.display_name')
-        .select('u.id', 'u.display_name', 'u.firm_role');
-      const can = abilities(caller.role);
-      const body: ProjectDetail = {
-        id: row.id,
-        reference: row.reference,
-        name: row.name,
-        clientOrganisation: { id: row.client_organisation_id, name: row.org_name },
-        siteAddress: row.site_address,
-        buildingUse: row.building_use,
-        storeys: row.storeys,
-        storeyHeightM: Number(row.storey_height_m),
-        floorAreaM2: row.floor_area_m2 === null ? null : Number(row.floor_area_m2),
-        members: members.map((m) => ({ id: m.id, displayName: m.display_name, role: m.firm_role ?? 'client' })),
-        finance: can.seeFinance ? { estimatedCost: row.estimated_cost === null ? null : Number(row.estimated_cost), currency: row.currency.trim() } : null,
-        abilities: can,
-      };
-      res.json(body);
+      const { row: _row, ...body } = await projectDetail(db, callerOf(req), req.project!.id);
+      res.json(body satisfies ProjectDetail);
     }),
     route('get', '/projects/:projectId/full', 'project:read', validate({ params: projectParams }), async (req, res) => {
       res.json(await projectPage(db, callerOf(req), req.project!.id));

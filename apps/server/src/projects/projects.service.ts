@@ -3,6 +3,7 @@ import {
   projectDesignBasisSchema,
   STAGE_TITLES,
   type ProjectCreate,
+  type ProjectDetail,
   type ProjectListItem,
   type ProjectPage,
   type ProjectUpdate,
@@ -37,17 +38,15 @@ export const listItemOf = (r: ListRow): ProjectListItem => ({
   lateStages: r.late_stages,
 });
 
-/** Everything the project page shows, for this caller. */
-export async function projectPage(db: Db | Knex.Transaction, caller: Caller, id: string): Promise<ProjectPage> {
+/** The short form of a project (facts, team, finance when the caller may see money, abilities). */
+export async function projectDetail(db: Db | Knex.Transaction, caller: Caller, id: string): Promise<ProjectDetail & { row: ProjectRow }> {
   const row: ProjectRow = await getProject(db, caller.firmId, id);
   const members = await db('project_members as m').join('users as u', 'u.id', 'm.user_id')
     .where('m.project_id', id).whereNull('u.disabled_at').orderBy('u.display_name')
     .select('u.id', 'u.display_name', 'u.firm_role');
-  const stages = await listStages(db, id);
   const can = abilities(caller.role);
-  const basis = projectDesignBasisSchema.safeParse(row.design_basis);
-  const archived = row.archived_at !== null;
   return {
+    row,
     id: row.id,
     reference: row.reference,
     name: row.name,
@@ -57,13 +56,25 @@ export async function projectPage(db: Db | Knex.Transaction, caller: Caller, id:
     storeys: row.storeys,
     storeyHeightM: Number(row.storey_height_m),
     floorAreaM2: row.floor_area_m2 === null ? null : Number(row.floor_area_m2),
+    members: members.map((m) => ({ id: m.id, displayName: m.display_name, role: m.firm_role ?? 'client' })),
+    finance: can.seeFinance ? { estimatedCost: row.estimated_cost === null ? null : Number(row.estimated_cost), currency: row.currency.trim() } : null,
+    abilities: can,
+  };
+}
+
+/** Everything the project page shows, for this caller: the short form plus design basis and stages. */
+export async function projectPage(db: Db | Knex.Transaction, caller: Caller, id: string): Promise<ProjectPage> {
+  const { row, ...detail } = await projectDetail(db, caller, id);
+  const stages = await listStages(db, id);
+  const basis = projectDesignBasisSchema.safeParse(row.design_basis);
+  const archived = row.archived_at !== null;
+  return {
+    ...detail,
     designBasis: basis.success ? basis.data : null,
     archivedAt: row.archived_at ? new Date(row.archived_at).toISOString() : null,
-    finance: can.seeFinance ? { estimatedCost: row.estimated_cost === null ? null : Number(row.estimated_cost), currency: row.currency.trim() } : null,
-    members: members.map((m) => ({ id: m.id, displayName: m.display_name, role: m.firm_role ?? 'client' })),
     stages: stages.map((s) => stageOf(s, caller, archived)),
     // An archived project is read-only for everyone until the principal restores it.
-    abilities: archived ? { ...can, work: false } : can,
+    abilities: archived ? { ...detail.abilities, work: false } : detail.abilities,
   };
 }
 
