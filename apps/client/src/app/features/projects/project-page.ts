@@ -1,6 +1,6 @@
 import { DatePipe, DecimalPipe } from '@angular/common';
 import { HttpClient, httpResource } from '@angular/common/http';
-import { ChangeDetectionStrategy, Component, computed, inject, input, signal, viewChild } from '@angular/core';
+import { ChangeDetectionStrategy, Component, computed, inject, input, linkedSignal, signal, viewChild } from '@angular/core';
 import { MatButton, MatIconButton } from '@angular/material/button';
 import { MatOption } from '@angular/material/core';
 import { MatDialog } from '@angular/material/dialog';
@@ -60,10 +60,20 @@ export class ProjectPage {
     const stages = this.data()?.stages ?? [];
     return [...stages].sort((a, b) => STAGE_ORDER.indexOf(a.key) - STAGE_ORDER.indexOf(b.key));
   });
-  /** The chosen stage, else the first one not yet approved (where the work is). */
+  /**
+   * Without a stage in the address: the first one not yet approved (where the work is), picked once
+   * per project, so approving it does not move the panel away from under the principal's hand.
+   */
+  private readonly defaultKey = linkedSignal<{ id: string; key: StageKey | undefined }, StageKey | undefined>({
+    source: () => {
+      const stages = this.stages();
+      return { id: this.projectId(), key: (stages.find((s) => s.state !== 'approved') ?? stages[0])?.key };
+    },
+    computation: (next, previous) => (previous?.value && previous.source.id === next.id ? previous.value : next.key),
+  });
   protected readonly selected = computed<Stage | undefined>(() => {
     const stages = this.stages();
-    return stages.find((s) => s.key === this.stage()) ?? stages.find((s) => s.state !== 'approved') ?? stages[0];
+    return stages.find((s) => s.key === this.stage()) ?? stages.find((s) => s.key === this.defaultKey());
   });
 
   protected readonly stateLabels = STATE_LABELS;
