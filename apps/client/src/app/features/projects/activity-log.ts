@@ -1,6 +1,6 @@
 import { DatePipe } from '@angular/common';
 import { HttpParams, httpResource } from '@angular/common/http';
-import { ChangeDetectionStrategy, Component, computed, input, linkedSignal, signal } from '@angular/core';
+import { ChangeDetectionStrategy, Component, input, linkedSignal, signal } from '@angular/core';
 import { MatOption } from '@angular/material/core';
 import { MatFormField, MatLabel } from '@angular/material/form-field';
 import { MatPaginator, PageEvent } from '@angular/material/paginator';
@@ -104,7 +104,6 @@ export class ActivityLog {
     source: () => (this.log.hasValue() ? this.log.value() : undefined),
     computation: (next, previous) => next ?? previous?.value,
   });
-  protected readonly total = computed(() => this.shown()?.total ?? 0);
 
   reload(): void {
     this.log.reload();
