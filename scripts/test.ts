@@ -3,7 +3,7 @@
 // summary. Exits non-zero on any failure. Pass suite names to run only those.
 import { spawn } from 'node:child_process';
 import { randomBytes } from 'node:crypto';
-import { existsSync, mkdirSync, readFileSync } from 'node:fs';
+import { existsSync, mkdirSync, readFileSync, rmSync } from 'node:fs';
 import path from 'node:path';
 import { CLIENT_DIST } from './lib/client-build';
 import { fakeServicesEnv, s3Service, smtpService } from './lib/fake-services';
@@ -82,7 +82,7 @@ async function main(): Promise<number> {
     return 1;
   }
 
-  const results = path.resolve('tmp/jest-results.json');
+  const results = path.resolve(`tmp/jest-results-${process.pid}.json`);
   mkdirSync(path.dirname(results), { recursive: true });
   const env: NodeJS.ProcessEnv = { ...process.env, NODE_ENV: 'test' };
   if (cluster) {
@@ -103,6 +103,7 @@ async function main(): Promise<number> {
 
   await cleanup();
   printSummary(results, suites);
+  rmSync(results, { force: true });
   return code;
 }
 
