@@ -8,7 +8,7 @@ import { request } from 'node:http';
 import { Readable } from 'node:stream';
 import { apiService, freePort, postgresService, databaseStep, startAll } from '../lib/services';
 import { Cluster } from '../lib/postgres';
-import { log } from '../lib/proc';
+import { log, run } from '../lib/proc';
 import { s3Service } from '../lib/fake-services';
 import { createObjectStore } from '../../apps/server/src/storage';
 import { DEMO } from '../../seeds/demo';
@@ -32,7 +32,7 @@ async function main(): Promise<number> {
     UPLOAD_MAX_BYTES: String(BYTES + MiB), ...s3Env,
     // No mail is sent in the bench; an unreachable port only keeps the worker idle.
     SMTP_HOST: '127.0.0.1', SMTP_PORT: '9',
-  }, ports.api);
+  }, ports.api, { bundle: buildServerBundle() });
   let stopAll: (() => Promise<void>) | undefined;
   try {
     stopAll = await startAll([postgresService(cluster), databaseStep(cluster, 'trabeate_bench', { seed: true }), s3, api]);
@@ -175,3 +175,10 @@ main().then(
     process.exit(1);
   },
 );
+
+/** The bench measures the API as production runs it: the bundled server, not TypeScript via tsx. */
+function buildServerBundle(): string {
+  log('bench', 'bundling the server (npm run build:server)…');
+  run('npm', ['run', 'build:server']);
+  return 'dist/server/main.js';
+}

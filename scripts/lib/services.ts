@@ -86,12 +86,17 @@ export function postgresService(cluster: Cluster): Service {
   };
 }
 
-export function apiService(env: Record<string, string>, port: number): Service {
+/**
+ * The API as a child process: from TypeScript through tsx (start, tests), or from the bundled
+ * production build when `bundle` names it (benchmarks measure what production runs).
+ */
+export function apiService(env: Record<string, string>, port: number, opts: { bundle?: string } = {}): Service {
   let child: ChildProcess | undefined;
   return {
     name: 'api',
     start: async () => {
-      child = startChild('api', process.execPath, ['--import', 'tsx', 'apps/server/src/main.ts'], {
+      const args = opts.bundle ? ['--enable-source-maps', opts.bundle] : ['--import', 'tsx', 'apps/server/src/main.ts'];
+      child = startChild('api', process.execPath, args, {
         env: { ...process.env, ...env, PORT: String(port), HOST: '127.0.0.1' },
       });
       child.once('exit', (code, signal) => {
