@@ -5,7 +5,7 @@ export const esc = (s: string): string =>
   s.replace(/[&<>"']/g, (c) => ({ '&': '&amp;', '<': '&lt;', '>': '&gt;', '"': '&quot;', "'": '&#39;' })[c] as string);
 
 const STYLE = `
-:root{color-scheme:light;--ink:#22252a;--muted:#5b6068;--paper:#f5f3ef;--card:#fff;--line:#cfcac0;--accent:#a8471d;--bad:#8f1d1d}
+:root{color-scheme:light;--ink:#22252a;--muted:#5b6068;--paper:#f5f3ef;--card:#fff;--line:#cfcac0;--accent:#016973;--bad:#8f1d1d}
 *{box-sizing:border-box}
 body{margin:0;min-height:100vh;display:grid;place-items:center;background:var(--paper);color:var(--ink);
 font:16px/1.5 "Atkinson Hyperlegible",system-ui,-apple-system,"Segoe UI",sans-serif}

@@ -13,7 +13,7 @@ export function page(title: string, message: string, action?: { href: string; la
 <html lang="en"><head><meta charset="utf-8"><meta name="viewport" content="width=device-width, initial-scale=1">
 <title>${escape(title)} · Trabeate</title>
 <style>
-:root{color-scheme:light;--ink:#22252a;--muted:#5b6068;--paper:#f5f3ef;--card:#fff;--line:#d9d5cc;--accent:#a8471d}
+:root{color-scheme:light;--ink:#22252a;--muted:#5b6068;--paper:#f5f3ef;--card:#fff;--line:#d9d5cc;--accent:#016973}
 body{margin:0;min-height:100vh;display:grid;place-items:center;background:var(--paper);color:var(--ink);
 font:16px/1.5 "Atkinson Hyperlegible",system-ui,-apple-system,"Segoe UI",sans-serif}
 main{max-width:28rem;margin:1.5rem;padding:2rem;background:var(--card);border:1px solid var(--line);border-top:4px solid var(--accent);border-radius:6px}
