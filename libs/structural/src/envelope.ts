@@ -241,20 +241,36 @@ export function envelopeBeam(
   return envelopeParts(p, [[loadPart(p, dead, nSeg), 1]], [[loadPart(p, live, nSeg), 1]], combos);
 }
 
-/** Solutions per unit factor of one imposed-load part, by arrangement index; shared between levels. */
-export type ArrangementCache = Map<LoadPart, Map<number, { em: Float64Array; r: Float64Array }>>;
+/**
+ * Solutions per unit factor of one imposed-load part, by arrangement index; shared between levels.
+ * Flat arrays, one slot per arrangement: end moments (2 per member) and node reactions (kN).
+ */
+export interface ArrangementSolutions {
+  em: Float64Array;
+  r: Float64Array;
+  solved: Uint8Array;
+}
+export type ArrangementCache = Map<LoadPart, ArrangementSolutions>;
+
+/** Vertical reactions (kN) at the nodes from packed terms and end moments, written into r from off; zero at free nodes. */
+function reactionsInto(free: Uint8Array, lengths: Float64Array, T: Float64Array, em: Float64Array, emOff: number, r: Float64Array, off: number): void {
+  const nm = lengths.length;
+  for (let n = 0; n <= nm; n++) {
+    if (free[n]) {
+      r[off + n] = 0;
+      continue;
+    }
+    let v = 0;
+    if (n > 0) v += T[4 * (n - 1) + 3] - (em[emOff + 2 * n - 1] - em[emOff + 2 * n - 2]) / lengths[n - 1];
+    if (n < nm) v += T[4 * n + 2] + (em[emOff + 2 * n + 1] - em[emOff + 2 * n]) / lengths[n];
+    r[off + n] = v;
+  }
+}
 
 /** Vertical reactions (kN) at the nodes from packed terms and end moments; zero at free nodes. */
-function reactionsOf(model: BeamModel, lengths: Float64Array, T: Float64Array, em: Float64Array): Float64Array {
-  const nm = lengths.length;
-  const r = new Float64Array(nm + 1);
-  for (let n = 0; n <= nm; n++) {
-    if (model.supports[n] === 'free') continue;
-    let v = 0;
-    if (n > 0) v += T[4 * (n - 1) + 3] - (em[2 * n - 1] - em[2 * n - 2]) / lengths[n - 1];
-    if (n < nm) v += T[4 * n + 2] + (em[2 * n + 1] - em[2 * n]) / lengths[n];
-    r[n] = v;
-  }
+function reactionsOf(free: Uint8Array, lengths: Float64Array, T: Float64Array, em: Float64Array): Float64Array {
+  const r = new Float64Array(lengths.length + 1);
+  reactionsInto(free, lengths, T, em, 0, r, 0);
   return r;
 }
 
@@ -283,68 +299,86 @@ export function envelopeParts(
     acc[i * 7 + 3] = Infinity;
   }
   const lengths = p.len;
+  const free = new Uint8Array(nm + 1);
+  for (let n = 0; n <= nm; n++) free[n] = model.supports[n] === 'free' ? 1 : 0;
   const maxR = model.supports.map((sp) => (sp === 'free' ? 0 : -Infinity));
   const patterns = arrangements(model);
+  const nPat = patterns.length;
   // arrangement of each scan, as (combination index, arrangement index); labels are made at the end
-  const scans: [number, number][] = [];
+  const scans: number[] = [];
   const rhs = new Float64Array(p.nEq), u = new Float64Array(2 * (nm + 1));
   // service solutions: dead on all spans, imposed on all spans
   const sD = new Float64Array(2 * nm), uD = new Float64Array(2 * (nm + 1));
   const sL = new Float64Array(2 * nm), uL = new Float64Array(2 * (nm + 1));
   solvePacked(p, TD, rhs, uD, sD);
   solvePacked(p, TL, rhs, uL, sL);
-  const rD = reactionsOf(model, lengths, TD, sD);
-  const rL = reactionsOf(model, lengths, TL, sL);
+  const rD = reactionsOf(free, lengths, TD, sD);
+  const rL = reactionsOf(free, lengths, TL, sL);
   // Every arrangement is dead on all spans plus imposed on some: by superposition only the
   // imposed part needs a solve, and that solve serves every combination. When the imposed load
   // is one part times a factor, the solution per unit factor is cached for the next level too.
   const single = liveParts.length === 1 ? liveParts[0] : null;
   const scale = single ? single[1] : 1;
-  const shared = single && cache ? (cache.get(single[0]) ?? new Map<number, { em: Float64Array; r: Float64Array }>()) : null;
-  if (single && cache && shared) cache.set(single[0], shared);
+  let sol = single && cache ? cache.get(single[0]) : undefined;
+  if (!sol || sol.solved.length !== nPat) {
+    sol = { em: new Float64Array(nPat * 2 * nm), r: new Float64Array(nPat * (nm + 1)), solved: new Uint8Array(nPat) };
+    if (single && cache) cache.set(single[0], sol);
+  }
+  const solEm = sol.em, solR = sol.r, solved = sol.solved;
   const basis = single ? single[0].terms : TL;
   const T = new Float64Array(4 * nm);
   const em = new Float64Array(2 * nm);
   const loaded = new Uint8Array(nm);
-  const masked = new Map<number, { em: Float64Array; r: Float64Array }>();
-  const solveMasked = (pi: number) => {
-    const hit = shared?.get(pi) ?? masked.get(pi);
-    if (hit) return hit;
-    const pat = patterns[pi];
-    for (let i = 0; i < nm; i++) {
-      const on = isLoaded(pat, i);
-      for (let q = 4 * i; q < 4 * i + 4; q++) T[q] = on ? basis[q] : 0;
-    }
-    const e = new Float64Array(2 * nm);
-    solvePacked(p, T, rhs, u, e);
-    const out = { em: e, r: reactionsOf(model, lengths, T, e) };
-    (shared ?? masked).set(pi, out);
-    return out;
-  };
   for (let ci = 0; ci < combos.length; ci++) {
     const c = combos[ci];
-    for (let pi = 0; pi < patterns.length; pi++) {
+    const cd = c.dead;
+    for (let pi = 0; pi < nPat; pi++) {
       const pat = patterns[pi];
       if ((c.live === 0) !== (pat.kind === 'none')) continue;
       const id = scans.length;
-      scans.push([ci, pi]);
+      scans.push(ci * nPat + pi);
       const gl = c.live * scale;
+      // an adjacent-span arrangement is scanned over the two spans beside its support only
+      const from = pat.kind === 'adjacent' ? pat.node - 1 : 0;
+      const to = pat.kind === 'adjacent' ? pat.node : nm - 1;
       if (pat.kind === 'none') {
-        for (let q = 0; q < 2 * nm; q++) em[q] = c.dead * sD[q];
-        for (let n = 0; n <= nm; n++) if (model.supports[n] !== 'free' && c.dead * rD[n] > maxR[n]) maxR[n] = c.dead * rD[n];
+        for (let q = 2 * from; q <= 2 * to + 1; q++) em[q] = cd * sD[q];
+        for (let n = 0; n <= nm; n++) if (!free[n] && cd * rD[n] > maxR[n]) maxR[n] = cd * rD[n];
       } else {
-        const ms = solveMasked(pi);
-        for (let q = 0; q < 2 * nm; q++) em[q] = c.dead * sD[q] + gl * ms.em[q];
+        const eo = pi * 2 * nm;
+        const ro = pi * (nm + 1);
+        if (!solved[pi]) {
+          for (let i = 0; i < nm; i++) {
+            const on = isLoaded(pat, i);
+            for (let q = 4 * i; q < 4 * i + 4; q++) T[q] = on ? basis[q] : 0;
+          }
+          const e = solEm.subarray(eo, eo + 2 * nm);
+          solvePacked(p, T, rhs, u, e);
+          reactionsInto(free, lengths, T, solEm, eo, solR, ro);
+          solved[pi] = 1;
+        }
+        for (let q = 2 * from; q <= 2 * to + 1; q++) em[q] = cd * sD[q] + gl * solEm[eo + q];
         for (let n = 0; n <= nm; n++) {
-          const r = c.dead * rD[n] + gl * ms.r[n];
-          if (model.supports[n] !== 'free' && r > maxR[n]) maxR[n] = r;
+          const r = cd * rD[n] + gl * solR[ro + n];
+          if (!free[n] && r > maxR[n]) maxR[n] = r;
         }
       }
-      for (let i = 0; i < nm; i++) loaded[i] = isLoaded(pat, i) ? 1 : 0;
-      scanArrangement(pat.kind === 'adjacent' ? pat.node - 1 : 0, pat.kind === 'adjacent' ? pat.node : nm - 1, nSeg, lengths, m0D, m0L, v0D, v0L, em, c.dead, c.live, loaded, id, acc);
+      for (let i = from; i <= to; i++) loaded[i] = isLoaded(pat, i) ? 1 : 0;
+      scanArrangement(from, to, nSeg, lengths, m0D, m0L, v0D, v0L, em, cd, c.live, loaded, id, acc);
     }
   }
-  const scanLabel = (id: number) => (scans[id] ? `${combos[scans[id][0]].id}, imposed on ${arrangementLabel(patterns[scans[id][1]])}` : '');
+  // one label per scan, made only for the scans that hold an extreme
+  const labels: (string | undefined)[] = [];
+  const scanLabel = (id: number) => {
+    if (!(id >= 0 && id < scans.length)) return '';
+    let s = labels[id];
+    if (s === undefined) {
+      const k = scans[id];
+      s = `${combos[Math.floor(k / nPat)].id}, imposed on ${arrangementLabel(patterns[k % nPat])}`;
+      labels[id] = s;
+    }
+    return s;
+  };
   const env: MemberEnvelope[] = model.members.map((_, i) => ({
     maxMomentKNm: acc[i * 7], maxMomentAtM: acc[i * 7 + 1], maxPattern: scanLabel(acc[i * 7 + 2]),
     minMomentKNm: acc[i * 7 + 3], minMomentAtM: acc[i * 7 + 4], minPattern: scanLabel(acc[i * 7 + 5]),
