@@ -169,13 +169,19 @@ export function deriveLayout(scheme: Scheme): Layout {
   const covers = (l: BeamLine, runs: 'x' | 'y', at: number, from: number, to: number) =>
     l.runs === runs && near(l.at, at) && l.nodes[0].s <= from + ON_LINE_TOL_M && l.nodes[l.nodes.length - 1].s >= to - ON_LINE_TOL_M;
   // bays look lines up by their exact grid coordinate; anything else scans with the tolerance
-  const exact = new Map<string, BeamLine[]>();
+  // (keyed by the number itself: no number-to-string conversion on every look-up)
+  const exact = { x: new Map<number, BeamLine[]>(), y: new Map<number, BeamLine[]>() };
   for (const l of lines) {
-    const k = `${l.runs}${l.at}`;
-    exact.set(k, [...(exact.get(k) ?? []), l]);
+    const list = exact[l.runs].get(l.at);
+    if (list) list.push(l);
+    else exact[l.runs].set(l.at, [l]);
   }
-  const lineCovers = (runs: 'x' | 'y', at: number, from: number, to: number): BeamLine | undefined =>
-    (exact.get(`${runs}${at}`) ?? []).find((l) => covers(l, runs, at, from, to)) ?? lines.find((l) => covers(l, runs, at, from, to));
+  const lineCovers = (runs: 'x' | 'y', at: number, from: number, to: number): BeamLine | undefined => {
+    const list = exact[runs].get(at);
+    if (list) for (const l of list) if (covers(l, runs, at, from, to)) return l;
+    for (const l of lines) if (covers(l, runs, at, from, to)) return l;
+    return undefined;
+  };
 
   // secondary beams: must be axis-parallel with both ends on perpendicular beam lines
   const secondaries: SecondaryFrame[] = [];
@@ -198,6 +204,27 @@ export function deriveLayout(scheme: Scheme): Layout {
   // panels: grid bays enclosed by beams, split by secondary beams that cross the whole bay
   const panels: Panel[] = [];
   const full = secondaries.filter((s) => s.supports.length === 2);
+  // the full secondaries of each direction in order of position (stable: ties keep scheme order),
+  // so that each bay finds the ones across it by binary search
+  const byAt = (runs: 'x' | 'y') => full.filter((s) => s.runs === runs).sort((p, q) => p.at - q.at);
+  const fullY = byAt('y');
+  const fullX = byAt('x');
+  const across = (sorted: SecondaryFrame[], lo: number, hi: number, from: number, to: number): SecondaryFrame[] => {
+    // first with at > lo
+    let a = 0;
+    let b = sorted.length;
+    while (a < b) {
+      const mid = (a + b) >> 1;
+      if (sorted[mid].at > lo) b = mid;
+      else a = mid + 1;
+    }
+    const out: SecondaryFrame[] = [];
+    for (let i = a; i < sorted.length && sorted[i].at < hi; i++) {
+      const s = sorted[i];
+      if (near(s.from, from) && near(s.to, to)) out.push(s);
+    }
+    return out;
+  };
   // one carrier object per beam line, shared by the panel edges it carries
   const carriers = new Map<string, PanelEdge['carrier']>();
   const carrierOf = (l: BeamLine): PanelEdge['carrier'] => {
@@ -221,14 +248,10 @@ export function deriveLayout(scheme: Scheme): Layout {
       const east = lineCovers('y', x2, y1, y2);
       if (!south || !north || !west || !east) continue;
       // cuts by secondary beams running along y (constant x) or along x (constant y) across the bay
-      const cutsX: SecondaryFrame[] = [];
-      const cutsY: SecondaryFrame[] = [];
-      for (const s of full) {
-        if (s.runs === 'y' && s.at > x1 + ON_LINE_TOL_M && s.at < x2 - ON_LINE_TOL_M && near(s.from, y1) && near(s.to, y2)) cutsX.push(s);
-        else if (s.runs === 'x' && s.at > y1 + ON_LINE_TOL_M && s.at < y2 - ON_LINE_TOL_M && near(s.from, x1) && near(s.to, x2)) cutsY.push(s);
-      }
-      const xs = [{ v: x1, c: carrierOf(west) }, ...cutsX.sort((p, q) => p.at - q.at).map((s) => ({ v: s.at, c: secondaryCarrier(s) })), { v: x2, c: carrierOf(east) }];
-      const ys = [{ v: y1, c: carrierOf(south) }, ...cutsY.sort((p, q) => p.at - q.at).map((s) => ({ v: s.at, c: secondaryCarrier(s) })), { v: y2, c: carrierOf(north) }];
+      const cutsX = across(fullY, x1 + ON_LINE_TOL_M, x2 - ON_LINE_TOL_M, y1, y2);
+      const cutsY = across(fullX, y1 + ON_LINE_TOL_M, y2 - ON_LINE_TOL_M, x1, x2);
+      const xs = [{ v: x1, c: carrierOf(west) }, ...cutsX.map((s) => ({ v: s.at, c: secondaryCarrier(s) })), { v: x2, c: carrierOf(east) }];
+      const ys = [{ v: y1, c: carrierOf(south) }, ...cutsY.map((s) => ({ v: s.at, c: secondaryCarrier(s) })), { v: y2, c: carrierOf(north) }];
       let k = 0;
       for (let a = 0; a + 1 < xs.length; a++) {
         for (let b = 0; b + 1 < ys.length; b++) {

@@ -135,7 +135,16 @@ export function mergeLinearLoads(loads: readonly BeamLoad[]): BeamLoad[] {
   for (const [member, list] of byMember) {
     const cuts: number[] = [];
     for (const l of list) cuts.push(l.fromM, l.toM);
-    cuts.sort((a, b) => a - b);
+    // insertion sort: a member carries a handful of pieces, and this runs for every member of a scheme
+    for (let i = 1; i < cuts.length; i++) {
+      const v = cuts[i];
+      let j = i - 1;
+      while (j >= 0 && cuts[j] > v) {
+        cuts[j + 1] = cuts[j];
+        j--;
+      }
+      cuts[j + 1] = v;
+    }
     let prev = -Infinity;
     for (const b of cuts) {
       if (b - prev <= 1e-12) continue;
