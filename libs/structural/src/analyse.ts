@@ -309,6 +309,8 @@ function analyseLevels(
     colR.set(id, e);
   };
   const designMoment = new Map<string, number>();
+  // largest moment magnitude per member of each line over the level kinds, by member index
+  const lineMoment = new Map<string, Float64Array>();
   for (const k of kinds) {
     const lv = levels.get(k.kind) as LevelLoads;
     for (const l of layout.lines) {
@@ -323,10 +325,15 @@ function analyseLevels(
       l.nodes.forEach((n, i) => {
         if (n.columnId) addR(n.columnId, k.kind, env.deadReactionsKN[i], env.liveReactionsKN[i]);
       });
-      env.members.forEach((e, i) => {
-        const id = l.members[i].id;
-        designMoment.set(id, Math.max(designMoment.get(id) ?? 0, Math.abs(e.maxMomentKNm), Math.abs(e.minMomentKNm)));
-      });
+      let lm = lineMoment.get(l.id);
+      if (!lm) {
+        lm = new Float64Array(l.members.length);
+        lineMoment.set(l.id, lm);
+      }
+      for (let i = 0; i < env.members.length; i++) {
+        const e = env.members[i];
+        lm[i] = Math.max(lm[i], Math.abs(e.maxMomentKNm), Math.abs(e.minMomentKNm));
+      }
       beamLines.push({
         lineId: l.id,
         gridLineId: l.gridLineId,
@@ -354,6 +361,11 @@ function analyseLevels(
     }
   }
 
+  for (const l of layout.lines) {
+    const lm = lineMoment.get(l.id);
+    // (two lines may share a span id: keep the larger, as one map over all lines would)
+    if (lm) l.members.forEach((m, i) => designMoment.set(m.id, Math.max(designMoment.get(m.id) ?? 0, lm[i])));
+  }
   return { beamLines, colR, designMoment };
 }
 

@@ -134,6 +134,17 @@ function isLoaded(a: Arrangement, i: number): boolean {
   }
 }
 
+/** isLoaded in arithmetic form, for the arrangement solves (same answers). */
+function loadedIn(a: Arrangement, i: number): boolean {
+  const k = a.kind;
+  if (k === 'all') return true;
+  if (k === 'none') return false;
+  if (k === 'odd') return (i & 1) === 0;
+  if (k === 'even') return (i & 1) === 1;
+  // adjacent: spans node-1 and node, then every other span beyond on both sides
+  return i >= a.node === (((i - a.node) & 1) === 0);
+}
+
 function arrangementLabel(a: Arrangement): string {
   switch (a.kind) {
     case 'all': return 'all spans';
@@ -349,8 +360,11 @@ export function envelopeParts(
         const ro = pi * (nm + 1);
         if (!solved[pi]) {
           for (let i = 0; i < nm; i++) {
-            const on = isLoaded(pat, i);
-            for (let q = 4 * i; q < 4 * i + 4; q++) T[q] = on ? basis[q] : 0;
+            const on = loadedIn(pat, i);
+            T[4 * i] = on ? basis[4 * i] : 0;
+            T[4 * i + 1] = on ? basis[4 * i + 1] : 0;
+            T[4 * i + 2] = on ? basis[4 * i + 2] : 0;
+            T[4 * i + 3] = on ? basis[4 * i + 3] : 0;
           }
           const e = solEm.subarray(eo, eo + 2 * nm);
           solvePacked(p, T, rhs, u, e);
@@ -363,7 +377,7 @@ export function envelopeParts(
           if (!free[n] && r > maxR[n]) maxR[n] = r;
         }
       }
-      for (let i = from; i <= to; i++) loaded[i] = isLoaded(pat, i) ? 1 : 0;
+      for (let i = from; i <= to; i++) loaded[i] = loadedIn(pat, i) ? 1 : 0;
       scanArrangement(from, to, nSeg, lengths, m0D, m0L, v0D, v0L, em, cd, c.live, loaded, id, acc);
     }
   }
