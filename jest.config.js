@@ -20,7 +20,7 @@ module.exports = {
   projects: [
     require('./jest.libs.config.js'),
     '<rootDir>/apps/client/jest.config.mjs',
-    node('api', ['<rootDir>/test/api/**/*.spec.ts', '<rootDir>/apps/server/src/**/*.spec.ts'], { setupFilesAfterEnv: ['<rootDir>/test/support/jest-timeout-api.ts'] }),
+    node('api', ['<rootDir>/test/api/**/*.spec.ts', '<rootDir>/apps/server/src/**/*.spec.ts'], { setupFilesAfterEnv: ['<rootDir>/test/support/jest-setup-api.ts'] }),
     node('build', ['<rootDir>/test/build/**/*.spec.ts']),
     node('e2e', ['<rootDir>/test/e2e/**/*.spec.ts'], { setupFilesAfterEnv: ['<rootDir>/test/support/jest-timeout-e2e.ts'] }),
   ],
