@@ -1,3 +1,7 @@
+// Sources: the two-way slab equivalent loads w·lx/3 and (w·lx/2)(1 − 1/(3β²)) for moment, w·lx/4 and
+// (w·lx/2)(1 − 1/(2β)) for shear, as quoted by reinforced-concrete textbooks (reference-values §6,
+// pub2); the 45° distribution itself is IS 456:2000 cl. 24.5. The one-way rule (ly/lx > 2) is
+// common practice. Totals are checked by statics (derived).
 import { twoWayEquivalentLoads, panelEdgeProfiles } from './loads';
 import type { Panel } from './layout';
 

@@ -1,5 +1,6 @@
 // Property-based checks of the beam analysis with fast-check: statics and linearity that must
-// hold for any beam, whatever the handbook covers.
+// hold for any beam, whatever the handbook covers. Source: no table — equilibrium of forces and
+// moments and linear superposition (derived); the handbook values are checked in beam.spec.ts.
 import fc from 'fast-check';
 import { analyseBeam, BeamLoad, BeamModel, continuousBeam } from './beam';
 
