@@ -28,7 +28,9 @@ export function safeReturnTo(value: unknown): string {
   if (!value.startsWith('/') || value.startsWith('//') || value.includes('\\') || /[\u0000-\u001f]/.test(value)) return '/';
   try {
     const url = new URL(value, 'http://trabeate.invalid');
-    return url.origin === 'http://trabeate.invalid' ? url.pathname + url.search + url.hash : '/';
+    const resolved = url.pathname + url.search + url.hash;
+    // Dot segments collapse ("/.//host" becomes "//host"), so the resolved path is checked again.
+    return url.origin === 'http://trabeate.invalid' && !resolved.startsWith('//') ? resolved : '/';
   } catch {
     return '/';
   }
