@@ -51,6 +51,9 @@ export async function invite(
           : 'Some projects do not exist.', { 'body.projectIds': wrong.map((id) => `not allowed: ${id}`) });
       }
     }
+    // FOR UPDATE cannot lock a row that does not exist yet: two invitations of a new address at once
+    // take turns on this lock instead, so the second re-opens the first rather than colliding with it.
+    await trx.raw('select pg_advisory_xact_lock(hashtextextended(?, 0))', [`invitation:${caller.firmId}:${input.email.toLowerCase()}`]);
     const existing = await trx('users').where({ firm_id: caller.firmId }).whereRaw('lower(email) = lower(?)', [input.email]).forUpdate().first();
     if (existing && !existing.disabled_at && existing.oidc_subject) {
       throw new HttpError(409, 'conflict', `${input.email} already has access to Trabeate.`);
