@@ -131,6 +131,8 @@ export async function updatePerson(db: Db, caller: Caller, id: string, patch: Pe
       updated_at: trx.fn.now(),
     });
     if (clear) await trx('project_members').where({ user_id: id }).del();
+    // Only engineers carry stages; a stage left assigned to anyone else could not be moved.
+    if (role !== 'engineer') await trx('stages').where({ assignee_id: id }).update({ assignee_id: null, updated_at: trx.fn.now() });
   });
   const [person] = await listPeople(db, caller.firmId, id);
   return person;
