@@ -1,19 +1,13 @@
-import { Router, type RequestHandler } from 'express';
+import type { RequestHandler } from 'express';
 import type { Health } from '@trabeate/contracts';
 import type { Db } from '../db/db';
 
 const startedAt = Date.now();
 
 /** GET /api/health: is the API up, and can it reach PostgreSQL? Always 200 so probes can read the body. */
-export function healthRoutes(db: Db, version: string): Router {
-  const router = Router();
-  router.get('/', healthHandler(db, version));
-  return router;
-}
-
 export function healthHandler(db: Db, version: string): RequestHandler {
-  return async (_req, res) => {
-    const database = await probeDatabase(db);
+  return async (req, res) => {
+    const database = await probeDatabase(db, (err) => req.log?.error({ err }, 'health check: the database did not answer'));
     const body: Health = {
       status: database.status === 'up' ? 'ok' : 'degraded',
       version,
@@ -24,7 +18,7 @@ export function healthHandler(db: Db, version: string): RequestHandler {
   };
 }
 
-async function probeDatabase(db: Db): Promise<Health['database']> {
+async function probeDatabase(db: Db, logFailure: (err: unknown) => void): Promise<Health['database']> {
   const t0 = performance.now();
   try {
     await Promise.race([
@@ -33,6 +27,9 @@ async function probeDatabase(db: Db): Promise<Health['database']> {
     ]);
     return { status: 'up', latencyMs: Math.round((performance.now() - t0) * 10) / 10 };
   } catch (err) {
-    return { status: 'down', latencyMs: null, message: `The database did not answer: ${(err as Error).message}` };
+    // The page is public: the reason (host, user, driver text) goes to the log, not to the caller.
+    logFailure(err);
+    const timedOut = (err as Error).message.startsWith('timed out');
+    return { status: 'down', latencyMs: null, message: timedOut ? 'The database did not answer within 2 s.' : 'The database did not answer; the reason is in the server log.' };
   }
 }
