@@ -44,7 +44,6 @@ describe('a design stage from assignment to approval, in Chromium', () => {
   let engineer: Browser;
   let projectUrl = '';
   let tmp = '';
-  const consoleErrors: string[] = [];
 
   const testId = (page: Page, id: string): Locator => page.locator(`[data-testid="${id}"]`);
   const shot = (page: Page, name: string) => page.screenshot({ path: path.join(SCREENSHOTS, `projects-${name}.png`), fullPage: true });
@@ -77,19 +76,11 @@ describe('a design stage from assignment to approval, in Chromium', () => {
     await testId(page, 'stage-panel').waitFor({ timeout: 20_000 });
   }
 
-  const watch = (b: Browser, who: string) =>
-    b.page.on('console', (m) => {
-      // Signed out, /api/me answers the expected 401, which Chromium logs as an error; the rest are faults.
-      const expected401 = /401 \(Unauthorized\)/.test(m.text()) && m.location().url.endsWith('/api/me');
-      if (m.type() === 'error' && !expected401) consoleErrors.push(`${who}: ${m.text()} (${m.location().url})`);
-    });
 
   beforeAll(async () => {
     tmp = mkdtempSync(path.join(tmpdir(), 'trabeate-e2e-files-'));
     principal = await openBrowser();
     engineer = await openBrowser();
-    watch(principal, 'principal');
-    watch(engineer, 'engineer');
   });
   afterAll(async () => {
     await principal?.close();
@@ -227,6 +218,7 @@ describe('a design stage from assignment to approval, in Chromium', () => {
   it('asked for nothing outside loopback and logged no errors', () => {
     expect(principal.outside).toEqual([]);
     expect(engineer.outside).toEqual([]);
-    expect(consoleErrors).toEqual([]);
+    expect(principal.consoleErrors).toEqual([]);
+    expect(engineer.consoleErrors).toEqual([]);
   });
 });

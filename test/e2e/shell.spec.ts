@@ -7,16 +7,10 @@ describe('the shell in Chromium, signed out', () => {
   const base = testEnv('E2E_BASE_URL');
   let browser: Awaited<ReturnType<typeof openBrowser>>;
   let page: Page;
-  const consoleErrors: string[] = [];
 
   beforeAll(async () => {
     browser = await openBrowser();
     page = browser.page;
-    page.on('console', (m) => {
-      // A signed-out visit asks /api/me and gets the expected 401, which Chromium logs as an error.
-      const expected401 = /401 \(Unauthorized\)/.test(m.text()) && m.location().url.endsWith('/api/me');
-      if (m.type() === 'error' && !expected401) consoleErrors.push(`${m.text()} (${m.location().url})`);
-    });
   });
   afterAll(() => browser?.close());
 
@@ -27,7 +21,7 @@ describe('the shell in Chromium, signed out', () => {
     await expect(db.textContent()).resolves.toMatch(/^\s*up\s*$/i);
     await page.screenshot({ path: path.join(SCREENSHOTS, 'status.png'), fullPage: true });
     expect(browser.outside).toEqual([]);
-    expect(consoleErrors).toEqual([]);
+    expect(browser.consoleErrors).toEqual([]);
   });
 
   it('leads a signed-out visitor from the bare address to the sign-in page', async () => {

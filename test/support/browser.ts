@@ -7,9 +7,16 @@ export const SCREENSHOTS = path.resolve(__dirname, '../e2e/screenshots');
 
 /**
  * Debian's Chromium driven by playwright-core (no browser download). Every request that would
- * leave loopback is aborted and recorded, so a test can assert the app needs nothing outside.
+ * leave loopback is aborted and recorded, so a test can assert the app needs nothing outside;
+ * console errors are recorded too, so a test can assert the page logged none.
  */
-export async function openBrowser(): Promise<{ context: BrowserContext; page: Page; outside: string[]; close: () => Promise<void> }> {
+export async function openBrowser(): Promise<{
+  context: BrowserContext;
+  page: Page;
+  outside: string[];
+  consoleErrors: string[];
+  close: () => Promise<void>;
+}> {
   const profile = mkdtempSync(path.join(tmpdir(), 'trabeate-e2e-'));
   const context = await chromium.launchPersistentContext(profile, {
     executablePath: process.env.CHROMIUM_PATH ?? '/usr/bin/chromium',
@@ -26,11 +33,18 @@ export async function openBrowser(): Promise<{ context: BrowserContext; page: Pa
     return route.abort();
   });
   const page = context.pages()[0] ?? (await context.newPage());
+  const consoleErrors: string[] = [];
+  page.on('console', (m) => {
+    // Signed out, /api/me answers the expected 401, which Chromium logs as an error; the rest are faults.
+    const expected401 = /401 \(Unauthorized\)/.test(m.text()) && m.location().url.endsWith('/api/me');
+    if (m.type() === 'error' && !expected401) consoleErrors.push(`${m.text()} (${m.location().url})`);
+  });
   mkdirSync(SCREENSHOTS, { recursive: true });
   return {
     context,
     page,
     outside,
+    consoleErrors,
     close: async () => {
       await context.close();
       rmSync(profile, { recursive: true, force: true });
