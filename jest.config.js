@@ -22,6 +22,8 @@ module.exports = {
     '<rootDir>/apps/client/jest.config.mjs',
     node('api', ['<rootDir>/test/api/**/*.spec.ts', '<rootDir>/apps/server/src/**/*.spec.ts'], { setupFilesAfterEnv: ['<rootDir>/test/support/jest-setup-api.ts'] }),
     node('build', ['<rootDir>/test/build/**/*.spec.ts']),
+    node('lint', ['<rootDir>/test/static/lint.spec.ts'], { testTimeout: 300_000 }),
+    node('typecheck', ['<rootDir>/test/static/typecheck.spec.ts'], { testTimeout: 300_000 }),
     node('e2e', ['<rootDir>/test/e2e/**/*.spec.ts'], { setupFilesAfterEnv: ['<rootDir>/test/support/jest-timeout-e2e.ts'] }),
   ],
 };

@@ -1,5 +1,5 @@
 // npm test [-- suite ...]: starts the services on test ports against throwaway databases, runs
-// every Jest suite (libs, client, api, build, e2e) in one run, stops everything and prints a
+// every Jest suite (lint, typecheck, libs, client, api, build, e2e) in one run, stops everything and prints a
 // summary. Exits non-zero on any failure. Pass suite names to run only those.
 import { spawn } from 'node:child_process';
 import { randomBytes } from 'node:crypto';
@@ -11,9 +11,11 @@ import { Cluster } from './lib/postgres';
 import { log } from './lib/proc';
 import { apiService, clientBuildStep, databaseStep, freePort, identityService, localSignIn, postgresService, startAll, TEST_PORTS, type Service } from './lib/services';
 
-const SUITES = ['libs', 'client', 'api', 'build', 'e2e'] as const;
+const SUITES = ['lint', 'typecheck', 'libs', 'client', 'api', 'build', 'e2e'] as const;
 type Suite = (typeof SUITES)[number];
 const NEEDS: Record<Suite, { db?: boolean; client?: boolean; api?: boolean }> = {
+  lint: {},
+  typecheck: {},
   libs: {},
   client: {},
   api: { db: true },
@@ -124,6 +126,8 @@ function suiteOf(file: string): Suite {
   if (rel.startsWith('apps/client/')) return 'client';
   if (rel.startsWith('test/e2e/')) return 'e2e';
   if (rel.startsWith('test/build/')) return 'build';
+  if (rel.startsWith('test/static/lint')) return 'lint';
+  if (rel.startsWith('test/static/typecheck')) return 'typecheck';
   return 'api';
 }
 

@@ -18,6 +18,8 @@ export interface TestIdentity {
 
 /** The real local identity provider, in this process on a free port, on the test file's database. */
 export async function startIdentity(db: Db, opts: { loginRateLimit?: number } = {}): Promise<TestIdentity> {
+  // Assigned once the provider is built; the server must listen first to know its own issuer URL.
+  // eslint-disable-next-line prefer-const
   let handler: ((req: never, res: never) => void) | undefined;
   const server: Server = createServer((req, res) => (handler ? handler(req as never, res as never) : res.end()));
   await new Promise<void>((resolve) => server.listen(0, '127.0.0.1', resolve));

@@ -25,6 +25,7 @@ export interface AuthRouteDeps {
  */
 export function safeReturnTo(value: unknown): string {
   if (typeof value !== 'string' || value.length > 2000) return '/';
+  // eslint-disable-next-line no-control-regex -- control characters are exactly what is refused here
   if (!value.startsWith('/') || value.startsWith('//') || value.includes('\\') || /[\u0000-\u001f]/.test(value)) return '/';
   try {
     const url = new URL(value, 'http://trabeate.invalid');

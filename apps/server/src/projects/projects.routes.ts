@@ -11,7 +11,7 @@ import type { Db } from '../db/db';
 import { HttpError, notFound } from '../core/errors';
 import { validate } from '../core/validate';
 import { route, type RouteDecl } from '../access/registry';
-import { abilities, type Caller } from '../access/policy';
+import { type Caller } from '../access/policy';
 import { insertActivity } from '../activity/activity.repository';
 import { listProjects, type ProjectListFilters } from './projects.repository';
 import { createProject, listItemOf, projectDetail, projectPage, setArchived, updateProject } from './projects.service';

@@ -119,19 +119,17 @@ class StoreRangeReader extends yauzl.RandomAccessReader {
   }
 
   override _readStreamForRange(start: number, end: number): Readable {
-    const self = this;
-    return Readable.from(
-      (async function* () {
-        const B = StoreRangeReader.BLOCK;
-        for (let block = Math.floor(start / B); block * B < end; block++) {
-          const data = await self.block(block);
-          const from = Math.max(start - block * B, 0);
-          const to = Math.min(end - block * B, data.length);
-          if (to > from) yield data.subarray(from, to);
-        }
-      })(),
-      { objectMode: false },
-    );
+    return Readable.from(this.bytesIn(start, end), { objectMode: false });
+  }
+
+  private async *bytesIn(start: number, end: number): AsyncGenerator<Buffer> {
+    const B = StoreRangeReader.BLOCK;
+    for (let block = Math.floor(start / B); block * B < end; block++) {
+      const data = await this.block(block);
+      const from = Math.max(start - block * B, 0);
+      const to = Math.min(end - block * B, data.length);
+      if (to > from) yield data.subarray(from, to);
+    }
   }
 
   private block(index: number): Promise<Buffer> {

@@ -14,6 +14,7 @@ export function safeFileName(original: string, fallback = 'file'): string {
   let name = original.normalize('NFC').split(/[\\/]/).pop() ?? '';
   name = name
     // C0/C1 controls and Unicode format characters (bidi overrides can fake an extension).
+    // eslint-disable-next-line no-control-regex -- removing control characters is the point
     .replace(/[\u0000-\u001f\u007f-\u009f\u061c\u200b-\u200f\u202a-\u202e\u2066-\u2069\ufeff]/g, '')
     .replace(/[<>:"|?*]/g, '_')
     .replace(/\s+/g, ' ')
