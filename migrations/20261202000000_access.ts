@@ -9,7 +9,9 @@ export async function up(knex: Knex): Promise<void> {
     t.text('oidc_subject');
     t.timestamp('last_signed_in_at', { useTz: true });
   });
-  await knex.raw('create unique index users_oidc_identity_unique on users (oidc_issuer, oidc_subject) where oidc_subject is not null');
+  await knex.raw(
+    'create unique index users_oidc_identity_unique on users (oidc_issuer, oidc_subject) where oidc_subject is not null',
+  );
 
   // For an engineer a membership is an assignment; for a client contact it is a project they may see.
   await knex.schema.createTable('project_members', (t) => {

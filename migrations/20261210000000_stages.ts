@@ -43,7 +43,9 @@ export async function up(knex: Knex): Promise<void> {
     t.foreign(['project_id', 'stage_key']).references(['project_id', 'key']).inTable('stages').onDelete('CASCADE');
     t.index(['project_id', 'stage_key', 'created_at']);
   });
-  await knex.raw(`alter table stage_comments add constraint stage_comments_action_known check (action is null or action in (${list(ACTIONS)}))`);
+  await knex.raw(
+    `alter table stage_comments add constraint stage_comments_action_known check (action is null or action in (${list(ACTIONS)}))`,
+  );
 
   // A re-upload under the same name is a new row with the next version; rows are never overwritten.
   await knex.schema.createTable('deliverables', (t) => {
@@ -61,7 +63,9 @@ export async function up(knex: Knex): Promise<void> {
     t.timestamp('uploaded_at', { useTz: true }).notNullable().defaultTo(knex.fn.now());
     t.foreign(['project_id', 'stage_key']).references(['project_id', 'key']).inTable('stages').onDelete('RESTRICT');
   });
-  await knex.raw('create unique index deliverables_name_version on deliverables (project_id, stage_key, lower(file_name), version)');
+  await knex.raw(
+    'create unique index deliverables_name_version on deliverables (project_id, stage_key, lower(file_name), version)',
+  );
   await knex.raw('alter table deliverables add constraint deliverables_version_positive check (version >= 1)');
 
   await knex.schema.createTable('activity', (t) => {
@@ -78,7 +82,9 @@ export async function up(knex: Knex): Promise<void> {
     // clock_timestamp, not now(): entries written in one transaction keep the order they were made in.
     t.timestamp('at', { useTz: true }).notNullable().defaultTo(knex.raw('clock_timestamp()'));
   });
-  await knex.raw(`alter table activity add constraint activity_object_type_known check (object_type in (${list(OBJECT_TYPES)}))`);
+  await knex.raw(
+    `alter table activity add constraint activity_object_type_known check (object_type in (${list(OBJECT_TYPES)}))`,
+  );
   await knex.raw('create index activity_project_at on activity (project_id, at desc, id desc)');
 
   // Projects made before stages existed get theirs, so every project has all six.

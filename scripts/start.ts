@@ -5,7 +5,16 @@ import { CLIENT_DIST } from './lib/client-build';
 import { fakeServicesEnv, s3Service, smtpService } from './lib/fake-services';
 import { Cluster } from './lib/postgres';
 import { log } from './lib/proc';
-import { apiService, clientBuildStep, databaseStep, DEV_PORTS, identityService, localSignIn, postgresService, startAll } from './lib/services';
+import {
+  apiService,
+  clientBuildStep,
+  databaseStep,
+  DEV_PORTS,
+  identityService,
+  localSignIn,
+  postgresService,
+  startAll,
+} from './lib/services';
 
 async function main(): Promise<void> {
   const cluster = new Cluster({ name: 'pg-dev', port: DEV_PORTS.postgres });
@@ -55,7 +64,10 @@ async function main(): Promise<void> {
   log('start', '');
   log('start', `Trabeate is running at http://127.0.0.1:${DEV_PORTS.api}/  (Ctrl-C stops everything)`);
   log('start', `Local sign-in at http://127.0.0.1:${DEV_PORTS.identity}/ (demo accounts: see README, local only)`);
-  log('start', `Local S3 at http://127.0.0.1:${DEV_PORTS.s3}/, caught mail at http://127.0.0.1:${DEV_PORTS.smtpHttp}/messages`);
+  log(
+    'start',
+    `Local S3 at http://127.0.0.1:${DEV_PORTS.s3}/, caught mail at http://127.0.0.1:${DEV_PORTS.smtpHttp}/messages`,
+  );
   log('start', '');
 }
 

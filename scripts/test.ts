@@ -9,7 +9,18 @@ import { CLIENT_DIST } from './lib/client-build';
 import { fakeServicesEnv, s3Service, smtpService } from './lib/fake-services';
 import { Cluster } from './lib/postgres';
 import { log } from './lib/proc';
-import { apiService, clientBuildStep, databaseStep, freePort, identityService, localSignIn, postgresService, startAll, TEST_PORTS, type Service } from './lib/services';
+import {
+  apiService,
+  clientBuildStep,
+  databaseStep,
+  freePort,
+  identityService,
+  localSignIn,
+  postgresService,
+  startAll,
+  TEST_PORTS,
+  type Service,
+} from './lib/services';
 
 const SUITES = ['lint', 'typecheck', 'libs', 'client', 'api', 'build', 'e2e'] as const;
 type Suite = (typeof SUITES)[number];
@@ -48,7 +59,9 @@ async function main(): Promise<number> {
     smtp: await freePort(TEST_PORTS.smtp),
     smtpHttp: await freePort(TEST_PORTS.smtpHttp),
   };
-  const cluster = needs('db') ? new Cluster({ name: `pg-test-${process.pid}`, port: ports.postgres, fast: true }) : undefined;
+  const cluster = needs('db')
+    ? new Cluster({ name: `pg-test-${process.pid}`, port: ports.postgres, fast: true })
+    : undefined;
   const services: Service[] = [];
   if (cluster) {
     services.push(postgresService(cluster));
@@ -64,10 +77,20 @@ async function main(): Promise<number> {
     services.push(smtpService({ port: ports.smtp, httpPort: ports.smtpHttp }));
     services.push(identityService({ ...signIn.identity, LOG_LEVEL: 'warn' }, ports.identity));
     services.push(
-      apiService({ ...signIn.api, NODE_ENV: 'test', DATABASE_URL: cluster.url('trabeate_e2e'), CLIENT_DIST, LOG_LEVEL: 'warn',
-        PUBLIC_URL: `http://127.0.0.1:${ports.api}`,
-        ...fakeServicesEnv({ port: ports.s3 }, { port: ports.smtp, httpPort: ports.smtpHttp }),
-        DEV_OUTBOX_URL: `http://127.0.0.1:${ports.smtpHttp}`, JOBS_POLL_SECONDS: '0.5' }, ports.api),
+      apiService(
+        {
+          ...signIn.api,
+          NODE_ENV: 'test',
+          DATABASE_URL: cluster.url('trabeate_e2e'),
+          CLIENT_DIST,
+          LOG_LEVEL: 'warn',
+          PUBLIC_URL: `http://127.0.0.1:${ports.api}`,
+          ...fakeServicesEnv({ port: ports.s3 }, { port: ports.smtp, httpPort: ports.smtpHttp }),
+          DEV_OUTBOX_URL: `http://127.0.0.1:${ports.smtpHttp}`,
+          JOBS_POLL_SECONDS: '0.5',
+        },
+        ports.api,
+      ),
     );
   }
 
@@ -99,8 +122,15 @@ async function main(): Promise<number> {
     env.E2E_BASE_URL = `http://127.0.0.1:${ports.api}`;
     env.E2E_IDENTITY_URL = `http://127.0.0.1:${ports.identity}`;
   }
-  const jestArgs = ['jest', '--maxWorkers=2', '--json', `--outputFile=${results}`, '--selectProjects', ...suites,
-    ...passThrough];
+  const jestArgs = [
+    'jest',
+    '--maxWorkers=2',
+    '--json',
+    `--outputFile=${results}`,
+    '--selectProjects',
+    ...suites,
+    ...passThrough,
+  ];
   const code = await new Promise<number>((resolve) => {
     const child = spawn('npx', jestArgs, { stdio: 'inherit', env });
     child.on('exit', (c) => resolve(c ?? 1));
@@ -151,7 +181,9 @@ function printSummary(file: string, suites: Suite[]): void {
   }
   console.log('\nTrabeate test summary');
   for (const [suite, row] of rows) {
-    console.log(`  ${suite.padEnd(7)} ${String(row.passed).padStart(4)} passed  ${String(row.failed).padStart(3)} failed  ${String(row.skipped).padStart(3)} skipped`);
+    console.log(
+      `  ${suite.padEnd(7)} ${String(row.passed).padStart(4)} passed  ${String(row.failed).padStart(3)} failed  ${String(row.skipped).padStart(3)} skipped`,
+    );
   }
   console.log(`${json.numPassedTests} passed, ${json.numFailedTests} failed, ${json.numPendingTests} skipped`);
 }

@@ -6,11 +6,31 @@ export const DEMO = {
     harbourlight: { id: '0b8c2d1e-0000-4000-8000-000000000102', name: 'Harbourlight Schools Trust' },
   },
   users: {
-    principal: { id: '0b8c2d1e-0000-4000-8000-000000000201', email: 'ines.varga@sablequay.example', name: 'Ines Varga-Holm' },
-    engineerA: { id: '0b8c2d1e-0000-4000-8000-000000000202', email: 'tomas.ekwueme@sablequay.example', name: 'Tomas Ekwueme' },
-    engineerB: { id: '0b8c2d1e-0000-4000-8000-000000000203', email: 'priya.lindqvist@sablequay.example', name: 'Priya Lindqvist' },
-    fenwickContact: { id: '0b8c2d1e-0000-4000-8000-000000000204', email: 'odile.marchetti@fenwickrow.example', name: 'Odile Marchetti' },
-    harbourlightContact: { id: '0b8c2d1e-0000-4000-8000-000000000205', email: 'rafe.okonkwo@harbourlight.example', name: 'Rafe Okonkwo' },
+    principal: {
+      id: '0b8c2d1e-0000-4000-8000-000000000201',
+      email: 'ines.varga@sablequay.example',
+      name: 'Ines Varga-Holm',
+    },
+    engineerA: {
+      id: '0b8c2d1e-0000-4000-8000-000000000202',
+      email: 'tomas.ekwueme@sablequay.example',
+      name: 'Tomas Ekwueme',
+    },
+    engineerB: {
+      id: '0b8c2d1e-0000-4000-8000-000000000203',
+      email: 'priya.lindqvist@sablequay.example',
+      name: 'Priya Lindqvist',
+    },
+    fenwickContact: {
+      id: '0b8c2d1e-0000-4000-8000-000000000204',
+      email: 'odile.marchetti@fenwickrow.example',
+      name: 'Odile Marchetti',
+    },
+    harbourlightContact: {
+      id: '0b8c2d1e-0000-4000-8000-000000000205',
+      email: 'rafe.okonkwo@harbourlight.example',
+      name: 'Rafe Okonkwo',
+    },
   },
   projects: {
     kestrel: { id: '0b8c2d1e-0000-4000-8000-000000000301', reference: 'SQ-2026-014' },

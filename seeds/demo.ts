@@ -42,16 +42,56 @@ async function insertCore(db: Knex): Promise<void> {
   await db.transaction(async (trx) => {
     await trx('firms').insert({ ...DEMO.firm, default_currency: 'EUR' });
     await trx('client_organisations').insert([
-      { ...DEMO.clients.fenwick, firm_id: DEMO.firm.id, billing_email: 'accounts@fenwickrow.example', address: '4 Tallow Yard, Marrowby' },
-      { ...DEMO.clients.harbourlight, firm_id: DEMO.firm.id, billing_email: 'estates@harbourlight.example', address: 'Harbourlight House, Quayside Walk, Marrowby' },
+      {
+        ...DEMO.clients.fenwick,
+        firm_id: DEMO.firm.id,
+        billing_email: 'accounts@fenwickrow.example',
+        address: '4 Tallow Yard, Marrowby',
+      },
+      {
+        ...DEMO.clients.harbourlight,
+        firm_id: DEMO.firm.id,
+        billing_email: 'estates@harbourlight.example',
+        address: 'Harbourlight House, Quayside Walk, Marrowby',
+      },
     ]);
     const u = DEMO.users;
     await trx('users').insert([
-      { id: u.principal.id, firm_id: DEMO.firm.id, email: u.principal.email, display_name: u.principal.name, firm_role: 'principal' },
-      { id: u.engineerA.id, firm_id: DEMO.firm.id, email: u.engineerA.email, display_name: u.engineerA.name, firm_role: 'engineer' },
-      { id: u.engineerB.id, firm_id: DEMO.firm.id, email: u.engineerB.email, display_name: u.engineerB.name, firm_role: 'engineer' },
-      { id: u.fenwickContact.id, firm_id: DEMO.firm.id, email: u.fenwickContact.email, display_name: u.fenwickContact.name, client_organisation_id: DEMO.clients.fenwick.id },
-      { id: u.harbourlightContact.id, firm_id: DEMO.firm.id, email: u.harbourlightContact.email, display_name: u.harbourlightContact.name, client_organisation_id: DEMO.clients.harbourlight.id },
+      {
+        id: u.principal.id,
+        firm_id: DEMO.firm.id,
+        email: u.principal.email,
+        display_name: u.principal.name,
+        firm_role: 'principal',
+      },
+      {
+        id: u.engineerA.id,
+        firm_id: DEMO.firm.id,
+        email: u.engineerA.email,
+        display_name: u.engineerA.name,
+        firm_role: 'engineer',
+      },
+      {
+        id: u.engineerB.id,
+        firm_id: DEMO.firm.id,
+        email: u.engineerB.email,
+        display_name: u.engineerB.name,
+        firm_role: 'engineer',
+      },
+      {
+        id: u.fenwickContact.id,
+        firm_id: DEMO.firm.id,
+        email: u.fenwickContact.email,
+        display_name: u.fenwickContact.name,
+        client_organisation_id: DEMO.clients.fenwick.id,
+      },
+      {
+        id: u.harbourlightContact.id,
+        firm_id: DEMO.firm.id,
+        email: u.harbourlightContact.email,
+        display_name: u.harbourlightContact.name,
+        client_organisation_id: DEMO.clients.harbourlight.id,
+      },
     ]);
     await trx('projects').insert([
       {
@@ -61,7 +101,8 @@ async function insertCore(db: Knex): Promise<void> {
         name: 'Kestrel Yard apartments',
         client_organisation_id: DEMO.clients.fenwick.id,
         site_address: '17–19 Chandler Street, Marrowby',
-        building_use: 'Residential apartments over ground-floor shops; plot bounded by neighbours on the north and east',
+        building_use:
+          'Residential apartments over ground-floor shops; plot bounded by neighbours on the north and east',
         storeys: 7,
         storey_height_m: 3.1,
         floor_area_m2: 3150,
@@ -90,15 +131,34 @@ async function insertCore(db: Knex): Promise<void> {
 
 // Invented design bases in the shape the API takes (projectDesignBasisSchema: MPa, kPa, m).
 const DESIGN_BASIS = {
-  kestrel: { codeFamily: 'EN1992', concreteMPa: 30, steelMPa: 500, imposedKPa: 2.0, superimposedDeadKPa: 1.5, bearingPressureKPa: 180, foundingDepthM: 1.5 },
-  alder: { codeFamily: 'EN1992', concreteMPa: 25, steelMPa: 500, imposedKPa: 3.0, superimposedDeadKPa: 1.2, bearingPressureKPa: 150, foundingDepthM: 1.2 },
+  kestrel: {
+    codeFamily: 'EN1992',
+    concreteMPa: 30,
+    steelMPa: 500,
+    imposedKPa: 2.0,
+    superimposedDeadKPa: 1.5,
+    bearingPressureKPa: 180,
+    foundingDepthM: 1.5,
+  },
+  alder: {
+    codeFamily: 'EN1992',
+    concreteMPa: 25,
+    steelMPa: 500,
+    imposedKPa: 3.0,
+    superimposedDeadKPa: 1.2,
+    bearingPressureKPa: 150,
+    foundingDepthM: 1.2,
+  },
 } as const;
 
 /** Demo databases seeded before the design basis had its API shape get the new one. */
 async function seedDesignBasis(db: Knex): Promise<void> {
   for (const [name, basis] of Object.entries(DESIGN_BASIS)) {
     const id = DEMO.projects[name as keyof typeof DEMO.projects].id;
-    await db('projects').where({ id }).whereRaw(`design_basis ->> 'concreteMPa' is null`).update({ design_basis: JSON.stringify(basis) });
+    await db('projects')
+      .where({ id })
+      .whereRaw(`design_basis ->> 'concreteMPa' is null`)
+      .update({ design_basis: JSON.stringify(basis) });
   }
 }
 
@@ -143,32 +203,137 @@ async function seedStages(db: Knex): Promise<void> {
     };
     const assignee: Record<string, string> = { [p.kestrel.id]: u.engineerA.id, [p.alder.id]: u.engineerB.id };
     for (const [projectId, stages] of Object.entries(plan)) {
-      await trx('stages').insert(stages.map(([state, due, times], i) => ({
-        project_id: projectId, key: STAGE_KEYS[i], position: i + 1, state, assignee_id: assignee[projectId], due_date: dateIn(due), ...times,
-      })));
+      await trx('stages').insert(
+        stages.map(([state, due, times], i) => ({
+          project_id: projectId,
+          key: STAGE_KEYS[i],
+          position: i + 1,
+          state,
+          assignee_id: assignee[projectId],
+          due_date: dateIn(due),
+          ...times,
+        })),
+      );
     }
     await trx('stage_comments').insert([
-      { project_id: p.kestrel.id, stage_key: 'design_basis', author_id: u.principal.id, action: 'approve', created_at: at(-41),
-        body: 'Loads and bearing pressure agree with the site investigation summary. Approved.' },
-      { project_id: p.kestrel.id, stage_key: 'column_layout', author_id: u.engineerA.id, action: 'submit', created_at: at(-3),
-        body: 'Grid C moved 400 mm inward along the party wall so the footings stay inside the plot. Two options for the corner column are in the notes.' },
-      { project_id: p.alder.id, stage_key: 'design_basis', author_id: u.principal.id, action: 'return', created_at: at(-2),
-        body: 'The hall needs the assembly imposed load, not the classroom value. Please revise and resubmit.' },
+      {
+        project_id: p.kestrel.id,
+        stage_key: 'design_basis',
+        author_id: u.principal.id,
+        action: 'approve',
+        created_at: at(-41),
+        body: 'Loads and bearing pressure agree with the site investigation summary. Approved.',
+      },
+      {
+        project_id: p.kestrel.id,
+        stage_key: 'column_layout',
+        author_id: u.engineerA.id,
+        action: 'submit',
+        created_at: at(-3),
+        body: 'Grid C moved 400 mm inward along the party wall so the footings stay inside the plot. Two options for the corner column are in the notes.',
+      },
+      {
+        project_id: p.alder.id,
+        stage_key: 'design_basis',
+        author_id: u.principal.id,
+        action: 'return',
+        created_at: at(-2),
+        body: 'The hall needs the assembly imposed load, not the classroom value. Please revise and resubmit.',
+      },
     ]);
     const firm = DEMO.firm.id;
-    const entry = (projectId: string, actor: string, days: number, action: string, objectType: string, stageKey: string | null, summary: string) => ({
-      firm_id: firm, project_id: projectId, actor_id: actor, at: at(days), action, object_type: objectType,
-      object_id: stageKey ? `${projectId}:${stageKey}` : projectId, stage_key: stageKey, summary,
+    const entry = (
+      projectId: string,
+      actor: string,
+      days: number,
+      action: string,
+      objectType: string,
+      stageKey: string | null,
+      summary: string,
+    ) => ({
+      firm_id: firm,
+      project_id: projectId,
+      actor_id: actor,
+      at: at(days),
+      action,
+      object_type: objectType,
+      object_id: stageKey ? `${projectId}:${stageKey}` : projectId,
+      stage_key: stageKey,
+      summary,
     });
     await trx('activity').insert([
-      entry(p.kestrel.id, u.principal.id, -70, 'project.created', 'project', null, `${u.principal.name} created the project ${p.kestrel.reference} Kestrel Yard apartments`),
-      entry(p.kestrel.id, u.engineerA.id, -44, 'stage.submitted', 'stage', 'design_basis', `${u.engineerA.name} submitted Design basis for review`),
-      entry(p.kestrel.id, u.principal.id, -41, 'stage.approved', 'stage', 'design_basis', `${u.principal.name} approved Design basis`),
-      entry(p.kestrel.id, u.engineerA.id, -20, 'stage.started', 'stage', 'beam_framing', `${u.engineerA.name} started Beam framing`),
-      entry(p.kestrel.id, u.engineerA.id, -3, 'stage.submitted', 'stage', 'column_layout', `${u.engineerA.name} submitted Column layout for review`),
-      entry(p.alder.id, u.principal.id, -30, 'project.created', 'project', null, `${u.principal.name} created the project ${p.alder.reference} Alder Lane school teaching block`),
-      entry(p.alder.id, u.engineerB.id, -4, 'stage.submitted', 'stage', 'design_basis', `${u.engineerB.name} submitted Design basis for review`),
-      entry(p.alder.id, u.principal.id, -2, 'stage.returned', 'stage', 'design_basis', `${u.principal.name} returned Design basis`),
+      entry(
+        p.kestrel.id,
+        u.principal.id,
+        -70,
+        'project.created',
+        'project',
+        null,
+        `${u.principal.name} created the project ${p.kestrel.reference} Kestrel Yard apartments`,
+      ),
+      entry(
+        p.kestrel.id,
+        u.engineerA.id,
+        -44,
+        'stage.submitted',
+        'stage',
+        'design_basis',
+        `${u.engineerA.name} submitted Design basis for review`,
+      ),
+      entry(
+        p.kestrel.id,
+        u.principal.id,
+        -41,
+        'stage.approved',
+        'stage',
+        'design_basis',
+        `${u.principal.name} approved Design basis`,
+      ),
+      entry(
+        p.kestrel.id,
+        u.engineerA.id,
+        -20,
+        'stage.started',
+        'stage',
+        'beam_framing',
+        `${u.engineerA.name} started Beam framing`,
+      ),
+      entry(
+        p.kestrel.id,
+        u.engineerA.id,
+        -3,
+        'stage.submitted',
+        'stage',
+        'column_layout',
+        `${u.engineerA.name} submitted Column layout for review`,
+      ),
+      entry(
+        p.alder.id,
+        u.principal.id,
+        -30,
+        'project.created',
+        'project',
+        null,
+        `${u.principal.name} created the project ${p.alder.reference} Alder Lane school teaching block`,
+      ),
+      entry(
+        p.alder.id,
+        u.engineerB.id,
+        -4,
+        'stage.submitted',
+        'stage',
+        'design_basis',
+        `${u.engineerB.name} submitted Design basis for review`,
+      ),
+      entry(
+        p.alder.id,
+        u.principal.id,
+        -2,
+        'stage.returned',
+        'stage',
+        'design_basis',
+        `${u.principal.name} returned Design basis`,
+      ),
     ]);
   });
 }

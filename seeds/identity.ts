@@ -15,6 +15,7 @@ export async function seedIdentityAccounts(db: Knex): Promise<number> {
     if (await ensureAccount(db, { email: u.email, name: u.name, password: DEMO_PASSWORD })) created++;
   }
   // Someone the provider knows whom the firm has not invited: shows the "no access yet" page.
-  if (await ensureAccount(db, { email: 'wren.adebayo@stray.example', name: 'Wren Adebayo', password: DEMO_PASSWORD })) created++;
+  if (await ensureAccount(db, { email: 'wren.adebayo@stray.example', name: 'Wren Adebayo', password: DEMO_PASSWORD }))
+    created++;
   return created;
 }

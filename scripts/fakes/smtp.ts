@@ -102,7 +102,8 @@ export async function startFakeSmtp(opts: FakeSmtpOptions = {}): Promise<FakeSmt
 
   const clear = () => {
     messages.length = 0;
-    if (directory) for (const f of readdirSync(directory)) if (f.endsWith('.json')) rmSync(path.join(directory, f), { force: true });
+    if (directory)
+      for (const f of readdirSync(directory)) if (f.endsWith('.json')) rmSync(path.join(directory, f), { force: true });
   };
 
   let http: HttpServer | undefined;
@@ -116,7 +117,13 @@ export async function startFakeSmtp(opts: FakeSmtpOptions = {}): Promise<FakeSmt
       };
       if (url.pathname === '/messages' && req.method === 'GET') {
         // Newest first, without the bodies: the outbox list needs only the headers.
-        return send(200, messages.slice().reverse().map(({ html: _h, text: _t, ...summary }) => summary));
+        return send(
+          200,
+          messages
+            .slice()
+            .reverse()
+            .map(({ html: _h, text: _t, ...summary }) => summary),
+        );
       }
       if (url.pathname === '/messages' && req.method === 'DELETE') {
         clear();
@@ -183,7 +190,9 @@ function addresses(field: AddressObject | AddressObject[] | undefined): string[]
 
 function loadMessages(directory: string): CaughtMessage[] {
   const out: CaughtMessage[] = [];
-  for (const f of readdirSync(directory).filter((f) => f.endsWith('.json')).sort()) {
+  for (const f of readdirSync(directory)
+    .filter((f) => f.endsWith('.json'))
+    .sort()) {
     try {
       out.push(JSON.parse(readFileSync(path.join(directory, f), 'utf8')) as CaughtMessage);
     } catch {

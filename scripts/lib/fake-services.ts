@@ -6,7 +6,11 @@ import type { Service } from './services';
  * The local S3 and SMTP fakes as services for the start and test commands. They run inside the
  * command's own process (no child), bound to 127.0.0.1 only.
  */
-export function s3Service(opts: { port: number; directory?: string; bucket?: string }): Service & { fake(): FakeS3 | undefined } {
+export function s3Service(opts: {
+  port: number;
+  directory?: string;
+  bucket?: string;
+}): Service & { fake(): FakeS3 | undefined } {
   let fake: FakeS3 | undefined;
   return {
     name: 's3',
@@ -27,7 +31,11 @@ export function s3Service(opts: { port: number; directory?: string; bucket?: str
   };
 }
 
-export function smtpService(opts: { port: number; httpPort: number; directory?: string }): Service & { fake(): FakeSmtp | undefined } {
+export function smtpService(opts: {
+  port: number;
+  httpPort: number;
+  directory?: string;
+}): Service & { fake(): FakeSmtp | undefined } {
   let fake: FakeSmtp | undefined;
   return {
     name: 'smtp',
@@ -37,7 +45,9 @@ export function smtpService(opts: { port: number; httpPort: number; directory?: 
       fake = await startFakeSmtp(opts);
     },
     ready: async () => {
-      const res = await fetch(`http://127.0.0.1:${fake?.httpPort ?? opts.httpPort}/health`, { signal: AbortSignal.timeout(2000) });
+      const res = await fetch(`http://127.0.0.1:${fake?.httpPort ?? opts.httpPort}/health`, {
+        signal: AbortSignal.timeout(2000),
+      });
       if (!res.ok) throw new Error(`the mail outbox answered ${res.status}`);
     },
     stop: async () => {
@@ -48,7 +58,10 @@ export function smtpService(opts: { port: number; httpPort: number; directory?: 
 }
 
 /** Environment for the API that points it at the running fakes (LOCAL ONLY credentials). */
-export function fakeServicesEnv(s3: { port: number; bucket?: string }, smtp: { port: number; httpPort: number }): Record<string, string> {
+export function fakeServicesEnv(
+  s3: { port: number; bucket?: string },
+  smtp: { port: number; httpPort: number },
+): Record<string, string> {
   return {
     S3_ENDPOINT: `http://127.0.0.1:${s3.port}`,
     S3_REGION: 'us-east-1',

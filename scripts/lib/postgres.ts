@@ -21,7 +21,10 @@ export function pgBinDir(): string {
   if (isRoot && commandExists('apt-get')) {
     log('postgres', 'PostgreSQL is not installed; installing it with apt-get (Debian package "postgresql")…');
     run('apt-get', ['update', '-qq'], { quiet: false });
-    run('apt-get', ['install', '-y', '-qq', 'postgresql'], { quiet: false, env: { ...process.env, DEBIAN_FRONTEND: 'noninteractive' } });
+    run('apt-get', ['install', '-y', '-qq', 'postgresql'], {
+      quiet: false,
+      env: { ...process.env, DEBIAN_FRONTEND: 'noninteractive' },
+    });
     const after = findBinDir();
     if (after) return after;
   }
@@ -49,7 +52,8 @@ function dataRoot(): string {
   const local = path.resolve('tmp');
   mkdirSync(local, { recursive: true });
   if (!isRoot) return local;
-  const reachable = spawnSync('runuser', ['-u', 'postgres', '--', 'test', '-x', local], { stdio: 'ignore' }).status === 0;
+  const reachable =
+    spawnSync('runuser', ['-u', 'postgres', '--', 'test', '-x', local], { stdio: 'ignore' }).status === 0;
   if (reachable) return local;
   const fallback = '/var/tmp/trabeate';
   mkdirSync(fallback, { recursive: true, mode: 0o755 });
@@ -95,8 +99,18 @@ export class Cluster {
       for (const p of [this.dir, this.dataDir, this.socketDir, pwfile]) chownSync(p, uid, gid);
     }
     log('postgres', `creating a cluster in ${this.dataDir}`);
-    this.pg('initdb', ['-D', this.dataDir, '-U', PG_USER, `--pwfile=${pwfile}`, '-E', 'UTF8', '--locale=C',
-      '--auth-local=trust', '--auth-host=scram-sha-256']);
+    this.pg('initdb', [
+      '-D',
+      this.dataDir,
+      '-U',
+      PG_USER,
+      `--pwfile=${pwfile}`,
+      '-E',
+      'UTF8',
+      '--locale=C',
+      '--auth-local=trust',
+      '--auth-host=scram-sha-256',
+    ]);
     rmSync(pwfile);
   }
 
@@ -115,7 +129,18 @@ export class Cluster {
     }
     const settings = [`-p ${this.opts.port}`, `-k ${this.socketDir}`, "-c listen_addresses='127.0.0.1'"];
     if (this.opts.fast) settings.push('-c fsync=off', '-c synchronous_commit=off', '-c full_page_writes=off');
-    this.pg('pg_ctl', ['-D', this.dataDir, '-l', path.join(this.dir, 'server.log'), '-w', '-t', '30', '-o', settings.join(' '), 'start']);
+    this.pg('pg_ctl', [
+      '-D',
+      this.dataDir,
+      '-l',
+      path.join(this.dir, 'server.log'),
+      '-w',
+      '-t',
+      '30',
+      '-o',
+      settings.join(' '),
+      'start',
+    ]);
     log('postgres', `up on 127.0.0.1:${this.opts.port}`);
   }
 
@@ -131,8 +156,21 @@ export class Cluster {
 
   /** Runs SQL through psql over the local socket as the cluster's superuser. */
   sql(statement: string, database = 'postgres'): string {
-    return run('psql', ['-h', this.socketDir, '-p', String(this.opts.port), '-U', PG_USER, '-d', database,
-      '-v', 'ON_ERROR_STOP=1', '-At', '-c', statement]);
+    return run('psql', [
+      '-h',
+      this.socketDir,
+      '-p',
+      String(this.opts.port),
+      '-U',
+      PG_USER,
+      '-d',
+      database,
+      '-v',
+      'ON_ERROR_STOP=1',
+      '-At',
+      '-c',
+      statement,
+    ]);
   }
 
   ensureDatabase(name: string, template?: string): void {

@@ -31,7 +31,11 @@ export const TEST_PORTS: Ports = { postgres: 5443, api: 4320, identity: 4321, s3
  * The local identity provider and the API's settings for it. LOCAL ONLY: the client secret is
  * fixed and public; production points the API at the firm's own provider.
  */
-export function localSignIn(databaseUrl: string, ports: Ports, sessionSecret: string): { identity: Record<string, string>; api: Record<string, string> } {
+export function localSignIn(
+  databaseUrl: string,
+  ports: Ports,
+  sessionSecret: string,
+): { identity: Record<string, string>; api: Record<string, string> } {
   const apiUrl = `http://127.0.0.1:${ports.api}`;
   const client = { id: 'trabeate-local', secret: 'local-only-client-secret-not-for-production' };
   return {
@@ -68,7 +72,8 @@ export function identityService(env: Record<string, string>, port: number): Serv
     },
     ready: () =>
       waitFor('the identity provider', async () => {
-        if (child?.exitCode !== null && child?.exitCode !== undefined) throw new Error('the identity provider process exited');
+        if (child?.exitCode !== null && child?.exitCode !== undefined)
+          throw new Error('the identity provider process exited');
         return httpOk(`http://127.0.0.1:${port}/.well-known/openid-configuration`);
       }),
     stop: async () => {

@@ -26,10 +26,20 @@ type CallerName = keyof typeof CALLERS;
 type Expected = Record<CallerName, number>;
 
 const all = (status: number): Expected => ({
-  anonymous: status, principal: status, assignedEngineer: status, unassignedEngineer: status, projectClient: status, otherClient: status,
+  anonymous: status,
+  principal: status,
+  assignedEngineer: status,
+  unassignedEngineer: status,
+  projectClient: status,
+  otherClient: status,
 });
 const principalOnly = (ok: number): Expected => ({
-  anonymous: 401, principal: ok, assignedEngineer: 403, unassignedEngineer: 403, projectClient: 403, otherClient: 403,
+  anonymous: 401,
+  principal: ok,
+  assignedEngineer: 403,
+  unassignedEngineer: 403,
+  projectClient: 403,
+  otherClient: 403,
 });
 const signedIn = (ok: number): Expected => ({ ...all(ok), anonymous: 401 });
 
@@ -54,7 +64,12 @@ interface Entry {
 
 // Visible to the principal, the assigned engineer and the project's client; hidden from the others.
 const onProject = (principal: number, engineer: number, client: number): Expected => ({
-  anonymous: 401, principal, assignedEngineer: engineer, unassignedEngineer: 404, projectClient: client, otherClient: 404,
+  anonymous: 401,
+  principal,
+  assignedEngineer: engineer,
+  unassignedEngineer: 404,
+  projectClient: client,
+  otherClient: 404,
 });
 
 /** Every API route, keyed "METHOD /path" exactly as declared; a route missing here fails the test. */
@@ -69,57 +84,119 @@ const MATRIX: Record<string, Entry> = {
   'GET /client-organisations': { path: '/client-organisations', expect: principalOnly(200) },
   'POST /invitations': {
     path: '/invitations',
-    body: (c) => ({ email: `matrix-${c}@sablequay.example`, displayName: `Matrix ${c}`, role: 'engineer', projectIds: [] }),
+    body: (c) => ({
+      email: `matrix-${c}@sablequay.example`,
+      displayName: `Matrix ${c}`,
+      role: 'engineer',
+      projectIds: [],
+    }),
     expect: principalOnly(201),
   },
   'GET /invitations/:token': { path: `/invitations/${INVITE_TOKEN}`, expect: all(200) },
-  'PATCH /people/:id': { path: `/people/${SPARE.patch}`, body: () => ({ displayName: 'Renamed' }), expect: principalOnly(200) },
+  'PATCH /people/:id': {
+    path: `/people/${SPARE.patch}`,
+    body: () => ({ displayName: 'Renamed' }),
+    expect: principalOnly(200),
+  },
   'DELETE /people/:id/access': { path: `/people/${SPARE.remove}/access`, expect: principalOnly(204) },
   'GET /projects': { path: '/projects', expect: signedIn(200) },
   'POST /projects': {
     path: '/projects',
     body: (c) => ({
-      reference: `MX-${c}`, name: `Matrix ${c}`, clientOrganisationId: DEMO.clients.fenwick.id, storeys: 3, storeyHeightM: 3, currency: 'EUR',
-      designBasis: { codeFamily: 'EN1992', concreteMPa: 30, steelMPa: 500, imposedKPa: 2, superimposedDeadKPa: 1, bearingPressureKPa: 150, foundingDepthM: 1 },
+      reference: `MX-${c}`,
+      name: `Matrix ${c}`,
+      clientOrganisationId: DEMO.clients.fenwick.id,
+      storeys: 3,
+      storeyHeightM: 3,
+      currency: 'EUR',
+      designBasis: {
+        codeFamily: 'EN1992',
+        concreteMPa: 30,
+        steelMPa: 500,
+        imposedKPa: 2,
+        superimposedDeadKPa: 1,
+        bearingPressureKPa: 150,
+        foundingDepthM: 1,
+      },
     }),
     expect: principalOnly(201),
   },
   'GET /projects/:projectId/full': { path: `/projects/${KESTREL}/full`, expect: onProject(200, 200, 200) },
-  'PATCH /projects/:projectId': { path: `/projects/${SPARE_PROJECT}`, body: () => ({ siteAddress: '2 Matrix Lane' }), expect: onProject(200, 403, 403) },
+  'PATCH /projects/:projectId': {
+    path: `/projects/${SPARE_PROJECT}`,
+    body: () => ({ siteAddress: '2 Matrix Lane' }),
+    expect: onProject(200, 403, 403),
+  },
   'POST /projects/:projectId/archive': { path: `/projects/${SPARE_PROJECT}/archive`, expect: onProject(200, 403, 403) },
   'POST /projects/:projectId/restore': { path: `/projects/${SPARE_PROJECT}/restore`, expect: onProject(200, 403, 403) },
   'GET /projects/:projectId/stages': { path: `/projects/${KESTREL}/stages`, expect: onProject(200, 200, 200) },
   'PATCH /projects/:projectId/stages/:stageKey': {
-    path: `/projects/${SPARE_PROJECT}/stages/stairs`, body: () => ({ dueDate: '2027-03-01' }), expect: onProject(200, 403, 403),
+    path: `/projects/${SPARE_PROJECT}/stages/stairs`,
+    body: () => ({ dueDate: '2027-03-01' }),
+    expect: onProject(200, 403, 403),
   },
   // Only the assigned engineer starts a stage: the principal passes the guard and is refused by the workflow.
   'POST /projects/:projectId/stages/:stageKey/transitions': {
-    path: `/projects/${SPARE_PROJECT}/stages/design_basis/transitions`, body: () => ({ action: 'start' }), expect: onProject(403, 200, 403),
+    path: `/projects/${SPARE_PROJECT}/stages/design_basis/transitions`,
+    body: () => ({ action: 'start' }),
+    expect: onProject(403, 200, 403),
   },
-  'GET /projects/:projectId/stages/:stageKey/comments': { path: `/projects/${KESTREL}/stages/column_layout/comments`, expect: onProject(200, 200, 200) },
+  'GET /projects/:projectId/stages/:stageKey/comments': {
+    path: `/projects/${KESTREL}/stages/column_layout/comments`,
+    expect: onProject(200, 200, 200),
+  },
   'POST /projects/:projectId/stages/:stageKey/comments': {
-    path: `/projects/${SPARE_PROJECT}/stages/column_layout/comments`, body: (c) => ({ body: `Note from ${c}` }), expect: onProject(201, 201, 403),
+    path: `/projects/${SPARE_PROJECT}/stages/column_layout/comments`,
+    body: (c) => ({ body: `Note from ${c}` }),
+    expect: onProject(201, 201, 403),
   },
-  'GET /projects/:projectId/stages/:stageKey/deliverables': { path: `/projects/${KESTREL}/stages/beam_framing/deliverables`, expect: onProject(200, 200, 200) },
+  'GET /projects/:projectId/stages/:stageKey/deliverables': {
+    path: `/projects/${KESTREL}/stages/beam_framing/deliverables`,
+    expect: onProject(200, 200, 200),
+  },
   'POST /projects/:projectId/stages/:stageKey/deliverables': {
-    path: `/projects/${SPARE_PROJECT}/stages/column_layout/deliverables`, attach: (c) => ({ data: tinyPdf(), name: `matrix-${c}.pdf` }), expect: onProject(201, 201, 403),
+    path: `/projects/${SPARE_PROJECT}/stages/column_layout/deliverables`,
+    attach: (c) => ({ data: tinyPdf(), name: `matrix-${c}.pdf` }),
+    expect: onProject(201, 201, 403),
   },
   'GET /projects/:projectId/deliverables/:deliverableId/download': {
-    path: `/projects/${KESTREL}/deliverables/${SPARE_FILE}/download`, expect: onProject(200, 200, 200),
+    path: `/projects/${KESTREL}/deliverables/${SPARE_FILE}/download`,
+    expect: onProject(200, 200, 200),
   },
   'GET /projects/:projectId/activity': { path: `/projects/${KESTREL}/activity`, expect: onProject(200, 200, 200) },
   'GET /dev/outbox': { path: '/dev/outbox', expect: principalOnly(200) },
   'GET /projects/:projectId': {
     path: `/projects/${KESTREL}`,
-    expect: { anonymous: 401, principal: 200, assignedEngineer: 200, unassignedEngineer: 404, projectClient: 200, otherClient: 404 },
+    expect: {
+      anonymous: 401,
+      principal: 200,
+      assignedEngineer: 200,
+      unassignedEngineer: 404,
+      projectClient: 200,
+      otherClient: 404,
+    },
   },
   'PUT /projects/:projectId/members/:userId': {
     path: `/projects/${KESTREL}/members/${SPARE.member}`,
-    expect: { anonymous: 401, principal: 204, assignedEngineer: 403, unassignedEngineer: 404, projectClient: 403, otherClient: 404 },
+    expect: {
+      anonymous: 401,
+      principal: 204,
+      assignedEngineer: 403,
+      unassignedEngineer: 404,
+      projectClient: 403,
+      otherClient: 404,
+    },
   },
   'DELETE /projects/:projectId/members/:userId': {
     path: `/projects/${KESTREL}/members/${SPARE.member}`,
-    expect: { anonymous: 401, principal: 204, assignedEngineer: 403, unassignedEngineer: 404, projectClient: 403, otherClient: 404 },
+    expect: {
+      anonymous: 401,
+      principal: 204,
+      assignedEngineer: 403,
+      unassignedEngineer: 404,
+      projectClient: 403,
+      otherClient: 404,
+    },
   },
 };
 
@@ -143,11 +220,21 @@ describe('authorization matrix: every API route against every kind of caller', (
     smtp = await startFakeSmtp({ httpPort: 0 });
     t = await testApp({ seed: true, identity: true, config: { DEV_OUTBOX_URL: `http://127.0.0.1:${smtp.httpPort}` } });
     await t.db('projects').insert({
-      id: SPARE_PROJECT, firm_id: DEMO.firm.id, reference: 'SQ-MATRIX', name: 'Matrix annex', client_organisation_id: DEMO.clients.fenwick.id, storeys: 2,
+      id: SPARE_PROJECT,
+      firm_id: DEMO.firm.id,
+      reference: 'SQ-MATRIX',
+      name: 'Matrix annex',
+      client_organisation_id: DEMO.clients.fenwick.id,
+      storeys: 2,
     });
-    await t.db('stages').insert(['design_basis', 'column_layout', 'beam_framing', 'slab_panels', 'stairs', 'foundations'].map((key, i) => ({
-      project_id: SPARE_PROJECT, key, position: i + 1, assignee_id: key === 'design_basis' ? DEMO.users.engineerA.id : null,
-    })));
+    await t.db('stages').insert(
+      ['design_basis', 'column_layout', 'beam_framing', 'slab_panels', 'stairs', 'foundations'].map((key, i) => ({
+        project_id: SPARE_PROJECT,
+        key,
+        position: i + 1,
+        assignee_id: key === 'design_basis' ? DEMO.users.engineerA.id : null,
+      })),
+    );
     await t.db('project_members').insert([
       { project_id: SPARE_PROJECT, user_id: DEMO.users.engineerA.id },
       { project_id: SPARE_PROJECT, user_id: DEMO.users.fenwickContact.id },
@@ -156,16 +243,46 @@ describe('authorization matrix: every API route against every kind of caller', (
     const pdf = tinyPdf();
     await t.store.putStream(`matrix/${SPARE_FILE}.pdf`, Readable.from([pdf]), { contentType: 'application/pdf' });
     await t.db('deliverables').insert({
-      id: SPARE_FILE, project_id: KESTREL, stage_key: 'beam_framing', file_name: 'Beam schedule.pdf', version: 1, object_key: `matrix/${SPARE_FILE}.pdf`,
-      size_bytes: pdf.length, sha256: '0'.repeat(64), content_type: 'application/pdf', detected_type: 'pdf', uploaded_by: DEMO.users.engineerA.id,
+      id: SPARE_FILE,
+      project_id: KESTREL,
+      stage_key: 'beam_framing',
+      file_name: 'Beam schedule.pdf',
+      version: 1,
+      object_key: `matrix/${SPARE_FILE}.pdf`,
+      size_bytes: pdf.length,
+      sha256: '0'.repeat(64),
+      content_type: 'application/pdf',
+      detected_type: 'pdf',
+      uploaded_by: DEMO.users.engineerA.id,
     });
     await t.db('users').insert([
-      { id: SPARE.patch, firm_id: DEMO.firm.id, email: 'spare.patch@sablequay.example', display_name: 'Spare One', firm_role: 'engineer' },
-      { id: SPARE.remove, firm_id: DEMO.firm.id, email: 'spare.remove@sablequay.example', display_name: 'Spare Two', firm_role: 'engineer' },
-      { id: SPARE.member, firm_id: DEMO.firm.id, email: 'spare.member@sablequay.example', display_name: 'Spare Three', firm_role: 'engineer' },
+      {
+        id: SPARE.patch,
+        firm_id: DEMO.firm.id,
+        email: 'spare.patch@sablequay.example',
+        display_name: 'Spare One',
+        firm_role: 'engineer',
+      },
+      {
+        id: SPARE.remove,
+        firm_id: DEMO.firm.id,
+        email: 'spare.remove@sablequay.example',
+        display_name: 'Spare Two',
+        firm_role: 'engineer',
+      },
+      {
+        id: SPARE.member,
+        firm_id: DEMO.firm.id,
+        email: 'spare.member@sablequay.example',
+        display_name: 'Spare Three',
+        firm_role: 'engineer',
+      },
     ]);
     await t.db('invitations').insert({
-      firm_id: DEMO.firm.id, user_id: SPARE.patch, token_hash: hashToken(INVITE_TOKEN), expires_at: new Date(Date.now() + 86_400_000),
+      firm_id: DEMO.firm.id,
+      user_id: SPARE.patch,
+      token_hash: hashToken(INVITE_TOKEN),
+      expires_at: new Date(Date.now() + 86_400_000),
     });
     for (const name of Object.keys(CALLERS) as CallerName[]) agents[name] = await signedInAgent(name);
   });
@@ -175,7 +292,9 @@ describe('authorization matrix: every API route against every kind of caller', (
   });
 
   it('has an entry for every declared route, and no entry for a route that does not exist', () => {
-    const declared = (t.app.locals['routes'] as Array<{ method: string; path: string }>).map((r) => `${r.method.toUpperCase()} ${r.path}`);
+    const declared = (t.app.locals['routes'] as Array<{ method: string; path: string }>).map(
+      (r) => `${r.method.toUpperCase()} ${r.path}`,
+    );
     expect(declared.sort()).toEqual(Object.keys(MATRIX).sort());
   });
 
@@ -217,7 +336,8 @@ describe('what each caller sees', () => {
   };
 
   it('lists only the projects each caller may see', async () => {
-    const ids = async (user: { email: string }) => ((await (await as(user)).get('/api/projects')).body.items as Array<{ id: string }>).map((p) => p.id).sort();
+    const ids = async (user: { email: string }) =>
+      ((await (await as(user)).get('/api/projects')).body.items as Array<{ id: string }>).map((p) => p.id).sort();
     expect(await ids(DEMO.users.principal)).toEqual([DEMO.projects.kestrel.id, DEMO.projects.alder.id].sort());
     expect(await ids(DEMO.users.engineerA)).toEqual([DEMO.projects.kestrel.id]);
     expect(await ids(DEMO.users.engineerB)).toEqual([DEMO.projects.alder.id]);
@@ -241,7 +361,13 @@ describe('what each caller sees', () => {
       projectDetailSchema.parse((await (await as(user)).get(`/api/projects/${DEMO.projects.kestrel.id}`)).body);
     const engineer = await detail(DEMO.users.engineerA);
     expect(engineer.finance).toBeNull();
-    expect(engineer.abilities).toEqual({ work: true, manage: false, seeFinance: false, pay: false, acknowledge: false });
+    expect(engineer.abilities).toEqual({
+      work: true,
+      manage: false,
+      seeFinance: false,
+      pay: false,
+      acknowledge: false,
+    });
     expect((await detail(DEMO.users.principal)).finance).toEqual({ estimatedCost: 4_850_000, currency: 'EUR' });
     const client = await detail(DEMO.users.fenwickContact);
     expect(client.finance).toEqual({ estimatedCost: 4_850_000, currency: 'EUR' });
@@ -251,9 +377,14 @@ describe('what each caller sees', () => {
   it('says why when a visible project refuses an action', async () => {
     const api = await as(DEMO.users.fenwickContact);
     await api.get('/api/me');
-    const res = await api.put(`/api/projects/${DEMO.projects.kestrel.id}/members/${DEMO.users.engineerB.id}`).set('X-XSRF-TOKEN', xsrfToken(api));
+    const res = await api
+      .put(`/api/projects/${DEMO.projects.kestrel.id}/members/${DEMO.users.engineerB.id}`)
+      .set('X-XSRF-TOKEN', xsrfToken(api));
     expect(res.status).toBe(403);
-    expect(res.body.error).toMatchObject({ code: 'forbidden', message: "Only the firm's principal can manage this project's team and settings." });
+    expect(res.body.error).toMatchObject({
+      code: 'forbidden',
+      message: "Only the firm's principal can manage this project's team and settings.",
+    });
   });
 
   it('refuses a state change without the X-XSRF-TOKEN header, or with one from another session', async () => {

@@ -22,7 +22,10 @@ describe('deliverables: streamed uploads to S3, versions, and downloads by role'
   const kestrel = DEMO.projects.kestrel.id;
   // Seeded: Kestrel Yard's beam framing is in progress, its column layout under review.
   const uploadTo = (api: TestAgent, key: StageKey, data: Buffer, filename: string, projectId = kestrel) =>
-    api.post(`/api/projects/${projectId}/stages/${key}/deliverables`).set('X-XSRF-TOKEN', xsrfToken(api)).attach('file', data, { filename, contentType: 'application/pdf' });
+    api
+      .post(`/api/projects/${projectId}/stages/${key}/deliverables`)
+      .set('X-XSRF-TOKEN', xsrfToken(api))
+      .attach('file', data, { filename, contentType: 'application/pdf' });
   const objects = () => t.store.list('projects/');
 
   beforeAll(async () => {
@@ -43,14 +46,28 @@ describe('deliverables: streamed uploads to S3, versions, and downloads by role'
     expect(res.status).toBe(201);
     first = deliverableSchema.parse(res.body);
     expect(first).toMatchObject({
-      stageKey: 'beam_framing', fileName: 'Beam schedule.pdf', version: 1, sizeBytes: pdf.length, sha256: sha(pdf), contentType: 'application/pdf',
+      stageKey: 'beam_framing',
+      fileName: 'Beam schedule.pdf',
+      version: 1,
+      sizeBytes: pdf.length,
+      sha256: sha(pdf),
+      contentType: 'application/pdf',
       uploadedBy: { id: DEMO.users.engineerA.id, displayName: DEMO.users.engineerA.name },
     });
     const row = await t.db('deliverables').where({ id: first.id }).first();
-    expect(row.object_key).toMatch(new RegExp(`^projects/${kestrel}/stages/beam_framing/[0-9a-f-]{36}/Beam schedule\\.pdf$`));
+    expect(row.object_key).toMatch(
+      new RegExp(`^projects/${kestrel}/stages/beam_framing/[0-9a-f-]{36}/Beam schedule\\.pdf$`),
+    );
     expect((await t.store.head(row.object_key))?.size).toBe(pdf.length);
-    const log = activityListSchema.parse((await principal.get(`/api/projects/${kestrel}/activity?objectType=deliverable`)).body);
-    expect(log.items[0]).toMatchObject({ action: 'deliverable.uploaded', objectId: first.id, stageKey: 'beam_framing', summary: `${DEMO.users.engineerA.name} uploaded Beam schedule.pdf to Beam framing` });
+    const log = activityListSchema.parse(
+      (await principal.get(`/api/projects/${kestrel}/activity?objectType=deliverable`)).body,
+    );
+    expect(log.items[0]).toMatchObject({
+      action: 'deliverable.uploaded',
+      objectId: first.id,
+      stageKey: 'beam_framing',
+      summary: `${DEMO.users.engineerA.name} uploaded Beam schedule.pdf to Beam framing`,
+    });
   });
 
   it('the same name again is a new version beside the old one, never over it', async () => {
@@ -58,18 +75,37 @@ describe('deliverables: streamed uploads to S3, versions, and downloads by role'
     const res = await uploadTo(tomas, 'beam_framing', second, 'beam SCHEDULE.pdf');
     expect(res.status).toBe(201);
     expect(res.body).toMatchObject({ version: 2, sha256: sha(second) });
-    const list = deliverableSchema.array().parse((await tomas.get(`/api/projects/${kestrel}/stages/beam_framing/deliverables`)).body);
-    expect(list.map((d) => [d.version, d.sha256])).toEqual([[2, sha(second)], [1, sha(pdf)]]);
+    const list = deliverableSchema
+      .array()
+      .parse((await tomas.get(`/api/projects/${kestrel}/stages/beam_framing/deliverables`)).body);
+    expect(list.map((d) => [d.version, d.sha256])).toEqual([
+      [2, sha(second)],
+      [1, sha(pdf)],
+    ]);
     const keys = await t.db('deliverables').where({ project_id: kestrel }).pluck('object_key');
     expect(new Set(keys).size).toBe(2);
-    const old = await tomas.get(first.downloadUrl).buffer(true).parse((r, cb) => { const c: Buffer[] = []; r.on('data', (d: Buffer) => c.push(d)); r.on('end', () => cb(null, Buffer.concat(c))); });
+    const old = await tomas
+      .get(first.downloadUrl)
+      .buffer(true)
+      .parse((r, cb) => {
+        const c: Buffer[] = [];
+        r.on('data', (d: Buffer) => c.push(d));
+        r.on('end', () => cb(null, Buffer.concat(c)));
+      });
     expect(sha(old.body as Buffer)).toBe(sha(pdf));
-    const log = activityListSchema.parse((await principal.get(`/api/projects/${kestrel}/activity?objectType=deliverable`)).body);
-    expect(log.items[0].summary).toBe(`${DEMO.users.engineerA.name} uploaded beam SCHEDULE.pdf (version 2) to Beam framing`);
+    const log = activityListSchema.parse(
+      (await principal.get(`/api/projects/${kestrel}/activity?objectType=deliverable`)).body,
+    );
+    expect(log.items[0].summary).toBe(
+      `${DEMO.users.engineerA.name} uploaded beam SCHEDULE.pdf (version 2) to Beam framing`,
+    );
   });
 
   it('two uploads of one name at once get different versions', async () => {
-    const [a, b] = await Promise.all([uploadTo(tomas, 'beam_framing', tinyPdf('a'), 'Race.pdf'), uploadTo(principal, 'beam_framing', tinyPdf('b'), 'Race.pdf')]);
+    const [a, b] = await Promise.all([
+      uploadTo(tomas, 'beam_framing', tinyPdf('a'), 'Race.pdf'),
+      uploadTo(principal, 'beam_framing', tinyPdf('b'), 'Race.pdf'),
+    ]);
     expect([a.status, b.status]).toEqual([201, 201]);
     expect([a.body.version, b.body.version].sort()).toEqual([1, 2]);
   });
@@ -79,7 +115,10 @@ describe('deliverables: streamed uploads to S3, versions, and downloads by role'
     const big = Buffer.concat([tinyPdf(), Buffer.alloc(LIMIT, 0x20)]);
     const res = await uploadTo(tomas, 'beam_framing', big, 'Too big.pdf');
     expect(res.status).toBe(413);
-    expect(res.body.error).toMatchObject({ code: 'payload_too_large', message: 'The file is larger than the limit of 2 MiB.' });
+    expect(res.body.error).toMatchObject({
+      code: 'payload_too_large',
+      message: 'The file is larger than the limit of 2 MiB.',
+    });
     expect((await objects()).length).toBe(before);
     expect(await t.db('deliverables').where({ file_name: 'Too big.pdf' }).first()).toBeUndefined();
   });
@@ -100,7 +139,9 @@ describe('deliverables: streamed uploads to S3, versions, and downloads by role'
     const row = await t.db('deliverables').where({ id: res.body.id }).first();
     expect(row.object_key).not.toContain('..');
     const download = await fenwick.get(res.body.downloadUrl);
-    expect(download.headers['content-disposition']).toBe(`attachment; filename="_CON.fdp.pdf"; filename*=UTF-8''_CON.fdp.pdf`);
+    expect(download.headers['content-disposition']).toBe(
+      `attachment; filename="_CON.fdp.pdf"; filename*=UTF-8''_CON.fdp.pdf`,
+    );
     const accented = await uploadTo(tomas, 'beam_framing', tinyPdf(), 'Béton armé.pdf');
     expect(accented.body.fileName).toBe('Béton armé.pdf');
   });
@@ -109,7 +150,9 @@ describe('deliverables: streamed uploads to S3, versions, and downloads by role'
     const before = (await objects()).length;
     const res = await uploadTo(tomas, 'column_layout', tinyPdf(), 'Late change.pdf');
     expect(res.status).toBe(409);
-    expect(res.body.error.message).toBe('Column layout is under review; files can be added once it is returned or reopened.');
+    expect(res.body.error.message).toBe(
+      'Column layout is under review; files can be added once it is returned or reopened.',
+    );
     expect((await objects()).length).toBe(before);
   });
 
@@ -120,7 +163,14 @@ describe('deliverables: streamed uploads to S3, versions, and downloads by role'
 
   it('downloads stream the stored bytes to those who may see the project, and to nobody else', async () => {
     for (const api of [principal, tomas, fenwick]) {
-      const res = await api.get(first.downloadUrl).buffer(true).parse((r, cb) => { const c: Buffer[] = []; r.on('data', (d: Buffer) => c.push(d)); r.on('end', () => cb(null, Buffer.concat(c))); });
+      const res = await api
+        .get(first.downloadUrl)
+        .buffer(true)
+        .parse((r, cb) => {
+          const c: Buffer[] = [];
+          r.on('data', (d: Buffer) => c.push(d));
+          r.on('end', () => cb(null, Buffer.concat(c)));
+        });
       expect(res.status).toBe(200);
       expect(res.headers['content-type']).toBe('application/pdf');
       expect(res.headers['content-disposition']).toContain('filename="Beam schedule.pdf"');
@@ -133,10 +183,21 @@ describe('deliverables: streamed uploads to S3, versions, and downloads by role'
       expect(res.body.error.message).toBe('No project with this id.');
     }
     // A file id from another project, asked for under a project the caller can see.
-    const alderFile = await t.db('deliverables').insert({
-      project_id: DEMO.projects.alder.id, stage_key: 'design_basis', file_name: 'Other.pdf', version: 1, object_key: 'projects/other/Other.pdf',
-      size_bytes: 1, sha256: 'a'.repeat(64), content_type: 'application/pdf', detected_type: 'pdf', uploaded_by: DEMO.users.engineerB.id,
-    }).returning('id');
+    const alderFile = await t
+      .db('deliverables')
+      .insert({
+        project_id: DEMO.projects.alder.id,
+        stage_key: 'design_basis',
+        file_name: 'Other.pdf',
+        version: 1,
+        object_key: 'projects/other/Other.pdf',
+        size_bytes: 1,
+        sha256: 'a'.repeat(64),
+        content_type: 'application/pdf',
+        detected_type: 'pdf',
+        uploaded_by: DEMO.users.engineerB.id,
+      })
+      .returning('id');
     const crossed = await tomas.get(`/api/projects/${kestrel}/deliverables/${alderFile[0].id}/download`);
     expect(crossed.status).toBe(404);
     expect(crossed.body.error.message).toBe('No file with this id.');

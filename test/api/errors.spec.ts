@@ -40,7 +40,9 @@ describe('the core schema', () => {
 
   it('holds the demo firm, its people, clients and projects', async () => {
     const counts = await Promise.all(
-      ['firms', 'users', 'client_organisations', 'projects'].map(async (table) => Number((await t.db(table).count({ n: '*' }))[0].n)),
+      ['firms', 'users', 'client_organisations', 'projects'].map(async (table) =>
+        Number((await t.db(table).count({ n: '*' }))[0].n),
+      ),
     );
     expect(counts).toEqual([1, 5, 2, 2]);
   });
@@ -49,7 +51,15 @@ describe('the core schema', () => {
     const firm = await t.db('firms').first();
     const org = await t.db('client_organisations').first();
     await expect(
-      t.db('users').insert({ firm_id: firm.id, email: 'x@example.test', display_name: 'X', firm_role: 'engineer', client_organisation_id: org.id }),
+      t
+        .db('users')
+        .insert({
+          firm_id: firm.id,
+          email: 'x@example.test',
+          display_name: 'X',
+          firm_role: 'engineer',
+          client_organisation_id: org.id,
+        }),
     ).rejects.toThrow(/users_one_kind/);
   });
 

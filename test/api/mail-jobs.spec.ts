@@ -9,8 +9,12 @@ const approved = (recipient: string) => ({
   to: recipient,
   template: 'stage-approved' as const,
   data: {
-    firmName: 'Halvorsen & Pike Structures', recipientName: 'Tomas Ingle', projectName: 'Kestrel Yard', stageName: 'Scheme design',
-    approvedBy: 'Odile Brask', link: 'http://127.0.0.1:4310/projects/42/stages/2',
+    firmName: 'Halvorsen & Pike Structures',
+    recipientName: 'Tomas Ingle',
+    projectName: 'Kestrel Yard',
+    stageName: 'Scheme design',
+    approvedBy: 'Odile Brask',
+    link: 'http://127.0.0.1:4310/projects/42/stages/2',
   },
 });
 
@@ -88,11 +92,13 @@ describe('mail through the pg-boss queue', () => {
     await smtp.waitFor((m) => m.to.includes('committed@example.invalid'));
     // The worker has passed the rolled-back one's place in the queue by now: there is nothing to find.
     const rows = await db.raw(`select count(*)::int as n from pgboss.job where name = ? and data->'to' @> ?::jsonb`, [
-      MAIL_QUEUE, JSON.stringify(['rolled-back@example.invalid']),
+      MAIL_QUEUE,
+      JSON.stringify(['rolled-back@example.invalid']),
     ]);
-    const committed = await db.raw(`select count(*)::int as n from pgboss.job where name = ? and data->'to' @> ?::jsonb`, [
-      MAIL_QUEUE, JSON.stringify(['committed@example.invalid']),
-    ]);
+    const committed = await db.raw(
+      `select count(*)::int as n from pgboss.job where name = ? and data->'to' @> ?::jsonb`,
+      [MAIL_QUEUE, JSON.stringify(['committed@example.invalid'])],
+    );
     expect(committed.rows[0].n).toBe(1);
     expect(rows.rows[0].n).toBe(0);
     expect(smtp.messages.some((m) => m.to.includes('rolled-back@example.invalid'))).toBe(false);

@@ -7,8 +7,13 @@ const firm = { firmName: 'Halvorsen & Pike Structures' };
 describe('mail templates', () => {
   it('stage submitted: names the stage, project and sender in HTML and text, with the link and the note', () => {
     const m = renderMail('stage-submitted', {
-      ...firm, recipientName: 'Odile Brask', projectName: 'Kestrel Yard', stageName: 'Scheme design', submittedBy: 'Tomas Ingle',
-      note: 'Two schemes attached.\nScheme B drops column C4.', link: 'http://127.0.0.1:4310/projects/42/stages/2',
+      ...firm,
+      recipientName: 'Odile Brask',
+      projectName: 'Kestrel Yard',
+      stageName: 'Scheme design',
+      submittedBy: 'Tomas Ingle',
+      note: 'Two schemes attached.\nScheme B drops column C4.',
+      link: 'http://127.0.0.1:4310/projects/42/stages/2',
     });
     expect(m.subject).toBe('Kestrel Yard: Scheme design is ready for your review');
     for (const body of [m.html, m.text]) {
@@ -28,8 +33,13 @@ describe('mail templates', () => {
 
   it('stage returned carries the comment; markup in a comment is shown, never run', () => {
     const m = renderMail('stage-returned', {
-      ...firm, recipientName: 'Tomas Ingle', projectName: 'Kestrel Yard', stageName: 'Scheme design', returnedBy: 'Odile Brask',
-      comment: 'Please check the strap footing at C1 <script>alert(1)</script>', link: 'http://127.0.0.1:4310/projects/42/stages/2',
+      ...firm,
+      recipientName: 'Tomas Ingle',
+      projectName: 'Kestrel Yard',
+      stageName: 'Scheme design',
+      returnedBy: 'Odile Brask',
+      comment: 'Please check the strap footing at C1 <script>alert(1)</script>',
+      link: 'http://127.0.0.1:4310/projects/42/stages/2',
     });
     expect(m.subject).toBe('Kestrel Yard: Scheme design was returned with comments');
     expect(m.html).toContain('Please check the strap footing at C1 &lt;script&gt;');
@@ -39,14 +49,22 @@ describe('mail templates', () => {
 
   it('stage approved and invitation render their own wording and links', () => {
     const approved = renderMail('stage-approved', {
-      ...firm, recipientName: 'Tomas Ingle', projectName: 'Kestrel Yard', stageName: 'Scheme design', approvedBy: 'Odile Brask',
+      ...firm,
+      recipientName: 'Tomas Ingle',
+      projectName: 'Kestrel Yard',
+      stageName: 'Scheme design',
+      approvedBy: 'Odile Brask',
       link: 'http://127.0.0.1:4310/projects/42/stages/2',
     });
     expect(approved.subject).toBe('Kestrel Yard: Scheme design is approved');
     expect(approved.text).toContain('Odile Brask has approved Scheme design of Kestrel Yard.');
 
     const invite = renderMail('invitation', {
-      ...firm, invitedBy: 'Maren Holt', role: 'engineer', link: 'http://127.0.0.1:4310/invitations/abc123', expiresOn: '15 December 2026',
+      ...firm,
+      invitedBy: 'Maren Holt',
+      role: 'engineer',
+      link: 'http://127.0.0.1:4310/invitations/abc123',
+      expiresOn: '15 December 2026',
     });
     expect(invite.subject).toBe('Maren Holt invites you to Halvorsen & Pike Structures on Trabeate');
     expect(invite.text.startsWith('Hello,')).toBe(true);
@@ -56,20 +74,41 @@ describe('mail templates', () => {
 
   it('no template loads anything from outside: no images, fonts or style sheets by URL', () => {
     const m = renderMail('stage-approved', {
-      ...firm, recipientName: 'A', projectName: 'B', stageName: 'C', approvedBy: 'D', link: 'http://127.0.0.1:4310/x',
+      ...firm,
+      recipientName: 'A',
+      projectName: 'B',
+      stageName: 'C',
+      approvedBy: 'D',
+      link: 'http://127.0.0.1:4310/x',
     });
     expect(m.html).not.toMatch(/<img|<link|@import|url\(|@font-face/i);
   });
 
   it('data that does not fit the template is refused before anything is sent', () => {
-    expect(() => renderMail('stage-returned', { ...firm, recipientName: 'A', projectName: 'B', stageName: 'C', returnedBy: 'D', comment: '', link: 'http://x/y' }))
-      .toThrow(MailDataError);
-    expect(() => renderMail('invitation', { ...firm, invitedBy: 'A', role: 'engineer', link: 'not a link', expiresOn: 'soon' })).toThrow(/link/);
+    expect(() =>
+      renderMail('stage-returned', {
+        ...firm,
+        recipientName: 'A',
+        projectName: 'B',
+        stageName: 'C',
+        returnedBy: 'D',
+        comment: '',
+        link: 'http://x/y',
+      }),
+    ).toThrow(MailDataError);
+    expect(() =>
+      renderMail('invitation', { ...firm, invitedBy: 'A', role: 'engineer', link: 'not a link', expiresOn: 'soon' }),
+    ).toThrow(/link/);
   });
 
   it('a newline in a project name cannot break out of the subject line', () => {
     const m = renderMail('stage-approved', {
-      ...firm, recipientName: 'A', projectName: 'Yard\r\nBcc: someone@example.invalid', stageName: 'C', approvedBy: 'D', link: 'http://127.0.0.1:4310/x',
+      ...firm,
+      recipientName: 'A',
+      projectName: 'Yard\r\nBcc: someone@example.invalid',
+      stageName: 'C',
+      approvedBy: 'D',
+      link: 'http://127.0.0.1:4310/x',
     });
     expect(m.subject).not.toMatch(/[\r\n]/);
   });
@@ -86,19 +125,31 @@ describe('mail transport and the local SMTP fake', () => {
     const config = mailConfigSchema.parse({ SMTP_HOST: '127.0.0.1', SMTP_PORT: String(smtp.port) });
     const transport = createMailTransport(config);
     const m = renderMail('stage-approved', {
-      ...firm, recipientName: 'Tomas Ingle', projectName: 'Kestrel Yard', stageName: 'Scheme design', approvedBy: 'Odile Brask',
+      ...firm,
+      recipientName: 'Tomas Ingle',
+      projectName: 'Kestrel Yard',
+      stageName: 'Scheme design',
+      approvedBy: 'Odile Brask',
       link: 'http://127.0.0.1:4310/projects/42/stages/2',
     });
     await transport.sendMail({ from: config.MAIL_FROM, to: 'tomas.ingle@example.invalid', ...m });
     transport.close();
     // Stored before the server acknowledged: no waiting needed.
     const got = smtp.messages.at(-1)!;
-    expect(got).toMatchObject({ subject: m.subject, to: ['tomas.ingle@example.invalid'], envelope: { to: ['tomas.ingle@example.invalid'] } });
+    expect(got).toMatchObject({
+      subject: m.subject,
+      to: ['tomas.ingle@example.invalid'],
+      envelope: { to: ['tomas.ingle@example.invalid'] },
+    });
     expect(got.text).toContain('Odile Brask has approved Scheme design');
     expect(got.html).toContain('#016973');
 
     const outbox = `http://127.0.0.1:${smtp.httpPort}`;
-    const list = (await (await fetch(`${outbox}/messages`)).json()) as Array<{ id: string; subject: string; html?: string }>;
+    const list = (await (await fetch(`${outbox}/messages`)).json()) as Array<{
+      id: string;
+      subject: string;
+      html?: string;
+    }>;
     expect(list[0]).toMatchObject({ id: got.id, subject: m.subject });
     expect(list[0].html).toBeUndefined();
     const one = (await (await fetch(`${outbox}/messages/${got.id}`)).json()) as { text: string };
@@ -114,7 +165,12 @@ describe('mail transport and the local SMTP fake', () => {
     const dir = mkdtempSync(`${tmpdir()}/trabeate-mail-`);
     const first = await startFakeSmtp({ directory: dir, httpPort: null });
     const transport = createMailTransport(mailConfigSchema.parse({ SMTP_PORT: String(first.port) }));
-    await transport.sendMail({ from: 'a@example.invalid', to: 'b@example.invalid', subject: 'kept', text: 'kept across restarts' });
+    await transport.sendMail({
+      from: 'a@example.invalid',
+      to: 'b@example.invalid',
+      subject: 'kept',
+      text: 'kept across restarts',
+    });
     transport.close();
     await first.stop();
     const second = await startFakeSmtp({ directory: dir, httpPort: null });

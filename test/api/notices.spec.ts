@@ -22,7 +22,12 @@ describe('e-mail notices go through the queue and survive a mail server outage',
     smtp = await startFakeSmtp({ httpPort: 0 });
     smtpPort = smtp.port;
     httpPort = smtp.httpPort!;
-    t = await testApp({ seed: true, identity: true, mail: { smtpPort }, config: { DEV_OUTBOX_URL: `http://127.0.0.1:${httpPort}` } });
+    t = await testApp({
+      seed: true,
+      identity: true,
+      mail: { smtpPort },
+      config: { DEV_OUTBOX_URL: `http://127.0.0.1:${httpPort}` },
+    });
     principal = await signedInAs(t, DEMO.users.principal.email);
     tomas = await signedInAs(t, DEMO.users.engineerA.email);
   });
@@ -34,10 +39,15 @@ describe('e-mail notices go through the queue and survive a mail server outage',
   it('with the SMTP server down, an approval notice waits, and is delivered once the server is back', async () => {
     await smtp.stop();
     // Seeded: Kestrel Yard's column layout is under review, assigned to Tomas.
-    const res = await send(principal, 'post', `/api/projects/${kestrel}/stages/column_layout/transitions`, { action: 'approve' });
+    const res = await send(principal, 'post', `/api/projects/${kestrel}/stages/column_layout/transitions`, {
+      action: 'approve',
+    });
     expect(res.status).toBe(200);
     await until('a failed delivery attempt', async () => {
-      const { rows } = await t.db.raw(`select state, retry_count from pgboss.job where name = ? and data->>'template' = 'stage-approved'`, [MAIL_QUEUE]);
+      const { rows } = await t.db.raw(
+        `select state, retry_count from pgboss.job where name = ? and data->>'template' = 'stage-approved'`,
+        [MAIL_QUEUE],
+      );
       return rows.length === 1 && rows[0].state === 'retry' && rows[0].retry_count >= 1;
     });
     smtp = await startFakeSmtp({ port: smtpPort, httpPort });
@@ -48,28 +58,43 @@ describe('e-mail notices go through the queue and survive a mail server outage',
   });
 
   it('an invitation is e-mailed with its link', async () => {
-    const res = await send(principal, 'post', '/api/invitations', { email: 'mira.sollen@sablequay.example', displayName: 'Mira Sollen', role: 'engineer', projectIds: [kestrel] });
+    const res = await send(principal, 'post', '/api/invitations', {
+      email: 'mira.sollen@sablequay.example',
+      displayName: 'Mira Sollen',
+      role: 'engineer',
+      projectIds: [kestrel],
+    });
     expect(res.status).toBe(201);
     const msg = await smtp.waitFor((m) => m.to.includes('mira.sollen@sablequay.example'));
     expect(msg.subject).toBe(`${DEMO.users.principal.name} invites you to ${DEMO.firm.name} on Trabeate`);
     expect(msg.text).toContain(res.body.invitation.url);
-    const entry = await t.db('activity').where({ project_id: kestrel, action: 'membership.added', object_id: res.body.person.id }).first();
+    const entry = await t
+      .db('activity')
+      .where({ project_id: kestrel, action: 'membership.added', object_id: res.body.person.id })
+      .first();
     expect(entry.summary).toBe(`${DEMO.users.principal.name} invited Mira Sollen to the project team`);
   });
 
   it('a change that fails queues no mail', async () => {
     const before = (await t.db.raw(`select count(*)::int as n from pgboss.job where name = ?`, [MAIL_QUEUE])).rows[0].n;
     // The beam framing is in progress: approving it is refused, so nothing is queued.
-    const res = await send(principal, 'post', `/api/projects/${kestrel}/stages/beam_framing/transitions`, { action: 'approve' });
+    const res = await send(principal, 'post', `/api/projects/${kestrel}/stages/beam_framing/transitions`, {
+      action: 'approve',
+    });
     expect(res.status).toBe(409);
-    expect((await t.db.raw(`select count(*)::int as n from pgboss.job where name = ?`, [MAIL_QUEUE])).rows[0].n).toBe(before);
+    expect((await t.db.raw(`select count(*)::int as n from pgboss.job where name = ?`, [MAIL_QUEUE])).rows[0].n).toBe(
+      before,
+    );
   });
 
   it('the development outbox lists the caught messages, newest first, for the principal only', async () => {
     const res = await principal.get('/api/dev/outbox');
     expect(res.status).toBe(200);
     const messages = outboxMessageSchema.array().parse(res.body);
-    expect(messages[0]).toMatchObject({ to: ['mira.sollen@sablequay.example'], html: expect.stringContaining('Accept the invitation') });
+    expect(messages[0]).toMatchObject({
+      to: ['mira.sollen@sablequay.example'],
+      html: expect.stringContaining('Accept the invitation'),
+    });
     expect(messages.map((m) => m.subject)).toContain('Kestrel Yard apartments: Column layout is approved');
     expect((await tomas.get('/api/dev/outbox')).status).toBe(403);
   });

@@ -17,7 +17,10 @@ describe('changing an engineer into another role', () => {
     const assigned = await t.db('stages').where({ assignee_id: engineer }).count({ n: '*' });
     expect(Number(assigned[0].n)).toBeGreaterThan(0);
 
-    const res = await send(principal, 'patch', `/api/people/${engineer}`, { role: 'client', clientOrganisationId: DEMO.clients.fenwick.id });
+    const res = await send(principal, 'patch', `/api/people/${engineer}`, {
+      role: 'client',
+      clientOrganisationId: DEMO.clients.fenwick.id,
+    });
     expect(res.status).toBe(200);
     expect(await t.db('stages').where({ assignee_id: engineer })).toHaveLength(0);
     expect(await t.db('project_members').where({ user_id: engineer })).toHaveLength(0);
@@ -26,7 +29,8 @@ describe('changing an engineer into another role', () => {
   it('keeps the stages of an engineer whose name alone changes', async () => {
     const principal = await signedInAs(t, DEMO.users.principal.email);
     const engineer = DEMO.users.engineerB.id;
-    const stagesOf = () => t.db('stages').where({ assignee_id: engineer }).orderBy(['project_id', 'key']).select('project_id', 'key');
+    const stagesOf = () =>
+      t.db('stages').where({ assignee_id: engineer }).orderBy(['project_id', 'key']).select('project_id', 'key');
     const before = await stagesOf();
     expect(before.length).toBeGreaterThan(0);
     const res = await send(principal, 'patch', `/api/people/${engineer}`, { displayName: 'Priya Lindqvist-Moe' });

@@ -39,28 +39,47 @@ describe('people, invitations and access changes', () => {
       role: 'client',
       clientOrganisation: { id: DEMO.clients.fenwick.id, name: DEMO.clients.fenwick.name },
       status: 'active',
-      projects: [{ id: DEMO.projects.kestrel.id, reference: DEMO.projects.kestrel.reference, name: 'Kestrel Yard apartments' }],
+      projects: [
+        { id: DEMO.projects.kestrel.id, reference: DEMO.projects.kestrel.reference, name: 'Kestrel Yard apartments' },
+      ],
     });
   });
 
   it('invites an engineer: returns the link once, and the first sign-in with that e-mail binds the account', async () => {
     const res = await send(principal, 'post', '/api/invitations', {
-      email: 'juno.farrant@sablequay.example', displayName: 'Juno Farrant', role: 'engineer', projectIds: [DEMO.projects.alder.id],
+      email: 'juno.farrant@sablequay.example',
+      displayName: 'Juno Farrant',
+      role: 'engineer',
+      projectIds: [DEMO.projects.alder.id],
     });
     expect(res.status).toBe(201);
     const created = invitationCreatedSchema.parse(res.body);
-    expect(created.person).toMatchObject({ status: 'invited', role: 'engineer', projects: [{ id: DEMO.projects.alder.id }] });
+    expect(created.person).toMatchObject({
+      status: 'invited',
+      role: 'engineer',
+      projects: [{ id: DEMO.projects.alder.id }],
+    });
     const token = created.invitation.url.split('/invitations/')[1];
     expect(created.invitation.url).toBe(`http://127.0.0.1:4310/invitations/${token}`);
     expect(await t.db('invitations').where({ token_hash: token }).first()).toBeUndefined(); // only a hash is kept
 
     const preview = invitationPreviewSchema.parse((await request(t.app).get(`/api/invitations/${token}`)).body);
-    expect(preview).toMatchObject({ email: 'juno.farrant@sablequay.example', role: 'engineer', firmName: DEMO.firm.name, status: 'pending' });
+    expect(preview).toMatchObject({
+      email: 'juno.farrant@sablequay.example',
+      role: 'engineer',
+      firmName: DEMO.firm.name,
+      status: 'pending',
+    });
 
     await ensureAccount(t.db, { email: 'Juno.Farrant@sablequay.example', name: 'Juno F.', password: DEMO_PASSWORD });
     const juno = await as('juno.farrant@sablequay.example');
-    expect(meSchema.parse((await juno.get('/api/me')).body)).toMatchObject({ access: 'granted', user: { role: 'engineer', displayName: 'Juno Farrant' } });
-    expect(((await juno.get('/api/projects')).body.items as Array<{ id: string }>).map((p) => p.id)).toEqual([DEMO.projects.alder.id]);
+    expect(meSchema.parse((await juno.get('/api/me')).body)).toMatchObject({
+      access: 'granted',
+      user: { role: 'engineer', displayName: 'Juno Farrant' },
+    });
+    expect(((await juno.get('/api/projects')).body.items as Array<{ id: string }>).map((p) => p.id)).toEqual([
+      DEMO.projects.alder.id,
+    ]);
     expect((await request(t.app).get(`/api/invitations/${token}`)).body.status).toBe('accepted');
   });
 
@@ -68,46 +87,77 @@ describe('people, invitations and access changes', () => {
     const wren = await as('wren.adebayo@stray.example');
     expect((await wren.get('/api/me')).body.access).toBe('none');
     const res = await send(principal, 'post', '/api/invitations', {
-      email: 'wren.adebayo@stray.example', displayName: 'Wren Adebayo', role: 'client',
-      clientOrganisationId: DEMO.clients.fenwick.id, projectIds: [DEMO.projects.kestrel.id],
+      email: 'wren.adebayo@stray.example',
+      displayName: 'Wren Adebayo',
+      role: 'client',
+      clientOrganisationId: DEMO.clients.fenwick.id,
+      projectIds: [DEMO.projects.kestrel.id],
     });
     expect(res.status).toBe(201);
-    expect(meSchema.parse((await wren.get('/api/me')).body)).toMatchObject({ access: 'granted', user: { role: 'client' } });
+    expect(meSchema.parse((await wren.get('/api/me')).body)).toMatchObject({
+      access: 'granted',
+      user: { role: 'client' },
+    });
     expect((await wren.get(`/api/projects/${DEMO.projects.kestrel.id}`)).status).toBe(200);
   });
 
   it("refuses to put a client contact on another organisation's project, and names the field", async () => {
     const res = await send(principal, 'post', '/api/invitations', {
-      email: 'mismatch@fenwickrow.example', displayName: 'Mismatch', role: 'client',
-      clientOrganisationId: DEMO.clients.fenwick.id, projectIds: [DEMO.projects.alder.id],
+      email: 'mismatch@fenwickrow.example',
+      displayName: 'Mismatch',
+      role: 'client',
+      clientOrganisationId: DEMO.clients.fenwick.id,
+      projectIds: [DEMO.projects.alder.id],
     });
     expect(res.status).toBe(400);
     expect(res.body.error.fields['body.projectIds']).toBeDefined();
-    const noOrg = await send(principal, 'post', '/api/invitations', { email: 'no.org@x.example', displayName: 'No Org', role: 'client' });
+    const noOrg = await send(principal, 'post', '/api/invitations', {
+      email: 'no.org@x.example',
+      displayName: 'No Org',
+      role: 'client',
+    });
     expect(noOrg.status).toBe(400);
     expect(noOrg.body.error.fields['body.clientOrganisationId']).toBeDefined();
   });
 
   it('answers 409 when inviting someone who already has access', async () => {
     await as(DEMO.users.engineerA.email);
-    const res = await send(principal, 'post', '/api/invitations', { email: DEMO.users.engineerA.email.toUpperCase(), displayName: 'Again', role: 'engineer' });
+    const res = await send(principal, 'post', '/api/invitations', {
+      email: DEMO.users.engineerA.email.toUpperCase(),
+      displayName: 'Again',
+      role: 'engineer',
+    });
     expect(res.status).toBe(409);
   });
 
   it('does not let an expired invitation bind', async () => {
-    const res = await send(principal, 'post', '/api/invitations', { email: 'late.arrival@sablequay.example', displayName: 'Late Arrival', role: 'engineer' });
-    await t.db('invitations').where({ user_id: res.body.person.id }).update({ expires_at: new Date(Date.now() - 1000) });
+    const res = await send(principal, 'post', '/api/invitations', {
+      email: 'late.arrival@sablequay.example',
+      displayName: 'Late Arrival',
+      role: 'engineer',
+    });
+    await t
+      .db('invitations')
+      .where({ user_id: res.body.person.id })
+      .update({ expires_at: new Date(Date.now() - 1000) });
     await ensureAccount(t.db, { email: 'late.arrival@sablequay.example', name: 'Late', password: DEMO_PASSWORD });
     const late = await as('late.arrival@sablequay.example');
     expect((await late.get('/api/me')).body.access).toBe('none');
   });
 
-  it('changes a role, which takes effect in the person\'s open session and clears memberships that no longer fit', async () => {
+  it("changes a role, which takes effect in the person's open session and clears memberships that no longer fit", async () => {
     const tomas = await as(DEMO.users.engineerA.email);
     expect((await tomas.get(`/api/projects/${DEMO.projects.kestrel.id}`)).body.abilities.work).toBe(true);
-    const res = await send(principal, 'patch', `/api/people/${DEMO.users.engineerA.id}`, { role: 'client', clientOrganisationId: DEMO.clients.fenwick.id });
+    const res = await send(principal, 'patch', `/api/people/${DEMO.users.engineerA.id}`, {
+      role: 'client',
+      clientOrganisationId: DEMO.clients.fenwick.id,
+    });
     expect(res.status).toBe(200);
-    expect(personSchema.parse(res.body)).toMatchObject({ role: 'client', clientOrganisation: { id: DEMO.clients.fenwick.id }, projects: [] });
+    expect(personSchema.parse(res.body)).toMatchObject({
+      role: 'client',
+      clientOrganisation: { id: DEMO.clients.fenwick.id },
+      projects: [],
+    });
     expect((await tomas.get('/api/me')).body.user.role).toBe('client');
     expect((await tomas.get(`/api/projects/${DEMO.projects.kestrel.id}`)).status).toBe(404);
     const back = await send(principal, 'patch', `/api/people/${DEMO.users.engineerA.id}`, { role: 'engineer' });
@@ -128,21 +178,36 @@ describe('people, invitations and access changes', () => {
     const res = await send(principal, 'delete', `/api/people/${DEMO.users.harbourlightContact.id}/access`);
     expect(res.status).toBe(204);
     for (const api of [rafe1, rafe2]) expect((await api.get('/api/me')).status).toBe(401);
-    expect((await t.db('sessions').whereRaw(`(sess::jsonb -> 'auth') ->> 'userId' = ?`, [DEMO.users.harbourlightContact.id])).length).toBe(0);
+    expect(
+      (await t.db('sessions').whereRaw(`(sess::jsonb -> 'auth') ->> 'userId' = ?`, [DEMO.users.harbourlightContact.id]))
+        .length,
+    ).toBe(0);
     const again = await as(DEMO.users.harbourlightContact.email);
     expect((await again.get('/api/me')).body.access).toBe('none');
-    const listed = (await principal.get('/api/people')).body.find((p: { id: string }) => p.id === DEMO.users.harbourlightContact.id);
+    const listed = (await principal.get('/api/people')).body.find(
+      (p: { id: string }) => p.id === DEMO.users.harbourlightContact.id,
+    );
     expect(listed.status).toBe('removed');
   });
 
   it('assigns and unassigns an engineer on a project', async () => {
     const priya = await as(DEMO.users.engineerB.email);
     expect((await priya.get(`/api/projects/${DEMO.projects.kestrel.id}`)).status).toBe(404);
-    expect((await send(principal, 'put', `/api/projects/${DEMO.projects.kestrel.id}/members/${DEMO.users.engineerB.id}`)).status).toBe(204);
+    expect(
+      (await send(principal, 'put', `/api/projects/${DEMO.projects.kestrel.id}/members/${DEMO.users.engineerB.id}`))
+        .status,
+    ).toBe(204);
     expect((await priya.get(`/api/projects/${DEMO.projects.kestrel.id}`)).status).toBe(200);
-    expect((await send(principal, 'delete', `/api/projects/${DEMO.projects.kestrel.id}/members/${DEMO.users.engineerB.id}`)).status).toBe(204);
+    expect(
+      (await send(principal, 'delete', `/api/projects/${DEMO.projects.kestrel.id}/members/${DEMO.users.engineerB.id}`))
+        .status,
+    ).toBe(204);
     expect((await priya.get(`/api/projects/${DEMO.projects.kestrel.id}`)).status).toBe(404);
-    const wrongOrg = await send(principal, 'put', `/api/projects/${DEMO.projects.alder.id}/members/${DEMO.users.fenwickContact.id}`);
+    const wrongOrg = await send(
+      principal,
+      'put',
+      `/api/projects/${DEMO.projects.alder.id}/members/${DEMO.users.fenwickContact.id}`,
+    );
     expect(wrongOrg.status).toBe(409);
   });
 });

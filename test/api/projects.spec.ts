@@ -1,12 +1,26 @@
 import type TestAgent from 'supertest/lib/agent';
-import { activityListSchema, projectListSchema, projectPageSchema, STAGE_KEYS, type ProjectCreate } from '@trabeate/contracts';
+import {
+  activityListSchema,
+  projectListSchema,
+  projectPageSchema,
+  STAGE_KEYS,
+  type ProjectCreate,
+} from '@trabeate/contracts';
 import { DEMO } from '../../seeds/demo';
 import { testApp, type TestApp } from '../support/app';
 import { send, signedInAs } from '../support/agents';
 
 jest.setTimeout(30_000);
 
-const basis = { codeFamily: 'EN1992', concreteMPa: 30, steelMPa: 500, imposedKPa: 2.5, superimposedDeadKPa: 1.5, bearingPressureKPa: 200, foundingDepthM: 1.4 } as const;
+const basis = {
+  codeFamily: 'EN1992',
+  concreteMPa: 30,
+  steelMPa: 500,
+  imposedKPa: 2.5,
+  superimposedDeadKPa: 1.5,
+  bearingPressureKPa: 200,
+  foundingDepthM: 1.4,
+} as const;
 const project = (n: number, extra: Partial<ProjectCreate> = {}): ProjectCreate => ({
   reference: `SQ-T-${String(n).padStart(3, '0')}`,
   name: `Test block ${n}`,
@@ -40,24 +54,58 @@ describe('projects: create, edit, archive, list with paging and filters', () => 
     const res = await send(principal, 'post', '/api/projects', project(1));
     expect(res.status).toBe(201);
     const page = projectPageSchema.parse(res.body);
-    expect(page).toMatchObject({ reference: 'SQ-T-001', storeys: 2, designBasis: basis, archivedAt: null, finance: { estimatedCost: 1_000_001, currency: 'EUR' } });
-    expect(page.stages.map((s) => [s.key, s.state, s.position])).toEqual(STAGE_KEYS.map((k, i) => [k, 'not_started', i + 1]));
+    expect(page).toMatchObject({
+      reference: 'SQ-T-001',
+      storeys: 2,
+      designBasis: basis,
+      archivedAt: null,
+      finance: { estimatedCost: 1_000_001, currency: 'EUR' },
+    });
+    expect(page.stages.map((s) => [s.key, s.state, s.position])).toEqual(
+      STAGE_KEYS.map((k, i) => [k, 'not_started', i + 1]),
+    );
     const activity = await t.db('activity').where({ project_id: page.id });
-    expect(activity).toEqual([expect.objectContaining({ action: 'project.created', object_type: 'project', object_id: page.id, actor_id: DEMO.users.principal.id })]);
+    expect(activity).toEqual([
+      expect.objectContaining({
+        action: 'project.created',
+        object_type: 'project',
+        object_id: page.id,
+        actor_id: DEMO.users.principal.id,
+      }),
+    ]);
   });
 
   it('refuses a reference the firm already uses, naming the field', async () => {
-    const res = await send(principal, 'post', '/api/projects', project(2, { reference: DEMO.projects.kestrel.reference }));
+    const res = await send(
+      principal,
+      'post',
+      '/api/projects',
+      project(2, { reference: DEMO.projects.kestrel.reference }),
+    );
     expect(res.status).toBe(409);
     expect(res.body.error.fields).toEqual({ 'body.reference': ['already used by another project of the firm'] });
     expect(await t.db('projects').where({ name: 'Test block 2' }).first()).toBeUndefined();
   });
 
   it('names each invalid field, nested ones included', async () => {
-    const res = await send(principal, 'post', '/api/projects', { ...project(3), storeys: 0, currency: 'euro', designBasis: { ...basis, concreteMPa: 5 } });
+    const res = await send(principal, 'post', '/api/projects', {
+      ...project(3),
+      storeys: 0,
+      currency: 'euro',
+      designBasis: { ...basis, concreteMPa: 5 },
+    });
     expect(res.status).toBe(400);
-    expect(Object.keys(res.body.error.fields).sort()).toEqual(['body.currency', 'body.designBasis.concreteMPa', 'body.storeys']);
-    const unknownOrg = await send(principal, 'post', '/api/projects', project(4, { clientOrganisationId: '0b8c2d1e-0000-4000-8000-00000000ffff' }));
+    expect(Object.keys(res.body.error.fields).sort()).toEqual([
+      'body.currency',
+      'body.designBasis.concreteMPa',
+      'body.storeys',
+    ]);
+    const unknownOrg = await send(
+      principal,
+      'post',
+      '/api/projects',
+      project(4, { clientOrganisationId: '0b8c2d1e-0000-4000-8000-00000000ffff' }),
+    );
     expect(unknownOrg.status).toBe(400);
     expect(unknownOrg.body.error.fields).toHaveProperty(['body.clientOrganisationId']);
   });
@@ -69,9 +117,18 @@ describe('projects: create, edit, archive, list with paging and filters', () => 
 
   it('edits some fields, records which changed, and answers the same when nothing changed', async () => {
     const created = projectPageSchema.parse((await send(principal, 'post', '/api/projects', project(7))).body);
-    const res = await send(principal, 'patch', `/api/projects/${created.id}`, { name: 'Test block seven', storeys: 5, designBasis: { ...basis, imposedKPa: 3 } });
+    const res = await send(principal, 'patch', `/api/projects/${created.id}`, {
+      name: 'Test block seven',
+      storeys: 5,
+      designBasis: { ...basis, imposedKPa: 3 },
+    });
     expect(res.status).toBe(200);
-    expect(projectPageSchema.parse(res.body)).toMatchObject({ name: 'Test block seven', storeys: 5, designBasis: { imposedKPa: 3 }, siteAddress: '7 Ropewalk, Marrowby' });
+    expect(projectPageSchema.parse(res.body)).toMatchObject({
+      name: 'Test block seven',
+      storeys: 5,
+      designBasis: { imposedKPa: 3 },
+      siteAddress: '7 Ropewalk, Marrowby',
+    });
     const entry = await t.db('activity').where({ project_id: created.id, action: 'project.updated' }).first();
     expect(entry.details.fields.sort()).toEqual(['designBasis', 'name', 'storeys']);
     expect(entry.summary).toBe('Ines Varga-Holm changed the name, storeys, design basis');
@@ -96,7 +153,9 @@ describe('projects: create, edit, archive, list with paging and filters', () => 
     const inArchive = projectListSchema.parse((await principal.get('/api/projects?q=SQ-T-008&status=archived')).body);
     expect(inArchive.items.map((p) => [p.reference, p.archived])).toEqual([['SQ-T-008', true]]);
     expect((await send(principal, 'post', `/api/projects/${created.id}/restore`)).body.archivedAt).toBeNull();
-    const log = activityListSchema.parse((await principal.get(`/api/projects/${created.id}/activity?objectType=project`)).body);
+    const log = activityListSchema.parse(
+      (await principal.get(`/api/projects/${created.id}/activity?objectType=project`)).body,
+    );
     expect(log.items.map((a) => a.action)).toEqual(['project.restored', 'project.archived', 'project.created']);
     expect(await t.db('projects').where({ id: created.id }).first()).toBeDefined();
   });
@@ -106,42 +165,65 @@ describe('projects: create, edit, archive, list with paging and filters', () => 
       // 40 more projects, straight into the table, each with its stages as the API makes them.
       for (let n = 100; n < 140; n++) {
         const p = project(n);
-        const [{ id }] = await t.db('projects').insert({
-          firm_id: DEMO.firm.id, reference: p.reference, name: p.name, client_organisation_id: p.clientOrganisationId, site_address: p.siteAddress,
-          storeys: p.storeys, updated_at: new Date(Date.UTC(2026, 0, 1) + n * 3_600_000),
-        }).returning('id');
+        const [{ id }] = await t
+          .db('projects')
+          .insert({
+            firm_id: DEMO.firm.id,
+            reference: p.reference,
+            name: p.name,
+            client_organisation_id: p.clientOrganisationId,
+            site_address: p.siteAddress,
+            storeys: p.storeys,
+            updated_at: new Date(Date.UTC(2026, 0, 1) + n * 3_600_000),
+          })
+          .returning('id');
         await t.db('stages').insert(STAGE_KEYS.map((key, i) => ({ project_id: id, key, position: i + 1 })));
       }
     });
 
     it('pages through the projects in the order asked, with the total', async () => {
-      const first = projectListSchema.parse((await principal.get('/api/projects?q=SQ-T-1&sort=reference&direction=asc&pageSize=15')).body);
+      const first = projectListSchema.parse(
+        (await principal.get('/api/projects?q=SQ-T-1&sort=reference&direction=asc&pageSize=15')).body,
+      );
       expect(first.total).toBe(40);
       expect(first.items.map((p) => p.reference)).toEqual(Array.from({ length: 15 }, (_, i) => `SQ-T-${100 + i}`));
-      const third = projectListSchema.parse((await principal.get('/api/projects?q=SQ-T-1&sort=reference&direction=asc&pageSize=15&page=3')).body);
+      const third = projectListSchema.parse(
+        (await principal.get('/api/projects?q=SQ-T-1&sort=reference&direction=asc&pageSize=15&page=3')).body,
+      );
       expect(third.items.map((p) => p.reference)).toEqual(Array.from({ length: 10 }, (_, i) => `SQ-T-${130 + i}`));
       const beyond = projectListSchema.parse((await principal.get('/api/projects?q=SQ-T-1&pageSize=15&page=9')).body);
       expect(beyond).toMatchObject({ items: [], total: 40, page: 9 });
     });
 
     it('sorts by storeys, by client and by last change', async () => {
-      const byStoreys = projectListSchema.parse((await principal.get('/api/projects?q=SQ-T-1&sort=storeys&direction=desc&pageSize=100')).body).items;
+      const byStoreys = projectListSchema.parse(
+        (await principal.get('/api/projects?q=SQ-T-1&sort=storeys&direction=desc&pageSize=100')).body,
+      ).items;
       const storeys = byStoreys.map((p) => p.storeys);
       expect(storeys).toEqual([...storeys].sort((a, b) => b - a));
-      const byClient = projectListSchema.parse((await principal.get('/api/projects?q=SQ-T-1&sort=client&direction=asc&pageSize=100')).body).items;
+      const byClient = projectListSchema.parse(
+        (await principal.get('/api/projects?q=SQ-T-1&sort=client&direction=asc&pageSize=100')).body,
+      ).items;
       expect(byClient[0].clientOrganisation.name).toBe(DEMO.clients.fenwick.name);
       expect(byClient[39].clientOrganisation.name).toBe(DEMO.clients.harbourlight.name);
-      const recent = projectListSchema.parse((await principal.get('/api/projects?q=SQ-T-1&sort=updatedAt&direction=desc&pageSize=2')).body).items;
+      const recent = projectListSchema.parse(
+        (await principal.get('/api/projects?q=SQ-T-1&sort=updatedAt&direction=desc&pageSize=2')).body,
+      ).items;
       expect(recent.map((p) => p.reference)).toEqual(['SQ-T-139', 'SQ-T-138']);
     });
 
     it('filters by client organisation and by text in the name, reference, site or client, with % taken literally', async () => {
-      const fenwick = projectListSchema.parse((await principal.get(`/api/projects?q=SQ-T-1&clientOrganisationId=${DEMO.clients.fenwick.id}&pageSize=100`)).body);
+      const fenwick = projectListSchema.parse(
+        (await principal.get(`/api/projects?q=SQ-T-1&clientOrganisationId=${DEMO.clients.fenwick.id}&pageSize=100`))
+          .body,
+      );
       expect(fenwick.total).toBe(20);
       expect(fenwick.items.every((p) => p.clientOrganisation.id === DEMO.clients.fenwick.id)).toBe(true);
       const byName = projectListSchema.parse((await principal.get('/api/projects?q=test%20block%20117')).body);
       expect(byName.items.map((p) => p.reference)).toEqual(['SQ-T-117']);
-      const byClientName = projectListSchema.parse((await principal.get('/api/projects?q=harbourlight&pageSize=100')).body);
+      const byClientName = projectListSchema.parse(
+        (await principal.get('/api/projects?q=harbourlight&pageSize=100')).body,
+      );
       expect(byClientName.items.every((p) => p.clientOrganisation.name === DEMO.clients.harbourlight.name)).toBe(true);
       expect((await principal.get('/api/projects?q=%25')).body.total).toBe(0);
     });
@@ -152,8 +234,10 @@ describe('projects: create, edit, archive, list with paging and filters', () => 
       expect(Object.keys(res.body.error.fields).sort()).toEqual(['query.pageSize', 'query.sort']);
     });
 
-    it('shows each project\'s current stage and how many stages are late', async () => {
-      const list = projectListSchema.parse((await principal.get('/api/projects?pageSize=100&sort=reference&direction=asc')).body);
+    it("shows each project's current stage and how many stages are late", async () => {
+      const list = projectListSchema.parse(
+        (await principal.get('/api/projects?pageSize=100&sort=reference&direction=asc')).body,
+      );
       const kestrel = list.items.find((p) => p.id === DEMO.projects.kestrel.id)!;
       // Seeded: design basis approved, column layout under review (due 2 days ago), beam framing due 5 days ago.
       expect(kestrel.currentStage).toEqual({ key: 'column_layout', title: 'Column layout', state: 'under_review' });
@@ -164,7 +248,9 @@ describe('projects: create, edit, archive, list with paging and filters', () => 
       const mine = projectListSchema.parse((await engineer.get('/api/projects?pageSize=100')).body);
       expect(mine.items.map((p) => p.id)).toEqual([DEMO.projects.kestrel.id]);
       expect(mine.total).toBe(1);
-      const theirs = projectListSchema.parse((await client.get(`/api/projects?clientOrganisationId=${DEMO.clients.harbourlight.id}`)).body);
+      const theirs = projectListSchema.parse(
+        (await client.get(`/api/projects?clientOrganisationId=${DEMO.clients.harbourlight.id}`)).body,
+      );
       expect(theirs.total).toBe(0);
     });
   });

@@ -16,8 +16,16 @@ describe('invitations sent twice at once (a double click, two tabs)', () => {
     const principal = await signedInAs(t, DEMO.users.principal.email);
     // The race is narrow; a few addresses make a collision near certain without the lock.
     for (let i = 0; i < 8; i++) {
-      const body = { email: `wren.ashdown${i}@sablequay.example`, displayName: 'Wren Ashdown', role: 'engineer', projectIds: [DEMO.projects.alder.id] };
-      const [a, b] = await Promise.all([send(principal, 'post', '/api/invitations', body), send(principal, 'post', '/api/invitations', body)]);
+      const body = {
+        email: `wren.ashdown${i}@sablequay.example`,
+        displayName: 'Wren Ashdown',
+        role: 'engineer',
+        projectIds: [DEMO.projects.alder.id],
+      };
+      const [a, b] = await Promise.all([
+        send(principal, 'post', '/api/invitations', body),
+        send(principal, 'post', '/api/invitations', body),
+      ]);
       expect([a.status, b.status]).toEqual([201, 201]);
       const users = await t.db('users').whereRaw('lower(email) = lower(?)', [body.email]).select('id');
       expect(users).toHaveLength(1);

@@ -85,20 +85,32 @@ describe('sign-in faults: each gets a clear answer, a log line and no crash', ()
     const api = request.agent(t.app);
     await signIn(api, t.identity!, DEMO.users.engineerA.email);
     expect((await api.get('/api/me')).status).toBe(200);
-    await t.db('sessions').whereRaw(`(sess::jsonb -> 'auth') ->> 'userId' = ?`, [DEMO.users.engineerA.id]).update({ expire: new Date(Date.now() - 1000) });
+    await t
+      .db('sessions')
+      .whereRaw(`(sess::jsonb -> 'auth') ->> 'userId' = ?`, [DEMO.users.engineerA.id])
+      .update({ expire: new Date(Date.now() - 1000) });
     const res = await api.get('/api/me');
     expect(res.status).toBe(401);
-    expect(res.body.error).toMatchObject({ code: 'session_expired', message: 'Your session has ended. Sign in again.' });
+    expect(res.body.error).toMatchObject({
+      code: 'session_expired',
+      message: 'Your session has ended. Sign in again.',
+    });
   });
 
   it('ends a session past its absolute limit even while it is in use', async () => {
     const api = request.agent(t.app);
     await signIn(api, t.identity!, DEMO.users.fenwickContact.email);
-    const rows = await t.db('sessions').whereRaw(`(sess::jsonb -> 'auth') ->> 'userId' = ?`, [DEMO.users.fenwickContact.id]).select('sid', 'sess');
+    const rows = await t
+      .db('sessions')
+      .whereRaw(`(sess::jsonb -> 'auth') ->> 'userId' = ?`, [DEMO.users.fenwickContact.id])
+      .select('sid', 'sess');
     expect(rows).toHaveLength(1);
     const sess = typeof rows[0].sess === 'string' ? JSON.parse(rows[0].sess) : rows[0].sess;
     sess.auth.signedInAt = Date.now() - 13 * 3_600_000; // the default limit is 12 hours
-    await t.db('sessions').where({ sid: rows[0].sid }).update({ sess: JSON.stringify(sess) });
+    await t
+      .db('sessions')
+      .where({ sid: rows[0].sid })
+      .update({ sess: JSON.stringify(sess) });
     const res = await api.get('/api/projects');
     expect(res.status).toBe(401);
     expect(res.body.error.code).toBe('session_expired');
@@ -109,7 +121,10 @@ describe('sign-in faults: each gets a clear answer, a log line and no crash', ()
   it('treats a tampered session cookie as no session', async () => {
     const api = request.agent(t.app);
     const steps = await signIn(api, t.identity!, DEMO.users.principal.email);
-    const sid = ([] as string[]).concat(steps.callback!.headers['set-cookie']).find((c) => c.startsWith('trabeate.sid='))!.split(';')[0];
+    const sid = ([] as string[])
+      .concat(steps.callback!.headers['set-cookie'])
+      .find((c) => c.startsWith('trabeate.sid='))!
+      .split(';')[0];
     const forged = sid.slice(0, -3) + (sid.endsWith('AAA') ? 'BBB' : 'AAA');
     const res = await request(t.app).get('/api/me').set('Cookie', forged);
     expect(res.status).toBe(401);
@@ -131,7 +146,16 @@ describe('sign-in faults: each gets a clear answer, a log line and no crash', ()
 
   it('only ever returns to a path on our own origin after sign-in', async () => {
     expect(safeReturnTo('/projects/x?tab=drawings#rev')).toBe('/projects/x?tab=drawings#rev');
-    for (const hostile of ['//evil.example/x', 'https://evil.example/', '/\\evil.example', 'javascript:alert(1)', '', undefined, '/%0d%0aLocation:x', 'x'.repeat(3000)]) {
+    for (const hostile of [
+      '//evil.example/x',
+      'https://evil.example/',
+      '/\\evil.example',
+      'javascript:alert(1)',
+      '',
+      undefined,
+      '/%0d%0aLocation:x',
+      'x'.repeat(3000),
+    ]) {
       expect(safeReturnTo(hostile)).toMatch(/^\/(?!\/)/);
       expect(safeReturnTo(hostile)).not.toContain('evil');
     }
@@ -146,7 +170,12 @@ describe('sign-in when the provider is down', () => {
     const { logger, lines } = capturingLogger();
     const t = await testApp({
       logger,
-      config: { OIDC_ISSUER: 'http://127.0.0.1:9', OIDC_CLIENT_ID: 'x', OIDC_CLIENT_SECRET: 'y', OIDC_ALLOW_INSECURE_HTTP: true },
+      config: {
+        OIDC_ISSUER: 'http://127.0.0.1:9',
+        OIDC_CLIENT_ID: 'x',
+        OIDC_CLIENT_SECRET: 'y',
+        OIDC_ALLOW_INSECURE_HTTP: true,
+      },
     });
     try {
       const page = await request(t.app).get('/api/auth/login');

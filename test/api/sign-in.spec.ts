@@ -30,29 +30,33 @@ describe('signing in through the local identity provider', () => {
   });
   afterAll(() => t.close());
 
-  it.each(CASES.map((c) => [c.role, c.user.email, c] as const))('a %s (%s) signs in and /api/me names them and their role', async (_r, _e, c) => {
-    const api = request.agent(t.app);
-    const steps = await signIn(api, t.identity!, c.user.email, { returnTo: '/projects' });
-    expect(steps.callback?.status).toBe(302);
-    expect(steps.callback?.headers['location']).toBe('/projects');
-    const me = await api.get('/api/me');
-    expect(me.status).toBe(200);
-    expect(meSchema.parse(me.body)).toMatchObject({
-      access: 'granted',
-      user: { id: c.user.id, email: c.user.email, displayName: c.user.name, role: c.role, clientOrganisation: c.org },
-      firm: { id: DEMO.firm.id, name: DEMO.firm.name },
-    });
-    const bound = await t.db('users').where({ id: c.user.id }).first('oidc_subject', 'last_signed_in_at');
-    expect(bound.oidc_subject).toEqual(expect.any(String));
-    expect(bound.last_signed_in_at).not.toBeNull();
-  });
+  it.each(CASES.map((c) => [c.role, c.user.email, c] as const))(
+    'a %s (%s) signs in and /api/me names them and their role',
+    async (_r, _e, c) => {
+      const api = request.agent(t.app);
+      const steps = await signIn(api, t.identity!, c.user.email, { returnTo: '/projects' });
+      expect(steps.callback?.status).toBe(302);
+      expect(steps.callback?.headers['location']).toBe('/projects');
+      const me = await api.get('/api/me');
+      expect(me.status).toBe(200);
+      expect(meSchema.parse(me.body)).toMatchObject({
+        access: 'granted',
+        user: { id: c.user.id, email: c.user.email, displayName: c.user.name, role: c.role, clientOrganisation: c.org },
+        firm: { id: DEMO.firm.id, name: DEMO.firm.name },
+      });
+      const bound = await t.db('users').where({ id: c.user.id }).first('oidc_subject', 'last_signed_in_at');
+      expect(bound.oidc_subject).toEqual(expect.any(String));
+      expect(bound.last_signed_in_at).not.toBeNull();
+    },
+  );
 
   it('sends the browser to the provider with PKCE (S256), state and nonce', async () => {
     const res = await request(t.app).get('/api/auth/login');
     expect(res.status).toBe(302);
     const url = new URL(res.headers['location']);
     expect(url.origin).toBe(t.identity!.issuer);
-    for (const p of ['state', 'nonce', 'code_challenge']) expect(url.searchParams.get(p)?.length).toBeGreaterThanOrEqual(32);
+    for (const p of ['state', 'nonce', 'code_challenge'])
+      expect(url.searchParams.get(p)?.length).toBeGreaterThanOrEqual(32);
     expect(url.searchParams.get('code_challenge_method')).toBe('S256');
     expect(url.searchParams.get('scope')).toBe('openid email profile');
   });
@@ -92,7 +96,10 @@ describe('signing in through the local identity provider', () => {
     const idp = request.agent(t.identity!.issuer);
     const auth = await idp.get(new URL(start.headers['location']).pathname + new URL(start.headers['location']).search);
     const interaction = String(auth.headers['location']);
-    const res = await idp.post(`${interaction}/login`).type('form').send({ email: DEMO.users.principal.email, password: 'x', csrf: 'forged' });
+    const res = await idp
+      .post(`${interaction}/login`)
+      .type('form')
+      .send({ email: DEMO.users.principal.email, password: 'x', csrf: 'forged' });
     expect(res.status).toBe(403);
     expect(res.text).toContain('Sign-in refused');
   });
@@ -118,7 +125,14 @@ describe('signing in through the local identity provider', () => {
     const steps = await signIn(api, t.identity!, DEMO.users.engineerA.email);
     await api.get('/api/me');
     const sessionsOf = async () =>
-      Number((await t.db('sessions').whereRaw(`(sess::jsonb -> 'auth') ->> 'userId' = ?`, [DEMO.users.engineerA.id]).count({ n: '*' }))[0].n);
+      Number(
+        (
+          await t
+            .db('sessions')
+            .whereRaw(`(sess::jsonb -> 'auth') ->> 'userId' = ?`, [DEMO.users.engineerA.id])
+            .count({ n: '*' })
+        )[0].n,
+      );
     const before = await sessionsOf();
     const res = await api.post('/api/auth/logout').set('X-XSRF-TOKEN', xsrfToken(api));
     expect(res.status).toBe(200);
@@ -136,7 +150,10 @@ describe('signing in through the local identity provider', () => {
     expect(confirm.text).toContain('Sign out of the sign-in service too?');
     const xsrf = /name="xsrf" value="([^"]+)"/.exec(confirm.text)?.[1];
     const action = /<form[^>]*action="([^"]+)"/.exec(confirm.text)?.[1];
-    const done = await steps.idp.post(new URL(action!, t.identity!.issuer).pathname).type('form').send({ xsrf, logout: 'yes' });
+    const done = await steps.idp
+      .post(new URL(action!, t.identity!.issuer).pathname)
+      .type('form')
+      .send({ xsrf, logout: 'yes' });
     expect(done.status).toBe(303);
     expect(done.headers['location']).toBe('http://127.0.0.1:4310/');
   });

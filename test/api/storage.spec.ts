@@ -45,7 +45,9 @@ describe('object store against the local S3 fake', () => {
   });
 
   it('a signed link downloads the object under the name given, and stops working once it expires', async () => {
-    await store.putStream('links/plan.pdf', Readable.from([Buffer.from('%PDF-1.4\nplan\n')]), { contentType: 'application/pdf' });
+    await store.putStream('links/plan.pdf', Readable.from([Buffer.from('%PDF-1.4\nplan\n')]), {
+      contentType: 'application/pdf',
+    });
     const url = await store.signedGetUrl('links/plan.pdf', 60, 'Ground floor — columns.pdf');
     expect(url).toMatch(/^http:\/\/127\.0\.0\.1:\d+\/trabeate\/links\/plan\.pdf\?/);
     const res = await fetch(url);
@@ -68,7 +70,9 @@ describe('object store against the local S3 fake', () => {
       sent += c.length;
       if (sent > 10 * 1024 * 1024 && !controller.signal.aborted) controller.abort();
     });
-    await expect(store.putStream('aborted/big.pdf', body, { contentType: 'application/pdf', signal: controller.signal })).rejects.toThrow();
+    await expect(
+      store.putStream('aborted/big.pdf', body, { contentType: 'application/pdf', signal: controller.signal }),
+    ).rejects.toThrow();
     expect(await store.head('aborted/big.pdf')).toBeNull();
     expect(await store.list('aborted/')).toEqual([]);
   });
@@ -90,15 +94,27 @@ describe('storage configuration fragment', () => {
   it('treats an empty endpoint as real AWS and needs both keys or neither', () => {
     const parsed = storageConfigSchema.parse({ S3_ENDPOINT: '', S3_BUCKET: 'firm-files' });
     expect(objectStoreConfigFrom(parsed)).toEqual({
-      endpoint: undefined, region: 'us-east-1', bucket: 'firm-files', credentials: undefined, forcePathStyle: false,
+      endpoint: undefined,
+      region: 'us-east-1',
+      bucket: 'firm-files',
+      credentials: undefined,
+      forcePathStyle: false,
     });
     expect(parsed.UPLOAD_MAX_BYTES).toBe(1024 ** 3);
     expect(storageConfigSchema.safeParse({ S3_ACCESS_KEY_ID: 'only-one' }).success).toBe(false);
     expect(storageConfigSchema.safeParse({ S3_ENDPOINT: 'not a url' }).success).toBe(false);
     const local = storageConfigSchema.parse({
-      S3_ENDPOINT: 'http://127.0.0.1:4312', S3_ACCESS_KEY_ID: 'a', S3_SECRET_ACCESS_KEY: 'b', S3_FORCE_PATH_STYLE: 'true', UPLOAD_MAX_BYTES: '5000',
+      S3_ENDPOINT: 'http://127.0.0.1:4312',
+      S3_ACCESS_KEY_ID: 'a',
+      S3_SECRET_ACCESS_KEY: 'b',
+      S3_FORCE_PATH_STYLE: 'true',
+      UPLOAD_MAX_BYTES: '5000',
     });
-    expect(objectStoreConfigFrom(local)).toMatchObject({ endpoint: 'http://127.0.0.1:4312', credentials: { accessKeyId: 'a', secretAccessKey: 'b' }, forcePathStyle: true });
+    expect(objectStoreConfigFrom(local)).toMatchObject({
+      endpoint: 'http://127.0.0.1:4312',
+      credentials: { accessKeyId: 'a', secretAccessKey: 'b' },
+      forcePathStyle: true,
+    });
     expect(local.UPLOAD_MAX_BYTES).toBe(5000);
   });
 });

@@ -41,12 +41,19 @@ describe('deliverable uploads stream into object storage and are checked on the 
 
   it('a real PDF is stored with its SHA-256, size, kind and a clean name', async () => {
     const pdf = tinyPdf();
-    const res = await request(app).post('/deliverables').field('note', 'for checking').attach('file', pdf, { filename: 'Column schedule.pdf', contentType: 'application/pdf' });
+    const res = await request(app)
+      .post('/deliverables')
+      .field('note', 'for checking')
+      .attach('file', pdf, { filename: 'Column schedule.pdf', contentType: 'application/pdf' });
     expect(res.status).toBe(201);
     expect(res.body.note).toBe('for checking');
     expect(res.body.file).toMatchObject({
-      sha256: sha(pdf), size: pdf.length, detectedType: 'pdf', contentType: 'application/pdf',
-      originalName: 'Column schedule.pdf', safeName: 'Column schedule.pdf',
+      sha256: sha(pdf),
+      size: pdf.length,
+      detectedType: 'pdf',
+      contentType: 'application/pdf',
+      originalName: 'Column schedule.pdf',
+      safeName: 'Column schedule.pdf',
     });
     const got = await store.getStream(res.body.file.key);
     expect(got.contentType).toBe('application/pdf');
@@ -66,7 +73,9 @@ describe('deliverable uploads stream into object storage and are checked on the 
   });
 
   it('a Windows program renamed to .pdf is refused with 415 before anything is stored', async () => {
-    const res = await request(app).post('/deliverables').attach('file', windowsProgram(), { filename: 'drawings.pdf', contentType: 'application/pdf' });
+    const res = await request(app)
+      .post('/deliverables')
+      .attach('file', windowsProgram(), { filename: 'drawings.pdf', contentType: 'application/pdf' });
     expect(res.status).toBe(415);
     expect(res.body.error).toMatchObject({ code: 'unsupported_media_type' });
     expect(res.body.error.message).toMatch(/Windows program/);
@@ -74,21 +83,31 @@ describe('deliverable uploads stream into object storage and are checked on the 
   });
 
   it('a shell script named .txt is refused as a script', async () => {
-    const res = await request(app).post('/deliverables').attach('file', Buffer.from('#!/bin/sh\necho hi\n'), { filename: 'notes.txt' });
+    const res = await request(app)
+      .post('/deliverables')
+      .attach('file', Buffer.from('#!/bin/sh\necho hi\n'), { filename: 'notes.txt' });
     expect(res.status).toBe(415);
     expect(res.body.error.message).toMatch(/script/);
   });
 
   it('a PNG named .pdf is refused with 422: the content is not what the name says', async () => {
-    const png = Buffer.from('89504e470d0a1a0a0000000d49484452000000010000000108060000001f15c4890000000a49444154789c63000100000500010d0a2db40000000049454e44ae426082', 'hex');
+    const png = Buffer.from(
+      '89504e470d0a1a0a0000000d49484452000000010000000108060000001f15c4890000000a49444154789c63000100000500010d0a2db40000000049454e44ae426082',
+      'hex',
+    );
     const res = await request(app).post('/deliverables').attach('file', png, { filename: 'report.pdf' });
     expect(res.status).toBe(422);
-    expect(res.body.error).toMatchObject({ code: 'validation_failed', fields: { file: [expect.stringContaining('.png')] } });
+    expect(res.body.error).toMatchObject({
+      code: 'validation_failed',
+      fields: { file: [expect.stringContaining('.png')] },
+    });
     expect(await stored()).toEqual([]);
   });
 
   it('a kind we do not take (.html) is refused with 415 naming what is accepted', async () => {
-    const res = await request(app).post('/deliverables').attach('file', Buffer.from('<html></html>'), { filename: 'page.html' });
+    const res = await request(app)
+      .post('/deliverables')
+      .attach('file', Buffer.from('<html></html>'), { filename: 'page.html' });
     expect(res.status).toBe(415);
     expect(res.body.error.message).toContain('.pdf');
   });
@@ -113,7 +132,10 @@ describe('deliverable uploads stream into object storage and are checked on the 
   });
 
   it('a zip of drawings and calculations is accepted', async () => {
-    const zip = zipOf([{ name: 'GA-101.pdf', data: tinyPdf() }, { name: 'loads.csv', data: 'column,kN\nC1,812\n' }]);
+    const zip = zipOf([
+      { name: 'GA-101.pdf', data: tinyPdf() },
+      { name: 'loads.csv', data: 'column,kN\nC1,812\n' },
+    ]);
     const res = await request(app).post('/deliverables').attach('file', zip, { filename: 'issue-3.zip' });
     expect(res.status).toBe(201);
     expect(res.body.file).toMatchObject({ detectedType: 'zip', size: zip.length, sha256: sha(zip) });
@@ -121,7 +143,10 @@ describe('deliverable uploads stream into object storage and are checked on the 
   });
 
   it('a plain zip renamed to .xlsx is refused, and a workbook with macros too', async () => {
-    const notWorkbook = zipOf([{ name: '[Content_Types].xml', data: '<Types/>' }, { name: 'data.txt', data: 'x' }]);
+    const notWorkbook = zipOf([
+      { name: '[Content_Types].xml', data: '<Types/>' },
+      { name: 'data.txt', data: 'x' },
+    ]);
     const a = await request(app).post('/deliverables').attach('file', notWorkbook, { filename: 'fees.xlsx' });
     expect(a.status).toBe(422);
     const macro = zipOf([
@@ -136,7 +161,9 @@ describe('deliverable uploads stream into object storage and are checked on the 
   });
 
   it('hostile file names are cleaned: no folders, no control characters, no device names', async () => {
-    const res = await request(app).post('/deliverables').attach('file', tinyPdf(), { filename: '../../etc/passwd.pdf' });
+    const res = await request(app)
+      .post('/deliverables')
+      .attach('file', tinyPdf(), { filename: '../../etc/passwd.pdf' });
     expect(res.status).toBe(201);
     expect(res.body.file.safeName).toBe('passwd.pdf');
     expect(res.body.file.key).toMatch(/^deliverables\/[0-9a-f-]{36}\/passwd\.pdf$/);
@@ -167,11 +194,19 @@ describe('deliverable uploads stream into object storage and are checked on the 
     const keys: string[] = [];
     const errors: unknown[] = [];
     const big = express();
-    big.post('/deliverables', deliverableUpload({ store, maxBytes: 64 * 1024 * 1024, keyFor: (_r, f) => {
-      const key = `deliverables/${randomUUID()}/${f.safeName}`;
-      keys.push(key);
-      return key;
-    } }), (_req, res) => void res.status(201).end());
+    big.post(
+      '/deliverables',
+      deliverableUpload({
+        store,
+        maxBytes: 64 * 1024 * 1024,
+        keyFor: (_r, f) => {
+          const key = `deliverables/${randomUUID()}/${f.safeName}`;
+          keys.push(key);
+          return key;
+        },
+      }),
+      (_req, res) => void res.status(201).end(),
+    );
     big.use((err: unknown, _req: express.Request, res: express.Response, _next: express.NextFunction) => {
       errors.push(err);
       res.status(500).end();
@@ -180,10 +215,20 @@ describe('deliverable uploads stream into object storage and are checked on the 
     await new Promise((r) => server.once('listening', r));
     const port = (server.address() as AddressInfo).port;
     const boundary = 'trabeate-test-boundary';
-    const req = httpRequest({ host: '127.0.0.1', port, method: 'POST', path: '/deliverables',
-      headers: { 'content-type': `multipart/form-data; boundary=${boundary}`, 'content-length': String(40 * 1024 * 1024) } });
+    const req = httpRequest({
+      host: '127.0.0.1',
+      port,
+      method: 'POST',
+      path: '/deliverables',
+      headers: {
+        'content-type': `multipart/form-data; boundary=${boundary}`,
+        'content-length': String(40 * 1024 * 1024),
+      },
+    });
     req.on('error', () => undefined);
-    req.write(`--${boundary}\r\nContent-Disposition: form-data; name="file"; filename="half.pdf"\r\nContent-Type: application/pdf\r\n\r\n`);
+    req.write(
+      `--${boundary}\r\nContent-Disposition: form-data; name="file"; filename="half.pdf"\r\nContent-Type: application/pdf\r\n\r\n`,
+    );
     req.write(tinyPdf());
     for (let i = 0; i < 12; i++) await new Promise((r) => req.write(Buffer.alloc(1024 * 1024, 0x41), r));
     await new Promise((r) => setTimeout(r, 500));

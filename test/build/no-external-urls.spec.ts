@@ -14,10 +14,12 @@ function files(dir: string): string[] {
 /** Finds URLs that an HTML or CSS file would load from another host. */
 export function externalLoads(name: string, text: string): string[] {
   const found: string[] = [];
-  const patterns =
-    name.endsWith('.css')
-      ? [/url\(\s*['"]?((?:https?:)?\/\/[^'")\s]+)/g, /@import\s+['"]((?:https?:)?\/\/[^'"]+)/g]
-      : [/<(?:script|link|img|iframe)\b[^>]*?(?:src|href)\s*=\s*['"]((?:https?:)?\/\/[^'"]+)/gi, /url\(\s*['"]?((?:https?:)?\/\/[^'")\s]+)/g];
+  const patterns = name.endsWith('.css')
+    ? [/url\(\s*['"]?((?:https?:)?\/\/[^'")\s]+)/g, /@import\s+['"]((?:https?:)?\/\/[^'"]+)/g]
+    : [
+        /<(?:script|link|img|iframe)\b[^>]*?(?:src|href)\s*=\s*['"]((?:https?:)?\/\/[^'"]+)/gi,
+        /url\(\s*['"]?((?:https?:)?\/\/[^'")\s]+)/g,
+      ];
   for (const re of patterns) for (const m of text.matchAll(re)) found.push(m[1]);
   return found;
 }

@@ -13,8 +13,17 @@ describe('the bundled production server', () => {
   beforeAll(() => {
     const build = spawnSync(
       'npx',
-      ['esbuild', 'apps/server/src/main.ts', 'apps/server/src/migrate.ts', '--bundle', '--platform=node', '--target=node20',
-        '--packages=external', `--outdir=${out}`, '--log-level=error'],
+      [
+        'esbuild',
+        'apps/server/src/main.ts',
+        'apps/server/src/migrate.ts',
+        '--bundle',
+        '--platform=node',
+        '--target=node20',
+        '--packages=external',
+        `--outdir=${out}`,
+        '--log-level=error',
+      ],
       { cwd: root, encoding: 'utf8' },
     );
     if (build.status !== 0) throw new Error(`esbuild failed: ${build.stderr}`);
@@ -36,7 +45,11 @@ describe('the bundled production server', () => {
   });
 
   it('names an invalid setting rather than crashing on it', () => {
-    const r = run('main.js', { NODE_ENV: 'development', DATABASE_URL: 'postgres://a:b@127.0.0.1:1/x', PORT: 'not-a-port' });
+    const r = run('main.js', {
+      NODE_ENV: 'development',
+      DATABASE_URL: 'postgres://a:b@127.0.0.1:1/x',
+      PORT: 'not-a-port',
+    });
     expect(r.status).toBe(78);
     expect(r.stderr).toMatch(/PORT/);
   });

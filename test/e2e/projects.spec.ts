@@ -46,7 +46,8 @@ describe('a design stage from assignment to approval, in Chromium', () => {
   let tmp = '';
 
   const testId = (page: Page, id: string): Locator => page.locator(`[data-testid="${id}"]`);
-  const shot = (page: Page, name: string) => page.screenshot({ path: path.join(SCREENSHOTS, `projects-${name}.png`), fullPage: true });
+  const shot = (page: Page, name: string) =>
+    page.screenshot({ path: path.join(SCREENSHOTS, `projects-${name}.png`), fullPage: true });
 
   async function signIn(page: Page, url: string, user: { email: string; name: string }): Promise<void> {
     await page.goto(url);
@@ -75,7 +76,6 @@ describe('a design stage from assignment to approval, in Chromium', () => {
     await page.goto(`${projectUrl}?stage=design_basis`);
     await testId(page, 'stage-panel').waitFor({ timeout: 20_000 });
   }
-
 
   beforeAll(async () => {
     tmp = mkdtempSync(path.join(tmpdir(), 'trabeate-e2e-files-'));
@@ -118,7 +118,9 @@ describe('a design stage from assignment to approval, in Chromium', () => {
     await choose(page, 'assignee', DEMO.users.engineerA.name);
     await testId(page, 'due-date').fill('2030-06-30');
     await testId(page, 'save-assignment').click();
-    await testId(page, 'stage-design_basis').filter({ hasText: DEMO.users.engineerA.name }).waitFor({ timeout: 20_000 });
+    await testId(page, 'stage-design_basis')
+      .filter({ hasText: DEMO.users.engineerA.name })
+      .waitFor({ timeout: 20_000 });
     await expect(testId(page, 'stage-design_basis').textContent()).resolves.toContain('Due 30 Jun');
     await shot(page, '2-stage-assigned');
   });
@@ -152,7 +154,9 @@ describe('a design stage from assignment to approval, in Chromium', () => {
     await testId(page, 'action-return').click();
     await testId(page, 'action-confirm').click();
     await page.locator('mat-error').filter({ hasText: 'Say what needs changing.' }).waitFor();
-    await testId(page, 'action-text').fill('State the wind speed basis and the importance factor for the retail floor.');
+    await testId(page, 'action-text').fill(
+      'State the wind speed basis and the importance factor for the retail floor.',
+    );
     await shot(page, '4-return-dialog');
     await testId(page, 'action-confirm').click();
     await expectState(page, 'Returned');
@@ -208,7 +212,11 @@ describe('a design stage from assignment to approval, in Chromium', () => {
     expect(mine).toEqual(expect.arrayContaining(expected));
     expect(mine.filter((s) => s === expected[0])).toHaveLength(2);
     // The returned notice carries the comment, and its HTML sits in a sandboxed frame.
-    await testId(page, 'outbox-item').filter({ hasText: 'was returned with comments' }).filter({ hasText: projectName }).first().click();
+    await testId(page, 'outbox-item')
+      .filter({ hasText: 'was returned with comments' })
+      .filter({ hasText: projectName })
+      .first()
+      .click();
     await testId(page, 'outbox-text').filter({ hasText: 'importance factor' }).waitFor({ timeout: 10_000 });
     await testId(page, 'outbox-message').filter({ hasText: 'was returned with comments' }).waitFor();
     await expect(testId(page, 'outbox-html').getAttribute('sandbox')).resolves.toBe('');

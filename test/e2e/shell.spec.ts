@@ -38,7 +38,10 @@ describe('the shell in Chromium, signed out', () => {
     await page.goto(`${base}/status`);
     await page.locator('[data-testid=db-status]').waitFor({ timeout: 20_000 });
     await page.screenshot({ path: path.join(SCREENSHOTS, 'status-narrow.png') });
-    await page.getByRole('button', { name: /menu|navigation/i }).first().click();
+    await page
+      .getByRole('button', { name: /menu|navigation/i })
+      .first()
+      .click();
     await page.locator('[data-testid=nav-status]').waitFor({ state: 'visible' });
   });
 });

@@ -45,44 +45,48 @@ describe('signing in and out in Chromium, per role', () => {
 
   const testId = (id: string) => page.locator(`[data-testid="${id}"]`);
 
-  it.each(ROLES)('the $who signs in through the provider, sees their navigation, and signs out', async (role) => {
-    // Signed out, the bare address leads to the sign-in page.
-    await page.goto(`${base}/`);
-    await testId('sign-in').waitFor({ state: 'visible', timeout: 20_000 });
-    expect(new URL(page.url()).pathname).toBe('/sign-in');
-    await expect(testId('user-menu').count()).resolves.toBe(0);
+  it.each(ROLES)(
+    'the $who signs in through the provider, sees their navigation, and signs out',
+    async (role) => {
+      // Signed out, the bare address leads to the sign-in page.
+      await page.goto(`${base}/`);
+      await testId('sign-in').waitFor({ state: 'visible', timeout: 20_000 });
+      expect(new URL(page.url()).pathname).toBe('/sign-in');
+      await expect(testId('user-menu').count()).resolves.toBe(0);
 
-    // The provider's own page, on loopback.
-    await testId('sign-in').click();
-    await page.locator('input#email').waitFor({ state: 'visible', timeout: 20_000 });
-    expect(new URL(page.url()).origin).not.toBe(new URL(base).origin);
-    await page.fill('input#email', role.user.email);
-    await page.fill('input#password', DEMO_PASSWORD);
-    await page.getByRole('button', { name: 'Sign in' }).click();
+      // The provider's own page, on loopback.
+      await testId('sign-in').click();
+      await page.locator('input#email').waitFor({ state: 'visible', timeout: 20_000 });
+      expect(new URL(page.url()).origin).not.toBe(new URL(base).origin);
+      await page.fill('input#email', role.user.email);
+      await page.fill('input#password', DEMO_PASSWORD);
+      await page.getByRole('button', { name: 'Sign in' }).click();
 
-    // Back in the app, where the sign-in started from.
-    await testId('user-menu').waitFor({ state: 'visible', timeout: 20_000 });
-    expect(page.url()).toBe(`${base}/projects`);
-    await expect(testId('user-name').textContent()).resolves.toBe(role.user.name);
-    await expect(testId('user-role').textContent()).resolves.toBe(role.roleLabel);
-    for (const id of role.shown) await testId(id).waitFor({ state: 'visible' });
-    for (const id of role.hidden) await expect(testId(id).count()).resolves.toBe(0);
-    // The projects list comes from the server, filtered for this person.
-    await testId('projects-table').or(page.getByText('No projects to show yet')).waitFor({ timeout: 20_000 });
-    await page.screenshot({ path: path.join(SCREENSHOTS, `signed-in-${role.who}.png`) });
+      // Back in the app, where the sign-in started from.
+      await testId('user-menu').waitFor({ state: 'visible', timeout: 20_000 });
+      expect(page.url()).toBe(`${base}/projects`);
+      await expect(testId('user-name').textContent()).resolves.toBe(role.user.name);
+      await expect(testId('user-role').textContent()).resolves.toBe(role.roleLabel);
+      for (const id of role.shown) await testId(id).waitFor({ state: 'visible' });
+      for (const id of role.hidden) await expect(testId(id).count()).resolves.toBe(0);
+      // The projects list comes from the server, filtered for this person.
+      await testId('projects-table').or(page.getByText('No projects to show yet')).waitFor({ timeout: 20_000 });
+      await page.screenshot({ path: path.join(SCREENSHOTS, `signed-in-${role.who}.png`) });
 
-    // Sign out here, then at the provider, and land signed out.
-    await testId('user-menu').click();
-    await testId('sign-out').click();
-    const providerSignOut = page.getByRole('button', { name: 'Sign out' });
-    await providerSignOut.waitFor({ state: 'visible', timeout: 20_000 });
-    await providerSignOut.click();
-    await page.waitForURL((u) => u.origin === new URL(base).origin, { timeout: 20_000 });
-    await testId('sign-in').waitFor({ state: 'visible', timeout: 20_000 });
-    await expect(testId('user-menu').count()).resolves.toBe(0);
-    const me = await page.evaluate(async () => (await fetch('/api/me')).status);
-    expect(me).toBe(401);
-  }, 90_000);
+      // Sign out here, then at the provider, and land signed out.
+      await testId('user-menu').click();
+      await testId('sign-out').click();
+      const providerSignOut = page.getByRole('button', { name: 'Sign out' });
+      await providerSignOut.waitFor({ state: 'visible', timeout: 20_000 });
+      await providerSignOut.click();
+      await page.waitForURL((u) => u.origin === new URL(base).origin, { timeout: 20_000 });
+      await testId('sign-in').waitFor({ state: 'visible', timeout: 20_000 });
+      await expect(testId('user-menu').count()).resolves.toBe(0);
+      const me = await page.evaluate(async () => (await fetch('/api/me')).status);
+      expect(me).toBe(401);
+    },
+    90_000,
+  );
 
   it('an engineer who types the People address is told it is not part of their role', async () => {
     await page.goto(`${base}/people`);

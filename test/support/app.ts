@@ -46,7 +46,9 @@ export async function testApp(
   const files = await fakeObjectStore();
   const jobs = createJobs({
     databaseUrl: url,
-    transport: opts.mail ? createMailTransport(mailConfigSchema.parse({ SMTP_PORT: String(opts.mail.smtpPort) })) : undefined,
+    transport: opts.mail
+      ? createMailTransport(mailConfigSchema.parse({ SMTP_PORT: String(opts.mail.smtpPort) }))
+      : undefined,
     mailFrom: 'Trabeate <notices@trabeate.invalid>',
     retry: TEST_MAIL_RETRY,
     pollingIntervalSeconds: 0.5,
@@ -74,7 +76,12 @@ export async function testApp(
     SESSION_SECRET: randomBytes(24).toString('hex'),
     SIGN_IN_RATE_LIMIT: 1000,
     ...(identity
-      ? { OIDC_ISSUER: identity.issuer, OIDC_CLIENT_ID: TEST_CLIENT.clientId, OIDC_CLIENT_SECRET: TEST_CLIENT.clientSecret, OIDC_ALLOW_INSECURE_HTTP: true }
+      ? {
+          OIDC_ISSUER: identity.issuer,
+          OIDC_CLIENT_ID: TEST_CLIENT.clientId,
+          OIDC_CLIENT_SECRET: TEST_CLIENT.clientSecret,
+          OIDC_ALLOW_INSECURE_HTTP: true,
+        }
       : {}),
     ...opts.config,
   };

@@ -2,7 +2,9 @@
 export function testEnv(name: string): string {
   const value = process.env[name];
   if (!value) {
-    throw new Error(`${name} is not set: run this suite through "npm test" (or "npm test -- <suite>"), which starts the services it needs.`);
+    throw new Error(
+      `${name} is not set: run this suite through "npm test" (or "npm test -- <suite>"), which starts the services it needs.`,
+    );
   }
   return value;
 }

@@ -29,15 +29,22 @@ export async function startIdentity(db: Db, opts: { loginRateLimit?: number } = 
     issuer,
     logger: pino({ level: process.env.TEST_LOG_LEVEL ?? 'silent' }),
     loginRateLimit: opts.loginRateLimit ?? 1000,
-    clients: [{ ...TEST_CLIENT, redirectUris: [`${TEST_PUBLIC_URL}/api/auth/callback`], postLogoutRedirectUris: [`${TEST_PUBLIC_URL}/`] }],
+    clients: [
+      {
+        ...TEST_CLIENT,
+        redirectUris: [`${TEST_PUBLIC_URL}/api/auth/callback`],
+        postLogoutRedirectUris: [`${TEST_PUBLIC_URL}/`],
+      },
+    ],
   });
   handler = app as never;
   return {
     issuer,
-    stop: () => new Promise<void>((resolve) => {
-      server.closeAllConnections();
-      server.close(() => resolve());
-    }),
+    stop: () =>
+      new Promise<void>((resolve) => {
+        server.closeAllConnections();
+        server.close(() => resolve());
+      }),
   };
 }
 
@@ -86,8 +93,12 @@ export async function signIn(
   const loginPage = await followProvider(idp, identity.issuer, await idp.get(pathOf(start.headers['location'])));
   const csrf = /name="csrf" value="([^"]+)"/.exec(loginPage.text)?.[1];
   const action = /<form method="post" action="([^"]+)"/.exec(loginPage.text)?.[1];
-  if (!csrf || !action) throw new Error(`no sign-in form on the provider's page (${loginPage.status}): ${loginPage.text.slice(0, 300)}`);
-  const afterPassword = await idp.post(action).type('form').send({ csrf, email, password: opts.password ?? DEMO_PASSWORD });
+  if (!csrf || !action)
+    throw new Error(`no sign-in form on the provider's page (${loginPage.status}): ${loginPage.text.slice(0, 300)}`);
+  const afterPassword = await idp
+    .post(action)
+    .type('form')
+    .send({ csrf, email, password: opts.password ?? DEMO_PASSWORD });
   const final = await followProvider(idp, identity.issuer, afterPassword);
   const location = final.headers['location'] ? String(final.headers['location']) : '';
   const callbackPath = location.startsWith(`${TEST_PUBLIC_URL}/api/auth/callback`) ? pathOf(location) : null;
@@ -97,10 +108,9 @@ export async function signIn(
 
 /** The XSRF-TOKEN value an agent holds (what Angular would echo in X-XSRF-TOKEN). */
 export function xsrfToken(api: TestAgent): string {
-  const cookie = (api as unknown as { jar: { getCookie(name: string, info: unknown): { value: string } | undefined } }).jar.getCookie(
-    'XSRF-TOKEN',
-    { domain: '127.0.0.1', path: '/', secure: false, script: true },
-  );
+  const cookie = (
+    api as unknown as { jar: { getCookie(name: string, info: unknown): { value: string } | undefined } }
+  ).jar.getCookie('XSRF-TOKEN', { domain: '127.0.0.1', path: '/', secure: false, script: true });
   if (!cookie) throw new Error('the agent holds no XSRF-TOKEN cookie');
   return cookie.value;
 }

@@ -21,7 +21,9 @@ let dummyHash: Promise<string> | undefined;
 
 /** The account when the e-mail and password match; undefined otherwise. */
 export async function checkPassword(db: Knex, email: string, password: string): Promise<IdentityAccount | undefined> {
-  const row = await db('identity_accounts').whereRaw('lower(email) = lower(?)', [email.trim()]).first('id', 'email', 'name', 'password_hash');
+  const row = await db('identity_accounts')
+    .whereRaw('lower(email) = lower(?)', [email.trim()])
+    .first('id', 'email', 'name', 'password_hash');
   if (!row) {
     dummyHash ??= hashPassword('not-a-real-password');
     await verify(await dummyHash, password).catch(() => false);
@@ -37,7 +39,10 @@ export async function findAccountById(db: Knex, id: string): Promise<IdentityAcc
 }
 
 /** Creates the account or leaves an existing one with that e-mail as it is; safe to run again. */
-export async function ensureAccount(db: Knex, account: { email: string; name: string; password: string }): Promise<boolean> {
+export async function ensureAccount(
+  db: Knex,
+  account: { email: string; name: string; password: string },
+): Promise<boolean> {
   const existing = await db('identity_accounts').whereRaw('lower(email) = lower(?)', [account.email]).first('id');
   if (existing) return false;
   await db('identity_accounts')

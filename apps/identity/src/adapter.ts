@@ -56,7 +56,10 @@ export class PgAdapter implements Adapter {
       .andWhere((q) => q.whereNull('expires_at').orWhere('expires_at', '>', this.db.fn.now()))
       .first('payload', 'consumed_at');
     if (!row) return undefined;
-    return { ...row.payload, ...(row.consumed_at ? { consumed: Math.floor(new Date(row.consumed_at).getTime() / 1000) } : {}) };
+    return {
+      ...row.payload,
+      ...(row.consumed_at ? { consumed: Math.floor(new Date(row.consumed_at).getTime() / 1000) } : {}),
+    };
   }
 }
 

@@ -16,7 +16,10 @@ export async function loadSecrets(db: Knex): Promise<{ jwk: Record<string, unkno
 
 async function loadOrCreate(db: Knex, name: string, create: () => unknown): Promise<unknown> {
   // Two processes starting together: the first insert wins and both read the same row.
-  await db('identity_secrets').insert({ name, value: JSON.stringify(create()) }).onConflict('name').ignore();
+  await db('identity_secrets')
+    .insert({ name, value: JSON.stringify(create()) })
+    .onConflict('name')
+    .ignore();
   const row = await db('identity_secrets').where({ name }).first('value');
   return row.value;
 }

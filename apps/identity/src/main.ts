@@ -7,7 +7,12 @@ import { z } from 'zod';
 import { pruneExpired } from './adapter';
 import { createIdentityProvider } from './provider';
 
-const list = z.string().transform((s) => s.split(',').map((x) => x.trim()).filter(Boolean));
+const list = z.string().transform((s) =>
+  s
+    .split(',')
+    .map((x) => x.trim())
+    .filter(Boolean),
+);
 const envSchema = z.object({
   IDENTITY_DATABASE_URL: z.string().regex(/^postgres(ql)?:\/\//, 'must be a postgres:// URL'),
   IDENTITY_PORT: z.coerce.number().int().min(0).max(65535).default(4311),
@@ -22,7 +27,9 @@ const envSchema = z.object({
 async function main(): Promise<void> {
   const parsed = envSchema.safeParse(process.env);
   if (!parsed.success) {
-    console.error(`Trabeate identity provider cannot start:\n${parsed.error.issues.map((i) => `  - ${i.path.join('.')} ${i.message}`).join('\n')}`);
+    console.error(
+      `Trabeate identity provider cannot start:\n${parsed.error.issues.map((i) => `  - ${i.path.join('.')} ${i.message}`).join('\n')}`,
+    );
     process.exit(78);
   }
   const env = parsed.data;
@@ -34,7 +41,14 @@ async function main(): Promise<void> {
     db,
     issuer,
     logger,
-    clients: [{ clientId: env.IDENTITY_CLIENT_ID, clientSecret: env.IDENTITY_CLIENT_SECRET, redirectUris: env.IDENTITY_REDIRECT_URIS, postLogoutRedirectUris: env.IDENTITY_POST_LOGOUT_REDIRECT_URIS }],
+    clients: [
+      {
+        clientId: env.IDENTITY_CLIENT_ID,
+        clientSecret: env.IDENTITY_CLIENT_SECRET,
+        redirectUris: env.IDENTITY_REDIRECT_URIS,
+        postLogoutRedirectUris: env.IDENTITY_POST_LOGOUT_REDIRECT_URIS,
+      },
+    ],
   });
   const server = createServer(app);
   // Loopback only: this provider stands in for a firm's own and is never exposed.

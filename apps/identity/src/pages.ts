@@ -29,7 +29,13 @@ export function layout(title: string, body: string): string {
 <body><main>${body}</main></body></html>`;
 }
 
-export function loginPage(opts: { uid: string; csrf: string; email?: string; error?: string; clientName: string }): string {
+export function loginPage(opts: {
+  uid: string;
+  csrf: string;
+  email?: string;
+  error?: string;
+  clientName: string;
+}): string {
   return layout(
     'Sign in',
     `<p class="mark">Trabeate</p><h1>Sign in to ${esc(opts.clientName)}</h1>

@@ -28,7 +28,8 @@ export interface IdentityProviderOptions {
 }
 
 const PAGE_HEADERS: Record<string, string> = {
-  'Content-Security-Policy': "default-src 'none'; style-src 'unsafe-inline'; img-src data:; frame-ancestors 'none'; base-uri 'none'",
+  'Content-Security-Policy':
+    "default-src 'none'; style-src 'unsafe-inline'; img-src data:; frame-ancestors 'none'; base-uri 'none'",
   'X-Content-Type-Options': 'nosniff',
   // same-origin, not no-referrer: with no-referrer browsers send "Origin: null" on the form post.
   'Referrer-Policy': 'same-origin',
@@ -40,25 +41,25 @@ const PAGE_HEADERS: Record<string, string> = {
  * own sign-in page, PKCE required, keys generated once and kept in the database. The API talks to
  * it only through standard OpenID Connect, as it would to a firm's own provider.
  */
-export async function createIdentityProvider(opts: IdentityProviderOptions): Promise<{ app: Express; provider: Provider }> {
+export async function createIdentityProvider(
+  opts: IdentityProviderOptions,
+): Promise<{ app: Express; provider: Provider }> {
   const { db, issuer, logger } = opts;
   const { jwk, cookieKeys } = await loadSecrets(db);
   const clientNames = new Map(opts.clients.map((c) => [c.clientId, c.clientName ?? 'Trabeate']));
 
   const configuration: Configuration = {
     adapter: (name: string) => new PgAdapter(db, name),
-    clients: opts.clients.map(
-      (c): ClientMetadata => ({
-        client_id: c.clientId,
-        client_secret: c.clientSecret,
-        client_name: c.clientName ?? 'Trabeate',
-        redirect_uris: c.redirectUris,
-        post_logout_redirect_uris: c.postLogoutRedirectUris,
-        grant_types: ['authorization_code'],
-        response_types: ['code'],
-        token_endpoint_auth_method: 'client_secret_basic',
-      }),
-    ),
+    clients: opts.clients.map((c): ClientMetadata => ({
+      client_id: c.clientId,
+      client_secret: c.clientSecret,
+      client_name: c.clientName ?? 'Trabeate',
+      redirect_uris: c.redirectUris,
+      post_logout_redirect_uris: c.postLogoutRedirectUris,
+      grant_types: ['authorization_code'],
+      response_types: ['code'],
+      token_endpoint_auth_method: 'client_secret_basic',
+    })),
     async findAccount(_ctx, sub) {
       const account = await findAccountById(db, sub);
       if (!account) return undefined;
@@ -92,7 +93,14 @@ export async function createIdentityProvider(opts: IdentityProviderOptions): Pro
     interactions: { url: (_ctx, interaction) => `/interaction/${interaction.uid}` },
     cookies: { keys: cookieKeys },
     jwks: { keys: [jwk as never] },
-    ttl: { AccessToken: 600, AuthorizationCode: 60, IdToken: 3600, Interaction: 900, Session: 8 * 3600, Grant: 8 * 3600 },
+    ttl: {
+      AccessToken: 600,
+      AuthorizationCode: 60,
+      IdToken: 3600,
+      Interaction: 900,
+      Session: 8 * 3600,
+      Grant: 8 * 3600,
+    },
     // Trabeate is a first-party client: its users are not asked to consent to it.
     async loadExistingGrant(ctx) {
       const session = ctx.oidc.session;
@@ -112,7 +120,10 @@ export async function createIdentityProvider(opts: IdentityProviderOptions): Pro
       logger.warn({ err: error, out }, 'identity provider error page');
       ctx.set(PAGE_HEADERS);
       ctx.type = 'html';
-      ctx.body = messagePage('Sign-in could not continue', String(out.error_description ?? out.error ?? 'Something was wrong with the sign-in request.'));
+      ctx.body = messagePage(
+        'Sign-in could not continue',
+        String(out.error_description ?? out.error ?? 'Something was wrong with the sign-in request.'),
+      );
     },
   };
 
@@ -125,18 +136,35 @@ export async function createIdentityProvider(opts: IdentityProviderOptions): Pro
 
   const app = express();
   app.disable('x-powered-by');
-  const send = (res: Response, status: number, html: string): void => void res.status(status).set(PAGE_HEADERS).type('html').send(html);
+  const send = (res: Response, status: number, html: string): void =>
+    void res.status(status).set(PAGE_HEADERS).type('html').send(html);
   const expired = (res: Response): void =>
-    void send(res, 400, messagePage('This sign-in page has expired', 'Go back to Trabeate and choose “Sign in” again.'));
+    void send(
+      res,
+      400,
+      messagePage('This sign-in page has expired', 'Go back to Trabeate and choose “Sign in” again.'),
+    );
 
   app.get('/interaction/:uid', async (req, res): Promise<void> => {
     const details = await provider.interactionDetails(req, res);
     if (details.uid !== req.params['uid']) return expired(res);
     if (details.prompt.name !== 'login') {
       // Consent is granted by loadExistingGrant; any other prompt is not offered here.
-      return send(res, 400, messagePage('Sign-in could not continue', 'This sign-in asked for something this service does not offer.'));
+      return send(
+        res,
+        400,
+        messagePage('Sign-in could not continue', 'This sign-in asked for something this service does not offer.'),
+      );
     }
-    send(res, 200, loginPage({ uid: details.uid, csrf: csrfFor(details.uid), clientName: clientNames.get(String(details.params['client_id'])) ?? 'Trabeate' }));
+    send(
+      res,
+      200,
+      loginPage({
+        uid: details.uid,
+        csrf: csrfFor(details.uid),
+        clientName: clientNames.get(String(details.params['client_id'])) ?? 'Trabeate',
+      }),
+    );
   });
 
   app.post(
@@ -149,7 +177,14 @@ export async function createIdentityProvider(opts: IdentityProviderOptions): Pro
       legacyHeaders: false,
       handler: (req, res) => {
         logger.warn({ ip: req.ip }, 'sign-in attempts rate limited');
-        send(res, 429, messagePage('Too many attempts', 'Too many sign-in attempts came from your network. Wait a few minutes and try again.'));
+        send(
+          res,
+          429,
+          messagePage(
+            'Too many attempts',
+            'Too many sign-in attempts came from your network. Wait a few minutes and try again.',
+          ),
+        );
       },
     }),
     async (req: Request, res: Response): Promise<void> => {
@@ -159,36 +194,75 @@ export async function createIdentityProvider(opts: IdentityProviderOptions): Pro
       const origin = req.headers.origin;
       const token = typeof req.body?.csrf === 'string' ? req.body.csrf : '';
       const expected = csrfFor(uid);
-      if ((origin && origin !== issuerOrigin) || token.length !== expected.length || !timingSafeEqual(Buffer.from(token), Buffer.from(expected))) {
+      if (
+        (origin && origin !== issuerOrigin) ||
+        token.length !== expected.length ||
+        !timingSafeEqual(Buffer.from(token), Buffer.from(expected))
+      ) {
         logger.warn({ uid, origin }, 'sign-in form refused: CSRF check failed');
-        return send(res, 403, messagePage('Sign-in refused', 'The sign-in form did not come from this page. Go back to Trabeate and start again.'));
+        return send(
+          res,
+          403,
+          messagePage(
+            'Sign-in refused',
+            'The sign-in form did not come from this page. Go back to Trabeate and start again.',
+          ),
+        );
       }
       const email = typeof req.body.email === 'string' ? req.body.email.slice(0, 254) : '';
       const password = typeof req.body.password === 'string' ? req.body.password.slice(0, 1024) : '';
       const clientName = clientNames.get(String(details.params['client_id'])) ?? 'Trabeate';
       if (!email || !password) {
-        return send(res, 400, loginPage({ uid, csrf: expected, email, clientName, error: 'Enter your e-mail address and password.' }));
+        return send(
+          res,
+          400,
+          loginPage({ uid, csrf: expected, email, clientName, error: 'Enter your e-mail address and password.' }),
+        );
       }
       const account = await checkPassword(db, email, password);
       if (!account) {
         logger.info({ uid }, 'sign-in failed: e-mail and password do not match');
-        return send(res, 401, loginPage({ uid, csrf: expected, email, clientName, error: 'That e-mail address and password do not match.' }));
+        return send(
+          res,
+          401,
+          loginPage({
+            uid,
+            csrf: expected,
+            email,
+            clientName,
+            error: 'That e-mail address and password do not match.',
+          }),
+        );
       }
       logger.info({ accountId: account.id }, 'signed in at the identity provider');
-      await provider.interactionFinished(req, res, { login: { accountId: account.id } }, { mergeWithLastSubmission: false });
+      await provider.interactionFinished(
+        req,
+        res,
+        { login: { accountId: account.id } },
+        { mergeWithLastSubmission: false },
+      );
     },
   );
 
   app.get('/interaction/:uid/abort', async (req, res): Promise<void> => {
     const details = await provider.interactionDetails(req, res);
     if (details.uid !== req.params['uid']) return expired(res);
-    await provider.interactionFinished(req, res, { error: 'access_denied', error_description: 'The person cancelled the sign-in.' }, { mergeWithLastSubmission: false });
+    await provider.interactionFinished(
+      req,
+      res,
+      { error: 'access_denied', error_description: 'The person cancelled the sign-in.' },
+      { mergeWithLastSubmission: false },
+    );
   });
 
   app.use('/interaction', (err: unknown, _req: Request, res: Response, _next: express.NextFunction): void => {
     if (err instanceof errors.SessionNotFound || err instanceof errors.InvalidRequest) return void expired(res);
     logger.error({ err }, 'sign-in page failed');
-    send(res, 500, messagePage('Something went wrong', 'The sign-in service had a problem. It has been logged; try again.'));
+    send(
+      res,
+      500,
+      messagePage('Something went wrong', 'The sign-in service had a problem. It has been logged; try again.'),
+    );
   });
 
   app.use(provider.callback());

@@ -28,7 +28,8 @@ import { stageRoutes } from './stages/stages.routes';
 import type { ObjectStore } from './storage';
 
 export interface AppDeps {
-  config: Pick<Config, 'CLIENT_DIST' | 'TRUST_PROXY'> & Partial<AuthConfig> &
+  config: Pick<Config, 'CLIENT_DIST' | 'TRUST_PROXY'> &
+    Partial<AuthConfig> &
     Partial<Pick<Config, 'NODE_ENV' | 'UPLOAD_MAX_BYTES' | 'DEV_OUTBOX_URL' | 'MAIL_OUTBOX_URL'>>;
   db: Db;
   logger: Logger;
@@ -61,10 +62,15 @@ export function createApp({ config, db, logger, version = '0.1.0', store, jobs }
       },
       // One short line per request; headers and query strings stay out of the logs (cookies, codes).
       serializers: {
-        req: (req: { id: unknown; method: string; url: string }) => ({ id: req.id, method: req.method, url: req.url.split('?')[0] }),
+        req: (req: { id: unknown; method: string; url: string }) => ({
+          id: req.id,
+          method: req.method,
+          url: req.url.split('?')[0],
+        }),
         res: (res: { statusCode: number }) => ({ statusCode: res.statusCode }),
       },
-      customLogLevel: (_req, res, err) => (err || res.statusCode >= 500 ? 'error' : res.statusCode >= 400 ? 'warn' : 'info'),
+      customLogLevel: (_req, res, err) =>
+        err || res.statusCode >= 500 ? 'error' : res.statusCode >= 400 ? 'warn' : 'info',
     }),
   );
   app.use(
@@ -87,7 +93,10 @@ export function createApp({ config, db, logger, version = '0.1.0', store, jobs }
   const secureCookies = publicUrl.startsWith('https:');
   // Config refuses a missing secret in production; elsewhere a per-process one keeps tests and
   // a quick local run working (sessions then end when the process restarts).
-  const secrets = (config.SESSION_SECRET ?? randomBytes(32).toString('hex')).split(',').map((x) => x.trim()).filter(Boolean);
+  const secrets = (config.SESSION_SECRET ?? randomBytes(32).toString('hex'))
+    .split(',')
+    .map((x) => x.trim())
+    .filter(Boolean);
   if (!config.SESSION_SECRET) logger.warn('SESSION_SECRET is not set: using a random secret for this process only');
   const absoluteHours = config.SESSION_ABSOLUTE_HOURS ?? 12;
 

@@ -22,7 +22,9 @@ async function main(): Promise<void> {
   }
   const logger = createLogger(config.LOG_LEVEL);
   const db = createDb(config.DATABASE_URL, config.DATABASE_POOL_MAX);
-  const store = createObjectStore(objectStoreConfigFrom({ ...config, S3_BUCKET: config.S3_BUCKET ?? LOCAL_DEFAULTS.S3_BUCKET }));
+  const store = createObjectStore(
+    objectStoreConfigFrom({ ...config, S3_BUCKET: config.S3_BUCKET ?? LOCAL_DEFAULTS.S3_BUCKET }),
+  );
   // Every API process also works the mail queue: pg-boss shares the jobs out through PostgreSQL.
   const jobs = createJobs({
     databaseUrl: config.DATABASE_URL,

@@ -10,7 +10,8 @@ async function main(): Promise<void> {
   try {
     const applied = await migrateLatest(db);
     console.log(applied.length ? `applied: ${applied.join(', ')}` : 'schema up to date');
-    if (process.argv.includes('--seed-demo')) console.log((await seedDemo(db)) ? 'demo inserted' : 'demo already present');
+    if (process.argv.includes('--seed-demo'))
+      console.log((await seedDemo(db)) ? 'demo inserted' : 'demo already present');
   } finally {
     await db.destroy();
   }

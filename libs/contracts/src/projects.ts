@@ -60,7 +60,14 @@ export const projectUpdateSchema = projectWriteSchema
   .refine((v) => Object.keys(v).length > 0, { message: 'nothing to change' });
 export type ProjectUpdate = z.input<typeof projectUpdateSchema>;
 
-export const STAGE_KEYS = ['design_basis', 'column_layout', 'beam_framing', 'slab_panels', 'stairs', 'foundations'] as const;
+export const STAGE_KEYS = [
+  'design_basis',
+  'column_layout',
+  'beam_framing',
+  'slab_panels',
+  'stairs',
+  'foundations',
+] as const;
 export const stageKeySchema = z.enum(STAGE_KEYS);
 export type StageKey = z.infer<typeof stageKeySchema>;
 export const STAGE_TITLES: Record<StageKey, string> = {

@@ -43,7 +43,10 @@ export const plotBoundarySchema = z
     vertices: z.array(pointSchema).min(3),
     propertyLines: z.array(z.number().int().nonnegative()),
   })
-  .refine((b) => b.propertyLines.every((k) => k < b.vertices.length), { message: 'a property line index is beyond the last segment', path: ['propertyLines'] });
+  .refine((b) => b.propertyLines.every((k) => k < b.vertices.length), {
+    message: 'a property line index is beyond the last segment',
+    path: ['propertyLines'],
+  });
 
 export const gridLineSchema = z
   .object({
@@ -57,7 +60,10 @@ export const gridLineSchema = z
     beamWidthMm: positive.optional(),
     beamDepthMm: positive.optional(),
   })
-  .refine((g) => (g.x === undefined) !== (g.y === undefined), { message: 'a grid line sets exactly one of x or y', path: ['x'] });
+  .refine((g) => (g.x === undefined) !== (g.y === undefined), {
+    message: 'a grid line sets exactly one of x or y',
+    path: ['x'],
+  });
 
 export const columnSchema = z.object({
   id: z.string().min(1),

@@ -12,7 +12,8 @@ const CHUNK = 64 * 1024;
  * checked against `generatedSha256`.
  */
 export function pdfLikeStream(bytes: number, seed = 0x2f6b3a91): Readable {
-  if (bytes < HEADER.length + TRAILER.length) throw new Error(`at least ${HEADER.length + TRAILER.length} bytes are needed`);
+  if (bytes < HEADER.length + TRAILER.length)
+    throw new Error(`at least ${HEADER.length + TRAILER.length} bytes are needed`);
   let state = seed >>> 0 || 1;
   let sent = 0;
   return new Readable({

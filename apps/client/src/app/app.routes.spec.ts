@@ -27,7 +27,8 @@ describe('app routes', () => {
     await new Promise((r) => setTimeout(r));
     const req = backend.match('/api/me');
     for (const r of req) {
-      if (me === 'anonymous') r.flush({ error: { code: 'unauthenticated', message: 'x' } }, { status: 401, statusText: 'Unauthorized' });
+      if (me === 'anonymous')
+        r.flush({ error: { code: 'unauthenticated', message: 'x' } }, { status: 401, statusText: 'Unauthorized' });
       else r.flush(me);
     }
     await done;

@@ -2,9 +2,18 @@ import { canSeeProject, firmRefusal, projectRefusal, type Caller } from './polic
 
 const firm = 'f1';
 const caller = (role: Caller['role'], org: string | null = null): Caller => ({
-  userId: 'u', firmId: firm, email: 'e', displayName: 'n', role, clientOrganisationId: org,
+  userId: 'u',
+  firmId: firm,
+  email: 'e',
+  displayName: 'n',
+  role,
+  clientOrganisationId: org,
 });
-const project = (callerIsMember: boolean, org = 'o1', firmId = firm) => ({ firmId, clientOrganisationId: org, callerIsMember });
+const project = (callerIsMember: boolean, org = 'o1', firmId = firm) => ({
+  firmId,
+  clientOrganisationId: org,
+  callerIsMember,
+});
 
 describe('access policy', () => {
   it('lets the principal see every project of the firm and none of another firm', () => {

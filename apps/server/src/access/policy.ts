@@ -57,7 +57,9 @@ export function projectRefusal(role: Role, action: ProjectAction): string | null
     case 'manage':
       return role === 'principal' ? null : "Only the firm's principal can manage this project's team and settings.";
     case 'finance':
-      return role === 'engineer' ? "Fees, invoices and payments are visible to the principal and the project's client only." : null;
+      return role === 'engineer'
+        ? "Fees, invoices and payments are visible to the principal and the project's client only."
+        : null;
     case 'pay':
       return role === 'client' ? null : "Invoices are paid by the client's contacts, not by the firm.";
     case 'acknowledge':

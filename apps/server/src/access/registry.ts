@@ -28,7 +28,11 @@ export interface GuardDeps {
 }
 
 /** Mounts the declared routes, each behind the guard for its rule; returns what was mounted. */
-export function mountRoutes(router: Router, routes: RouteDecl[], deps: GuardDeps): Array<Pick<RouteDecl, 'method' | 'path' | 'rule'>> {
+export function mountRoutes(
+  router: Router,
+  routes: RouteDecl[],
+  deps: GuardDeps,
+): Array<Pick<RouteDecl, 'method' | 'path' | 'rule'>> {
   for (const r of routes) router[r.method](r.path, guard(r.rule, deps), ...r.handlers);
   return routes.map(({ method, path, rule }) => ({ method, path, rule }));
 }
@@ -46,7 +50,11 @@ export function guard(rule: Rule, { db, csrfValid }: GuardDeps): RequestHandler 
     // Any state change made with a signed-in session needs the CSRF header, whatever the rule.
     const signedIn = Boolean(req.session?.auth);
     if (signedIn && !SAFE.has(req.method) && !csrfValid(req)) {
-      throw new HttpError(403, 'csrf_failed', 'This change was refused because the request did not carry the X-XSRF-TOKEN header matching the XSRF-TOKEN cookie. Reload the page and try again.');
+      throw new HttpError(
+        403,
+        'csrf_failed',
+        'This change was refused because the request did not carry the X-XSRF-TOKEN header matching the XSRF-TOKEN cookie. Reload the page and try again.',
+      );
     }
     if (rule === 'public') return next();
     if (!signedIn) {
@@ -57,7 +65,11 @@ export function guard(rule: Rule, { db, csrfValid }: GuardDeps): RequestHandler 
     if (rule === 'identified') return next();
     const caller = req.caller;
     if (!caller) {
-      throw new HttpError(403, 'no_access', 'You are signed in, but nobody at the firm has given you access to Trabeate yet.');
+      throw new HttpError(
+        403,
+        'no_access',
+        'You are signed in, but nobody at the firm has given you access to Trabeate yet.',
+      );
     }
     if (rule === 'signedIn') return next();
     if (rule === 'firm' || rule === 'principal') {
@@ -74,7 +86,9 @@ export function guard(rule: Rule, { db, csrfValid }: GuardDeps): RequestHandler 
       .where({ 'projects.id': projectId, 'projects.firm_id': caller.firmId })
       .first('projects.id', 'projects.firm_id', 'projects.client_organisation_id');
     if (!project) throw missing;
-    const member = await db('project_members').where({ project_id: projectId, user_id: caller.userId }).first('user_id');
+    const member = await db('project_members')
+      .where({ project_id: projectId, user_id: caller.userId })
+      .first('user_id');
     const visible = canSeeProject(caller, {
       firmId: project.firm_id,
       clientOrganisationId: project.client_organisation_id,

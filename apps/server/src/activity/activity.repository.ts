@@ -29,7 +29,10 @@ export interface ActivityRow {
   summary: string;
 }
 
-export async function insertActivity(db: Db | Knex.Transaction, entries: ActivityInsert | ActivityInsert[]): Promise<void> {
+export async function insertActivity(
+  db: Db | Knex.Transaction,
+  entries: ActivityInsert | ActivityInsert[],
+): Promise<void> {
   const list = Array.isArray(entries) ? entries : [entries];
   if (!list.length) return;
   await db('activity').insert(
@@ -50,7 +53,11 @@ export async function insertActivity(db: Db | Knex.Transaction, entries: Activit
 export type ActivityFilters = z.output<typeof activityQuerySchema>;
 
 /** One page of a project's activity, newest first, with the total for the same filters. */
-export async function listActivity(db: Db, projectId: string, q: ActivityFilters): Promise<{ rows: ActivityRow[]; total: number }> {
+export async function listActivity(
+  db: Db,
+  projectId: string,
+  q: ActivityFilters,
+): Promise<{ rows: ActivityRow[]; total: number }> {
   const base = db('activity as a').where('a.project_id', projectId);
   if (q.objectType) base.andWhere('a.object_type', q.objectType);
   if (q.stageKey) base.andWhere('a.stage_key', q.stageKey);
@@ -59,9 +66,22 @@ export async function listActivity(db: Db, projectId: string, q: ActivityFilters
   const rows: ActivityRow[] = await base
     .clone()
     .leftJoin('users as u', 'u.id', 'a.actor_id')
-    .orderBy([{ column: 'a.at', order: 'desc' }, { column: 'a.id', order: 'desc' }])
+    .orderBy([
+      { column: 'a.at', order: 'desc' },
+      { column: 'a.id', order: 'desc' },
+    ])
     .limit(q.pageSize)
     .offset((q.page - 1) * q.pageSize)
-    .select('a.id', 'a.at', 'a.actor_id', 'u.display_name as actor_name', 'a.action', 'a.object_type', 'a.object_id', 'a.stage_key', 'a.summary');
+    .select(
+      'a.id',
+      'a.at',
+      'a.actor_id',
+      'u.display_name as actor_name',
+      'a.action',
+      'a.object_type',
+      'a.object_id',
+      'a.stage_key',
+      'a.summary',
+    );
   return { rows, total: Number(n) };
 }

@@ -20,10 +20,16 @@ export const activityOf = (r: ActivityRow): Activity => ({
 
 export function activityRoutes(db: Db): RouteDecl[] {
   return [
-    route('get', '/projects/:projectId/activity', 'project:read', validate({ params, query: activityQuerySchema }), async (req, res) => {
-      const q = res.locals['query'] as ActivityFilters;
-      const { rows, total } = await listActivity(db, req.project!.id, q);
-      res.json({ items: rows.map(activityOf), total, page: q.page, pageSize: q.pageSize });
-    }),
+    route(
+      'get',
+      '/projects/:projectId/activity',
+      'project:read',
+      validate({ params, query: activityQuerySchema }),
+      async (req, res) => {
+        const q = res.locals['query'] as ActivityFilters;
+        const { rows, total } = await listActivity(db, req.project!.id, q);
+        res.json({ items: rows.map(activityOf), total, page: q.page, pageSize: q.pageSize });
+      },
+    ),
   ];
 }

@@ -26,7 +26,8 @@ export interface AuthRouteDeps {
 export function safeReturnTo(value: unknown): string {
   if (typeof value !== 'string' || value.length > 2000) return '/';
   // eslint-disable-next-line no-control-regex -- control characters are exactly what is refused here
-  if (!value.startsWith('/') || value.startsWith('//') || value.includes('\\') || /[\u0000-\u001f]/.test(value)) return '/';
+  if (!value.startsWith('/') || value.startsWith('//') || value.includes('\\') || /[\u0000-\u001f]/.test(value))
+    return '/';
   try {
     const url = new URL(value, 'http://trabeate.invalid');
     const resolved = url.pathname + url.search + url.hash;
@@ -37,20 +38,37 @@ export function safeReturnTo(value: unknown): string {
   }
 }
 
-const save = (req: Request) => new Promise<void>((resolve, reject) => req.session.save((err) => (err ? reject(err) : resolve())));
-const regenerate = (req: Request) => new Promise<void>((resolve, reject) => req.session.regenerate((err) => (err ? reject(err) : resolve())));
-const destroy = (req: Request) => new Promise<void>((resolve, reject) => req.session.destroy((err) => (err ? reject(err) : resolve())));
+const save = (req: Request) =>
+  new Promise<void>((resolve, reject) => req.session.save((err) => (err ? reject(err) : resolve())));
+const regenerate = (req: Request) =>
+  new Promise<void>((resolve, reject) => req.session.regenerate((err) => (err ? reject(err) : resolve())));
+const destroy = (req: Request) =>
+  new Promise<void>((resolve, reject) => req.session.destroy((err) => (err ? reject(err) : resolve())));
 
 export function authRoutes(d: AuthRouteDeps): RouteDecl[] {
   const unavailable = (req: Request, res: Response, err: unknown) => {
     req.log?.error({ err }, 'identity provider unavailable during sign-in');
-    problem(req, res, 503, 'identity_provider_unavailable', 'Sign-in is unavailable', 'The sign-in service is not answering at the moment. Try again in a minute.');
+    problem(
+      req,
+      res,
+      503,
+      'identity_provider_unavailable',
+      'Sign-in is unavailable',
+      'The sign-in service is not answering at the moment. Try again in a minute.',
+    );
   };
 
   return [
     route('get', '/auth/login', 'public', d.rateLimit, async (req, res) => {
       if (!d.oidc) {
-        problem(req, res, 503, 'service_unavailable', 'Sign-in is not configured', 'This Trabeate server has no identity provider configured (OIDC_ISSUER).');
+        problem(
+          req,
+          res,
+          503,
+          'service_unavailable',
+          'Sign-in is not configured',
+          'This Trabeate server has no identity provider configured (OIDC_ISSUER).',
+        );
         return;
       }
       let start;
@@ -77,17 +95,49 @@ export function authRoutes(d: AuthRouteDeps): RouteDecl[] {
       }
       if (params.get('error')) {
         req.log?.info({ error: params.get('error') }, 'sign-in cancelled or refused at the provider');
-        return problem(req, res, 400, 'sign_in_cancelled', 'Sign-in was not completed', 'The sign-in was cancelled or refused at the identity provider. You can try again.');
+        return problem(
+          req,
+          res,
+          400,
+          'sign_in_cancelled',
+          'Sign-in was not completed',
+          'The sign-in was cancelled or refused at the identity provider. You can try again.',
+        );
       }
       if (!pending || Date.now() - pending.startedAt > SIGN_IN_WINDOW_MS) {
-        req.log?.warn({ hasPending: Boolean(pending) }, 'sign-in callback without a live sign-in (missing, replayed or expired)');
-        return problem(req, res, 400, 'sign_in_expired', 'This sign-in has expired', 'This sign-in link was already used or has expired. Start again from the sign-in button.');
+        req.log?.warn(
+          { hasPending: Boolean(pending) },
+          'sign-in callback without a live sign-in (missing, replayed or expired)',
+        );
+        return problem(
+          req,
+          res,
+          400,
+          'sign_in_expired',
+          'This sign-in has expired',
+          'This sign-in link was already used or has expired. Start again from the sign-in button.',
+        );
       }
       if (!params.get('state') || params.get('state') !== pending.state) {
         req.log?.warn('sign-in callback with a state that does not match this browser');
-        return problem(req, res, 400, 'sign_in_failed', 'Sign-in could not be checked', 'The answer from the identity provider did not match the sign-in started in this browser. Start again.');
+        return problem(
+          req,
+          res,
+          400,
+          'sign_in_failed',
+          'Sign-in could not be checked',
+          'The answer from the identity provider did not match the sign-in started in this browser. Start again.',
+        );
       }
-      if (!d.oidc) return problem(req, res, 503, 'service_unavailable', 'Sign-in is not configured', 'This Trabeate server has no identity provider configured.');
+      if (!d.oidc)
+        return problem(
+          req,
+          res,
+          503,
+          'service_unavailable',
+          'Sign-in is not configured',
+          'This Trabeate server has no identity provider configured.',
+        );
       let identity;
       try {
         const callbackUrl = new URL('/api/auth/callback', d.publicUrl);
@@ -96,7 +146,14 @@ export function authRoutes(d: AuthRouteDeps): RouteDecl[] {
       } catch (err) {
         if (err instanceof ProviderUnavailable) return unavailable(req, res, err);
         req.log?.warn({ err }, 'sign-in callback refused');
-        return problem(req, res, 400, 'sign_in_failed', 'Sign-in could not be checked', 'The answer from the identity provider could not be verified. Start again.');
+        return problem(
+          req,
+          res,
+          400,
+          'sign_in_failed',
+          'Sign-in could not be checked',
+          'The answer from the identity provider could not be verified. Start again.',
+        );
       }
       const user = await bindAccount(d.db, identity);
       // A fresh session id at sign-in, so an id planted before sign-in is worth nothing after it.
@@ -132,18 +189,27 @@ export function authRoutes(d: AuthRouteDeps): RouteDecl[] {
         const body: Me = {
           access: 'none',
           identity: { email: auth.email, name: auth.name },
-          message: 'You are signed in, but nobody at the firm has given you access to Trabeate yet. Ask the firm to invite this e-mail address.',
+          message:
+            'You are signed in, but nobody at the firm has given you access to Trabeate yet. Ask the firm to invite this e-mail address.',
         };
         res.json(body);
         return;
       }
       const [firm, org] = await Promise.all([
         d.db('firms').where({ id: caller.firmId }).first('id', 'name'),
-        caller.clientOrganisationId ? d.db('client_organisations').where({ id: caller.clientOrganisationId }).first('id', 'name') : null,
+        caller.clientOrganisationId
+          ? d.db('client_organisations').where({ id: caller.clientOrganisationId }).first('id', 'name')
+          : null,
       ]);
       const body: Me = {
         access: 'granted',
-        user: { id: caller.userId, email: caller.email, displayName: caller.displayName, role: caller.role, clientOrganisation: org ?? null },
+        user: {
+          id: caller.userId,
+          email: caller.email,
+          displayName: caller.displayName,
+          role: caller.role,
+          clientOrganisation: org ?? null,
+        },
         firm,
         session: {
           signedInAt: new Date(auth.signedInAt).toISOString(),

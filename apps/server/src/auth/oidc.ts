@@ -32,10 +32,16 @@ export class OidcClient {
 
   private configuration(): Promise<client.Configuration> {
     this.config ??= client
-      .discovery(new URL(this.s.issuer), this.s.clientId, { client_secret: this.s.clientSecret }, client.ClientSecretBasic(this.s.clientSecret), {
-        execute: this.s.allowInsecureHttp ? [client.allowInsecureRequests] : [],
-        timeout: 5,
-      })
+      .discovery(
+        new URL(this.s.issuer),
+        this.s.clientId,
+        { client_secret: this.s.clientSecret },
+        client.ClientSecretBasic(this.s.clientSecret),
+        {
+          execute: this.s.allowInsecureHttp ? [client.allowInsecureRequests] : [],
+          timeout: 5,
+        },
+      )
       .catch((err: unknown) => {
         this.config = undefined;
         this.logger.error({ err, issuer: this.s.issuer }, 'identity provider discovery failed');
@@ -87,7 +93,10 @@ export class OidcClient {
     try {
       const config = await this.configuration();
       if (!config.serverMetadata().end_session_endpoint) return null;
-      return client.buildEndSessionUrl(config, { id_token_hint: idToken, post_logout_redirect_uri: this.s.postLogoutRedirectUri }).href;
+      return client.buildEndSessionUrl(config, {
+        id_token_hint: idToken,
+        post_logout_redirect_uri: this.s.postLogoutRedirectUri,
+      }).href;
     } catch (err) {
       this.logger.warn({ err }, 'could not build the provider sign-out URL; signed out of Trabeate only');
       return null;
@@ -97,9 +106,19 @@ export class OidcClient {
 
 function isNetworkFailure(err: unknown): boolean {
   // Checked by name, not instanceof: fetch's errors may come from another realm (undici, test VMs).
-  for (let e = err as (Error & { cause?: unknown; code?: unknown }) | undefined; e && typeof e === 'object'; e = e.cause as typeof e) {
-    if (e.name === 'AbortError' || e.name === 'TimeoutError' || (e.name === 'TypeError' && /fetch failed/.test(e.message))) return true;
-    if (typeof e.code === 'string' && /^(ECONNREFUSED|ECONNRESET|ETIMEDOUT|ENOTFOUND|UND_ERR)/.test(e.code)) return true;
+  for (
+    let e = err as (Error & { cause?: unknown; code?: unknown }) | undefined;
+    e && typeof e === 'object';
+    e = e.cause as typeof e
+  ) {
+    if (
+      e.name === 'AbortError' ||
+      e.name === 'TimeoutError' ||
+      (e.name === 'TypeError' && /fetch failed/.test(e.message))
+    )
+      return true;
+    if (typeof e.code === 'string' && /^(ECONNREFUSED|ECONNRESET|ETIMEDOUT|ENOTFOUND|UND_ERR)/.test(e.code))
+      return true;
   }
   if (err instanceof client.ResponseBodyError && err.status >= 500) return true;
   return false;

@@ -29,11 +29,15 @@ export class PgRateLimitStore implements Store {
   }
 
   async decrement(key: string): Promise<void> {
-    await this.db('rate_limits').where({ key: this.prefix + key }).update({ hits: this.db.raw('greatest(hits - 1, 0)') });
+    await this.db('rate_limits')
+      .where({ key: this.prefix + key })
+      .update({ hits: this.db.raw('greatest(hits - 1, 0)') });
   }
 
   async resetKey(key: string): Promise<void> {
-    await this.db('rate_limits').where({ key: this.prefix + key }).del();
+    await this.db('rate_limits')
+      .where({ key: this.prefix + key })
+      .del();
   }
 }
 
@@ -47,7 +51,14 @@ export function signInRateLimit(db: Db, limit: number): RequestHandler {
     store: new PgRateLimitStore(db, 'sign-in:'),
     handler: (req, res) => {
       req.log?.warn({ ip: req.ip }, 'sign-in rate limit reached');
-      problem(req, res, 429, 'too_many_requests', 'Too many sign-in attempts', 'Too many sign-in attempts came from your network. Wait a few minutes and try again.');
+      problem(
+        req,
+        res,
+        429,
+        'too_many_requests',
+        'Too many sign-in attempts',
+        'Too many sign-in attempts came from your network. Wait a few minutes and try again.',
+      );
     },
   });
 }

@@ -29,41 +29,84 @@ describe('sign-in configuration', () => {
   const secret = 'x'.repeat(32);
 
   it('requires the provider and a session secret in production', () => {
-    expect(() => loadConfig({ ...base, NODE_ENV: 'production' })).toThrow(/OIDC_ISSUER is required in production[\s\S]*SESSION_SECRET is required in production/);
+    expect(() => loadConfig({ ...base, NODE_ENV: 'production' })).toThrow(
+      /OIDC_ISSUER is required in production[\s\S]*SESSION_SECRET is required in production/,
+    );
   });
 
   it('accepts an https provider with its client id and secret', () => {
-    const config = loadConfig({ ...base, NODE_ENV: 'production', OIDC_ISSUER: 'https://login.example.com', OIDC_CLIENT_ID: 'trabeate', OIDC_CLIENT_SECRET: 's', SESSION_SECRET: secret,
-      S3_BUCKET: 'firm-files', SMTP_HOST: 'smtp.example.com' });
-    expect(config).toMatchObject({ OIDC_ALLOW_INSECURE_HTTP: false, SESSION_IDLE_MINUTES: 60, SESSION_ABSOLUTE_HOURS: 12 });
+    const config = loadConfig({
+      ...base,
+      NODE_ENV: 'production',
+      OIDC_ISSUER: 'https://login.example.com',
+      OIDC_CLIENT_ID: 'trabeate',
+      OIDC_CLIENT_SECRET: 's',
+      SESSION_SECRET: secret,
+      S3_BUCKET: 'firm-files',
+      SMTP_HOST: 'smtp.example.com',
+    });
+    expect(config).toMatchObject({
+      OIDC_ALLOW_INSECURE_HTTP: false,
+      SESSION_IDLE_MINUTES: 60,
+      SESSION_ABSOLUTE_HOURS: 12,
+    });
   });
 
   it('refuses a plain-http provider unless allowed, and allows it only on loopback', () => {
     const http = { ...base, OIDC_CLIENT_ID: 'c', OIDC_CLIENT_SECRET: 's', SESSION_SECRET: secret };
     expect(() => loadConfig({ ...http, OIDC_ISSUER: 'http://127.0.0.1:4311' })).toThrow(/OIDC_ISSUER must be https/);
-    expect(loadConfig({ ...http, OIDC_ISSUER: 'http://127.0.0.1:4311', OIDC_ALLOW_INSECURE_HTTP: 'true' }).OIDC_ALLOW_INSECURE_HTTP).toBe(true);
-    expect(() => loadConfig({ ...http, NODE_ENV: 'production', OIDC_ISSUER: 'http://login.example.com', OIDC_ALLOW_INSECURE_HTTP: 'true' })).toThrow(
-      /OIDC_ALLOW_INSECURE_HTTP is allowed only for an issuer on loopback/,
-    );
+    expect(
+      loadConfig({ ...http, OIDC_ISSUER: 'http://127.0.0.1:4311', OIDC_ALLOW_INSECURE_HTTP: 'true' })
+        .OIDC_ALLOW_INSECURE_HTTP,
+    ).toBe(true);
+    expect(() =>
+      loadConfig({
+        ...http,
+        NODE_ENV: 'production',
+        OIDC_ISSUER: 'http://login.example.com',
+        OIDC_ALLOW_INSECURE_HTTP: 'true',
+      }),
+    ).toThrow(/OIDC_ALLOW_INSECURE_HTTP is allowed only for an issuer on loopback/);
   });
 
   it('needs the client id and secret with an issuer, and a long enough session secret', () => {
-    expect(() => loadConfig({ ...base, OIDC_ISSUER: 'https://login.example.com' })).toThrow(/OIDC_CLIENT_ID and OIDC_CLIENT_SECRET are required/);
-    expect(() => loadConfig({ ...base, SESSION_SECRET: 'short' })).toThrow(/SESSION_SECRET must be at least 32 characters/);
+    expect(() => loadConfig({ ...base, OIDC_ISSUER: 'https://login.example.com' })).toThrow(
+      /OIDC_CLIENT_ID and OIDC_CLIENT_SECRET are required/,
+    );
+    expect(() => loadConfig({ ...base, SESSION_SECRET: 'short' })).toThrow(
+      /SESSION_SECRET must be at least 32 characters/,
+    );
   });
 });
 
 describe('files and mail configuration', () => {
   const base = { DATABASE_URL: 'postgres://a:b@127.0.0.1:5442/trabeate' };
   const production = {
-    ...base, NODE_ENV: 'production', OIDC_ISSUER: 'https://login.example.com', OIDC_CLIENT_ID: 'c', OIDC_CLIENT_SECRET: 's', SESSION_SECRET: 'x'.repeat(32),
+    ...base,
+    NODE_ENV: 'production',
+    OIDC_ISSUER: 'https://login.example.com',
+    OIDC_CLIENT_ID: 'c',
+    OIDC_CLIENT_SECRET: 's',
+    SESSION_SECRET: 'x'.repeat(32),
   };
 
   it('requires the S3 bucket and the SMTP host in production, naming each', () => {
-    expect(() => loadConfig(production)).toThrow(/S3_BUCKET is required in production[\s\S]*SMTP_HOST is required in production/);
+    expect(() => loadConfig(production)).toThrow(
+      /S3_BUCKET is required in production[\s\S]*SMTP_HOST is required in production/,
+    );
     expect(() => loadConfig({ ...production, S3_BUCKET: 'firm-files' })).toThrow(/SMTP_HOST is required/);
-    const ok = loadConfig({ ...production, S3_BUCKET: 'firm-files', SMTP_HOST: 'smtp.example.com', UPLOAD_MAX_BYTES: '52428800' });
-    expect(ok).toMatchObject({ S3_BUCKET: 'firm-files', SMTP_HOST: 'smtp.example.com', UPLOAD_MAX_BYTES: 52_428_800, SMTP_PORT: 2525 });
+    const ok = loadConfig({
+      ...production,
+      S3_BUCKET: 'firm-files',
+      SMTP_HOST: 'smtp.example.com',
+      UPLOAD_MAX_BYTES: '52428800',
+    });
+    expect(ok).toMatchObject({
+      S3_BUCKET: 'firm-files',
+      SMTP_HOST: 'smtp.example.com',
+      UPLOAD_MAX_BYTES: 52_428_800,
+      SMTP_PORT: 2525,
+    });
   });
 
   it('leaves bucket and mail host to local defaults outside production', () => {
@@ -75,13 +118,21 @@ describe('files and mail configuration', () => {
 
   it('refuses a bad bucket name, half a key pair, and a bad upload limit', () => {
     expect(() => loadConfig({ ...base, S3_BUCKET: 'Bad_Bucket' })).toThrow(/S3_BUCKET must be a valid S3 bucket name/);
-    expect(() => loadConfig({ ...base, S3_ACCESS_KEY_ID: 'k' })).toThrow(/S3_ACCESS_KEY_ID and S3_SECRET_ACCESS_KEY must be set together/);
+    expect(() => loadConfig({ ...base, S3_ACCESS_KEY_ID: 'k' })).toThrow(
+      /S3_ACCESS_KEY_ID and S3_SECRET_ACCESS_KEY must be set together/,
+    );
     expect(() => loadConfig({ ...base, UPLOAD_MAX_BYTES: '0' })).toThrow(/UPLOAD_MAX_BYTES/);
   });
 
   it('takes the development outbox only on loopback, and never in production', () => {
-    expect(loadConfig({ ...base, DEV_OUTBOX_URL: 'http://127.0.0.1:4314' }).DEV_OUTBOX_URL).toBe('http://127.0.0.1:4314');
-    expect(() => loadConfig({ ...base, DEV_OUTBOX_URL: 'http://mail.example.com:4314' })).toThrow(/DEV_OUTBOX_URL must point at the SMTP fake on loopback/);
-    expect(() => loadConfig({ ...production, S3_BUCKET: 'b1b', SMTP_HOST: 'h', DEV_OUTBOX_URL: 'http://127.0.0.1:4314' })).toThrow(/DEV_OUTBOX_URL is for the local SMTP fake only/);
+    expect(loadConfig({ ...base, DEV_OUTBOX_URL: 'http://127.0.0.1:4314' }).DEV_OUTBOX_URL).toBe(
+      'http://127.0.0.1:4314',
+    );
+    expect(() => loadConfig({ ...base, DEV_OUTBOX_URL: 'http://mail.example.com:4314' })).toThrow(
+      /DEV_OUTBOX_URL must point at the SMTP fake on loopback/,
+    );
+    expect(() =>
+      loadConfig({ ...production, S3_BUCKET: 'b1b', SMTP_HOST: 'h', DEV_OUTBOX_URL: 'http://127.0.0.1:4314' }),
+    ).toThrow(/DEV_OUTBOX_URL is for the local SMTP fake only/);
   });
 });

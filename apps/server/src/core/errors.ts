@@ -64,7 +64,8 @@ export function errorHandler(logger: Logger): ErrorRequestHandler {
       (req.log ?? logger).error({ err, requestId }, 'unhandled error');
       httpError = new HttpError(500, 'internal', 'Something went wrong on our side. The error has been logged.');
     }
-    if (httpError.status < 500) (req.log ?? logger).info({ code: httpError.code, status: httpError.status }, httpError.message);
+    if (httpError.status < 500)
+      (req.log ?? logger).info({ code: httpError.code, status: httpError.status }, httpError.message);
     if (res.headersSent) {
       res.end();
       return;

@@ -22,8 +22,20 @@ export interface DeliverableRow {
 function deliverablesQuery(db: Q) {
   return db('deliverables as d')
     .join('users as u', 'u.id', 'd.uploaded_by')
-    .select('d.id', 'd.project_id', 'd.stage_key', 'd.file_name', 'd.version', 'd.object_key', 'd.size_bytes', 'd.sha256', 'd.content_type',
-      'd.uploaded_by', 'u.display_name as uploader_name', 'd.uploaded_at');
+    .select(
+      'd.id',
+      'd.project_id',
+      'd.stage_key',
+      'd.file_name',
+      'd.version',
+      'd.object_key',
+      'd.size_bytes',
+      'd.sha256',
+      'd.content_type',
+      'd.uploaded_by',
+      'u.display_name as uploader_name',
+      'd.uploaded_at',
+    );
 }
 
 /** A stage's files, every version, newest version of each name first. */
@@ -38,7 +50,12 @@ export async function getDeliverable(db: Q, projectId: string, id: string): Prom
 }
 
 /** The version the next file of this name gets (names compare without case, as people read them). */
-export async function nextVersion(trx: Knex.Transaction, projectId: string, key: StageKey, fileName: string): Promise<number> {
+export async function nextVersion(
+  trx: Knex.Transaction,
+  projectId: string,
+  key: StageKey,
+  fileName: string,
+): Promise<number> {
   const row = await trx('deliverables')
     .where({ project_id: projectId, stage_key: key })
     .whereRaw('lower(file_name) = lower(?)', [fileName])

@@ -28,14 +28,21 @@ export function deliverableRoutes(db: Db, store: ObjectStore | undefined, maxByt
         store,
         maxBytes,
         // A fresh folder per upload: a re-upload of the same name never lands on the old object.
-        keyFor: (req, f) => `projects/${req.project!.id}/stages/${String(req.params['stageKey'])}/${randomUUID()}/${f.safeName}`,
+        keyFor: (req, f) =>
+          `projects/${req.project!.id}/stages/${String(req.params['stageKey'])}/${randomUUID()}/${f.safeName}`,
       })
     : noStore;
 
   return [
-    route('get', '/projects/:projectId/stages/:stageKey/deliverables', 'project:read', validate({ params: stageParams }), async (req, res) => {
-      res.json((await listDeliverables(db, req.project!.id, keyOf(req))).map(deliverableOf));
-    }),
+    route(
+      'get',
+      '/projects/:projectId/stages/:stageKey/deliverables',
+      'project:read',
+      validate({ params: stageParams }),
+      async (req, res) => {
+        res.json((await listDeliverables(db, req.project!.id, keyOf(req))).map(deliverableOf));
+      },
+    ),
     route(
       'post',
       '/projects/:projectId/stages/:stageKey/deliverables',
@@ -59,26 +66,32 @@ export function deliverableRoutes(db: Db, store: ObjectStore | undefined, maxByt
         }
       },
     ),
-    route('get', '/projects/:projectId/deliverables/:deliverableId/download', 'project:read', validate({ params: fileParams }), async (req, res) => {
-      if (!store) throw new HttpError(503, 'service_unavailable', 'File storage is not configured on this server.');
-      const row = await getDeliverable(db, req.project!.id, String(req.params['deliverableId']));
-      if (!row) throw notFound('No file with this id.');
-      const object = await store!.getStream(row.object_key);
-      res.setHeader('Content-Type', row.content_type);
-      res.setHeader('Content-Length', String(object.contentLength ?? row.size_bytes));
-      res.setHeader('Content-Disposition', contentDisposition(row.file_name));
-      res.setHeader('Cache-Control', 'private, no-store');
-      res.setHeader('ETag', `"${row.sha256}"`);
-      res.setHeader('X-Content-SHA256', row.sha256);
-      try {
-        await pipeline(object.body, res);
-      } catch (err) {
-        // The reader went away, or storage failed mid-stream: nothing more can be said to the client.
-        object.body.destroy();
-        if (!res.headersSent) throw err;
-        req.log?.warn({ err: (err as Error).message, deliverableId: row.id }, 'download ended early');
-        res.destroy();
-      }
-    }),
+    route(
+      'get',
+      '/projects/:projectId/deliverables/:deliverableId/download',
+      'project:read',
+      validate({ params: fileParams }),
+      async (req, res) => {
+        if (!store) throw new HttpError(503, 'service_unavailable', 'File storage is not configured on this server.');
+        const row = await getDeliverable(db, req.project!.id, String(req.params['deliverableId']));
+        if (!row) throw notFound('No file with this id.');
+        const object = await store!.getStream(row.object_key);
+        res.setHeader('Content-Type', row.content_type);
+        res.setHeader('Content-Length', String(object.contentLength ?? row.size_bytes));
+        res.setHeader('Content-Disposition', contentDisposition(row.file_name));
+        res.setHeader('Cache-Control', 'private, no-store');
+        res.setHeader('ETag', `"${row.sha256}"`);
+        res.setHeader('X-Content-SHA256', row.sha256);
+        try {
+          await pipeline(object.body, res);
+        } catch (err) {
+          // The reader went away, or storage failed mid-stream: nothing more can be said to the client.
+          object.body.destroy();
+          if (!res.headersSent) throw err;
+          req.log?.warn({ err: (err as Error).message, deliverableId: row.id }, 'download ended early');
+          res.destroy();
+        }
+      },
+    ),
   ];
 }

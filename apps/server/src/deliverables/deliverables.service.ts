@@ -24,8 +24,10 @@ export const deliverableOf = (r: DeliverableRow): Deliverable => ({
 
 /** Why no file may be added to this stage now (checked before the upload streams, and again after). */
 export async function uploadCheck(db: Db, projectId: string, key: StageKey): Promise<void> {
-  const row = await db('stages as s').join('projects as p', 'p.id', 's.project_id')
-    .where({ 's.project_id': projectId, 's.key': key }).first('s.state', 's.assignee_id', 'p.archived_at');
+  const row = await db('stages as s')
+    .join('projects as p', 'p.id', 's.project_id')
+    .where({ 's.project_id': projectId, 's.key': key })
+    .first('s.state', 's.assignee_id', 'p.archived_at');
   if (!row) throw notFound('No stage with this key.');
   const refusal = uploadRefusal({ key, state: row.state, assigneeId: row.assignee_id }, Boolean(row.archived_at));
   if (refusal) throw new HttpError(409, 'conflict', refusal);
@@ -35,12 +37,21 @@ export async function uploadCheck(db: Db, projectId: string, key: StageKey): Pro
  * Records a stored upload as the next version of its name on the stage. The stage row is locked,
  * so two uploads of the same name at once get versions n and n+1, never the same one.
  */
-export async function recordUpload(db: Db, caller: Caller, projectId: string, key: StageKey, file: StoredUpload): Promise<Deliverable> {
+export async function recordUpload(
+  db: Db,
+  caller: Caller,
+  projectId: string,
+  key: StageKey,
+  file: StoredUpload,
+): Promise<Deliverable> {
   const id = await db.transaction(async (trx) => {
     const project = await lockProject(trx, projectId);
     const stage = await lockStage(trx, projectId, key);
     if (!stage) throw notFound('No stage with this key.');
-    const refusal = uploadRefusal({ key, state: stage.state, assigneeId: stage.assignee_id }, Boolean(project.archived_at));
+    const refusal = uploadRefusal(
+      { key, state: stage.state, assigneeId: stage.assignee_id },
+      Boolean(project.archived_at),
+    );
     if (refusal) throw new HttpError(409, 'conflict', refusal);
     const fileName = file.safeName;
     const version = await nextVersion(trx, projectId, key, fileName);
@@ -57,7 +68,13 @@ export async function recordUpload(db: Db, caller: Caller, projectId: string, ke
       uploaded_by: caller.userId,
     });
     await insertActivity(trx, {
-      firmId: caller.firmId, projectId, actorId: caller.userId, action: 'deliverable.uploaded', objectType: 'deliverable', objectId: id, stageKey: key,
+      firmId: caller.firmId,
+      projectId,
+      actorId: caller.userId,
+      action: 'deliverable.uploaded',
+      objectType: 'deliverable',
+      objectId: id,
+      stageKey: key,
       summary: `${caller.displayName} uploaded ${fileName}${version > 1 ? ` (version ${version})` : ''} to ${STAGE_TITLES[key]}`,
       details: { fileName, version, sizeBytes: file.size, sha256: file.sha256 },
     });

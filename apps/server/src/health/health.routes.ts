@@ -7,7 +7,9 @@ const startedAt = Date.now();
 /** GET /api/health: is the API up, and can it reach PostgreSQL? Always 200 so probes can read the body. */
 export function healthHandler(db: Db, version: string): RequestHandler {
   return async (req, res) => {
-    const database = await probeDatabase(db, (err) => req.log?.error({ err }, 'health check: the database did not answer'));
+    const database = await probeDatabase(db, (err) =>
+      req.log?.error({ err }, 'health check: the database did not answer'),
+    );
     const body: Health = {
       status: database.status === 'up' ? 'ok' : 'degraded',
       version,
@@ -30,6 +32,12 @@ async function probeDatabase(db: Db, logFailure: (err: unknown) => void): Promis
     // The page is public: the reason (host, user, driver text) goes to the log, not to the caller.
     logFailure(err);
     const timedOut = (err as Error).message.startsWith('timed out');
-    return { status: 'down', latencyMs: null, message: timedOut ? 'The database did not answer within 2 s.' : 'The database did not answer; the reason is in the server log.' };
+    return {
+      status: 'down',
+      latencyMs: null,
+      message: timedOut
+        ? 'The database did not answer within 2 s.'
+        : 'The database did not answer; the reason is in the server log.',
+    };
   }
 }

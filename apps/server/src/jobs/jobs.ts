@@ -45,7 +45,11 @@ export interface JobsOptions {
   retry?: RetryPolicy;
   /** How often an idle worker looks for work (pg-boss allows 0.5 s and up). */
   pollingIntervalSeconds?: number;
-  logger?: { info(obj: object, msg?: string): void; warn(obj: object, msg?: string): void; error(obj: object, msg?: string): void };
+  logger?: {
+    info(obj: object, msg?: string): void;
+    warn(obj: object, msg?: string): void;
+    error(obj: object, msg?: string): void;
+  };
   /** The PostgreSQL schema pg-boss keeps its tables in. */
   schema?: string;
 }
@@ -91,25 +95,40 @@ export function createJobs(opts: JobsOptions): Jobs {
       // createQueue is idempotent in effect; updateQueue keeps the policy current on later deploys.
       const existing = await boss.getQueue(MAIL_QUEUE);
       if (existing) await boss.updateQueue(MAIL_QUEUE, { name: MAIL_QUEUE, ...retry });
-      else await boss.createQueue(MAIL_QUEUE, { name: MAIL_QUEUE, ...retry, policy: 'standard' }).catch(async (err) => {
-        // Two processes starting at once: the other one created it.
-        if (!(await boss.getQueue(MAIL_QUEUE))) throw err;
-      });
+      else
+        await boss.createQueue(MAIL_QUEUE, { name: MAIL_QUEUE, ...retry, policy: 'standard' }).catch(async (err) => {
+          // Two processes starting at once: the other one created it.
+          if (!(await boss.getQueue(MAIL_QUEUE))) throw err;
+        });
       if (opts.transport) {
         const transport = opts.transport;
-        await boss.work<MailJob>(MAIL_QUEUE, { pollingIntervalSeconds: opts.pollingIntervalSeconds ?? 2, batchSize: 1 }, async ([job]) => {
-          const m = job.data;
-          try {
-            await transport.sendMail({
-              from: opts.mailFrom, to: m.to, cc: m.cc, replyTo: m.replyTo, subject: m.subject, html: m.html, text: m.text, messageId: m.messageId,
-            });
-            opts.logger?.info({ jobId: job.id, template: m.template }, 'mail sent');
-          } catch (err) {
-            // Thrown on: pg-boss marks the job failed and schedules the retry.
-            opts.logger?.warn({ jobId: job.id, template: m.template, err: (err as Error).message }, 'mail not sent; will retry');
-            throw err;
-          }
-        });
+        await boss.work<MailJob>(
+          MAIL_QUEUE,
+          { pollingIntervalSeconds: opts.pollingIntervalSeconds ?? 2, batchSize: 1 },
+          async ([job]) => {
+            const m = job.data;
+            try {
+              await transport.sendMail({
+                from: opts.mailFrom,
+                to: m.to,
+                cc: m.cc,
+                replyTo: m.replyTo,
+                subject: m.subject,
+                html: m.html,
+                text: m.text,
+                messageId: m.messageId,
+              });
+              opts.logger?.info({ jobId: job.id, template: m.template }, 'mail sent');
+            } catch (err) {
+              // Thrown on: pg-boss marks the job failed and schedules the retry.
+              opts.logger?.warn(
+                { jobId: job.id, template: m.template, err: (err as Error).message },
+                'mail not sent; will retry',
+              );
+              throw err;
+            }
+          },
+        );
       }
     },
 
@@ -157,7 +176,11 @@ export function createJobs(opts: JobsOptions): Jobs {
 function transactionDb(trx: Knex.Transaction): PgBoss.Db {
   return {
     async executeSql(text: string, values: unknown[]) {
-      const client = (trx as unknown as { client: { acquireConnection(): Promise<{ query(t: string, v: unknown[]): Promise<{ rows: unknown[] }> }> } }).client;
+      const client = (
+        trx as unknown as {
+          client: { acquireConnection(): Promise<{ query(t: string, v: unknown[]): Promise<{ rows: unknown[] }> }> };
+        }
+      ).client;
       const connection = await client.acquireConnection();
       return connection.query(text, values) as Promise<{ rows: any[] }>; // eslint-disable-line @typescript-eslint/no-explicit-any
     },

@@ -16,7 +16,11 @@ html.registerPartial('footer', footer);
 text.registerPartial('footer', footer);
 
 const strict = { strict: true } as const;
-type Compiled = { subject: HandlebarsTemplateDelegate; html: HandlebarsTemplateDelegate; text: HandlebarsTemplateDelegate };
+type Compiled = {
+  subject: HandlebarsTemplateDelegate;
+  html: HandlebarsTemplateDelegate;
+  text: HandlebarsTemplateDelegate;
+};
 const compiled = new Map<MailTemplateName, Compiled>();
 const htmlFrame = html.compile(htmlLayout, strict);
 const textFrame = text.compile(textLayout, { ...strict, noEscape: true });
@@ -36,7 +40,10 @@ function templateOf(name: MailTemplateName): Compiled {
 }
 
 export class MailDataError extends Error {
-  constructor(readonly template: string, readonly problems: string[]) {
+  constructor(
+    readonly template: string,
+    readonly problems: string[],
+  ) {
     super(`Mail "${template}" has invalid data: ${problems.join('; ')}`);
     this.name = 'MailDataError';
   }
@@ -48,15 +55,27 @@ export function renderMail<N extends MailTemplateName>(name: N, data: MailData<N
   if (!source) throw new MailDataError(String(name), ['no such template']);
   const parsed = source.data.safeParse(data);
   if (!parsed.success) {
-    throw new MailDataError(name, parsed.error.issues.map((i) => `${i.path.join('.') || '(data)'} ${i.message}`));
+    throw new MailDataError(
+      name,
+      parsed.error.issues.map((i) => `${i.path.join('.') || '(data)'} ${i.message}`),
+    );
   }
   const values = parsed.data as Record<string, unknown>;
   const t = templateOf(name);
   // Subjects are single lines: a newline in a project name must not end up in a header.
-  const subject = t.subject(values).replace(/[\r\n]+/g, ' ').trim();
+  const subject = t
+    .subject(values)
+    .replace(/[\r\n]+/g, ' ')
+    .trim();
   return {
     subject,
     html: htmlFrame({ ...values, subject, body: t.html(values) }),
-    text: textFrame({ ...values, body: t.text(values).replace(/\n{3,}/g, '\n\n').trim() }),
+    text: textFrame({
+      ...values,
+      body: t
+        .text(values)
+        .replace(/\n{3,}/g, '\n\n')
+        .trim(),
+    }),
   };
 }

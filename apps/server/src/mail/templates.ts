@@ -11,8 +11,13 @@ const name = z.string().min(1).max(200);
 export const mailTemplates = {
   'stage-submitted': {
     data: z.object({
-      recipientName: name, firmName: name, projectName: name, stageName: name, submittedBy: name,
-      note: z.string().max(4000).optional(), link,
+      recipientName: name,
+      firmName: name,
+      projectName: name,
+      stageName: name,
+      submittedBy: name,
+      note: z.string().max(4000).optional(),
+      link,
     }),
     subject: '{{projectName}}: {{stageName}} is ready for your review',
     html: `<p>Hello {{recipientName}},</p>
@@ -36,8 +41,13 @@ Review the stage: {{link}}`,
 
   'stage-returned': {
     data: z.object({
-      recipientName: name, firmName: name, projectName: name, stageName: name, returnedBy: name,
-      comment: z.string().min(1).max(8000), link,
+      recipientName: name,
+      firmName: name,
+      projectName: name,
+      stageName: name,
+      returnedBy: name,
+      comment: z.string().min(1).max(8000),
+      link,
     }),
     subject: '{{projectName}}: {{stageName}} was returned with comments',
     html: `<p>Hello {{recipientName}},</p>
@@ -71,7 +81,12 @@ See the stage: {{link}}`,
 
   invitation: {
     data: z.object({
-      recipientName: name.optional(), firmName: name, invitedBy: name, role: name, link, expiresOn: z.string().min(1).max(60),
+      recipientName: name.optional(),
+      firmName: name,
+      invitedBy: name,
+      role: name,
+      link,
+      expiresOn: z.string().min(1).max(60),
     }),
     subject: '{{invitedBy}} invites you to {{firmName}} on Trabeate',
     html: `<p>Hello{{#if recipientName}} {{recipientName}}{{/if}},</p>

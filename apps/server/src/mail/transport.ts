@@ -4,7 +4,9 @@ import type { MailEnv } from './mail.config';
 export type MailTransport = Transporter;
 
 /** One SMTP transport (not pooled: each job opens and closes its own connection). */
-export function createMailTransport(env: Pick<MailEnv, 'SMTP_HOST' | 'SMTP_PORT' | 'SMTP_SECURE' | 'SMTP_USER' | 'SMTP_PASS'>): MailTransport {
+export function createMailTransport(
+  env: Pick<MailEnv, 'SMTP_HOST' | 'SMTP_PORT' | 'SMTP_SECURE' | 'SMTP_USER' | 'SMTP_PASS'>,
+): MailTransport {
   return nodemailer.createTransport({
     host: env.SMTP_HOST,
     port: env.SMTP_PORT,

@@ -11,7 +11,12 @@ const LIMIT = 50;
 export function outboxRoutes(outboxUrl: string | undefined): RouteDecl[] {
   return [
     route('get', '/dev/outbox', 'principal', async (_req, res) => {
-      if (!outboxUrl) throw new HttpError(404, 'not_found', 'The development outbox is available only when the local mail fake is configured (DEV_OUTBOX_URL).');
+      if (!outboxUrl)
+        throw new HttpError(
+          404,
+          'not_found',
+          'The development outbox is available only when the local mail fake is configured (DEV_OUTBOX_URL).',
+        );
       const base = outboxUrl.replace(/\/$/, '');
       const fetchJson = async (path: string): Promise<unknown> => {
         let r: Response;
@@ -29,7 +34,13 @@ export function outboxRoutes(outboxUrl: string | undefined): RouteDecl[] {
         list.map(async (m) => {
           const full = (await fetchJson(`/messages/${encodeURIComponent(m.id)}`)) as Record<string, unknown>;
           return outboxMessageSchema.parse({
-            id: full['id'], receivedAt: full['receivedAt'], from: full['from'], to: full['to'], subject: full['subject'], text: full['text'], html: full['html'] ?? null,
+            id: full['id'],
+            receivedAt: full['receivedAt'],
+            from: full['from'],
+            to: full['to'],
+            subject: full['subject'],
+            text: full['text'],
+            html: full['html'] ?? null,
           });
         }),
       );

@@ -15,16 +15,28 @@ const tokenParams = z.object({ token: z.string().min(20).max(100) });
 // The guard has checked the rule, so a caller is present on every non-public route here.
 const callerOf = (req: Request): Caller => req.caller as Caller;
 
-export function peopleRoutes(db: Db, opts: { publicUrl: string; invitationTtlDays: number; notices?: Notices }): RouteDecl[] {
+export function peopleRoutes(
+  db: Db,
+  opts: { publicUrl: string; invitationTtlDays: number; notices?: Notices },
+): RouteDecl[] {
   return [
     route('get', '/people', 'principal', async (req, res) => {
       res.json(await listPeople(db, callerOf(req).firmId));
     }),
     route('get', '/client-organisations', 'principal', async (req, res) => {
-      res.json(await db('client_organisations').where({ firm_id: callerOf(req).firmId }).orderBy('name').select('id', 'name'));
+      res.json(
+        await db('client_organisations')
+          .where({ firm_id: callerOf(req).firmId })
+          .orderBy('name')
+          .select('id', 'name'),
+      );
     }),
     route('post', '/invitations', 'principal', validate({ body: invitationCreateSchema }), async (req, res) => {
-      const created = await invite(db, callerOf(req), req.body, { publicUrl: opts.publicUrl, ttlDays: opts.invitationTtlDays, notices: opts.notices });
+      const created = await invite(db, callerOf(req), req.body, {
+        publicUrl: opts.publicUrl,
+        ttlDays: opts.invitationTtlDays,
+        notices: opts.notices,
+      });
       req.log?.info({ personId: created.person.id, role: created.person.role }, 'invitation created');
       res.status(201).json(created);
     }),
@@ -47,9 +59,15 @@ export function peopleRoutes(db: Db, opts: { publicUrl: string; invitationTtlDay
       };
       res.json(body);
     }),
-    route('patch', '/people/:id', 'principal', validate({ params: idParams, body: personPatchSchema }), async (req, res) => {
-      res.json(await updatePerson(db, callerOf(req), String(req.params['id']), req.body));
-    }),
+    route(
+      'patch',
+      '/people/:id',
+      'principal',
+      validate({ params: idParams, body: personPatchSchema }),
+      async (req, res) => {
+        res.json(await updatePerson(db, callerOf(req), String(req.params['id']), req.body));
+      },
+    ),
     route('delete', '/people/:id/access', 'principal', validate({ params: idParams }), async (req, res) => {
       await removeAccess(db, callerOf(req), String(req.params['id']));
       req.log?.info({ personId: req.params['id'] }, 'access removed; sessions ended');

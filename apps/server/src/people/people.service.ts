@@ -12,9 +12,14 @@ import type { Notices } from '../notices/notices';
 
 export const hashToken = (token: string): string => createHash('sha256').update(token).digest('hex');
 
-const ROLE_WORDS: Record<Role, string> = { principal: 'a principal', engineer: 'an engineer', client: 'a client contact' };
+const ROLE_WORDS: Record<Role, string> = {
+  principal: 'a principal',
+  engineer: 'an engineer',
+  client: 'a client contact',
+};
 
-const kindOf = (role: Role) => (role === 'client' ? { firm_role: null } : { firm_role: role, client_organisation_id: null });
+const kindOf = (role: Role) =>
+  role === 'client' ? { firm_role: null } : { firm_role: role, client_organisation_id: null };
 
 /**
  * Invites a person by e-mail: creates (or re-opens) their record with the role, their project
@@ -32,29 +37,50 @@ export async function invite(
   const expiresAt = new Date(Date.now() + opts.ttlDays * 86_400_000);
   const userId = await db.transaction(async (trx) => {
     if (input.clientOrganisationId) {
-      const org = await trx('client_organisations').where({ id: input.clientOrganisationId, firm_id: caller.firmId }).first('id');
-      if (!org) throw new HttpError(400, 'validation_failed', 'No client organisation with this id.', { 'body.clientOrganisationId': ['unknown client organisation'] });
+      const org = await trx('client_organisations')
+        .where({ id: input.clientOrganisationId, firm_id: caller.firmId })
+        .first('id');
+      if (!org)
+        throw new HttpError(400, 'validation_failed', 'No client organisation with this id.', {
+          'body.clientOrganisationId': ['unknown client organisation'],
+        });
     }
     const projectIds = [...new Set(input.projectIds)];
     if (input.role === 'principal' && projectIds.length) {
-      throw new HttpError(400, 'validation_failed', 'The principal sees every project; leave projectIds empty.', { 'body.projectIds': ['must be empty for a principal'] });
+      throw new HttpError(400, 'validation_failed', 'The principal sees every project; leave projectIds empty.', {
+        'body.projectIds': ['must be empty for a principal'],
+      });
     }
     if (projectIds.length) {
-      const projects = await trx('projects').whereIn('id', projectIds).where({ firm_id: caller.firmId }).select('id', 'client_organisation_id');
+      const projects = await trx('projects')
+        .whereIn('id', projectIds)
+        .where({ firm_id: caller.firmId })
+        .select('id', 'client_organisation_id');
       const wrong = projectIds.filter((id) => {
         const p = projects.find((x) => x.id === id);
         return !p || (input.role === 'client' && p.client_organisation_id !== input.clientOrganisationId);
       });
       if (wrong.length) {
-        throw new HttpError(400, 'validation_failed', input.role === 'client'
-          ? "A client contact can join only their own organisation's projects."
-          : 'Some projects do not exist.', { 'body.projectIds': wrong.map((id) => `not allowed: ${id}`) });
+        throw new HttpError(
+          400,
+          'validation_failed',
+          input.role === 'client'
+            ? "A client contact can join only their own organisation's projects."
+            : 'Some projects do not exist.',
+          { 'body.projectIds': wrong.map((id) => `not allowed: ${id}`) },
+        );
       }
     }
     // FOR UPDATE cannot lock a row that does not exist yet: two invitations of a new address at once
     // take turns on this lock instead, so the second re-opens the first rather than colliding with it.
-    await trx.raw('select pg_advisory_xact_lock(hashtextextended(?, 0))', [`invitation:${caller.firmId}:${input.email.toLowerCase()}`]);
-    const existing = await trx('users').where({ firm_id: caller.firmId }).whereRaw('lower(email) = lower(?)', [input.email]).forUpdate().first();
+    await trx.raw('select pg_advisory_xact_lock(hashtextextended(?, 0))', [
+      `invitation:${caller.firmId}:${input.email.toLowerCase()}`,
+    ]);
+    const existing = await trx('users')
+      .where({ firm_id: caller.firmId })
+      .whereRaw('lower(email) = lower(?)', [input.email])
+      .forUpdate()
+      .first();
     if (existing && !existing.disabled_at && existing.oidc_subject) {
       throw new HttpError(409, 'conflict', `${input.email} already has access to Trabeate.`);
     }
@@ -75,16 +101,34 @@ export async function invite(
       await trx('project_members').where({ user_id: id }).del();
       await trx('invitations').where({ user_id: id }).whereNull('accepted_at').del();
     } else {
-      [{ id }] = await trx('users').insert({ ...row, firm_id: caller.firmId }).returning('id');
+      [{ id }] = await trx('users')
+        .insert({ ...row, firm_id: caller.firmId })
+        .returning('id');
     }
     if (projectIds.length) {
-      await trx('project_members').insert(projectIds.map((project_id) => ({ project_id, user_id: id, added_by: caller.userId })));
-      await insertActivity(trx, projectIds.map((projectId) => ({
-        firmId: caller.firmId, projectId, actorId: caller.userId, action: 'membership.added', objectType: 'membership' as const, objectId: id,
-        summary: `${caller.displayName} invited ${input.displayName} to the project team`,
-      })));
+      await trx('project_members').insert(
+        projectIds.map((project_id) => ({ project_id, user_id: id, added_by: caller.userId })),
+      );
+      await insertActivity(
+        trx,
+        projectIds.map((projectId) => ({
+          firmId: caller.firmId,
+          projectId,
+          actorId: caller.userId,
+          action: 'membership.added',
+          objectType: 'membership' as const,
+          objectId: id,
+          summary: `${caller.displayName} invited ${input.displayName} to the project team`,
+        })),
+      );
     }
-    await trx('invitations').insert({ firm_id: caller.firmId, user_id: id, token_hash: hashToken(token), invited_by: caller.userId, expires_at: expiresAt });
+    await trx('invitations').insert({
+      firm_id: caller.firmId,
+      user_id: id,
+      token_hash: hashToken(token),
+      invited_by: caller.userId,
+      expires_at: expiresAt,
+    });
     if (opts.notices) {
       const firm = await trx('firms').where({ id: caller.firmId }).first('name');
       // Queued in this transaction: an invitation that fails to save sends no mail.
@@ -92,8 +136,12 @@ export async function invite(
         to: input.email,
         template: 'invitation',
         data: {
-          recipientName: input.displayName, firmName: firm.name, invitedBy: caller.displayName,
-          role: ROLE_WORDS[input.role], link: url, expiresOn: expiresAt.toISOString().slice(0, 10),
+          recipientName: input.displayName,
+          firmName: firm.name,
+          invitedBy: caller.displayName,
+          role: ROLE_WORDS[input.role],
+          link: url,
+          expiresOn: expiresAt.toISOString().slice(0, 10),
         },
       });
     }
@@ -115,24 +163,36 @@ export async function updatePerson(db: Db, caller: Caller, id: string, patch: Pe
     }
     const orgId = role === 'client' ? (patch.clientOrganisationId ?? user.client_organisation_id) : null;
     if (role === 'client') {
-      if (!orgId) throw new HttpError(400, 'validation_failed', 'A client contact needs a client organisation.', { 'body.clientOrganisationId': ['required for a client contact'] });
+      if (!orgId)
+        throw new HttpError(400, 'validation_failed', 'A client contact needs a client organisation.', {
+          'body.clientOrganisationId': ['required for a client contact'],
+        });
       const org = await trx('client_organisations').where({ id: orgId, firm_id: caller.firmId }).first('id');
-      if (!org) throw new HttpError(400, 'validation_failed', 'No client organisation with this id.', { 'body.clientOrganisationId': ['unknown client organisation'] });
+      if (!org)
+        throw new HttpError(400, 'validation_failed', 'No client organisation with this id.', {
+          'body.clientOrganisationId': ['unknown client organisation'],
+        });
     } else if (patch.clientOrganisationId) {
-      throw new HttpError(400, 'validation_failed', "Firm staff do not belong to a client organisation.", { 'body.clientOrganisationId': ['must be empty for firm staff'] });
+      throw new HttpError(400, 'validation_failed', 'Firm staff do not belong to a client organisation.', {
+        'body.clientOrganisationId': ['must be empty for firm staff'],
+      });
     }
     // Memberships mean something else once the kind or organisation changes, so they start again.
-    const clear = (role !== currentRole && (role === 'client' || currentRole === 'client' || role === 'principal'))
-      || orgId !== user.client_organisation_id;
-    await trx('users').where({ id }).update({
-      display_name: patch.displayName ?? user.display_name,
-      ...kindOf(role),
-      client_organisation_id: orgId,
-      updated_at: trx.fn.now(),
-    });
+    const clear =
+      (role !== currentRole && (role === 'client' || currentRole === 'client' || role === 'principal')) ||
+      orgId !== user.client_organisation_id;
+    await trx('users')
+      .where({ id })
+      .update({
+        display_name: patch.displayName ?? user.display_name,
+        ...kindOf(role),
+        client_organisation_id: orgId,
+        updated_at: trx.fn.now(),
+      });
     if (clear) await trx('project_members').where({ user_id: id }).del();
     // Only engineers carry stages; a stage left assigned to anyone else could not be moved.
-    if (role !== 'engineer') await trx('stages').where({ assignee_id: id }).update({ assignee_id: null, updated_at: trx.fn.now() });
+    if (role !== 'engineer')
+      await trx('stages').where({ assignee_id: id }).update({ assignee_id: null, updated_at: trx.fn.now() });
   });
   const [person] = await listPeople(db, caller.firmId, id);
   return person;
@@ -141,7 +201,9 @@ export async function updatePerson(db: Db, caller: Caller, id: string, patch: Pe
 /** Removes a person's access and ends all their sessions at once. */
 export async function removeAccess(db: Db, caller: Caller, id: string): Promise<void> {
   if (id === caller.userId) throw new HttpError(403, 'forbidden', 'You cannot remove your own access.');
-  const updated = await db('users').where({ id, firm_id: caller.firmId }).update({ disabled_at: db.fn.now(), updated_at: db.fn.now() });
+  const updated = await db('users')
+    .where({ id, firm_id: caller.firmId })
+    .update({ disabled_at: db.fn.now(), updated_at: db.fn.now() });
   if (!updated) throw notFound('No person with this id.');
   await db('invitations').where({ user_id: id }).whereNull('accepted_at').del();
   await endSessionsOf(db, id);

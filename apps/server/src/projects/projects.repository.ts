@@ -30,14 +30,36 @@ export function projectsQuery(db: Q, firmId: string) {
   return db('projects as p')
     .join('client_organisations as o', 'o.id', 'p.client_organisation_id')
     .where('p.firm_id', firmId)
-    .select('p.id', 'p.firm_id', 'p.reference', 'p.name', 'p.client_organisation_id', 'o.name as org_name', 'p.site_address', 'p.building_use',
-      'p.storeys', 'p.storey_height_m', 'p.floor_area_m2', 'p.estimated_cost', 'p.currency', 'p.design_basis', 'p.archived_at', 'p.updated_at');
+    .select(
+      'p.id',
+      'p.firm_id',
+      'p.reference',
+      'p.name',
+      'p.client_organisation_id',
+      'o.name as org_name',
+      'p.site_address',
+      'p.building_use',
+      'p.storeys',
+      'p.storey_height_m',
+      'p.floor_area_m2',
+      'p.estimated_cost',
+      'p.currency',
+      'p.design_basis',
+      'p.archived_at',
+      'p.updated_at',
+    );
 }
 
 /** Limits a project query to what the caller may see (the same rule as canSeeProject in access/policy.ts). */
 export function visibleTo<Q extends Knex.QueryBuilder>(q: Q, caller: Caller): Q {
   if (caller.role === 'principal') return q;
-  q.whereExists((sub) => sub.select(sub.client.raw('1')).from('project_members as m').whereRaw('m.project_id = p.id').andWhere('m.user_id', caller.userId));
+  q.whereExists((sub) =>
+    sub
+      .select(sub.client.raw('1'))
+      .from('project_members as m')
+      .whereRaw('m.project_id = p.id')
+      .andWhere('m.user_id', caller.userId),
+  );
   if (caller.role === 'client') q.andWhere('p.client_organisation_id', caller.clientOrganisationId);
   return q;
 }
@@ -64,7 +86,15 @@ export async function lockProject(trx: Knex.Transaction, id: string): Promise<Pr
     .join('firms as f', 'f.id', 'p.firm_id')
     .where('p.id', id)
     .forUpdate('p')
-    .first('p.id', 'p.firm_id', 'p.name', 'p.reference', 'p.client_organisation_id', 'p.archived_at', 'f.name as firm_name');
+    .first(
+      'p.id',
+      'p.firm_id',
+      'p.name',
+      'p.reference',
+      'p.client_organisation_id',
+      'p.archived_at',
+      'f.name as firm_name',
+    );
   if (!row) throw notFound('No project with this id.');
   return row;
 }
@@ -86,24 +116,43 @@ export interface ListRow extends ProjectRow {
 export type ProjectListFilters = z.output<typeof projectListQuerySchema>;
 
 /** One page of the projects the caller may see, sorted and filtered in the database. */
-export async function listProjects(db: Db, caller: Caller, f: ProjectListFilters): Promise<{ rows: ListRow[]; total: number }> {
+export async function listProjects(
+  db: Db,
+  caller: Caller,
+  f: ProjectListFilters,
+): Promise<{ rows: ListRow[]; total: number }> {
   const base = visibleTo(projectsQuery(db, caller.firmId), caller);
   if (f.status === 'active') base.whereNull('p.archived_at');
   if (f.status === 'archived') base.whereNotNull('p.archived_at');
   if (f.clientOrganisationId) base.andWhere('p.client_organisation_id', f.clientOrganisationId);
   if (f.q) {
     const like = `%${f.q.replace(/[\\%_]/g, (c) => `\\${c}`)}%`;
-    base.andWhere((w) => w.whereILike('p.reference', like).orWhereILike('p.name', like).orWhereILike('p.site_address', like).orWhereILike('o.name', like));
+    base.andWhere((w) =>
+      w
+        .whereILike('p.reference', like)
+        .orWhereILike('p.name', like)
+        .orWhereILike('p.site_address', like)
+        .orWhereILike('o.name', like),
+    );
   }
   const [{ n }] = await base.clone().clearSelect().count<{ n: string }[]>('* as n');
   const rows: ListRow[] = await base
     .clone()
     .select(
-      db.raw(`(select s.key from stages s where s.project_id = p.id and s.state <> 'approved' order by s.position limit 1) as current_key`),
-      db.raw(`(select s.state from stages s where s.project_id = p.id and s.state <> 'approved' order by s.position limit 1) as current_state`),
-      db.raw(`(select count(*)::int from stages s where s.project_id = p.id and s.state <> 'approved' and s.due_date < current_date) as late_stages`),
+      db.raw(
+        `(select s.key from stages s where s.project_id = p.id and s.state <> 'approved' order by s.position limit 1) as current_key`,
+      ),
+      db.raw(
+        `(select s.state from stages s where s.project_id = p.id and s.state <> 'approved' order by s.position limit 1) as current_state`,
+      ),
+      db.raw(
+        `(select count(*)::int from stages s where s.project_id = p.id and s.state <> 'approved' and s.due_date < current_date) as late_stages`,
+      ),
     )
-    .orderBy([{ column: SORT_COLUMNS[f.sort], order: f.direction }, { column: 'p.id', order: 'asc' }])
+    .orderBy([
+      { column: SORT_COLUMNS[f.sort], order: f.direction },
+      { column: 'p.id', order: 'asc' },
+    ])
     .limit(f.pageSize)
     .offset((f.page - 1) * f.pageSize);
   return { rows, total: Number(n) };

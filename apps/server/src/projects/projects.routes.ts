@@ -40,51 +40,106 @@ export function projectRoutes(db: Db): RouteDecl[] {
     route('get', '/projects/:projectId/full', 'project:read', validate({ params: projectParams }), async (req, res) => {
       res.json(await projectPage(db, callerOf(req), req.project!.id));
     }),
-    route('patch', '/projects/:projectId', 'project:manage', validate({ params: projectParams, body: projectUpdateSchema }), async (req, res) => {
-      res.json(await updateProject(db, callerOf(req), req.project!.id, req.body));
-    }),
-    route('post', '/projects/:projectId/archive', 'project:manage', validate({ params: projectParams }), async (req, res) => {
-      res.json(await setArchived(db, callerOf(req), req.project!.id, true));
-    }),
-    route('post', '/projects/:projectId/restore', 'project:manage', validate({ params: projectParams }), async (req, res) => {
-      res.json(await setArchived(db, callerOf(req), req.project!.id, false));
-    }),
-    route('put', '/projects/:projectId/members/:userId', 'project:manage', validate({ params: memberParams }), async (req, res) => {
-      const caller = callerOf(req);
-      const project = req.project!;
-      const user = await db('users').where({ id: req.params['userId'], firm_id: caller.firmId }).whereNull('disabled_at').first();
-      if (!user) throw notFound('No person with this id.');
-      if (user.firm_role === 'principal') throw new HttpError(409, 'conflict', 'The principal sees every project already.');
-      if (!user.firm_role && user.client_organisation_id !== project.client_organisation_id) {
-        throw new HttpError(409, 'conflict', "This person is a contact of another client organisation; they cannot join this project.");
-      }
-      await db.transaction(async (trx) => {
-        const added = await trx('project_members').insert({ project_id: project.id, user_id: user.id, added_by: caller.userId })
-          .onConflict(['project_id', 'user_id']).ignore().returning('user_id');
-        if (added.length) {
-          await insertActivity(trx, {
-            firmId: caller.firmId, projectId: project.id, actorId: caller.userId, action: 'membership.added', objectType: 'membership', objectId: user.id,
-            summary: `${caller.displayName} added ${user.display_name} to the project team`,
-          });
+    route(
+      'patch',
+      '/projects/:projectId',
+      'project:manage',
+      validate({ params: projectParams, body: projectUpdateSchema }),
+      async (req, res) => {
+        res.json(await updateProject(db, callerOf(req), req.project!.id, req.body));
+      },
+    ),
+    route(
+      'post',
+      '/projects/:projectId/archive',
+      'project:manage',
+      validate({ params: projectParams }),
+      async (req, res) => {
+        res.json(await setArchived(db, callerOf(req), req.project!.id, true));
+      },
+    ),
+    route(
+      'post',
+      '/projects/:projectId/restore',
+      'project:manage',
+      validate({ params: projectParams }),
+      async (req, res) => {
+        res.json(await setArchived(db, callerOf(req), req.project!.id, false));
+      },
+    ),
+    route(
+      'put',
+      '/projects/:projectId/members/:userId',
+      'project:manage',
+      validate({ params: memberParams }),
+      async (req, res) => {
+        const caller = callerOf(req);
+        const project = req.project!;
+        const user = await db('users')
+          .where({ id: req.params['userId'], firm_id: caller.firmId })
+          .whereNull('disabled_at')
+          .first();
+        if (!user) throw notFound('No person with this id.');
+        if (user.firm_role === 'principal')
+          throw new HttpError(409, 'conflict', 'The principal sees every project already.');
+        if (!user.firm_role && user.client_organisation_id !== project.client_organisation_id) {
+          throw new HttpError(
+            409,
+            'conflict',
+            'This person is a contact of another client organisation; they cannot join this project.',
+          );
         }
-      });
-      res.status(204).end();
-    }),
-    route('delete', '/projects/:projectId/members/:userId', 'project:manage', validate({ params: memberParams }), async (req, res) => {
-      const caller = callerOf(req);
-      const project = req.project!;
-      await db.transaction(async (trx) => {
-        const removed = await trx('project_members').where({ project_id: project.id, user_id: req.params['userId'] }).del();
-        if (!removed) return;
-        const user = await trx('users').where({ id: req.params['userId'] }).first('display_name');
-        // Stages the person was assigned to are left for the principal to assign again.
-        await trx('stages').where({ project_id: project.id, assignee_id: req.params['userId'] }).update({ assignee_id: null, updated_at: trx.fn.now() });
-        await insertActivity(trx, {
-          firmId: caller.firmId, projectId: project.id, actorId: caller.userId, action: 'membership.removed', objectType: 'membership', objectId: String(req.params['userId']),
-          summary: `${caller.displayName} removed ${user?.display_name ?? 'a person'} from the project team`,
+        await db.transaction(async (trx) => {
+          const added = await trx('project_members')
+            .insert({ project_id: project.id, user_id: user.id, added_by: caller.userId })
+            .onConflict(['project_id', 'user_id'])
+            .ignore()
+            .returning('user_id');
+          if (added.length) {
+            await insertActivity(trx, {
+              firmId: caller.firmId,
+              projectId: project.id,
+              actorId: caller.userId,
+              action: 'membership.added',
+              objectType: 'membership',
+              objectId: user.id,
+              summary: `${caller.displayName} added ${user.display_name} to the project team`,
+            });
+          }
         });
-      });
-      res.status(204).end();
-    }),
+        res.status(204).end();
+      },
+    ),
+    route(
+      'delete',
+      '/projects/:projectId/members/:userId',
+      'project:manage',
+      validate({ params: memberParams }),
+      async (req, res) => {
+        const caller = callerOf(req);
+        const project = req.project!;
+        await db.transaction(async (trx) => {
+          const removed = await trx('project_members')
+            .where({ project_id: project.id, user_id: req.params['userId'] })
+            .del();
+          if (!removed) return;
+          const user = await trx('users').where({ id: req.params['userId'] }).first('display_name');
+          // Stages the person was assigned to are left for the principal to assign again.
+          await trx('stages')
+            .where({ project_id: project.id, assignee_id: req.params['userId'] })
+            .update({ assignee_id: null, updated_at: trx.fn.now() });
+          await insertActivity(trx, {
+            firmId: caller.firmId,
+            projectId: project.id,
+            actorId: caller.userId,
+            action: 'membership.removed',
+            objectType: 'membership',
+            objectId: String(req.params['userId']),
+            summary: `${caller.displayName} removed ${user?.display_name ?? 'a person'} from the project team`,
+          });
+        });
+        res.status(204).end();
+      },
+    ),
   ];
 }

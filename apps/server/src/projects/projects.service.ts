@@ -19,8 +19,17 @@ import { stageOf } from '../stages/stages.service';
 import { getProject, lockProject, projectColumns, type ListRow, type ProjectRow } from './projects.repository';
 
 const FIELD_LABELS: Record<string, string> = {
-  reference: 'reference', name: 'name', clientOrganisationId: 'client organisation', siteAddress: 'site address', buildingUse: 'building use',
-  storeys: 'storeys', storeyHeightM: 'storey height', floorAreaM2: 'floor area', estimatedCost: 'estimated cost', currency: 'currency', designBasis: 'design basis',
+  reference: 'reference',
+  name: 'name',
+  clientOrganisationId: 'client organisation',
+  siteAddress: 'site address',
+  buildingUse: 'building use',
+  storeys: 'storeys',
+  storeyHeightM: 'storey height',
+  floorAreaM2: 'floor area',
+  estimatedCost: 'estimated cost',
+  currency: 'currency',
+  designBasis: 'design basis',
 };
 
 export const listItemOf = (r: ListRow): ProjectListItem => ({
@@ -33,16 +42,27 @@ export const listItemOf = (r: ListRow): ProjectListItem => ({
   archived: r.archived_at !== null,
   updatedAt: new Date(r.updated_at).toISOString(),
   currentStage: r.current_key
-    ? { key: r.current_key as StageKey, title: STAGE_TITLES[r.current_key as StageKey], state: r.current_state as StageState }
+    ? {
+        key: r.current_key as StageKey,
+        title: STAGE_TITLES[r.current_key as StageKey],
+        state: r.current_state as StageState,
+      }
     : null,
   lateStages: r.late_stages,
 });
 
 /** The short form of a project (facts, team, finance when the caller may see money, abilities). */
-export async function projectDetail(db: Db | Knex.Transaction, caller: Caller, id: string): Promise<ProjectDetail & { row: ProjectRow }> {
+export async function projectDetail(
+  db: Db | Knex.Transaction,
+  caller: Caller,
+  id: string,
+): Promise<ProjectDetail & { row: ProjectRow }> {
   const row: ProjectRow = await getProject(db, caller.firmId, id);
-  const members = await db('project_members as m').join('users as u', 'u.id', 'm.user_id')
-    .where('m.project_id', id).whereNull('u.disabled_at').orderBy('u.display_name')
+  const members = await db('project_members as m')
+    .join('users as u', 'u.id', 'm.user_id')
+    .where('m.project_id', id)
+    .whereNull('u.disabled_at')
+    .orderBy('u.display_name')
     .select('u.id', 'u.display_name', 'u.firm_role');
   const can = abilities(caller.role);
   return {
@@ -57,7 +77,12 @@ export async function projectDetail(db: Db | Knex.Transaction, caller: Caller, i
     storeyHeightM: Number(row.storey_height_m),
     floorAreaM2: row.floor_area_m2 === null ? null : Number(row.floor_area_m2),
     members: members.map((m) => ({ id: m.id, displayName: m.display_name, role: m.firm_role ?? 'client' })),
-    finance: can.seeFinance ? { estimatedCost: row.estimated_cost === null ? null : Number(row.estimated_cost), currency: row.currency.trim() } : null,
+    finance: can.seeFinance
+      ? {
+          estimatedCost: row.estimated_cost === null ? null : Number(row.estimated_cost),
+          currency: row.currency.trim(),
+        }
+      : null,
     abilities: can,
   };
 }
@@ -80,7 +105,10 @@ export async function projectPage(db: Db | Knex.Transaction, caller: Caller, id:
 
 async function checkClientOrganisation(trx: Knex.Transaction, caller: Caller, id: string): Promise<void> {
   const org = await trx('client_organisations').where({ id, firm_id: caller.firmId }).first('id');
-  if (!org) throw new HttpError(400, 'validation_failed', 'No client organisation with this id.', { 'body.clientOrganisationId': ['unknown client organisation'] });
+  if (!org)
+    throw new HttpError(400, 'validation_failed', 'No client organisation with this id.', {
+      'body.clientOrganisationId': ['unknown client organisation'],
+    });
 }
 
 const UNIQUE_REFERENCE = 'projects_firm_id_reference_unique';
@@ -88,7 +116,9 @@ const UNIQUE_REFERENCE = 'projects_firm_id_reference_unique';
 function duplicateReference(err: unknown, reference: string | undefined): never {
   const e = err as { code?: string; constraint?: string };
   if (e.code === '23505' && e.constraint === UNIQUE_REFERENCE) {
-    throw new HttpError(409, 'conflict', `Another project already uses the reference ${reference}.`, { 'body.reference': ['already used by another project of the firm'] });
+    throw new HttpError(409, 'conflict', `Another project already uses the reference ${reference}.`, {
+      'body.reference': ['already used by another project of the firm'],
+    });
   }
   throw err;
 }
@@ -98,10 +128,17 @@ export async function createProject(db: Db, caller: Caller, input: ProjectCreate
   try {
     return await db.transaction(async (trx) => {
       await checkClientOrganisation(trx, caller, input.clientOrganisationId);
-      const [{ id }] = await trx('projects').insert({ ...projectColumns(input), firm_id: caller.firmId, created_by: caller.userId }).returning('id');
+      const [{ id }] = await trx('projects')
+        .insert({ ...projectColumns(input), firm_id: caller.firmId, created_by: caller.userId })
+        .returning('id');
       await insertStages(trx, id);
       await insertActivity(trx, {
-        firmId: caller.firmId, projectId: id, actorId: caller.userId, action: 'project.created', objectType: 'project', objectId: id,
+        firmId: caller.firmId,
+        projectId: id,
+        actorId: caller.userId,
+        action: 'project.created',
+        objectType: 'project',
+        objectId: id,
         summary: `${caller.displayName} created the project ${input.reference} ${input.name}`,
       });
       return projectPage(trx, caller, id);
@@ -116,7 +153,8 @@ export async function updateProject(db: Db, caller: Caller, id: string, patch: P
   try {
     return await db.transaction(async (trx) => {
       const project = await lockProject(trx, id);
-      if (project.archived_at) throw new HttpError(409, 'conflict', 'This project is archived; restore it before editing it.');
+      if (project.archived_at)
+        throw new HttpError(409, 'conflict', 'This project is archived; restore it before editing it.');
       if (patch.clientOrganisationId) await checkClientOrganisation(trx, caller, patch.clientOrganisationId);
       const before = await getProject(trx, caller.firmId, id);
       const columns = projectColumns(patch);
@@ -128,13 +166,23 @@ export async function updateProject(db: Db, caller: Caller, id: string, patch: P
         return JSON.stringify(normalise(was)) !== JSON.stringify(normalise(now));
       });
       if (!changed.length) return projectPage(trx, caller, id);
-      await trx('projects').where({ id }).update({ ...columns, updated_at: trx.fn.now() });
+      await trx('projects')
+        .where({ id })
+        .update({ ...columns, updated_at: trx.fn.now() });
       if (patch.clientOrganisationId && patch.clientOrganisationId !== before.client_organisation_id) {
         // The old organisation's contacts lose a project that is no longer theirs.
-        await trx('project_members').where({ project_id: id }).whereIn('user_id', trx('users').whereNotNull('client_organisation_id').select('id')).del();
+        await trx('project_members')
+          .where({ project_id: id })
+          .whereIn('user_id', trx('users').whereNotNull('client_organisation_id').select('id'))
+          .del();
       }
       await insertActivity(trx, {
-        firmId: caller.firmId, projectId: id, actorId: caller.userId, action: 'project.updated', objectType: 'project', objectId: id,
+        firmId: caller.firmId,
+        projectId: id,
+        actorId: caller.userId,
+        action: 'project.updated',
+        objectType: 'project',
+        objectId: id,
         summary: `${caller.displayName} changed the ${changed.map((k) => FIELD_LABELS[k] ?? k).join(', ')}`,
         details: { fields: changed },
       });
@@ -157,11 +205,22 @@ export async function setArchived(db: Db, caller: Caller, id: string, archive: b
   return db.transaction(async (trx) => {
     const project = await lockProject(trx, id);
     if (Boolean(project.archived_at) === archive) {
-      throw new HttpError(409, 'conflict', archive ? 'This project is already archived.' : 'This project is not archived.');
+      throw new HttpError(
+        409,
+        'conflict',
+        archive ? 'This project is already archived.' : 'This project is not archived.',
+      );
     }
-    await trx('projects').where({ id }).update({ archived_at: archive ? trx.fn.now() : null, updated_at: trx.fn.now() });
+    await trx('projects')
+      .where({ id })
+      .update({ archived_at: archive ? trx.fn.now() : null, updated_at: trx.fn.now() });
     await insertActivity(trx, {
-      firmId: caller.firmId, projectId: id, actorId: caller.userId, action: archive ? 'project.archived' : 'project.restored', objectType: 'project', objectId: id,
+      firmId: caller.firmId,
+      projectId: id,
+      actorId: caller.userId,
+      action: archive ? 'project.archived' : 'project.restored',
+      objectType: 'project',
+      objectId: id,
       summary: `${caller.displayName} ${archive ? 'archived' : 'restored'} the project`,
     });
     return projectPage(trx, caller, id);

@@ -81,7 +81,12 @@ export interface Refusal {
  * Why this caller may not take this action on the stage now, or null when they may. A move the
  * state does not allow is a 409 saying what is allowed; the right move by the wrong person is a 403.
  */
-export function transitionRefusal(action: StageAction, stage: StageFacts, caller: ActingCaller, archived = false): Refusal | null {
+export function transitionRefusal(
+  action: StageAction,
+  stage: StageFacts,
+  caller: ActingCaller,
+  archived = false,
+): Refusal | null {
   const title = STAGE_TITLES[stage.key];
   if (archived) return { status: 409, message: 'This project is archived; restore it before changing its stages.' };
   const t = TRANSITIONS[action];
@@ -97,7 +102,10 @@ export function transitionRefusal(action: StageAction, stage: StageFacts, caller
   if (!mayAct(t, stage, caller)) {
     return {
       status: 403,
-      message: t.by === 'principal' ? `Only the principal can ${DOING[action]}.` : `Only the engineer assigned to ${title} can ${DOING[action]}.`,
+      message:
+        t.by === 'principal'
+          ? `Only the principal can ${DOING[action]}.`
+          : `Only the engineer assigned to ${title} can ${DOING[action]}.`,
     };
   }
   return null;
@@ -114,7 +122,9 @@ function join(items: string[]): string {
 /** Deliverables may change while the work is open, not while it is reviewed or once approved. */
 export function uploadRefusal(stage: StageFacts, archived: boolean): string | null {
   if (archived) return 'This project is archived; restore it before adding files.';
-  if (stage.state === 'under_review') return `${STAGE_TITLES[stage.key]} is under review; files can be added once it is returned or reopened.`;
-  if (stage.state === 'approved') return `${STAGE_TITLES[stage.key]} is approved; the principal reopens it before files can change.`;
+  if (stage.state === 'under_review')
+    return `${STAGE_TITLES[stage.key]} is under review; files can be added once it is returned or reopened.`;
+  if (stage.state === 'approved')
+    return `${STAGE_TITLES[stage.key]} is approved; the principal reopens it before files can change.`;
   return null;
 }

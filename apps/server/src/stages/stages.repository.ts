@@ -28,12 +28,22 @@ function stagesQuery(db: Q) {
   return db('stages as s')
     .leftJoin('users as u', 'u.id', 's.assignee_id')
     .select(
-      's.project_id', 's.key', 's.position', 's.state', 's.assignee_id', 'u.display_name as assignee_name',
+      's.project_id',
+      's.key',
+      's.position',
+      's.state',
+      's.assignee_id',
+      'u.display_name as assignee_name',
       db.raw(`to_char(s.due_date, 'YYYY-MM-DD') as due_date`),
       db.raw(`(s.due_date is not null and s.due_date < current_date and s.state <> 'approved') as late`),
-      's.submitted_at', 's.approved_at',
-      db.raw('(select count(*)::int from deliverables d where d.project_id = s.project_id and d.stage_key = s.key) as deliverable_count'),
-      db.raw('(select count(*)::int from stage_comments c where c.project_id = s.project_id and c.stage_key = s.key) as comment_count'),
+      's.submitted_at',
+      's.approved_at',
+      db.raw(
+        '(select count(*)::int from deliverables d where d.project_id = s.project_id and d.stage_key = s.key) as deliverable_count',
+      ),
+      db.raw(
+        '(select count(*)::int from stage_comments c where c.project_id = s.project_id and c.stage_key = s.key) as comment_count',
+      ),
     );
 }
 
@@ -46,12 +56,23 @@ export async function getStage(db: Q, projectId: string, key: StageKey): Promise
 }
 
 /** Locks the stage row for the rest of the transaction: two people acting at once take turns. */
-export async function lockStage(trx: Knex.Transaction, projectId: string, key: StageKey): Promise<{ state: StageState; assignee_id: string | null } | undefined> {
+export async function lockStage(
+  trx: Knex.Transaction,
+  projectId: string,
+  key: StageKey,
+): Promise<{ state: StageState; assignee_id: string | null } | undefined> {
   return trx('stages').where({ project_id: projectId, key }).forUpdate().first('state', 'assignee_id');
 }
 
-export async function updateStage(trx: Q, projectId: string, key: StageKey, patch: Record<string, unknown>): Promise<void> {
-  await trx('stages').where({ project_id: projectId, key }).update({ ...patch, updated_at: trx.fn.now() });
+export async function updateStage(
+  trx: Q,
+  projectId: string,
+  key: StageKey,
+  patch: Record<string, unknown>,
+): Promise<void> {
+  await trx('stages')
+    .where({ project_id: projectId, key })
+    .update({ ...patch, updated_at: trx.fn.now() });
 }
 
 export async function insertComment(
@@ -79,7 +100,15 @@ export async function listComments(db: Q, projectId: string, key: StageKey, only
     .join('users as u', 'u.id', 'c.author_id')
     .where({ 'c.project_id': projectId, 'c.stage_key': key })
     .orderBy([{ column: 'c.created_at' }, { column: 'c.id' }])
-    .select('c.id', 'c.stage_key', 'c.author_id', 'u.display_name as author_name', 'c.body', 'c.action', 'c.created_at');
+    .select(
+      'c.id',
+      'c.stage_key',
+      'c.author_id',
+      'u.display_name as author_name',
+      'c.body',
+      'c.action',
+      'c.created_at',
+    );
   if (onlyId) q.andWhere('c.id', onlyId);
   return q;
 }

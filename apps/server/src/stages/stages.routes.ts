@@ -1,6 +1,12 @@
 import type { Request } from 'express';
 import { z } from 'zod';
-import { commentCreateSchema, stageKeySchema, stagePatchSchema, stageTransitionSchema, type StageKey } from '@trabeate/contracts';
+import {
+  commentCreateSchema,
+  stageKeySchema,
+  stagePatchSchema,
+  stageTransitionSchema,
+  type StageKey,
+} from '@trabeate/contracts';
 import type { Db } from '../db/db';
 import { validate } from '../core/validate';
 import { route, type RouteDecl } from '../access/registry';
@@ -15,24 +21,55 @@ const stageParams = z.object({ projectId: z.uuid(), stageKey: stageKeySchema });
 const keyOf = (req: Request) => req.params['stageKey'] as StageKey;
 
 export function stageRoutes(db: Db, notices: Notices): RouteDecl[] {
-  const archived = async (projectId: string) => Boolean((await db('projects').where({ id: projectId }).first('archived_at'))?.archived_at);
+  const archived = async (projectId: string) =>
+    Boolean((await db('projects').where({ id: projectId }).first('archived_at'))?.archived_at);
   return [
-    route('get', '/projects/:projectId/stages', 'project:read', validate({ params: projectParams }), async (req, res) => {
-      const id = req.project!.id;
-      const isArchived = await archived(id);
-      res.json((await listStages(db, id)).map((s) => stageOf(s, callerOf(req), isArchived)));
-    }),
-    route('patch', '/projects/:projectId/stages/:stageKey', 'project:manage', validate({ params: stageParams, body: stagePatchSchema }), async (req, res) => {
-      res.json(await patchStage(db, callerOf(req), req.project!.id, keyOf(req), req.body));
-    }),
-    route('post', '/projects/:projectId/stages/:stageKey/transitions', 'project:work', validate({ params: stageParams, body: stageTransitionSchema }), async (req, res) => {
-      res.json(await transition(db, notices, callerOf(req), req.project!.id, keyOf(req), req.body));
-    }),
-    route('get', '/projects/:projectId/stages/:stageKey/comments', 'project:read', validate({ params: stageParams }), async (req, res) => {
-      res.json((await listComments(db, req.project!.id, keyOf(req))).map(commentOf));
-    }),
-    route('post', '/projects/:projectId/stages/:stageKey/comments', 'project:work', validate({ params: stageParams, body: commentCreateSchema }), async (req, res) => {
-      res.status(201).json(await addComment(db, callerOf(req), req.project!.id, keyOf(req), req.body.body));
-    }),
+    route(
+      'get',
+      '/projects/:projectId/stages',
+      'project:read',
+      validate({ params: projectParams }),
+      async (req, res) => {
+        const id = req.project!.id;
+        const isArchived = await archived(id);
+        res.json((await listStages(db, id)).map((s) => stageOf(s, callerOf(req), isArchived)));
+      },
+    ),
+    route(
+      'patch',
+      '/projects/:projectId/stages/:stageKey',
+      'project:manage',
+      validate({ params: stageParams, body: stagePatchSchema }),
+      async (req, res) => {
+        res.json(await patchStage(db, callerOf(req), req.project!.id, keyOf(req), req.body));
+      },
+    ),
+    route(
+      'post',
+      '/projects/:projectId/stages/:stageKey/transitions',
+      'project:work',
+      validate({ params: stageParams, body: stageTransitionSchema }),
+      async (req, res) => {
+        res.json(await transition(db, notices, callerOf(req), req.project!.id, keyOf(req), req.body));
+      },
+    ),
+    route(
+      'get',
+      '/projects/:projectId/stages/:stageKey/comments',
+      'project:read',
+      validate({ params: stageParams }),
+      async (req, res) => {
+        res.json((await listComments(db, req.project!.id, keyOf(req))).map(commentOf));
+      },
+    ),
+    route(
+      'post',
+      '/projects/:projectId/stages/:stageKey/comments',
+      'project:work',
+      validate({ params: stageParams, body: commentCreateSchema }),
+      async (req, res) => {
+        res.status(201).json(await addComment(db, callerOf(req), req.project!.id, keyOf(req), req.body.body));
+      },
+    ),
   ];
 }

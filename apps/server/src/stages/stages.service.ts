@@ -14,7 +14,15 @@ import type { Caller } from '../access/policy';
 import { insertActivity } from '../activity/activity.repository';
 import type { Notices } from '../notices/notices';
 import { lockProject, type ProjectContext } from '../projects/projects.repository';
-import { getStage, insertComment, listComments, lockStage, updateStage, type CommentRow, type StageRow } from './stages.repository';
+import {
+  getStage,
+  insertComment,
+  listComments,
+  lockStage,
+  updateStage,
+  type CommentRow,
+  type StageRow,
+} from './stages.repository';
 import { allowedActions, STATE_WORDS, transitionRefusal, TRANSITIONS } from './stage-rules';
 
 export function stageOf(r: StageRow, caller: Caller, archived: boolean): Stage {
@@ -50,11 +58,18 @@ async function loadStage(db: Db | Knex.Transaction, projectId: string, key: Stag
 }
 
 function refuseIfArchived(project: ProjectContext): void {
-  if (project.archived_at) throw new HttpError(409, 'conflict', 'This project is archived; restore it before changing it.');
+  if (project.archived_at)
+    throw new HttpError(409, 'conflict', 'This project is archived; restore it before changing it.');
 }
 
 /** Assigns an engineer and sets the due date (principal). An engineer not yet on the team joins it. */
-export async function patchStage(db: Db, caller: Caller, projectId: string, key: StageKey, patch: StagePatch): Promise<Stage> {
+export async function patchStage(
+  db: Db,
+  caller: Caller,
+  projectId: string,
+  key: StageKey,
+  patch: StagePatch,
+): Promise<Stage> {
   const project = await db.transaction(async (trx) => {
     const project = await lockProject(trx, projectId);
     refuseIfArchived(project);
@@ -67,16 +82,28 @@ export async function patchStage(db: Db, caller: Caller, projectId: string, key:
         changes['assignee_id'] = null;
         said.push('removed the assigned engineer');
       } else {
-        const person = await trx('users').where({ id: patch.assigneeId, firm_id: caller.firmId }).whereNull('disabled_at').first('id', 'firm_role', 'display_name');
+        const person = await trx('users')
+          .where({ id: patch.assigneeId, firm_id: caller.firmId })
+          .whereNull('disabled_at')
+          .first('id', 'firm_role', 'display_name');
         if (!person || person.firm_role !== 'engineer') {
-          throw new HttpError(400, 'validation_failed', 'Stages are assigned to one of the firm\'s engineers.', { 'body.assigneeId': ['not an engineer of this firm'] });
+          throw new HttpError(400, 'validation_failed', "Stages are assigned to one of the firm's engineers.", {
+            'body.assigneeId': ['not an engineer of this firm'],
+          });
         }
         const joined = await trx('project_members')
           .insert({ project_id: projectId, user_id: person.id, added_by: caller.userId })
-          .onConflict(['project_id', 'user_id']).ignore().returning('user_id');
+          .onConflict(['project_id', 'user_id'])
+          .ignore()
+          .returning('user_id');
         if (joined.length) {
           await insertActivity(trx, {
-            firmId: caller.firmId, projectId, actorId: caller.userId, action: 'membership.added', objectType: 'membership', objectId: person.id,
+            firmId: caller.firmId,
+            projectId,
+            actorId: caller.userId,
+            action: 'membership.added',
+            objectType: 'membership',
+            objectId: person.id,
             summary: `${caller.displayName} added ${person.display_name} to the project team`,
           });
         }
@@ -91,7 +118,13 @@ export async function patchStage(db: Db, caller: Caller, projectId: string, key:
     if (Object.keys(changes).length) {
       await updateStage(trx, projectId, key, changes);
       await insertActivity(trx, {
-        firmId: caller.firmId, projectId, actorId: caller.userId, action: 'stage.updated', objectType: 'stage', objectId: `${projectId}:${key}`, stageKey: key,
+        firmId: caller.firmId,
+        projectId,
+        actorId: caller.userId,
+        action: 'stage.updated',
+        objectType: 'stage',
+        objectId: `${projectId}:${key}`,
+        stageKey: key,
         summary: `${caller.displayName} ${said.join(' and ')} on ${STAGE_TITLES[key]}`,
         details: { ...patch },
       });
@@ -115,14 +148,27 @@ const VERB: Record<StageAction, string> = {
  * move it; records the comment that came with it, the activity entry and the e-mail notice in
  * the same transaction.
  */
-export async function transition(db: Db, notices: Notices, caller: Caller, projectId: string, key: StageKey, input: StageTransition): Promise<Stage> {
+export async function transition(
+  db: Db,
+  notices: Notices,
+  caller: Caller,
+  projectId: string,
+  key: StageKey,
+  input: StageTransition,
+): Promise<Stage> {
   const title = STAGE_TITLES[key];
   const project = await db.transaction(async (trx) => {
     const project = await lockProject(trx, projectId);
     const current = await lockStage(trx, projectId, key);
     if (!current) throw notFound('No stage with this key.');
-    const refusal = transitionRefusal(input.action, { key, state: current.state, assigneeId: current.assignee_id }, caller, Boolean(project.archived_at));
-    if (refusal) throw new HttpError(refusal.status, refusal.status === 409 ? 'conflict' : 'forbidden', refusal.message);
+    const refusal = transitionRefusal(
+      input.action,
+      { key, state: current.state, assigneeId: current.assignee_id },
+      caller,
+      Boolean(project.archived_at),
+    );
+    if (refusal)
+      throw new HttpError(refusal.status, refusal.status === 409 ? 'conflict' : 'forbidden', refusal.message);
 
     const t = TRANSITIONS[input.action];
     const changes: Record<string, unknown> = { state: t.to };
@@ -133,9 +179,16 @@ export async function transition(db: Db, notices: Notices, caller: Caller, proje
     await updateStage(trx, projectId, key, changes);
 
     const text = input.action === 'reopen' ? input.reason : 'comment' in input ? input.comment : undefined;
-    if (text) await insertComment(trx, { projectId, stageKey: key, authorId: caller.userId, body: text, action: input.action });
+    if (text)
+      await insertComment(trx, { projectId, stageKey: key, authorId: caller.userId, body: text, action: input.action });
     await insertActivity(trx, {
-      firmId: caller.firmId, projectId, actorId: caller.userId, action: `stage.${VERB[input.action]}`, objectType: 'stage', objectId: `${projectId}:${key}`, stageKey: key,
+      firmId: caller.firmId,
+      projectId,
+      actorId: caller.userId,
+      action: `stage.${VERB[input.action]}`,
+      objectType: 'stage',
+      objectId: `${projectId}:${key}`,
+      stageKey: key,
       summary: `${caller.displayName} ${VERB[input.action]} ${title}${input.action === 'submit' ? ' for review' : ''}`,
       details: { from: current.state, to: t.to, ...(text ? { comment: text } : {}) },
     });
@@ -144,16 +197,38 @@ export async function transition(db: Db, notices: Notices, caller: Caller, proje
     const link = notices.link(`/projects/${projectId}`);
     const common = { firmName: project.firm_name, projectName: project.name, stageName: title, link };
     if (input.action === 'submit') {
-      const principals = await trx('users').where({ firm_id: caller.firmId, firm_role: 'principal' }).whereNull('disabled_at').select('email', 'display_name');
+      const principals = await trx('users')
+        .where({ firm_id: caller.firmId, firm_role: 'principal' })
+        .whereNull('disabled_at')
+        .select('email', 'display_name');
       for (const p of principals) {
-        await notices.send(trx, { to: p.email, template: 'stage-submitted', data: { ...common, recipientName: p.display_name, submittedBy: caller.displayName, note: text } });
+        await notices.send(trx, {
+          to: p.email,
+          template: 'stage-submitted',
+          data: { ...common, recipientName: p.display_name, submittedBy: caller.displayName, note: text },
+        });
       }
     } else if (input.action === 'return' || input.action === 'approve') {
-      const engineer = current.assignee_id ? await trx('users').where({ id: current.assignee_id }).whereNull('disabled_at').first('email', 'display_name') : undefined;
+      const engineer = current.assignee_id
+        ? await trx('users').where({ id: current.assignee_id }).whereNull('disabled_at').first('email', 'display_name')
+        : undefined;
       if (engineer && input.action === 'return') {
-        await notices.send(trx, { to: engineer.email, template: 'stage-returned', data: { ...common, recipientName: engineer.display_name, returnedBy: caller.displayName, comment: input.comment } });
+        await notices.send(trx, {
+          to: engineer.email,
+          template: 'stage-returned',
+          data: {
+            ...common,
+            recipientName: engineer.display_name,
+            returnedBy: caller.displayName,
+            comment: input.comment,
+          },
+        });
       } else if (engineer) {
-        await notices.send(trx, { to: engineer.email, template: 'stage-approved', data: { ...common, recipientName: engineer.display_name, approvedBy: caller.displayName } });
+        await notices.send(trx, {
+          to: engineer.email,
+          template: 'stage-approved',
+          data: { ...common, recipientName: engineer.display_name, approvedBy: caller.displayName },
+        });
       }
     }
     return project;
@@ -161,14 +236,26 @@ export async function transition(db: Db, notices: Notices, caller: Caller, proje
   return stageOf(await loadStage(db, projectId, key), caller, Boolean(project.archived_at));
 }
 
-export async function addComment(db: Db, caller: Caller, projectId: string, key: StageKey, body: string): Promise<Comment> {
+export async function addComment(
+  db: Db,
+  caller: Caller,
+  projectId: string,
+  key: StageKey,
+  body: string,
+): Promise<Comment> {
   const id = await db.transaction(async (trx) => {
     const project = await lockProject(trx, projectId);
     refuseIfArchived(project);
     if (!(await lockStage(trx, projectId, key))) throw notFound('No stage with this key.');
     const { id } = await insertComment(trx, { projectId, stageKey: key, authorId: caller.userId, body, action: null });
     await insertActivity(trx, {
-      firmId: caller.firmId, projectId, actorId: caller.userId, action: 'comment.added', objectType: 'comment', objectId: id, stageKey: key,
+      firmId: caller.firmId,
+      projectId,
+      actorId: caller.userId,
+      action: 'comment.added',
+      objectType: 'comment',
+      objectId: id,
+      stageKey: key,
       summary: `${caller.displayName} commented on ${STAGE_TITLES[key]}`,
     });
     return id;

@@ -157,12 +157,25 @@ export function createObjectStore(config: ObjectStoreConfig): ObjectStore {
 
 function isNotFound(err: unknown): boolean {
   if (!(err instanceof S3ServiceException)) return false;
-  return err.$metadata.httpStatusCode === 404 || err.name === 'NotFound' || err.name === 'NoSuchKey' || err.name === 'NoSuchBucket';
+  return (
+    err.$metadata.httpStatusCode === 404 ||
+    err.name === 'NotFound' ||
+    err.name === 'NoSuchKey' ||
+    err.name === 'NoSuchBucket'
+  );
 }
 
 /** RFC 6266: an ASCII fallback for old clients plus the exact UTF-8 name. */
 export function contentDisposition(fileName: string): string {
-  const ascii = fileName.normalize('NFKD').replace(/[^\x20-\x7e]/g, '').replace(/["\\]/g, '').trim() || 'download';
-  const encoded = encodeURIComponent(fileName).replace(/['()*]/g, (c) => `%${c.charCodeAt(0).toString(16).toUpperCase()}`);
+  const ascii =
+    fileName
+      .normalize('NFKD')
+      .replace(/[^\x20-\x7e]/g, '')
+      .replace(/["\\]/g, '')
+      .trim() || 'download';
+  const encoded = encodeURIComponent(fileName).replace(
+    /['()*]/g,
+    (c) => `%${c.charCodeAt(0).toString(16).toUpperCase()}`,
+  );
   return `attachment; filename="${ascii}"; filename*=UTF-8''${encoded}`;
 }

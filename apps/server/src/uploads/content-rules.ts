@@ -8,7 +8,8 @@ import { fileTypeFromBuffer } from 'file-type/core';
  * Zip-based kinds (zip, docx, xlsx) and the legacy xls container are checked again after upload,
  * by reading their directory from the object store (see archive-check.ts).
  */
-export type DeliverableKind = 'pdf' | 'dwg' | 'dxf' | 'ifc' | 'xlsx' | 'xls' | 'csv' | 'docx' | 'txt' | 'png' | 'jpg' | 'zip';
+export type DeliverableKind =
+  'pdf' | 'dwg' | 'dxf' | 'ifc' | 'xlsx' | 'xls' | 'csv' | 'docx' | 'txt' | 'png' | 'jpg' | 'zip';
 
 interface KindRule {
   contentType: string;
@@ -28,8 +29,16 @@ export const DELIVERABLE_KINDS: Record<DeliverableKind, KindRule> = {
   ifc: { contentType: 'application/x-step', extensions: ['ifc'], sniffed: [], head: isStepFile, text: true },
   // file-type may name an Office file plain 'zip' when its marker part is not first; the
   // archive check then looks for the part that makes it a workbook or a document.
-  xlsx: { contentType: 'application/vnd.openxmlformats-officedocument.spreadsheetml.sheet', extensions: ['xlsx'], sniffed: ['xlsx', 'zip'] },
-  docx: { contentType: 'application/vnd.openxmlformats-officedocument.wordprocessingml.document', extensions: ['docx'], sniffed: ['docx', 'zip'] },
+  xlsx: {
+    contentType: 'application/vnd.openxmlformats-officedocument.spreadsheetml.sheet',
+    extensions: ['xlsx'],
+    sniffed: ['xlsx', 'zip'],
+  },
+  docx: {
+    contentType: 'application/vnd.openxmlformats-officedocument.wordprocessingml.document',
+    extensions: ['docx'],
+    sniffed: ['docx', 'zip'],
+  },
   // Legacy Excel lives in the same container as Windows installers (.msi): checked after upload.
   xls: { contentType: 'application/vnd.ms-excel', extensions: ['xls'], sniffed: ['cfb'] },
   csv: { contentType: 'text/csv', extensions: ['csv'], sniffed: [], text: true },
@@ -42,14 +51,34 @@ export const DELIVERABLE_KINDS: Record<DeliverableKind, KindRule> = {
 export const ACCEPTED_EXTENSIONS: string[] = Object.values(DELIVERABLE_KINDS).flatMap((k) => k.extensions);
 
 export function kindForExtension(ext: string): DeliverableKind | undefined {
-  return (Object.keys(DELIVERABLE_KINDS) as DeliverableKind[]).find((k) => DELIVERABLE_KINDS[k].extensions.includes(ext));
+  return (Object.keys(DELIVERABLE_KINDS) as DeliverableKind[]).find((k) =>
+    DELIVERABLE_KINDS[k].extensions.includes(ext),
+  );
 }
 
 /** How many leading bytes are held back and sniffed before anything is sent to storage. */
 export const SNIFF_BYTES = 64 * 1024;
 
 // file-type names for programs and installers: refused whatever the file claims to be.
-const EXECUTABLE_TYPES = new Set(['exe', 'elf', 'macho', 'class', 'dex', 'wasm', 'apk', 'jar', 'msi', 'deb', 'rpm', 'xpi', 'crx', 'lnk', 'swf', 'dmg', 'pkg']);
+const EXECUTABLE_TYPES = new Set([
+  'exe',
+  'elf',
+  'macho',
+  'class',
+  'dex',
+  'wasm',
+  'apk',
+  'jar',
+  'msi',
+  'deb',
+  'rpm',
+  'xpi',
+  'crx',
+  'lnk',
+  'swf',
+  'dmg',
+  'pkg',
+]);
 
 /** Names the kind of program the bytes start with, or null when they do not start like one. */
 export function executableSignature(head: Buffer): string | null {
@@ -75,7 +104,12 @@ export type SniffResult =
 /** Checks the first bytes of a file against the kind its extension claims. */
 export async function sniff(head: Buffer, claimedExt: string): Promise<SniffResult> {
   const program = executableSignature(head);
-  if (program) return { ok: false, reason: 'executable', message: `The file is ${program}; programs and scripts are not accepted.` };
+  if (program)
+    return {
+      ok: false,
+      reason: 'executable',
+      message: `The file is ${program}; programs and scripts are not accepted.`,
+    };
 
   const kind = kindForExtension(claimedExt);
   if (!kind) {
@@ -88,7 +122,11 @@ export async function sniff(head: Buffer, claimedExt: string): Promise<SniffResu
   const rule = DELIVERABLE_KINDS[kind];
   const detected = head.length > 0 ? await fileTypeFromBuffer(head).catch(() => undefined) : undefined;
   if (detected && EXECUTABLE_TYPES.has(detected.ext)) {
-    return { ok: false, reason: 'executable', message: `The file is a program or installer (${detected.ext}); these are not accepted.` };
+    return {
+      ok: false,
+      reason: 'executable',
+      message: `The file is a program or installer (${detected.ext}); these are not accepted.`,
+    };
   }
   const mismatch = (what: string): SniffResult => ({
     ok: false,

@@ -30,7 +30,8 @@ export function deliverableUpload(opts: DeliverableUploadOptions): RequestHandle
   return (req, res, next) => {
     parse(req, res, (err?: unknown) => {
       if (err) return next(translate(err, field, opts.maxBytes));
-      if (!req.file) return next(rejection('missing', `No file was sent (expected a multipart form with the file in "${field}").`));
+      if (!req.file)
+        return next(rejection('missing', `No file was sent (expected a multipart form with the file in "${field}").`));
       next();
     });
   };

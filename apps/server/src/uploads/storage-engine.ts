@@ -47,7 +47,10 @@ export function deliverableStorage(opts: DeliverableStorageOptions): StorageEngi
     _removeFile(_req, file, cb) {
       const key = (file as Partial<StoredUpload>).key;
       if (!key) return cb(null);
-      opts.store.remove(key).then(() => cb(null), (err: Error) => cb(err));
+      opts.store.remove(key).then(
+        () => cb(null),
+        (err: Error) => cb(err),
+      );
     },
   };
 }
@@ -139,7 +142,15 @@ async function storeFile(req: Request, file: MulterFile, opts: DeliverableStorag
     throw err;
   }
 
-  return { key, sha256: hash.digest('hex'), size, detectedType: verdict.kind, contentType: verdict.contentType, originalName, safeName };
+  return {
+    key,
+    sha256: hash.digest('hex'),
+    size,
+    detectedType: verdict.kind,
+    contentType: verdict.contentType,
+    originalName,
+    safeName,
+  };
 }
 
 export function formatBytes(n: number): string {

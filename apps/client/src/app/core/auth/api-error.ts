@@ -18,7 +18,10 @@ export function apiError(err: unknown): ApiErrorBody | null {
 }
 
 /** A sentence for the user: the server's own message, else a fallback that says what happened. */
-export function errorMessage(err: unknown, fallback = 'The server could not be reached. Check the connection and try again.'): string {
+export function errorMessage(
+  err: unknown,
+  fallback = 'The server could not be reached. Check the connection and try again.',
+): string {
   return apiError(err)?.message ?? fallback;
 }
 

@@ -41,10 +41,12 @@ describe('authInterceptor', () => {
 
   it('when a request answers 401, goes to the sign-in page with the current address to come back to', async () => {
     const result = firstValueFrom(http.get('/api/projects'));
-    backend.expectOne('/api/projects').flush(
-      { error: { code: 'unauthenticated', message: 'Sign in first.' } },
-      { status: 401, statusText: 'Unauthorized' },
-    );
+    backend
+      .expectOne('/api/projects')
+      .flush(
+        { error: { code: 'unauthenticated', message: 'Sign in first.' } },
+        { status: 401, statusText: 'Unauthorized' },
+      );
     await expect(result).rejects.toMatchObject({ status: 401 });
     await new Promise((r) => setTimeout(r));
     const url = router.parseUrl(router.url);
@@ -55,18 +57,25 @@ describe('authInterceptor', () => {
 
   it('when the session expired, says so on the sign-in page', async () => {
     const result = firstValueFrom(http.get('/api/projects'));
-    backend.expectOne('/api/projects').flush(
-      { error: { code: 'session_expired', message: 'Your session has ended.' } },
-      { status: 401, statusText: 'Unauthorized' },
-    );
+    backend
+      .expectOne('/api/projects')
+      .flush(
+        { error: { code: 'session_expired', message: 'Your session has ended.' } },
+        { status: 401, statusText: 'Unauthorized' },
+      );
     await expect(result).rejects.toBeTruthy();
     await new Promise((r) => setTimeout(r));
-    expect(router.parseUrl(router.url).queryParams).toEqual({ returnTo: '/projects/abc?tab=members', reason: 'expired' });
+    expect(router.parseUrl(router.url).queryParams).toEqual({
+      returnTo: '/projects/abc?tab=members',
+      reason: 'expired',
+    });
   });
 
   it('does not leave the page for a 401 that the request expects (who am I, public pages)', async () => {
     const result = firstValueFrom(http.get('/api/me', { context: anonymousOk() }));
-    backend.expectOne('/api/me').flush({ error: { code: 'unauthenticated', message: 'x' } }, { status: 401, statusText: 'Unauthorized' });
+    backend
+      .expectOne('/api/me')
+      .flush({ error: { code: 'unauthenticated', message: 'x' } }, { status: 401, statusText: 'Unauthorized' });
     await expect(result).rejects.toMatchObject({ status: 401 });
     await new Promise((r) => setTimeout(r));
     expect(router.url).toBe('/projects/abc?tab=members');
@@ -74,10 +83,12 @@ describe('authInterceptor', () => {
 
   it('when a request answers 403, shows the server’s reason and hands the error to the caller', async () => {
     const result = firstValueFrom(http.delete('/api/people/1/access'));
-    backend.expectOne('/api/people/1/access').flush(
-      { error: { code: 'forbidden', message: 'Only the principal can remove access.' } },
-      { status: 403, statusText: 'Forbidden' },
-    );
+    backend
+      .expectOne('/api/people/1/access')
+      .flush(
+        { error: { code: 'forbidden', message: 'Only the principal can remove access.' } },
+        { status: 403, statusText: 'Forbidden' },
+      );
     await expect(result).rejects.toMatchObject({ status: 403 });
     expect(shown).toEqual(['Only the principal can remove access.']);
     expect(router.url).toBe('/projects/abc?tab=members');
@@ -92,7 +103,9 @@ describe('authInterceptor', () => {
 
   it('leaves other errors to the caller', async () => {
     const result = firstValueFrom(http.get('/api/projects'));
-    backend.expectOne('/api/projects').flush({ error: { code: 'internal', message: 'x' } }, { status: 500, statusText: 'Error' });
+    backend
+      .expectOne('/api/projects')
+      .flush({ error: { code: 'internal', message: 'x' } }, { status: 500, statusText: 'Error' });
     await expect(result).rejects.toMatchObject({ status: 500 });
     expect(shown).toEqual([]);
     expect(router.url).toBe('/projects/abc?tab=members');

@@ -28,7 +28,9 @@ export const authInterceptor: HttpInterceptorFn = (req, next) => {
           const expired = apiError(err)?.code === 'session_expired';
           void router.navigate(['/sign-in'], { queryParams: { returnTo, ...(expired ? { reason: 'expired' } : {}) } });
         } else if (err.status === 403) {
-          notice.show(apiError(err)?.message ?? 'Your role does not allow this. Ask the firm’s principal if you need it.');
+          notice.show(
+            apiError(err)?.message ?? 'Your role does not allow this. Ask the firm’s principal if you need it.',
+          );
         }
       }
       return throwError(() => err);

@@ -41,7 +41,11 @@ describe('route guards', () => {
     const done = router.navigateByUrl(url);
     await new Promise((r) => setTimeout(r));
     const req = backend.expectOne('/api/me');
-    if (me === 'anonymous') req.flush({ error: { code: 'unauthenticated', message: 'Sign in first.' } }, { status: 401, statusText: 'Unauthorized' });
+    if (me === 'anonymous')
+      req.flush(
+        { error: { code: 'unauthenticated', message: 'Sign in first.' } },
+        { status: 401, statusText: 'Unauthorized' },
+      );
     else if (me === 'down') req.flush('Bad gateway', { status: 502, statusText: 'Bad Gateway' });
     else req.flush(me);
     await done;
@@ -64,14 +68,17 @@ describe('route guards', () => {
     expect(await visit('/people', grantedMe('principal'))).toBe('/people');
   });
 
-  it.each(['engineer', 'client'] as const)('shows the not-permitted page to a %s who opens People, keeping the address', async (role) => {
-    const done = router.navigateByUrl('/people');
-    await new Promise((r) => setTimeout(r));
-    backend.expectOne('/api/me').flush(grantedMe(role));
-    await done;
-    // skipLocationChange: the address bar keeps /people while the explanation shows.
-    expect(router.routerState.snapshot.url).toBe('/not-permitted');
-  });
+  it.each(['engineer', 'client'] as const)(
+    'shows the not-permitted page to a %s who opens People, keeping the address',
+    async (role) => {
+      const done = router.navigateByUrl('/people');
+      await new Promise((r) => setTimeout(r));
+      backend.expectOne('/api/me').flush(grantedMe(role));
+      await done;
+      // skipLocationChange: the address bar keeps /people while the explanation shows.
+      expect(router.routerState.snapshot.url).toBe('/not-permitted');
+    },
+  );
 
   it('keeps Fees from an engineer', async () => {
     await visit('/fees', grantedMe('engineer'));

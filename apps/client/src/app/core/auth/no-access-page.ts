@@ -27,7 +27,13 @@ import { Session } from './session';
       </p>
       <div class="actions">
         <button mat-flat-button type="button" (click)="reload()">Check again</button>
-        <button mat-stroked-button type="button" data-testid="sign-out" [disabled]="session.signingOut()" (click)="signOut()">
+        <button
+          mat-stroked-button
+          type="button"
+          data-testid="sign-out"
+          [disabled]="session.signingOut()"
+          (click)="signOut()"
+        >
           <mat-icon>logout</mat-icon>
           Sign out
         </button>
@@ -45,9 +51,7 @@ export class NoAccessPage {
     return s.status === 'none' ? s.me : null;
   });
   protected readonly identity = computed(() => this.me()?.identity ?? null);
-  protected readonly message = computed(
-    () => this.me()?.message ?? 'Your account is not linked to this firm yet.',
-  );
+  protected readonly message = computed(() => this.me()?.message ?? 'Your account is not linked to this firm yet.');
 
   protected async reload(): Promise<void> {
     await this.session.reload();

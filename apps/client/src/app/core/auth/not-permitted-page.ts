@@ -13,8 +13,8 @@ import { Session } from './session';
       <mat-icon class="mark" aria-hidden="true">block</mat-icon>
       <h1 id="not-permitted-heading">This page is not part of your role</h1>
       <p class="lead">
-        You are signed in as {{ session.roleLabel() || 'a person without a role' }}. This page belongs to another
-        role at the firm. If you need it for your work, ask the firm's principal.
+        You are signed in as {{ session.roleLabel() || 'a person without a role' }}. This page belongs to another role
+        at the firm. If you need it for your work, ask the firm's principal.
       </p>
       <div class="actions">
         <a mat-flat-button routerLink="/projects">Go to projects</a>

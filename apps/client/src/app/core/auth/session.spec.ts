@@ -38,7 +38,12 @@ describe('Session', () => {
 
   it('says the server is away when /api/me fails for another reason than 401', async () => {
     const done = session.load();
-    backend.expectOne('/api/me').flush({ error: { code: 'service_unavailable', message: 'The database is not answering.' } }, { status: 503, statusText: 'x' });
+    backend
+      .expectOne('/api/me')
+      .flush(
+        { error: { code: 'service_unavailable', message: 'The database is not answering.' } },
+        { status: 503, statusText: 'x' },
+      );
     await done;
     expect(session.state()).toEqual({ status: 'unreachable', message: 'The database is not answering.' });
   });

@@ -88,7 +88,9 @@ export class Session {
     this.signingOut.set(true);
     let target = '/';
     try {
-      const res = await firstValueFrom(this.http.post<LogoutResponse>('/api/auth/logout', {}, { context: anonymousOk() }));
+      const res = await firstValueFrom(
+        this.http.post<LogoutResponse>('/api/auth/logout', {}, { context: anonymousOk() }),
+      );
       target = res?.endSessionUrl ?? '/';
     } catch {
       // Already signed out on the server, or it is away: either way leave the signed-in screens.

@@ -20,8 +20,8 @@ import { Session, safeReturnTo } from './session';
         <p class="note" role="alert">{{ message }}</p>
       }
       <p class="lead">
-        Trabeate is the workspace for your structural projects: stages, schemes, drawings and fees. You sign in with
-        the account your firm gave you; you will come straight back here afterwards.
+        Trabeate is the workspace for your structural projects: stages, schemes, drawings and fees. You sign in with the
+        account your firm gave you; you will come straight back here afterwards.
       </p>
       <div class="actions">
         <button mat-flat-button type="button" data-testid="sign-in" (click)="signIn()">

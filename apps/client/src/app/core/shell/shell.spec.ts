@@ -36,7 +36,11 @@ describe('Shell', () => {
   async function start(me: Me | 'anonymous', outbox: 'absent' | 'present' = 'absent'): Promise<void> {
     const loaded = TestBed.inject(Session).load();
     const req = backend.expectOne('/api/me');
-    if (me === 'anonymous') req.flush({ error: { code: 'unauthenticated', message: 'Sign in first.' } }, { status: 401, statusText: 'Unauthorized' });
+    if (me === 'anonymous')
+      req.flush(
+        { error: { code: 'unauthenticated', message: 'Sign in first.' } },
+        { status: 401, statusText: 'Unauthorized' },
+      );
     else req.flush(me);
     await loaded;
     fixture = TestBed.createComponent(Shell);
@@ -46,7 +50,8 @@ describe('Shell', () => {
     // Only the principal asks whether the server keeps a development outbox.
     for (const probe of backend.match('/api/dev/outbox')) {
       if (outbox === 'present') probe.flush([]);
-      else probe.flush({ error: { code: 'not_found', message: 'Not found.' } }, { status: 404, statusText: 'Not Found' });
+      else
+        probe.flush({ error: { code: 'not_found', message: 'Not found.' } }, { status: 404, statusText: 'Not Found' });
     }
     await fixture.whenStable();
   }
@@ -70,67 +75,67 @@ describe('Shell', () => {
   describe('for a principal', () => {
     beforeEach(() => start(grantedMe('principal', 'Aster Pellow')));
 
-  it('shows the Trabeate wordmark linking home', () => {
-    const home = el().querySelector('a.wordmark');
-    expect(home?.textContent).toContain('Trabeate');
-    expect(home?.getAttribute('href')).toBe('/');
-  });
+    it('shows the Trabeate wordmark linking home', () => {
+      const home = el().querySelector('a.wordmark');
+      expect(home?.textContent).toContain('Trabeate');
+      expect(home?.getAttribute('href')).toBe('/');
+    });
 
-  it('offers Projects, Drawings, Fees, People and System status', () => {
-    expect(navItems()).toEqual([
-      ['nav-projects', 'Projects', '/projects'],
-      ['nav-drawings', 'Drawings', '/drawings'],
-      ['nav-fees', 'Fees', '/fees'],
-      ['nav-people', 'People', '/people'],
-      ['nav-status', 'System status', '/status'],
-    ]);
-  });
+    it('offers Projects, Drawings, Fees, People and System status', () => {
+      expect(navItems()).toEqual([
+        ['nav-projects', 'Projects', '/projects'],
+        ['nav-drawings', 'Drawings', '/drawings'],
+        ['nav-fees', 'Fees', '/fees'],
+        ['nav-people', 'People', '/people'],
+        ['nav-status', 'System status', '/status'],
+      ]);
+    });
 
-  it('shows the signed-in name and role, and signs out from the account panel', async () => {
-    const account = el().querySelector<HTMLButtonElement>('[data-testid="user-menu"]');
-    expect(account?.querySelector('[data-testid="user-name"]')?.textContent).toBe('Aster Pellow');
-    expect(account?.querySelector('[data-testid="user-role"]')?.textContent).toBe('Principal');
-    expect(el().querySelector('[data-testid="sign-out"]')).toBeNull();
+    it('shows the signed-in name and role, and signs out from the account panel', async () => {
+      const account = el().querySelector<HTMLButtonElement>('[data-testid="user-menu"]');
+      expect(account?.querySelector('[data-testid="user-name"]')?.textContent).toBe('Aster Pellow');
+      expect(account?.querySelector('[data-testid="user-role"]')?.textContent).toBe('Principal');
+      expect(el().querySelector('[data-testid="sign-out"]')).toBeNull();
 
-    account?.click();
-    await fixture.whenStable();
-    expect(account?.getAttribute('aria-expanded')).toBe('true');
-    (el().querySelector('[data-testid="sign-out"]') as HTMLButtonElement).click();
-    backend.expectOne('/api/auth/logout').flush({ endSessionUrl: null });
-    await new Promise((r) => setTimeout(r));
-    expect(went).toEqual(['/']);
-  });
+      account?.click();
+      await fixture.whenStable();
+      expect(account?.getAttribute('aria-expanded')).toBe('true');
+      (el().querySelector('[data-testid="sign-out"]') as HTMLButtonElement).click();
+      backend.expectOne('/api/auth/logout').flush({ endSessionUrl: null });
+      await new Promise((r) => setTimeout(r));
+      expect(went).toEqual(['/']);
+    });
 
-  it('carries the caution that results are preliminary and final design needs a licensed engineer', () => {
-    const caution = el().querySelector('[data-testid="caution"]')?.textContent?.replace(/\s+/g, ' ');
-    expect(caution).toContain(
-      'Trabeate plans and checks schemes; results are preliminary, local codes govern, and final design belongs to a licensed structural engineer.',
-    );
-  });
+    it('carries the caution that results are preliminary and final design needs a licensed engineer', () => {
+      const caution = el().querySelector('[data-testid="caution"]')?.textContent?.replace(/\s+/g, ' ');
+      expect(caution).toContain(
+        'Trabeate plans and checks schemes; results are preliminary, local codes govern, and final design belongs to a licensed structural engineer.',
+      );
+    });
 
-  it('on a wide screen keeps the navigation open beside the page, with no menu button', () => {
-    expect(menuButton()).toBeNull();
-    const nav = el().querySelector('mat-sidenav');
-    expect(nav?.classList).toContain('mat-drawer-side');
-    expect(nav?.classList).toContain('mat-drawer-opened');
-  });
+    it('on a wide screen keeps the navigation open beside the page, with no menu button', () => {
+      expect(menuButton()).toBeNull();
+      const nav = el().querySelector('mat-sidenav');
+      expect(nav?.classList).toContain('mat-drawer-side');
+      expect(nav?.classList).toContain('mat-drawer-opened');
+    });
 
-  it('on a narrow screen folds the navigation into a drawer that the menu button opens', async () => {
-    breakpoints.narrow.next(true);
-    await fixture.whenStable();
+    it('on a narrow screen folds the navigation into a drawer that the menu button opens', async () => {
+      breakpoints.narrow.next(true);
+      await fixture.whenStable();
 
-    const nav = el().querySelector('mat-sidenav');
-    expect(nav?.classList).toContain('mat-drawer-over');
-    expect(nav?.classList).not.toContain('mat-drawer-opened');
-    const button = menuButton() as HTMLButtonElement;
-    expect(button).not.toBeNull();
-    expect(button.getAttribute('aria-expanded')).toBe('false');
+      const nav = el().querySelector('mat-sidenav');
+      expect(nav?.classList).toContain('mat-drawer-over');
+      expect(nav?.classList).not.toContain('mat-drawer-opened');
+      const button = menuButton() as HTMLButtonElement;
+      expect(button).not.toBeNull();
+      expect(button.getAttribute('aria-expanded')).toBe('false');
 
-    button.click();
-    await fixture.whenStable();
-    expect(nav?.classList).toContain('mat-drawer-opened');
-    expect(button.getAttribute('aria-expanded')).toBe('true');
-  });
+      button.click();
+      await fixture.whenStable();
+      expect(nav?.classList).toContain('mat-drawer-opened');
+      expect(button.getAttribute('aria-expanded')).toBe('true');
+    });
   });
 
   describe('for a principal where the server keeps mail in its local fake', () => {

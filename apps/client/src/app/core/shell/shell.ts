@@ -20,11 +20,35 @@ export interface NavLink {
   readonly id: string;
 }
 
-const STATUS_LINK: NavLink = { id: 'status', path: '/status', label: 'System status', hint: 'Server and database', icon: 'monitor_heart' };
-const PROJECTS: NavLink = { id: 'projects', path: '/projects', label: 'Projects', hint: 'Buildings, stages, schemes', icon: 'apartment' };
+const STATUS_LINK: NavLink = {
+  id: 'status',
+  path: '/status',
+  label: 'System status',
+  hint: 'Server and database',
+  icon: 'monitor_heart',
+};
+const PROJECTS: NavLink = {
+  id: 'projects',
+  path: '/projects',
+  label: 'Projects',
+  hint: 'Buildings, stages, schemes',
+  icon: 'apartment',
+};
 /** Only when the server runs with the local mail fake; see `Shell.links`. */
-export const OUTBOX_LINK: NavLink = { id: 'outbox', path: '/dev/outbox', label: 'Outbox', hint: 'Mail kept by the local fake', icon: 'outgoing_mail' };
-const DRAWINGS: NavLink = { id: 'drawings', path: '/drawings', label: 'Drawings', hint: 'Revisions and transmittals', icon: 'architecture' };
+export const OUTBOX_LINK: NavLink = {
+  id: 'outbox',
+  path: '/dev/outbox',
+  label: 'Outbox',
+  hint: 'Mail kept by the local fake',
+  icon: 'outgoing_mail',
+};
+const DRAWINGS: NavLink = {
+  id: 'drawings',
+  path: '/drawings',
+  label: 'Drawings',
+  hint: 'Revisions and transmittals',
+  icon: 'architecture',
+};
 
 /**
  * What each role is offered. The server refuses the rest anyway; this keeps people away from
@@ -98,7 +122,9 @@ export class Shell {
     const role = this.session.role();
     if (!role) return [STATUS_LINK];
     const links = NAV_BY_ROLE[role];
-    return role === 'principal' && this.outbox.hasValue() ? [...links.slice(0, -1), OUTBOX_LINK, ...links.slice(-1)] : links;
+    return role === 'principal' && this.outbox.hasValue()
+      ? [...links.slice(0, -1), OUTBOX_LINK, ...links.slice(-1)]
+      : links;
   });
 
   protected readonly anonymous = computed(() => this.session.state().status === 'anonymous');

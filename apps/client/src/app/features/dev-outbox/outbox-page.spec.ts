@@ -24,7 +24,10 @@ describe('OutboxPage', () => {
   };
 
   beforeEach(() => {
-    TestBed.configureTestingModule({ imports: [OutboxPage], providers: [provideHttpClient(), provideHttpClientTesting()] });
+    TestBed.configureTestingModule({
+      imports: [OutboxPage],
+      providers: [provideHttpClient(), provideHttpClientTesting()],
+    });
     backend = TestBed.inject(HttpTestingController);
     fixture = TestBed.createComponent(OutboxPage);
     fixture.detectChanges();
@@ -32,7 +35,9 @@ describe('OutboxPage', () => {
   });
 
   it('lists messages newest first with recipient, subject and time, and opens the newest', async () => {
-    backend.expectOne('/api/dev/outbox').flush([message(1, '2026-03-02T08:00:00.000Z'), message(2, '2026-03-02T09:30:00.000Z')]);
+    backend
+      .expectOne('/api/dev/outbox')
+      .flush([message(1, '2026-03-02T08:00:00.000Z'), message(2, '2026-03-02T09:30:00.000Z')]);
     await settle();
     const items = Array.from(el().querySelectorAll('[data-testid="outbox-item"]'));
     expect(items.map((i) => i.querySelector('.subject')?.textContent)).toEqual(['Notice 2', 'Notice 1']);
@@ -41,7 +46,12 @@ describe('OutboxPage', () => {
   });
 
   it('shows the chosen message’s HTML in an iframe that may run no scripts and load nothing', async () => {
-    backend.expectOne('/api/dev/outbox').flush([message(1, '2026-03-02T08:00:00.000Z', '<p>Hi</p><script>alert(1)</script>'), message(2, '2026-03-02T09:30:00.000Z')]);
+    backend
+      .expectOne('/api/dev/outbox')
+      .flush([
+        message(1, '2026-03-02T08:00:00.000Z', '<p>Hi</p><script>alert(1)</script>'),
+        message(2, '2026-03-02T09:30:00.000Z'),
+      ]);
     await settle();
     (el().querySelectorAll('[data-testid="outbox-item"]')[1] as HTMLButtonElement).click();
     await settle();
@@ -61,9 +71,13 @@ describe('OutboxPage', () => {
   });
 
   it('says plainly when the server keeps no outbox (404)', async () => {
-    backend.expectOne('/api/dev/outbox').flush({ error: { code: 'not_found', message: 'Not found.' } }, { status: 404, statusText: 'Not Found' });
+    backend
+      .expectOne('/api/dev/outbox')
+      .flush({ error: { code: 'not_found', message: 'Not found.' } }, { status: 404, statusText: 'Not Found' });
     await settle();
-    expect(el().querySelector('[data-testid="outbox-error"]')?.textContent).toContain('does not keep a development outbox');
+    expect(el().querySelector('[data-testid="outbox-error"]')?.textContent).toContain(
+      'does not keep a development outbox',
+    );
   });
 
   it('says so when no mail has been sent yet', async () => {

@@ -27,9 +27,13 @@ export function sealedHtml(html: string): string {
     <div class="page-head">
       <div>
         <h1 class="page-title">Outbox</h1>
-        <p class="page-lead">Mail the app sent while running against the local mail fake. Nothing here left this machine.</p>
+        <p class="page-lead">
+          Mail the app sent while running against the local mail fake. Nothing here left this machine.
+        </p>
       </div>
-      <button mat-stroked-button type="button" data-testid="outbox-refresh" (click)="messages.reload()"><mat-icon>refresh</mat-icon>Refresh</button>
+      <button mat-stroked-button type="button" data-testid="outbox-refresh" (click)="messages.reload()">
+        <mat-icon>refresh</mat-icon>Refresh
+      </button>
     </div>
     @if (messages.error(); as err) {
       <div class="state error" role="alert" data-testid="outbox-error">
@@ -37,15 +41,28 @@ export function sealedHtml(html: string): string {
         <span>{{ failure(err) }}</span>
       </div>
     } @else if (!messages.hasValue()) {
-      <div class="state" role="status"><mat-progress-spinner mode="indeterminate" diameter="28" /> Loading the outbox…</div>
+      <div class="state" role="status">
+        <mat-progress-spinner mode="indeterminate" diameter="28" /> Loading the outbox…
+      </div>
     } @else if (sorted().length === 0) {
-      <tb-empty-state icon="outgoing_mail" heading="No mail yet" lead="Notices appear here when a stage is submitted, returned or approved." />
+      <tb-empty-state
+        icon="outgoing_mail"
+        heading="No mail yet"
+        lead="Notices appear here when a stage is submitted, returned or approved."
+      />
     } @else {
       <div class="split">
         <ul class="list" aria-label="Messages" data-testid="outbox-list">
           @for (m of sorted(); track m.id) {
             <li>
-              <button type="button" class="item" [class.selected]="m.id === selected()?.id" [attr.aria-current]="m.id === selected()?.id" (click)="selectedId.set(m.id)" data-testid="outbox-item">
+              <button
+                type="button"
+                class="item"
+                [class.selected]="m.id === selected()?.id"
+                [attr.aria-current]="m.id === selected()?.id"
+                (click)="selectedId.set(m.id)"
+                data-testid="outbox-item"
+              >
                 <span class="subject">{{ m.subject }}</span>
                 <span class="meta">To {{ m.to.join(', ') }}</span>
                 <time class="meta" [attr.datetime]="m.receivedAt">{{ m.receivedAt | date: 'd MMM y, HH:mm:ss' }}</time>
@@ -57,9 +74,12 @@ export function sealedHtml(html: string): string {
           <article class="message" data-testid="outbox-message">
             <h2>{{ m.subject }}</h2>
             <dl>
-              <dt>From</dt><dd>{{ m.from }}</dd>
-              <dt>To</dt><dd>{{ m.to.join(', ') }}</dd>
-              <dt>Received</dt><dd>{{ m.receivedAt | date: 'd MMM y, HH:mm:ss' }}</dd>
+              <dt>From</dt>
+              <dd>{{ m.from }}</dd>
+              <dt>To</dt>
+              <dd>{{ m.to.join(', ') }}</dd>
+              <dt>Received</dt>
+              <dd>{{ m.receivedAt | date: 'd MMM y, HH:mm:ss' }}</dd>
             </dl>
             @if (html(); as h) {
               <h3>As HTML</h3>
@@ -74,23 +94,95 @@ export function sealedHtml(html: string): string {
   `,
   styleUrls: ['../../shared/page/page.scss'],
   styles: `
-    .split { display: grid; grid-template-columns: minmax(16rem, 1fr) 2fr; gap: 1rem; align-items: start; }
-    .list { list-style: none; margin: 0; padding: 0; border: 1px solid var(--mat-sys-outline-variant); }
-    .item { display: flex; flex-direction: column; align-items: flex-start; gap: 0.15rem; width: 100%; padding: 0.6rem 0.75rem; border: 0; border-bottom: 1px solid var(--mat-sys-outline-variant); background: var(--mat-sys-surface-container-lowest); color: inherit; text-align: left; cursor: pointer; font: var(--mat-sys-body-medium); }
-    .item:hover { background: var(--mat-sys-surface-container); }
-    .item.selected { box-shadow: inset 4px 0 0 var(--tb-accent); background: var(--mat-sys-secondary-container); }
-    .item:focus-visible { outline: 2px solid var(--tb-accent); outline-offset: -2px; }
-    .subject { font-weight: 700; }
-    .meta { font: var(--mat-sys-body-small); color: var(--mat-sys-on-surface-variant); }
-    .message { padding: 1rem 1.25rem; border: 1px solid var(--mat-sys-outline-variant); background: var(--mat-sys-surface-container-lowest); }
-    h2 { font: var(--mat-sys-title-large); margin: 0 0 0.5rem; }
-    h3 { font: var(--mat-sys-title-small); margin: 1rem 0 0.4rem; }
-    dl { display: grid; grid-template-columns: max-content 1fr; gap: 0.2rem 1rem; margin: 0; }
-    dt { color: var(--mat-sys-on-surface-variant); }
-    dd { margin: 0; }
-    iframe { width: 100%; height: 24rem; border: 1px solid var(--mat-sys-outline-variant); background: #fff; }
-    pre { white-space: pre-wrap; margin: 0; padding: 0.75rem; background: var(--mat-sys-surface-container-low); font-family: var(--tb-font-numbers); font-size: 0.85rem; }
-    @media (max-width: 839.98px) { .split { grid-template-columns: 1fr; } }
+    .split {
+      display: grid;
+      grid-template-columns: minmax(16rem, 1fr) 2fr;
+      gap: 1rem;
+      align-items: start;
+    }
+    .list {
+      list-style: none;
+      margin: 0;
+      padding: 0;
+      border: 1px solid var(--mat-sys-outline-variant);
+    }
+    .item {
+      display: flex;
+      flex-direction: column;
+      align-items: flex-start;
+      gap: 0.15rem;
+      width: 100%;
+      padding: 0.6rem 0.75rem;
+      border: 0;
+      border-bottom: 1px solid var(--mat-sys-outline-variant);
+      background: var(--mat-sys-surface-container-lowest);
+      color: inherit;
+      text-align: left;
+      cursor: pointer;
+      font: var(--mat-sys-body-medium);
+    }
+    .item:hover {
+      background: var(--mat-sys-surface-container);
+    }
+    .item.selected {
+      box-shadow: inset 4px 0 0 var(--tb-accent);
+      background: var(--mat-sys-secondary-container);
+    }
+    .item:focus-visible {
+      outline: 2px solid var(--tb-accent);
+      outline-offset: -2px;
+    }
+    .subject {
+      font-weight: 700;
+    }
+    .meta {
+      font: var(--mat-sys-body-small);
+      color: var(--mat-sys-on-surface-variant);
+    }
+    .message {
+      padding: 1rem 1.25rem;
+      border: 1px solid var(--mat-sys-outline-variant);
+      background: var(--mat-sys-surface-container-lowest);
+    }
+    h2 {
+      font: var(--mat-sys-title-large);
+      margin: 0 0 0.5rem;
+    }
+    h3 {
+      font: var(--mat-sys-title-small);
+      margin: 1rem 0 0.4rem;
+    }
+    dl {
+      display: grid;
+      grid-template-columns: max-content 1fr;
+      gap: 0.2rem 1rem;
+      margin: 0;
+    }
+    dt {
+      color: var(--mat-sys-on-surface-variant);
+    }
+    dd {
+      margin: 0;
+    }
+    iframe {
+      width: 100%;
+      height: 24rem;
+      border: 1px solid var(--mat-sys-outline-variant);
+      background: #fff;
+    }
+    pre {
+      white-space: pre-wrap;
+      margin: 0;
+      padding: 0.75rem;
+      background: var(--mat-sys-surface-container-low);
+      font-family: var(--tb-font-numbers);
+      font-size: 0.85rem;
+    }
+    @media (max-width: 839.98px) {
+      .split {
+        grid-template-columns: 1fr;
+      }
+    }
   `,
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
@@ -99,7 +191,9 @@ export class OutboxPage {
 
   protected readonly messages = httpResource<OutboxMessage[]>(() => '/api/dev/outbox');
   protected readonly sorted = computed(() =>
-    [...(this.messages.hasValue() ? this.messages.value() : [])].sort((a, b) => b.receivedAt.localeCompare(a.receivedAt)),
+    [...(this.messages.hasValue() ? this.messages.value() : [])].sort((a, b) =>
+      b.receivedAt.localeCompare(a.receivedAt),
+    ),
   );
   /** The newest message is open until another is chosen. */
   protected readonly selectedId = linkedSignal(() => this.sorted()[0]?.id ?? null);

@@ -54,7 +54,9 @@ describe('InviteDialog', () => {
   it('checks the e-mail as it is typed, before the field is left', async () => {
     expect(q('[data-testid="error-email"]')).toBeNull();
     await type('[data-testid="invite-email"]', 'marta@');
-    expect(q('[data-testid="error-email"]')?.textContent?.trim()).toBe('Enter an e-mail address like name@example.com.');
+    expect(q('[data-testid="error-email"]')?.textContent?.trim()).toBe(
+      'Enter an e-mail address like name@example.com.',
+    );
     await type('[data-testid="invite-email"]', 'marta@example.test');
     expect(q('[data-testid="error-email"]')).toBeNull();
   });
@@ -81,7 +83,9 @@ describe('InviteDialog', () => {
     q<HTMLButtonElement>('[data-testid="invite-send"]')!.click();
     await fixture.whenStable();
     backend.expectNone('/api/invitations');
-    expect(q('[data-testid="error-clientOrganisationId"]')?.textContent?.trim()).toBe('Client organisation is required.');
+    expect(q('[data-testid="error-clientOrganisationId"]')?.textContent?.trim()).toBe(
+      'Client organisation is required.',
+    );
   });
 
   it('shows the server’s field errors beside the fields they belong to', async () => {
@@ -92,7 +96,12 @@ describe('InviteDialog', () => {
 
     const req = backend.expectOne('/api/invitations');
     expect(req.request.method).toBe('POST');
-    expect(req.request.body).toEqual({ email: 'ines@example.test', displayName: 'Ines Varrow', role: 'engineer', projectIds: [] });
+    expect(req.request.body).toEqual({
+      email: 'ines@example.test',
+      displayName: 'Ines Varrow',
+      role: 'engineer',
+      projectIds: [],
+    });
     req.flush(
       {
         error: {
@@ -106,7 +115,9 @@ describe('InviteDialog', () => {
     await fixture.whenStable();
     await new Promise((r) => setTimeout(r));
     await fixture.whenStable();
-    expect(q('[data-testid="error-email"]')?.textContent?.trim()).toBe('Someone at the firm already uses this e-mail address.');
+    expect(q('[data-testid="error-email"]')?.textContent?.trim()).toBe(
+      'Someone at the firm already uses this e-mail address.',
+    );
     expect(q('[data-testid="error-displayName"]')).toBeNull();
 
     // Changing the value clears the server's complaint; the local checks take over again.
@@ -130,14 +141,21 @@ describe('InviteDialog', () => {
         lastSignedInAt: null,
         invitationExpiresAt: '2026-03-16T08:00:00.000Z',
       },
-      invitation: { url: 'http://127.0.0.1:4310/invitations/tok_abcdefghijklmnopqrstuv', expiresAt: '2026-03-16T08:00:00.000Z' },
+      invitation: {
+        url: 'http://127.0.0.1:4310/invitations/tok_abcdefghijklmnopqrstuv',
+        expiresAt: '2026-03-16T08:00:00.000Z',
+      },
     };
     backend.expectOne('/api/invitations').flush(created, { status: 201, statusText: 'Created' });
     await new Promise((r) => setTimeout(r));
     await fixture.whenStable();
-    expect(q('[data-testid="invitation-url"]')?.textContent).toBe('http://127.0.0.1:4310/invitations/tok_abcdefghijklmnopqrstuv');
+    expect(q('[data-testid="invitation-url"]')?.textContent).toBe(
+      'http://127.0.0.1:4310/invitations/tok_abcdefghijklmnopqrstuv',
+    );
     expect(el().textContent).toContain('Copy link');
-    Array.from(el().querySelectorAll('button')).find((b) => b.textContent?.includes('Done'))!.click();
+    Array.from(el().querySelectorAll('button'))
+      .find((b) => b.textContent?.includes('Done'))!
+      .click();
     expect(closedWith).toEqual([created]);
   });
 });

@@ -132,7 +132,9 @@ export class PeoplePage {
 
   protected async changeRole(p: Person, role: Role): Promise<void> {
     if (role === p.role) return;
-    await this.act(p, 'Role changed.', () => this.http.patch<Person>(`/api/people/${encodeURIComponent(p.id)}`, { role }));
+    await this.act(p, 'Role changed.', () =>
+      this.http.patch<Person>(`/api/people/${encodeURIComponent(p.id)}`, { role }),
+    );
   }
 
   protected async removeAccess(p: Person): Promise<void> {

@@ -23,7 +23,8 @@ describe('ActivityLog', () => {
   let fixture: ComponentFixture<ActivityLog>;
   let backend: HttpTestingController;
   const el = () => fixture.nativeElement as HTMLElement;
-  const params = (req: TestRequest) => Object.fromEntries(req.request.params.keys().map((k) => [k, req.request.params.get(k)]));
+  const params = (req: TestRequest) =>
+    Object.fromEntries(req.request.params.keys().map((k) => [k, req.request.params.get(k)]));
   const settle = async () => {
     await new Promise((r) => setTimeout(r));
     TestBed.tick();
@@ -33,7 +34,9 @@ describe('ActivityLog', () => {
   async function pick(testId: string, option: string): Promise<void> {
     (el().querySelector(`[data-testid="${testId}"] .mat-mdc-select-trigger`) as HTMLElement).click();
     await settle();
-    const opt = Array.from(document.querySelectorAll<HTMLElement>('mat-option')).find((o) => o.textContent?.trim() === option);
+    const opt = Array.from(document.querySelectorAll<HTMLElement>('mat-option')).find(
+      (o) => o.textContent?.trim() === option,
+    );
     opt!.click();
     await settle();
   }
@@ -43,7 +46,11 @@ describe('ActivityLog', () => {
   beforeEach(async () => {
     TestBed.configureTestingModule({
       imports: [ActivityLog],
-      providers: [provideHttpClient(), provideHttpClientTesting(), { provide: ANIMATION_MODULE_TYPE, useValue: 'NoopAnimations' }],
+      providers: [
+        provideHttpClient(),
+        provideHttpClientTesting(),
+        { provide: ANIMATION_MODULE_TYPE, useValue: 'NoopAnimations' },
+      ],
     });
     backend = TestBed.inject(HttpTestingController);
     fixture = TestBed.createComponent(ActivityLog);
@@ -57,7 +64,10 @@ describe('ActivityLog', () => {
     expect(params(req)).toEqual({ page: '1', pageSize: '20' });
     req.flush({ items: [entry(2), entry(1)], total: 2, page: 1, pageSize: 20 });
     await settle();
-    expect(Array.from(el().querySelectorAll('[data-testid="activity-entry"] span')).map((s) => s.textContent)).toEqual(['Entry 2', 'Entry 1']);
+    expect(Array.from(el().querySelectorAll('[data-testid="activity-entry"] span')).map((s) => s.textContent)).toEqual([
+      'Entry 2',
+      'Entry 1',
+    ]);
   });
 
   it('filters by kind and stage on the server, back to the first page', async () => {
@@ -70,6 +80,11 @@ describe('ActivityLog', () => {
     await pick('activity-type', 'Deliverables');
     backend.expectOne((r) => r.url === URL).flush({ items: [], total: 0, page: 1, pageSize: 20 });
     await pick('activity-stage', 'Foundations');
-    expect(params(backend.expectOne((r) => r.url === URL))).toEqual({ page: '1', pageSize: '20', objectType: 'deliverable', stageKey: 'foundations' });
+    expect(params(backend.expectOne((r) => r.url === URL))).toEqual({
+      page: '1',
+      pageSize: '20',
+      objectType: 'deliverable',
+      stageKey: 'foundations',
+    });
   });
 });

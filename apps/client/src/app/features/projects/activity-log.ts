@@ -27,7 +27,11 @@ interface ActivityPage {
         <h2 id="activity-heading">Activity</h2>
         <mat-form-field subscriptSizing="dynamic">
           <mat-label>What</mat-label>
-          <mat-select data-testid="activity-type" [value]="objectType()" (selectionChange)="objectType.set($event.value); page.set(1)">
+          <mat-select
+            data-testid="activity-type"
+            [value]="objectType()"
+            (selectionChange)="objectType.set($event.value); page.set(1)"
+          >
             <mat-option value="">Everything</mat-option>
             @for (t of types; track t.value) {
               <mat-option [value]="t.value">{{ t.label }}</mat-option>
@@ -36,7 +40,11 @@ interface ActivityPage {
         </mat-form-field>
         <mat-form-field subscriptSizing="dynamic">
           <mat-label>Stage</mat-label>
-          <mat-select data-testid="activity-stage" [value]="stageKey()" (selectionChange)="stageKey.set($event.value); page.set(1)">
+          <mat-select
+            data-testid="activity-stage"
+            [value]="stageKey()"
+            (selectionChange)="stageKey.set($event.value); page.set(1)"
+          >
             <mat-option value="">All stages</mat-option>
             @for (k of stages; track k) {
               <mat-option [value]="k">{{ titles[k] }}</mat-option>
@@ -73,13 +81,43 @@ interface ActivityPage {
     </section>
   `,
   styles: `
-    .head { display: flex; flex-wrap: wrap; gap: 0.75rem; align-items: center; margin-bottom: 0.5rem; }
-    h2 { font: var(--mat-sys-title-medium); margin: 0; flex: 1; }
-    .muted { color: var(--mat-sys-on-surface-variant); }
-    .log { list-style: none; margin: 0; padding: 0; }
-    .log li { display: grid; grid-template-columns: 10rem 1fr; gap: 1rem; padding: 0.4rem 0; border-bottom: 1px solid var(--mat-sys-outline-variant); }
-    time { color: var(--mat-sys-on-surface-variant); font-family: var(--tb-font-numbers); font-size: 0.85em; }
-    .failure { padding: 0.5rem 0.75rem; border-left: 4px solid var(--mat-sys-error); background: var(--mat-sys-error-container); }
+    .head {
+      display: flex;
+      flex-wrap: wrap;
+      gap: 0.75rem;
+      align-items: center;
+      margin-bottom: 0.5rem;
+    }
+    h2 {
+      font: var(--mat-sys-title-medium);
+      margin: 0;
+      flex: 1;
+    }
+    .muted {
+      color: var(--mat-sys-on-surface-variant);
+    }
+    .log {
+      list-style: none;
+      margin: 0;
+      padding: 0;
+    }
+    .log li {
+      display: grid;
+      grid-template-columns: 10rem 1fr;
+      gap: 1rem;
+      padding: 0.4rem 0;
+      border-bottom: 1px solid var(--mat-sys-outline-variant);
+    }
+    time {
+      color: var(--mat-sys-on-surface-variant);
+      font-family: var(--tb-font-numbers);
+      font-size: 0.85em;
+    }
+    .failure {
+      padding: 0.5rem 0.75rem;
+      border-left: 4px solid var(--mat-sys-error);
+      background: var(--mat-sys-error-container);
+    }
   `,
   changeDetection: ChangeDetectionStrategy.OnPush,
 })

@@ -19,7 +19,8 @@ describe('ProjectFormPage', () => {
     i.dispatchEvent(new Event('input'));
     await fixture.whenStable();
   };
-  const errorBeside = (name: string) => input(name).closest('mat-form-field')?.querySelector('mat-error')?.textContent?.trim();
+  const errorBeside = (name: string) =>
+    input(name).closest('mat-form-field')?.querySelector('mat-error')?.textContent?.trim();
   const settle = async () => {
     await new Promise((r) => setTimeout(r));
     await fixture.whenStable();
@@ -117,7 +118,10 @@ describe('ProjectFormPage', () => {
         error: {
           code: 'validation_failed',
           message: 'Invalid body.reference: already used',
-          fields: { 'body.reference': ['Reference QTH-2026/04 is already used by another project.'], 'body.designBasis.concreteMPa': ['Too high for this code family.'] },
+          fields: {
+            'body.reference': ['Reference QTH-2026/04 is already used by another project.'],
+            'body.designBasis.concreteMPa': ['Too high for this code family.'],
+          },
         },
       },
       { status: 400, statusText: 'Bad Request' },
@@ -142,7 +146,15 @@ describe('ProjectFormPage', () => {
       storeyHeightM: 3.1,
       floorAreaM2: 1800,
       finance: { estimatedCost: 2_400_000, currency: 'GBP' },
-      designBasis: { codeFamily: 'IS456', concreteMPa: 25, steelMPa: 415, imposedKPa: 2, superimposedDeadKPa: 1, bearingPressureKPa: 200, foundingDepthM: 2 },
+      designBasis: {
+        codeFamily: 'IS456',
+        concreteMPa: 25,
+        steelMPa: 415,
+        imposedKPa: 2,
+        superimposedDeadKPa: 1,
+        bearingPressureKPa: 200,
+        foundingDepthM: 2,
+      },
     };
     await open(PROJECT_ID, project);
     expect(input('reference').value).toBe('QTH-1');
@@ -152,7 +164,11 @@ describe('ProjectFormPage', () => {
     (el().querySelector('[data-testid="save-project"]') as HTMLButtonElement).click();
     const req = backend.expectOne(`/api/projects/${PROJECT_ID}`);
     expect(req.request.method).toBe('PATCH');
-    expect(req.request.body).toMatchObject({ name: 'Block one, revised', currency: 'GBP', designBasis: { codeFamily: 'IS456', steelMPa: 415 } });
+    expect(req.request.body).toMatchObject({
+      name: 'Block one, revised',
+      currency: 'GBP',
+      designBasis: { codeFamily: 'IS456', steelMPa: 415 },
+    });
     req.flush({});
     await settle();
   });

@@ -16,7 +16,8 @@ import { asYouType, fieldErrorText, integer, patternWithHint, positive } from '.
 import { CODE_FAMILIES, CodeFamily } from './project-labels';
 import { ProjectsApi, projectUrl } from './projects-api';
 
-const notBlank = (c: AbstractControl) => (typeof c.value === 'string' && c.value && !c.value.trim() ? { whitespace: true } : null);
+const notBlank = (c: AbstractControl) =>
+  typeof c.value === 'string' && c.value && !c.value.trim() ? { whitespace: true } : null;
 
 // The limits mirror projectWriteSchema in libs/contracts (the server checks the same again).
 const REFERENCE = /^[A-Za-z0-9][A-Za-z0-9._/-]*$/;
@@ -65,8 +66,16 @@ export class ProjectFormPage {
 
   // Starting values are common practice for a framed RC building; the engineer sets the real ones.
   protected readonly form = this.fb.group({
-    reference: ['', [Validators.required, Validators.minLength(2), Validators.maxLength(32), notBlank,
-      patternWithHint(REFERENCE, 'Use letters, digits and . _ / - only, starting with a letter or digit.')]],
+    reference: [
+      '',
+      [
+        Validators.required,
+        Validators.minLength(2),
+        Validators.maxLength(32),
+        notBlank,
+        patternWithHint(REFERENCE, 'Use letters, digits and . _ / - only, starting with a letter or digit.'),
+      ],
+    ],
     name: ['', [Validators.required, Validators.maxLength(160), notBlank]],
     clientOrganisationId: ['', Validators.required],
     siteAddress: ['', Validators.maxLength(300)],

@@ -3,7 +3,14 @@ import type { StageAction, StageKey, StageState } from '@trabeate/contracts';
 // Runtime words for the screens. The contracts hold the same keys, but importing their values
 // would bring zod into the browser bundle; the types keep these in step with the server.
 
-export const STAGE_ORDER: readonly StageKey[] = ['design_basis', 'column_layout', 'beam_framing', 'slab_panels', 'stairs', 'foundations'];
+export const STAGE_ORDER: readonly StageKey[] = [
+  'design_basis',
+  'column_layout',
+  'beam_framing',
+  'slab_panels',
+  'stairs',
+  'foundations',
+];
 
 export const STAGE_TITLES: Readonly<Record<StageKey, string>> = {
   design_basis: 'Design basis',

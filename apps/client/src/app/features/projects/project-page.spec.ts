@@ -38,7 +38,15 @@ function project(manage: boolean, archivedAt: string | null = null): ProjectPage
     storeys: 5,
     storeyHeightM: 3,
     floorAreaM2: null,
-    designBasis: { codeFamily: 'EN1992', concreteMPa: 30, steelMPa: 500, imposedKPa: 2, superimposedDeadKPa: 1.5, bearingPressureKPa: 150, foundingDepthM: 1.5 },
+    designBasis: {
+      codeFamily: 'EN1992',
+      concreteMPa: 30,
+      steelMPa: 500,
+      imposedKPa: 2,
+      superimposedDeadKPa: 1.5,
+      bearingPressureKPa: 150,
+      foundingDepthM: 1.5,
+    },
     archivedAt,
     finance: null,
     members: [{ ...ENGINEER, role: 'engineer' }],
@@ -66,7 +74,9 @@ describe('ProjectPage', () => {
   const answerPanel = (key: StageKey) => {
     backend.match(`/api/projects/${ID}/stages/${key}/deliverables`).forEach((r) => r.flush([]));
     backend.match(`/api/projects/${ID}/stages/${key}/comments`).forEach((r) => r.flush([]));
-    backend.match((r) => r.url === `/api/projects/${ID}/activity`).forEach((r) => r.flush({ items: [], total: 0, page: 1, pageSize: 20 }));
+    backend
+      .match((r) => r.url === `/api/projects/${ID}/activity`)
+      .forEach((r) => r.flush({ items: [], total: 0, page: 1, pageSize: 20 }));
   };
 
   async function open(url: string, data: ProjectPageData): Promise<void> {

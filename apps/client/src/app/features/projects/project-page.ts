@@ -1,6 +1,15 @@
 import { DatePipe, DecimalPipe } from '@angular/common';
 import { HttpClient, httpResource } from '@angular/common/http';
-import { ChangeDetectionStrategy, Component, computed, inject, input, linkedSignal, signal, viewChild } from '@angular/core';
+import {
+  ChangeDetectionStrategy,
+  Component,
+  computed,
+  inject,
+  input,
+  linkedSignal,
+  signal,
+  viewChild,
+} from '@angular/core';
 import { MatButton, MatIconButton } from '@angular/material/button';
 import { MatOption } from '@angular/material/core';
 import { MatDialog } from '@angular/material/dialog';
@@ -100,7 +109,10 @@ export class ProjectPage {
   /** The firm's engineers, for stage assignment (the principal only). */
   protected readonly engineers = computed(() =>
     this.people.hasValue()
-      ? this.people.value().filter((x) => x.role === 'engineer' && x.status !== 'removed').map((x) => ({ id: x.id, displayName: x.displayName }))
+      ? this.people
+          .value()
+          .filter((x) => x.role === 'engineer' && x.status !== 'removed')
+          .map((x) => ({ id: x.id, displayName: x.displayName }))
       : undefined,
   );
   protected readonly toAdd = signal<string | null>(null);
@@ -131,10 +143,15 @@ export class ProjectPage {
       data: archive
         ? {
             title: `Archive ${p.reference}?`,
-            message: 'An archived project leaves the active list and its stages can no longer move. You can bring it back later.',
+            message:
+              'An archived project leaves the active list and its stages can no longer move. You can bring it back later.',
             confirm: 'Archive',
           }
-        : { title: `Bring ${p.reference} back?`, message: 'The project returns to the active list.', confirm: 'Unarchive' },
+        : {
+            title: `Bring ${p.reference} back?`,
+            message: 'The project returns to the active list.',
+            confirm: 'Unarchive',
+          },
     });
     if (!(await firstValueFrom(ref.afterClosed()))) return;
     await this.guarded(async () => {

@@ -1,10 +1,4 @@
-import {
-  EnvironmentInjector,
-  Injectable,
-  InjectionToken,
-  createEnvironmentInjector,
-  inject,
-} from '@angular/core';
+import { EnvironmentInjector, Injectable, InjectionToken, createEnvironmentInjector, inject } from '@angular/core';
 import {
   HttpBackend,
   HttpClient,

@@ -25,14 +25,20 @@ function item(n: number, extra: Partial<ProjectListItem> = {}): ProjectListItem 
     ...extra,
   };
 }
-const page = (items: ProjectListItem[], total = items.length, p = 1, pageSize = 25): ProjectList => ({ items, total, page: p, pageSize });
+const page = (items: ProjectListItem[], total = items.length, p = 1, pageSize = 25): ProjectList => ({
+  items,
+  total,
+  page: p,
+  pageSize,
+});
 
 describe('ProjectsPage', () => {
   let backend: HttpTestingController;
   let harness: RouterTestingHarness;
   const el = () => harness.routeNativeElement as HTMLElement;
   const listRequest = () => backend.expectOne((r) => r.url === '/api/projects');
-  const params = (req: TestRequest) => Object.fromEntries(req.request.params.keys().map((k) => [k, req.request.params.get(k)]));
+  const params = (req: TestRequest) =>
+    Object.fromEntries(req.request.params.keys().map((k) => [k, req.request.params.get(k)]));
   const settle = async () => {
     await new Promise((r) => setTimeout(r));
     harness.detectChanges();
@@ -100,7 +106,12 @@ describe('ProjectsPage', () => {
 
   it('paging moves to the next page with the server and keeps the sort', async () => {
     await open('/projects?sort=updatedAt&direction=desc');
-    listRequest().flush(page(Array.from({ length: 25 }, (_, i) => item(i + 1)), 60));
+    listRequest().flush(
+      page(
+        Array.from({ length: 25 }, (_, i) => item(i + 1)),
+        60,
+      ),
+    );
     await settle();
     (el().querySelector('button.mat-mdc-paginator-navigation-next') as HTMLButtonElement).click();
     await settle();
@@ -131,7 +142,10 @@ describe('ProjectsPage', () => {
 
   it('shows the server’s reason when the list cannot be loaded', async () => {
     await open('/projects');
-    listRequest().flush({ error: { code: 'internal', message: 'The database is away.' } }, { status: 500, statusText: 'Error' });
+    listRequest().flush(
+      { error: { code: 'internal', message: 'The database is away.' } },
+      { status: 500, statusText: 'Error' },
+    );
     await settle();
     expect(el().querySelector('[data-testid="projects-error"]')?.textContent).toContain('The database is away.');
   });

@@ -23,9 +23,11 @@ export function fieldErrorText(control: AbstractControl | null, label: string, u
 }
 
 /** A whole number, or empty (leave emptiness to `required`). */
-export const integer = (c: AbstractControl) => (c.value !== null && c.value !== '' && !Number.isInteger(c.value) ? { integer: true } : null);
+export const integer = (c: AbstractControl) =>
+  c.value !== null && c.value !== '' && !Number.isInteger(c.value) ? { integer: true } : null;
 /** More than zero, or empty. */
-export const positive = (c: AbstractControl) => (typeof c.value === 'number' && !(c.value > 0) ? { positive: true } : null);
+export const positive = (c: AbstractControl) =>
+  typeof c.value === 'number' && !(c.value > 0) ? { positive: true } : null;
 /** A pattern whose failure message says what is allowed, in the words the server uses. */
 export const patternWithHint =
   (pattern: RegExp, hint: string) =>

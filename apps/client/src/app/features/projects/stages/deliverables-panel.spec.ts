@@ -27,7 +27,12 @@ function version(fileName: string, v: number, sizeBytes = 2048): Deliverable {
 
 describe('groupByFileName', () => {
   it('keeps the versions of one file together, newest first, files in name order', () => {
-    const groups = groupByFileName([version('loads.pdf', 1), version('grid.pdf', 1), version('loads.pdf', 3), version('loads.pdf', 2)]);
+    const groups = groupByFileName([
+      version('loads.pdf', 1),
+      version('grid.pdf', 1),
+      version('loads.pdf', 3),
+      version('loads.pdf', 2),
+    ]);
     expect(groups.map((g) => [g.fileName, g.versions.map((d) => d.version)])).toEqual([
       ['grid.pdf', [1]],
       ['loads.pdf', [3, 2, 1]],
@@ -49,7 +54,10 @@ describe('DeliverablesPanel', () => {
   async function open(existing: Deliverable[] = []): Promise<void> {
     TestBed.configureTestingModule({
       imports: [DeliverablesPanel],
-      providers: [provideHttpClient(), provideHttpClientTesting(), { provide: UPLOAD_HTTP, useFactory: () => inject(HttpClient) },
+      providers: [
+        provideHttpClient(),
+        provideHttpClientTesting(),
+        { provide: UPLOAD_HTTP, useFactory: () => inject(HttpClient) },
         { provide: ANIMATION_MODULE_TYPE, useValue: 'NoopAnimations' },
       ],
     });
@@ -73,7 +81,9 @@ describe('DeliverablesPanel', () => {
     expect(rows[1].textContent).toContain('1.5 kB');
     expect(rows[0].querySelector('code')?.textContent).toBe('a3f1c2000000…');
     expect(rows[0].querySelector('code')?.getAttribute('title')).toBe(SHA);
-    expect(rows[0].querySelector('a[data-testid="download"]')?.getAttribute('href')).toBe('/api/deliverables/loads.pdf-2/download');
+    expect(rows[0].querySelector('a[data-testid="download"]')?.getAttribute('href')).toBe(
+      '/api/deliverables/loads.pdf-2/download',
+    );
   });
 
   it('sends the file as the multipart field "file" and shows real upload progress', async () => {
@@ -124,7 +134,9 @@ describe('DeliverablesPanel', () => {
     await settle();
     backend.expectOne(URL).flush('<html>Request Entity Too Large</html>', { status: 413, statusText: 'Too Large' });
     await settle();
-    expect(el().querySelector('[data-testid="upload-error"]')?.textContent).toContain('The file is larger than the server accepts.');
+    expect(el().querySelector('[data-testid="upload-error"]')?.textContent).toContain(
+      'The file is larger than the server accepts.',
+    );
   });
 
   it('takes a dropped file', async () => {

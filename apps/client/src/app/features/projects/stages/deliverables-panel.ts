@@ -63,14 +63,20 @@ interface Progress {
         >
           <mat-icon aria-hidden="true">upload_file</mat-icon>
           <span>Drop a file here, or</span>
-          <button mat-stroked-button type="button" [disabled]="!!progress()" (click)="picker.click()">Choose a file</button>
+          <button mat-stroked-button type="button" [disabled]="!!progress()" (click)="picker.click()">
+            Choose a file
+          </button>
           <input #picker type="file" hidden data-testid="file-input" (change)="picked(picker)" />
           <span class="hint">A file with the same name as an earlier one becomes its next version.</span>
         </div>
         @if (progress(); as p) {
           <div class="progress" role="status" data-testid="upload-progress">
             <span>Uploading {{ p.fileName }} — {{ percent() === null ? size(p.loaded) : percent() + ' %' }}</span>
-            <mat-progress-bar [mode]="percent() === null ? 'indeterminate' : 'determinate'" [value]="percent() ?? 0" aria-label="Upload progress" />
+            <mat-progress-bar
+              [mode]="percent() === null ? 'indeterminate' : 'determinate'"
+              [value]="percent() ?? 0"
+              aria-label="Upload progress"
+            />
             <button mat-button type="button" (click)="cancel()">Cancel</button>
           </div>
         }
@@ -98,7 +104,13 @@ interface Progress {
               </div>
               <table class="versions">
                 <thead>
-                  <tr><th scope="col">Version</th><th scope="col">Size</th><th scope="col">SHA-256</th><th scope="col">Uploaded</th><th scope="col"><span class="sr-only">Download</span></th></tr>
+                  <tr>
+                    <th scope="col">Version</th>
+                    <th scope="col">Size</th>
+                    <th scope="col">SHA-256</th>
+                    <th scope="col">Uploaded</th>
+                    <th scope="col"><span class="sr-only">Download</span></th>
+                  </tr>
                 </thead>
                 <tbody>
                   @for (d of g.versions; track d.id) {
@@ -107,12 +119,22 @@ interface Progress {
                       <td>{{ size(d.sizeBytes) }}</td>
                       <td class="hash">
                         <code [title]="d.sha256">{{ d.sha256.slice(0, 12) }}…</code>
-                        <button mat-icon-button type="button" [cdkCopyToClipboard]="d.sha256" (cdkCopyToClipboardCopied)="copied()" [attr.aria-label]="'Copy the SHA-256 of ' + g.fileName + ' v' + d.version">
+                        <button
+                          mat-icon-button
+                          type="button"
+                          [cdkCopyToClipboard]="d.sha256"
+                          (cdkCopyToClipboardCopied)="copied()"
+                          [attr.aria-label]="'Copy the SHA-256 of ' + g.fileName + ' v' + d.version"
+                        >
                           <mat-icon>content_copy</mat-icon>
                         </button>
                       </td>
                       <td>{{ d.uploadedBy.displayName }}, {{ d.uploadedAt | date: 'd MMM y, HH:mm' }}</td>
-                      <td><a mat-button [href]="d.downloadUrl" download data-testid="download"><mat-icon>download</mat-icon>Download</a></td>
+                      <td>
+                        <a mat-button [href]="d.downloadUrl" download data-testid="download"
+                          ><mat-icon>download</mat-icon>Download</a
+                        >
+                      </td>
                     </tr>
                   }
                 </tbody>
@@ -136,7 +158,9 @@ export class DeliverablesPanel {
   /** A new version was stored (the page refreshes its counts). */
   readonly uploaded = output<Deliverable>();
 
-  protected readonly list = httpResource<Deliverable[]>(() => `${stageUrl(this.projectId(), this.stageKey())}/deliverables`);
+  protected readonly list = httpResource<Deliverable[]>(
+    () => `${stageUrl(this.projectId(), this.stageKey())}/deliverables`,
+  );
   protected readonly groups = computed(() => groupByFileName(this.list.hasValue() ? this.list.value() : []));
 
   protected readonly dragging = signal(false);

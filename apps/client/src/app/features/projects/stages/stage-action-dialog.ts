@@ -2,7 +2,14 @@ import { ChangeDetectionStrategy, Component, inject } from '@angular/core';
 import { NonNullableFormBuilder, ReactiveFormsModule, Validators } from '@angular/forms';
 import { MatButton } from '@angular/material/button';
 import { ErrorStateMatcher } from '@angular/material/core';
-import { MAT_DIALOG_DATA, MatDialogActions, MatDialogClose, MatDialogContent, MatDialogRef, MatDialogTitle } from '@angular/material/dialog';
+import {
+  MAT_DIALOG_DATA,
+  MatDialogActions,
+  MatDialogClose,
+  MatDialogContent,
+  MatDialogRef,
+  MatDialogTitle,
+} from '@angular/material/dialog';
 import { MatError, MatFormField, MatHint, MatLabel } from '@angular/material/form-field';
 import { MatInput } from '@angular/material/input';
 import { asYouType, fieldErrorText } from '../../../shared/forms/field-errors';
@@ -20,7 +27,19 @@ const notBlank = (c: { value: string }) => (c.value && !c.value.trim() ? { white
  */
 @Component({
   selector: 'tb-stage-action-dialog',
-  imports: [ReactiveFormsModule, MatButton, MatDialogActions, MatDialogClose, MatDialogContent, MatDialogTitle, MatError, MatFormField, MatHint, MatLabel, MatInput],
+  imports: [
+    ReactiveFormsModule,
+    MatButton,
+    MatDialogActions,
+    MatDialogClose,
+    MatDialogContent,
+    MatDialogTitle,
+    MatError,
+    MatFormField,
+    MatHint,
+    MatLabel,
+    MatInput,
+  ],
   providers: [{ provide: ErrorStateMatcher, useValue: asYouType }],
   template: `
     <h2 mat-dialog-title>{{ data.action === 'return' ? 'Return ' + data.stageTitle : 'Reopen ' + data.stageTitle }}</h2>
@@ -35,7 +54,14 @@ const notBlank = (c: { value: string }) => (c.value && !c.value.trim() ? { white
         </p>
         <mat-form-field class="text">
           <mat-label>{{ label }}</mat-label>
-          <textarea matInput formControlName="text" rows="5" maxlength="4000" data-testid="action-text" cdkFocusInitial></textarea>
+          <textarea
+            matInput
+            formControlName="text"
+            rows="5"
+            maxlength="4000"
+            data-testid="action-text"
+            cdkFocusInitial
+          ></textarea>
           <mat-hint align="end">{{ form.controls.text.value.length }} / 4000</mat-hint>
           <mat-error>{{ error() }}</mat-error>
         </mat-form-field>
@@ -66,7 +92,8 @@ export class StageActionDialog {
 
   protected error(): string {
     const e = this.form.controls.text.errors;
-    if (e?.['required'] || e?.['whitespace']) return this.data.action === 'return' ? 'Say what needs changing.' : 'Give a reason for reopening.';
+    if (e?.['required'] || e?.['whitespace'])
+      return this.data.action === 'return' ? 'Say what needs changing.' : 'Give a reason for reopening.';
     return fieldErrorText(this.form.controls.text, this.label);
   }
 

@@ -58,7 +58,9 @@ const ACTION_NOTES: Readonly<Record<StageAction, string>> = {
             <textarea matInput formControlName="body" rows="3" maxlength="4000" data-testid="comment-text"></textarea>
             <mat-error>{{ bodyError() }}</mat-error>
           </mat-form-field>
-          <button mat-stroked-button type="submit" data-testid="comment-post" [disabled]="posting()">{{ posting() ? 'Posting…' : 'Post' }}</button>
+          <button mat-stroked-button type="submit" data-testid="comment-post" [disabled]="posting()">
+            {{ posting() ? 'Posting…' : 'Post' }}
+          </button>
           @if (postError()) {
             <p class="failure" role="alert">{{ postError() }}</p>
           }
@@ -67,18 +69,64 @@ const ACTION_NOTES: Readonly<Record<StageAction, string>> = {
     </section>
   `,
   styles: `
-    h3 { font: var(--mat-sys-title-small); margin: 1.25rem 0 0.5rem; }
-    .muted { color: var(--mat-sys-on-surface-variant); font: var(--mat-sys-body-small); }
-    .thread { list-style: none; margin: 0 0 0.75rem; padding: 0; }
-    .thread li { padding: 0.5rem 0.75rem; margin-bottom: 0.5rem; border-left: 3px solid var(--mat-sys-outline-variant); background: var(--mat-sys-surface-container-low); }
-    .thread li.decision { border-left-color: var(--tb-accent); }
-    .meta { display: flex; gap: 0.6rem; align-items: baseline; flex-wrap: wrap; font: var(--mat-sys-body-small); }
-    .tag { padding: 0 0.35rem; border: 1px solid var(--mat-sys-outline); font: var(--mat-sys-label-small); }
-    time { color: var(--mat-sys-on-surface-variant); }
-    .body { margin: 0.25rem 0 0; white-space: pre-wrap; }
-    .new { display: flex; gap: 0.75rem; align-items: flex-start; flex-wrap: wrap; }
-    .text { flex: 1 1 20rem; }
-    .failure { flex-basis: 100%; margin: 0; padding: 0.5rem 0.75rem; border-left: 4px solid var(--mat-sys-error); background: var(--mat-sys-error-container); color: var(--mat-sys-on-error-container); }
+    h3 {
+      font: var(--mat-sys-title-small);
+      margin: 1.25rem 0 0.5rem;
+    }
+    .muted {
+      color: var(--mat-sys-on-surface-variant);
+      font: var(--mat-sys-body-small);
+    }
+    .thread {
+      list-style: none;
+      margin: 0 0 0.75rem;
+      padding: 0;
+    }
+    .thread li {
+      padding: 0.5rem 0.75rem;
+      margin-bottom: 0.5rem;
+      border-left: 3px solid var(--mat-sys-outline-variant);
+      background: var(--mat-sys-surface-container-low);
+    }
+    .thread li.decision {
+      border-left-color: var(--tb-accent);
+    }
+    .meta {
+      display: flex;
+      gap: 0.6rem;
+      align-items: baseline;
+      flex-wrap: wrap;
+      font: var(--mat-sys-body-small);
+    }
+    .tag {
+      padding: 0 0.35rem;
+      border: 1px solid var(--mat-sys-outline);
+      font: var(--mat-sys-label-small);
+    }
+    time {
+      color: var(--mat-sys-on-surface-variant);
+    }
+    .body {
+      margin: 0.25rem 0 0;
+      white-space: pre-wrap;
+    }
+    .new {
+      display: flex;
+      gap: 0.75rem;
+      align-items: flex-start;
+      flex-wrap: wrap;
+    }
+    .text {
+      flex: 1 1 20rem;
+    }
+    .failure {
+      flex-basis: 100%;
+      margin: 0;
+      padding: 0.5rem 0.75rem;
+      border-left: 4px solid var(--mat-sys-error);
+      background: var(--mat-sys-error-container);
+      color: var(--mat-sys-on-error-container);
+    }
   `,
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
@@ -90,7 +138,9 @@ export class StageComments {
   readonly posted = output<Comment>();
 
   protected readonly thread = httpResource<Comment[]>(() => `${stageUrl(this.projectId(), this.stageKey())}/comments`);
-  protected readonly form = inject(NonNullableFormBuilder).group({ body: ['', [Validators.required, Validators.maxLength(4000), notBlank]] });
+  protected readonly form = inject(NonNullableFormBuilder).group({
+    body: ['', [Validators.required, Validators.maxLength(4000), notBlank]],
+  });
   protected readonly posting = signal(false);
   protected readonly postError = signal('');
 
@@ -108,7 +158,9 @@ export class StageComments {
 
   protected bodyError(): string {
     const e = this.form.controls.body.errors;
-    return e?.['required'] || e?.['whitespace'] ? 'Write something first.' : fieldErrorText(this.form.controls.body, 'A comment');
+    return e?.['required'] || e?.['whitespace']
+      ? 'Write something first.'
+      : fieldErrorText(this.form.controls.body, 'A comment');
   }
 
   protected async post(): Promise<void> {

@@ -42,7 +42,10 @@ function project(manage: boolean, work = true): ProjectPage {
     designBasis: null,
     archivedAt: null,
     finance: null,
-    members: [{ ...ENGINEER, role: 'engineer' }, { id: '00000000-0000-4000-8000-000000000203', displayName: 'Maud Ferrier', role: 'client' }],
+    members: [
+      { ...ENGINEER, role: 'engineer' },
+      { id: '00000000-0000-4000-8000-000000000203', displayName: 'Maud Ferrier', role: 'client' },
+    ],
     stages: [],
     abilities: { work, manage, seeFinance: manage, pay: false, acknowledge: false },
   };
@@ -53,7 +56,8 @@ describe('StagePanel', () => {
   let backend: HttpTestingController;
   let changed: number;
   const el = () => fixture.nativeElement as HTMLElement;
-  const actionButtons = () => Array.from(el().querySelectorAll<HTMLButtonElement>('[data-testid^="action-"]')).map((b) => b.textContent?.trim());
+  const actionButtons = () =>
+    Array.from(el().querySelectorAll<HTMLButtonElement>('[data-testid^="action-"]')).map((b) => b.textContent?.trim());
   // Not whenStable: an open request (an upload, a reload) keeps the app "unstable" until answered.
   const settle = async (ms = 0) => {
     await new Promise((r) => setTimeout(r, ms));
@@ -63,7 +67,10 @@ describe('StagePanel', () => {
   async function open(s: Stage, manage: boolean): Promise<void> {
     TestBed.configureTestingModule({
       imports: [StagePanel],
-      providers: [provideHttpClient(), provideHttpClientTesting(), { provide: UPLOAD_HTTP, useFactory: () => inject(HttpClient) },
+      providers: [
+        provideHttpClient(),
+        provideHttpClientTesting(),
+        { provide: UPLOAD_HTTP, useFactory: () => inject(HttpClient) },
         { provide: ANIMATION_MODULE_TYPE, useValue: 'NoopAnimations' },
       ],
     });
@@ -129,7 +136,10 @@ describe('StagePanel', () => {
     confirm.click();
     await settle(50);
     const req = backend.expectOne(`${BASE}/transitions`);
-    expect(req.request.body).toEqual({ action: 'return', comment: 'Column C4 clashes with the stair core; move it to grid D.' });
+    expect(req.request.body).toEqual({
+      action: 'return',
+      comment: 'Column C4 clashes with the stair core; move it to grid D.',
+    });
     req.flush(stage({ state: 'returned' }));
     await settle(50);
     backend.expectOne(`${BASE}/comments`).flush([]);
@@ -144,7 +154,10 @@ describe('StagePanel', () => {
     text.dispatchEvent(new Event('input'));
     (document.querySelector('[data-testid="action-confirm"]') as HTMLButtonElement).click();
     await settle(50);
-    expect(backend.expectOne(`${BASE}/transitions`).request.body).toEqual({ action: 'reopen', reason: 'The architect moved the lift shaft.' });
+    expect(backend.expectOne(`${BASE}/transitions`).request.body).toEqual({
+      action: 'reopen',
+      reason: 'The architect moved the lift shaft.',
+    });
   });
 
   it('shows the server’s reason when a transition is refused (409), and refreshes the stage', async () => {
@@ -152,9 +165,14 @@ describe('StagePanel', () => {
     (el().querySelector('[data-testid="action-submit"]') as HTMLButtonElement).click();
     backend
       .expectOne(`${BASE}/transitions`)
-      .flush({ error: { code: 'conflict', message: 'Upload at least one deliverable before submitting.' } }, { status: 409, statusText: 'Conflict' });
+      .flush(
+        { error: { code: 'conflict', message: 'Upload at least one deliverable before submitting.' } },
+        { status: 409, statusText: 'Conflict' },
+      );
     await settle();
-    expect(el().querySelector('[data-testid="action-error"]')?.textContent).toContain('Upload at least one deliverable before submitting.');
+    expect(el().querySelector('[data-testid="action-error"]')?.textContent).toContain(
+      'Upload at least one deliverable before submitting.',
+    );
     expect(changed).toBe(1);
   });
 
@@ -170,7 +188,9 @@ describe('StagePanel', () => {
     expect(req.request.method).toBe('PATCH');
     expect(req.request.body).toEqual({ assigneeId: ENGINEER.id, dueDate: '2026-05-15' });
     // Only engineers carry a stage: not the client contact on the project.
-    expect(fixture.componentInstance['staff']().map((m: { displayName: string }) => m.displayName)).toEqual(['Cato Brennagh']);
+    expect(fixture.componentInstance['staff']().map((m: { displayName: string }) => m.displayName)).toEqual([
+      'Cato Brennagh',
+    ]);
     req.flush(stage());
     await settle();
     backend.expectOne(`${BASE}/comments`).flush([]);

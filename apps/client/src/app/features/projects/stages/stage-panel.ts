@@ -1,6 +1,16 @@
 import { DatePipe } from '@angular/common';
 import { HttpErrorResponse } from '@angular/common/http';
-import { ChangeDetectionStrategy, Component, computed, inject, input, linkedSignal, output, signal, viewChild } from '@angular/core';
+import {
+  ChangeDetectionStrategy,
+  Component,
+  computed,
+  inject,
+  input,
+  linkedSignal,
+  output,
+  signal,
+  viewChild,
+} from '@angular/core';
 import { MatButton } from '@angular/material/button';
 import { MatOption } from '@angular/material/core';
 import { MatDialog } from '@angular/material/dialog';
@@ -30,7 +40,19 @@ const DONE: Readonly<Record<StageAction, string>> = {
 /** One stage: what the caller may do with it now, who has it and by when, its files and its thread. */
 @Component({
   selector: 'tb-stage-panel',
-  imports: [DatePipe, DeliverablesPanel, MatButton, MatFormField, MatHint, MatIcon, MatInput, MatLabel, MatOption, MatSelect, StageComments],
+  imports: [
+    DatePipe,
+    DeliverablesPanel,
+    MatButton,
+    MatFormField,
+    MatHint,
+    MatIcon,
+    MatInput,
+    MatLabel,
+    MatOption,
+    MatSelect,
+    StageComments,
+  ],
   templateUrl: './stage-panel.html',
   styleUrl: './stage-panel.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
@@ -56,9 +78,13 @@ export class StagePanel {
    * assigned). Without the firm's list, the engineers already on the project.
    */
   readonly engineers = input<readonly { id: string; displayName: string }[] | undefined>();
-  protected readonly staff = computed(() => this.engineers() ?? this.project().members.filter((m) => m.role === 'engineer'));
+  protected readonly staff = computed(
+    () => this.engineers() ?? this.project().members.filter((m) => m.role === 'engineer'),
+  );
   /** Files change only while the work is open: not under review, not once approved. */
-  protected readonly canUpload = computed(() => this.work() && this.stage().state !== 'under_review' && this.stage().state !== 'approved');
+  protected readonly canUpload = computed(
+    () => this.work() && this.stage().state !== 'under_review' && this.stage().state !== 'approved',
+  );
 
   protected readonly assigneeId = linkedSignal(() => this.stage().assignee?.id ?? '');
   protected readonly dueDate = linkedSignal(() => this.stage().dueDate ?? '');
