@@ -18,8 +18,5 @@ export default {
   moduleNameMapper: {
     '^@trabeate/(.*)$': '<rootDir>/../../libs/$1/src/index.ts',
   },
-  // The first render in a file compiles its components; on a busy two-core machine that alone
-  // can pass Jest's default 5 s, which says nothing about the component.
-  testTimeout: 20_000,
   cacheDirectory: '<rootDir>/../../tmp/jest-client',
 };
