@@ -199,3 +199,25 @@ describe("PostgreSQL's refusals of a bad value are the client's mistake", () => 
     expect((await request(app).get('/probe')).status).toBe(500);
   });
 });
+
+describe('what the one error handler does not call a client mistake', () => {
+  const failWith = (err: Error) => {
+    const app = express();
+    app.get('/probe', () => {
+      throw err;
+    });
+    app.use(errorHandler(createLogger('silent')));
+    return request(app).get('/probe');
+  };
+
+  it('keeps a 4xx that one of our own calls got from another service a 500', async () => {
+    const upstream = Object.assign(new Error('Forbidden'), { status: 403, $metadata: { httpStatusCode: 403 } });
+    expect((await failWith(upstream)).status).toBe(500);
+  });
+
+  it('keeps an error that only shares a parser message, but comes from a service, a 500', async () => {
+    const res = await failWith(Object.assign(new Error('Unexpected end of form'), { $metadata: {} }));
+    expect(res.status).toBe(500);
+    expect(res.body.error.code).toBe('internal');
+  });
+});

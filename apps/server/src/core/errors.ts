@@ -48,6 +48,7 @@ interface ClientStatusError extends Error {
   statusCode?: number;
   type?: string;
   code?: string;
+  expose?: boolean;
 }
 
 /**
@@ -124,7 +125,9 @@ function clientErrorOf(err: unknown): HttpError | null {
     return new HttpError(400, 'bad_request', MULTIPART_FAILURES[err.message]);
   const e = err as ClientStatusError;
   const status = e.status ?? e.statusCode;
-  if (typeof status !== 'number' || status < 400 || status >= 500) return null;
+  // Only http-errors' client errors (expose: true): an outside service's 4xx, seen by one of our
+  // own calls (an SDK error carrying the status it got), stays our problem.
+  if (e.expose !== true || typeof status !== 'number' || status < 400 || status >= 500) return null;
   switch (e.type) {
     case 'entity.parse.failed':
       return new HttpError(400, 'malformed_json', 'The request body is not valid JSON.');
