@@ -27,6 +27,9 @@ export interface IdentityProviderOptions {
   loginRateLimit?: number;
 }
 
+const BAD_LINK =
+  'The address of this page is not valid (a "%" in it is not followed by two hex digits). Go back to Trabeate and choose “Sign in” again.';
+
 const PAGE_HEADERS: Record<string, string> = {
   'Content-Security-Policy':
     "default-src 'none'; style-src 'unsafe-inline'; img-src data:; frame-ancestors 'none'; base-uri 'none'",
@@ -138,6 +141,16 @@ export async function createIdentityProvider(
   app.disable('x-powered-by');
   const send = (res: Response, status: number, html: string): void =>
     void res.status(status).set(PAGE_HEADERS).type('html').send(html);
+  // The provider's own routes (Koa) would answer such a path 404 or fail decoding its parameters;
+  // one check here gives every page the same plain 400.
+  app.use((req, res, next) => {
+    try {
+      decodeURIComponent(req.path);
+    } catch {
+      return void send(res, 400, messagePage('This link is damaged', BAD_LINK));
+    }
+    next();
+  });
   const expired = (res: Response): void =>
     void send(
       res,

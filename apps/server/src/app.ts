@@ -30,7 +30,9 @@ import type { ObjectStore } from './storage';
 export interface AppDeps {
   config: Pick<Config, 'CLIENT_DIST' | 'TRUST_PROXY'> &
     Partial<AuthConfig> &
-    Partial<Pick<Config, 'NODE_ENV' | 'UPLOAD_MAX_BYTES' | 'DEV_OUTBOX_URL' | 'MAIL_OUTBOX_URL'>>;
+    Partial<Pick<Config, 'NODE_ENV' | 'UPLOAD_MAX_BYTES' | 'DEV_OUTBOX_URL' | 'MAIL_OUTBOX_URL'>> &
+    /** The relay the health check greets; without SMTP_HOST it reports the mail relay as not set up. */
+    Partial<Pick<Config, 'SMTP_HOST' | 'SMTP_PORT' | 'SMTP_SECURE'>>;
   db: Db;
   logger: Logger;
   version?: string;
@@ -128,7 +130,20 @@ export function createApp({ config, db, logger, version = '0.1.0', store, jobs }
   const notices = createNotices(jobs, publicUrl, logger);
 
   const routes = [
-    route('get', '/health', 'public', healthHandler(db, version)),
+    route(
+      'get',
+      '/health',
+      'public',
+      healthHandler({
+        db,
+        version,
+        store,
+        jobs,
+        mailRelay: config.SMTP_HOST
+          ? { host: config.SMTP_HOST, port: config.SMTP_PORT ?? 25, secure: config.SMTP_SECURE ?? false }
+          : undefined,
+      }),
+    ),
     ...authRoutes({
       db,
       oidc,

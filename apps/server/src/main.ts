@@ -37,7 +37,13 @@ async function main(): Promise<void> {
   await jobs.every(PRUNE_JOB, PRUNE_CRON, async () => {
     logger.info(await pruneExpired(db), 'pruned expired sessions and sign-in records');
   });
-  const app = createApp({ config, db, logger, store, jobs });
+  const app = createApp({
+    config: { ...config, SMTP_HOST: config.SMTP_HOST ?? LOCAL_DEFAULTS.SMTP_HOST },
+    db,
+    logger,
+    store,
+    jobs,
+  });
   const server = createServer(app);
   server.listen(config.PORT, config.HOST, () => {
     const address = server.address();

@@ -1,6 +1,7 @@
 import type { RequestHandler, Router } from 'express';
 import type { Db } from '../db/db';
 import { HttpError, notFound } from '../core/errors';
+import { rejectNulCharacters } from '../core/validate';
 import { canSeeProject, firmRefusal, projectRefusal, type ProjectAction, type Rule } from './policy';
 
 export type Method = 'get' | 'post' | 'put' | 'patch' | 'delete';
@@ -33,7 +34,8 @@ export function mountRoutes(
   routes: RouteDecl[],
   deps: GuardDeps,
 ): Array<Pick<RouteDecl, 'method' | 'path' | 'rule'>> {
-  for (const r of routes) router[r.method](r.path, guard(r.rule, deps), ...r.handlers);
+  // NUL is refused before anything, the guard's own queries included, can pass it to PostgreSQL.
+  for (const r of routes) router[r.method](r.path, rejectNulCharacters, guard(r.rule, deps), ...r.handlers);
   return routes.map(({ method, path, rule }) => ({ method, path, rule }));
 }
 

@@ -51,6 +51,8 @@ export interface ObjectStore {
   /** Creates the bucket when missing (local fakes and first runs; production buckets exist). */
   ensureBucket(): Promise<void>;
   close(): void;
+  /** HeadBucket with a deadline, for the health check: resolves when the bucket answers. */
+  probe(timeoutMs: number): Promise<void>;
 }
 
 export function createObjectStore(config: ObjectStoreConfig): ObjectStore {
@@ -144,6 +146,11 @@ export function createObjectStore(config: ObjectStoreConfig): ObjectStore {
     },
 
     close: () => client.destroy(),
+
+    async probe(timeoutMs) {
+      // The SDK may retry a refused connection; the deadline covers its retries too.
+      await client.send(new HeadBucketCommand({ Bucket }), { abortSignal: AbortSignal.timeout(timeoutMs) });
+    },
   };
 
   async function removeQuietly(key: string): Promise<void> {
