@@ -74,7 +74,16 @@ export async function takeOverRunDir(runDir: string, owner = 'start'): Promise<v
     }
   }
   await stopLeftovers(runDir);
-  writeFileSync(ownerFile, `${JSON.stringify({ pid: process.pid, args: process.argv.slice(1) })}\n`);
+  writeFileSync(ownerFile, `${JSON.stringify({ pid: process.pid, args: ownArguments() })}\n`);
+}
+
+/** This process's arguments as /proc shows them (process.argv holds resolved paths that /proc may not). */
+function ownArguments(): string[] {
+  try {
+    return readFileSync('/proc/self/cmdline', 'utf8').split('\0').filter(Boolean).slice(1);
+  } catch {
+    return process.argv.slice(1);
+  }
 }
 
 /** Stops every process a pid file in `runDir` names (when it is still ours) and removes the files. */

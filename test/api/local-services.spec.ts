@@ -6,7 +6,7 @@ import { createTransport } from 'nodemailer';
 import { createObjectStore } from '../../apps/server/src/storage';
 import { FAKE_S3_CREDENTIALS } from '../../scripts/fakes/s3';
 import { s3Service, smtpService } from '../../scripts/lib/fake-services';
-import { alive, takeOverRunDir } from '../../scripts/lib/leftovers';
+import { alive, releaseRunDir, takeOverRunDir } from '../../scripts/lib/leftovers';
 import { Cluster } from '../../scripts/lib/postgres';
 import { freePort, startAll } from '../../scripts/lib/services';
 
@@ -147,24 +147,34 @@ describe('when the start command dies', () => {
     expect(alive(leftover.pid!)).toBe(false);
     expect(existsSync(path.join(dir, 'api.pid'))).toBe(false);
     expect(alive(process.pid)).toBe(true);
+    releaseRunDir(dir);
 
-    // This process now owns the folder; a second start from another live process is refused.
-    const owner = JSON.parse(readFileSync(path.join(dir, 'start.owner'), 'utf8')) as { pid: number };
-    expect(owner.pid).toBe(process.pid);
-    const second = spawn(
-      process.execPath,
-      [
-        '--import',
-        'tsx',
-        '-e',
-        `require('./scripts/lib/leftovers').takeOverRunDir(${JSON.stringify(dir)}, 'start').then(() => process.exit(0), (e) => { console.log(e.message); process.exit(3); })`,
-      ],
-      { cwd: ROOT, stdio: ['ignore', 'pipe', 'pipe'] },
-    );
-    let said = '';
-    second.stdout!.on('data', (c: Buffer) => (said += c.toString()));
-    const code = await new Promise<number | null>((resolve) => second.once('exit', resolve));
-    expect(code).toBe(3);
-    expect(said).toContain(`already running (pid ${process.pid})`);
+    // A start command that is alive (run as npm start runs it: tsx and a relative script path)
+    // owns the folder: another start is refused and stops none of its processes.
+    const owner = spawn(process.execPath, ['--import', 'tsx', 'test/support/run-dir-owner.ts', dir], {
+      cwd: ROOT,
+      stdio: ['ignore', 'pipe', 'pipe'],
+    });
+    try {
+      let said = '';
+      owner.stdout!.on('data', (c: Buffer) => (said += c.toString()));
+      await until('the first start to take the folder', () => said.includes('OWNED'), 30_000);
+      const busy = spawn(process.execPath, args, { detached: true, stdio: 'ignore' });
+      busy.unref();
+      writeFileSync(path.join(dir, 's3.pid'), JSON.stringify({ pid: busy.pid, args }));
+      await expect(takeOverRunDir(dir, 'start')).rejects.toThrow(`already running (pid ${owner.pid})`);
+      expect(alive(busy.pid!)).toBe(true);
+
+      // Once that start has crashed, the next one takes over and stops what it left.
+      owner.kill('SIGKILL');
+      await until('the first start to die', () => !alive(owner.pid!));
+      await takeOverRunDir(dir, 'start');
+      expect(alive(busy.pid!)).toBe(false);
+      expect((JSON.parse(readFileSync(path.join(dir, 'start.owner'), 'utf8')) as { pid: number }).pid).toBe(
+        process.pid,
+      );
+    } finally {
+      if (owner.exitCode === null) owner.kill('SIGKILL');
+    }
   });
 });
