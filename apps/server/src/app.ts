@@ -25,7 +25,7 @@ import type { Jobs } from './jobs';
 import { createNotices } from './notices/notices';
 import { outboxRoutes } from './outbox/outbox.routes';
 import { stageRoutes } from './stages/stages.routes';
-import type { ObjectStore } from './storage';
+import { storageUnavailableHandler, type ObjectStore } from './storage';
 
 export interface AppDeps {
   config: Pick<Config, 'CLIENT_DIST' | 'TRUST_PROXY'> &
@@ -197,6 +197,7 @@ export function createApp({ config, db, logger, version = '0.1.0', store, jobs }
     });
   }
 
+  app.use(storageUnavailableHandler);
   app.use(errorHandler(logger));
   return app;
 }

@@ -27,9 +27,9 @@ export function deliverableRoutes(db: Db, store: ObjectStore | undefined, maxByt
     ? deliverableUpload({
         store,
         maxBytes,
-        // A fresh folder per upload: a re-upload of the same name never lands on the old object.
-        keyFor: (req, f) =>
-          `projects/${req.project!.id}/stages/${String(req.params['stageKey'])}/${randomUUID()}/${f.safeName}`,
+        // Ids only: a fresh id per upload, so a re-upload never lands on the old object, and no
+        // name a person typed reaches storage. Older rows keep their stored key (reads use it).
+        keyFor: (req) => `projects/${req.project!.id}/stages/${keyOf(req)}/${randomUUID()}`,
       })
     : noStore;
 
