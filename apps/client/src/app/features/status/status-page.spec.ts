@@ -1,4 +1,5 @@
-import type { Health } from '@trabeate/contracts';
+import { healthSchema, type Health } from '@trabeate/contracts';
+import { reply, replyError } from '../../../testing/api-replies';
 import { provideHttpClient } from '@angular/common/http';
 import { HttpTestingController, provideHttpClientTesting } from '@angular/common/http/testing';
 import { ComponentFixture, TestBed } from '@angular/core/testing';
@@ -41,11 +42,11 @@ describe('StatusPage', () => {
     expect(el().querySelector('mat-progress-bar')).not.toBeNull();
     expect(text()).toContain('Asking the Trabeate server');
     expect(byTestId('db-status')).toBeNull();
-    req.flush(healthy);
+    reply(req, healthSchema, healthy);
   });
 
   it('when the database is up, shows the API and Database rows with their status words', async () => {
-    http.expectOne(HEALTH_URL).flush(healthy);
+    reply(http.expectOne(HEALTH_URL), healthSchema, healthy);
     await fixture.whenStable();
 
     expect(byTestId('status-loading')).toBeNull();
@@ -67,7 +68,7 @@ describe('StatusPage', () => {
       uptimeSeconds: 40,
       database: { status: 'down', latencyMs: null, message: 'connection refused' },
     };
-    http.expectOne(HEALTH_URL).flush(degraded, { status: 503, statusText: 'Service Unavailable' });
+    reply(http.expectOne(HEALTH_URL), healthSchema, degraded, { status: 503, statusText: 'Service Unavailable' });
     await fixture.whenStable();
 
     expect(byTestId('status-error')).toBeNull();
@@ -94,13 +95,14 @@ describe('StatusPage', () => {
     const again = http.expectOne(HEALTH_URL);
     expect(byTestId('status-error')).toBeNull();
     expect(byTestId('status-loading')).not.toBeNull();
-    again.flush(healthy);
+    reply(again, healthSchema, healthy);
     await fixture.whenStable();
 
     expect(byTestId('db-status')?.textContent).toBe('up');
   });
 
   it('when a proxy answers 504 for a server that is down, says the server could not be reached', async () => {
+    // Not the API's answer: the proxy in front of it.
     http.expectOne(HEALTH_URL).flush('Gateway Timeout', { status: 504, statusText: 'Gateway Timeout' });
     await fixture.whenStable();
 
@@ -108,7 +110,7 @@ describe('StatusPage', () => {
   });
 
   it('when the server fails with 500, names the HTTP status instead of calling it unreachable', async () => {
-    http.expectOne(HEALTH_URL).flush({ error: { code: 'internal' } }, { status: 500, statusText: 'Server Error' });
+    replyError(http.expectOne(HEALTH_URL), 500, { code: 'internal', message: 'Something went wrong on our side.' });
     await fixture.whenStable();
 
     expect(text()).toContain('answered with an error (HTTP 500)');
@@ -116,6 +118,7 @@ describe('StatusPage', () => {
   });
 
   it('when the answer has the wrong shape, says so rather than showing made-up rows', async () => {
+    // Deliberately not the contract's shape: this is what the page must refuse to show.
     http.expectOne(HEALTH_URL).flush({ status: 'ok', version: '0.1.0' });
     await fixture.whenStable();
 
@@ -124,7 +127,7 @@ describe('StatusPage', () => {
   });
 
   it('"Check again" on a shown result asks the server again and shows the new answer', async () => {
-    http.expectOne(HEALTH_URL).flush(healthy);
+    reply(http.expectOne(HEALTH_URL), healthSchema, healthy);
     await fixture.whenStable();
 
     const button = Array.from(el().querySelectorAll('button')).find((b) => b.textContent?.includes('Check again'));
@@ -132,7 +135,7 @@ describe('StatusPage', () => {
     button!.click();
     fixture.detectChanges();
 
-    http.expectOne(HEALTH_URL).flush({ ...healthy, database: { status: 'down', latencyMs: null } });
+    reply(http.expectOne(HEALTH_URL), healthSchema, { ...healthy, database: { status: 'down', latencyMs: null } });
     await fixture.whenStable();
     expect(byTestId('db-status')?.textContent).toBe('down');
   });
