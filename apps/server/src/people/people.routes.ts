@@ -17,7 +17,7 @@ const callerOf = (req: Request): Caller => req.caller as Caller;
 
 export function peopleRoutes(
   db: Db,
-  opts: { publicUrl: string; invitationTtlDays: number; notices?: Notices },
+  opts: { publicUrl: string; invitationTtlDays: number; linkSecret: string; notices?: Notices },
 ): RouteDecl[] {
   return [
     route('get', '/people', 'principal', async (req, res) => {
@@ -35,6 +35,7 @@ export function peopleRoutes(
       const created = await invite(db, callerOf(req), req.body, {
         publicUrl: opts.publicUrl,
         ttlDays: opts.invitationTtlDays,
+        linkSecret: opts.linkSecret,
         notices: opts.notices,
       });
       req.log?.info({ personId: created.person.id, role: created.person.role }, 'invitation created');
