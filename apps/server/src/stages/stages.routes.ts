@@ -56,7 +56,7 @@ export function stageRoutes(db: Db, notices: Notices): RouteDecl[] {
     route(
       'get',
       '/projects/:projectId/stages/:stageKey/comments',
-      'project:read',
+      'project:internal',
       validate({ params: stageParams }),
       async (req, res) => {
         res.json((await listComments(db, req.project!.id, keyOf(req))).map(commentOf));
