@@ -104,8 +104,8 @@ describe('inviting a client contact, from the dialog to their first look at the 
     await row.waitFor({ timeout: 20_000 });
     await row.click();
     await page.waitForURL(new RegExp(`/projects/${DEMO.projects.kestrel.id}`), { timeout: 20_000 });
-    await expect(testId(page, 'stage-timeline').locator('li').count()).resolves.toBe(6);
     await testId(page, 'stage-panel').waitFor({ timeout: 20_000 });
+    await expect(testId(page, 'stage-timeline').locator('li').count()).resolves.toBe(6);
     await testId(page, 'outcome-note').waitFor({ timeout: 20_000 });
     expect(await testId(page, 'comment').count()).toBe(0);
     expect(await page.locator('tb-deliverables-panel, tb-stage-comments').count()).toBe(0);

@@ -4,6 +4,7 @@ import {
   commentCreateSchema,
   stageKeySchema,
   stagePatchSchema,
+  stageSchema,
   stageTransitionSchema,
   type StageKey,
 } from '@trabeate/contracts';
@@ -32,7 +33,9 @@ export function stageRoutes(db: Db, notices: Notices): RouteDecl[] {
       async (req, res) => {
         const id = req.project!.id;
         const isArchived = await archived(id);
-        res.json((await listStages(db, id)).map((s) => stageOf(s, callerOf(req), isArchived)));
+        res.json(
+          stageSchema.array().parse((await listStages(db, id)).map((s) => stageOf(s, callerOf(req), isArchived))),
+        );
       },
     ),
     route(
