@@ -124,6 +124,8 @@ async function main(): Promise<number> {
     env.E2E_OUTBOX_URL = `http://127.0.0.1:${ports.smtpHttp}`;
     env.E2E_BASE_URL = `http://127.0.0.1:${ports.api}`;
     env.E2E_IDENTITY_URL = `http://127.0.0.1:${ports.identity}`;
+    // Lets a browser test give a new invitee an account at the local provider, as seeds/identity.ts does.
+    if (cluster) env.E2E_DATABASE_URL = cluster.url('trabeate_e2e');
   }
   const jestArgs = [
     'jest',

@@ -143,7 +143,8 @@ const MATRIX: Record<string, Entry> = {
   },
   'GET /projects/:projectId/stages/:stageKey/comments': {
     path: `/projects/${KESTREL}/stages/column_layout/comments`,
-    expect: onProject(200, 200, 200),
+    // Review threads are the firm's: the project's client sees stage progress, not the notes.
+    expect: onProject(200, 200, 403),
   },
   'POST /projects/:projectId/stages/:stageKey/comments': {
     path: `/projects/${SPARE_PROJECT}/stages/column_layout/comments`,
@@ -152,7 +153,8 @@ const MATRIX: Record<string, Entry> = {
   },
   'GET /projects/:projectId/stages/:stageKey/deliverables': {
     path: `/projects/${KESTREL}/stages/beam_framing/deliverables`,
-    expect: onProject(200, 200, 200),
+    // Working files are the firm's; files reach clients as issued drawing revisions.
+    expect: onProject(200, 200, 403),
   },
   'POST /projects/:projectId/stages/:stageKey/deliverables': {
     path: `/projects/${SPARE_PROJECT}/stages/column_layout/deliverables`,
@@ -161,7 +163,7 @@ const MATRIX: Record<string, Entry> = {
   },
   'GET /projects/:projectId/deliverables/:deliverableId/download': {
     path: `/projects/${KESTREL}/deliverables/${SPARE_FILE}/download`,
-    expect: onProject(200, 200, 200),
+    expect: onProject(200, 200, 403),
   },
   'GET /projects/:projectId/activity': { path: `/projects/${KESTREL}/activity`, expect: onProject(200, 200, 200) },
   'GET /dev/outbox': { path: '/dev/outbox', expect: principalOnly(200) },
@@ -365,13 +367,21 @@ describe('what each caller sees', () => {
       work: true,
       manage: false,
       seeFinance: false,
+      seeInternal: true,
       pay: false,
       acknowledge: false,
     });
     expect((await detail(DEMO.users.principal)).finance).toEqual({ estimatedCost: 4_850_000, currency: 'EUR' });
     const client = await detail(DEMO.users.fenwickContact);
     expect(client.finance).toEqual({ estimatedCost: 4_850_000, currency: 'EUR' });
-    expect(client.abilities).toEqual({ work: false, manage: false, seeFinance: true, pay: true, acknowledge: true });
+    expect(client.abilities).toEqual({
+      work: false,
+      manage: false,
+      seeFinance: true,
+      seeInternal: false,
+      pay: true,
+      acknowledge: true,
+    });
   });
 
   it('says why when a visible project refuses an action', async () => {

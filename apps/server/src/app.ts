@@ -153,7 +153,13 @@ export function createApp({ config, db, logger, version = '0.1.0', store, jobs }
       issueCsrfToken: (req, res, overwrite) => void csrf.generateCsrfToken(req, res, { overwrite }),
       clearCsrfToken: (res) => void res.clearCookie(CSRF_COOKIE, { path: '/' }),
     }),
-    ...peopleRoutes(db, { publicUrl, invitationTtlDays: config.INVITATION_TTL_DAYS ?? 14, notices }),
+    ...peopleRoutes(db, {
+      publicUrl,
+      invitationTtlDays: config.INVITATION_TTL_DAYS ?? 14,
+      // Invitation links are derived from it, so the same link can be sent again.
+      linkSecret: secrets[0],
+      notices,
+    }),
     ...projectRoutes(db),
     ...stageRoutes(db, notices),
     ...deliverableRoutes(db, store, config.UPLOAD_MAX_BYTES ?? 1024 * 1024 * 1024),

@@ -93,8 +93,9 @@ export const stageSchema = z.object({
   late: z.boolean(),
   submittedAt: z.iso.datetime().nullable(),
   approvedAt: z.iso.datetime().nullable(),
-  deliverableCount: z.number().int(),
-  commentCount: z.number().int(),
+  /** Null for callers who may not see the firm's working files and review thread (clients). */
+  deliverableCount: z.number().int().nullable(),
+  commentCount: z.number().int().nullable(),
   /** The transitions the caller may take now (the server decides; the client only shows them). */
   allowedActions: z.array(z.enum(['start', 'submit', 'approve', 'return', 'reopen'])),
 });

@@ -57,8 +57,10 @@ export async function listActivity(
   db: Db,
   projectId: string,
   q: ActivityFilters,
+  hiddenTypes: readonly string[] = [],
 ): Promise<{ rows: ActivityRow[]; total: number }> {
   const base = db('activity as a').where('a.project_id', projectId);
+  if (hiddenTypes.length) base.whereNotIn('a.object_type', hiddenTypes);
   if (q.objectType) base.andWhere('a.object_type', q.objectType);
   if (q.stageKey) base.andWhere('a.stage_key', q.stageKey);
   if (q.actorId) base.andWhere('a.actor_id', q.actorId);

@@ -37,7 +37,7 @@ export function deliverableRoutes(db: Db, store: ObjectStore | undefined, maxByt
     route(
       'get',
       '/projects/:projectId/stages/:stageKey/deliverables',
-      'project:read',
+      'project:internal',
       validate({ params: stageParams }),
       async (req, res) => {
         res.json((await listDeliverables(db, req.project!.id, keyOf(req))).map(deliverableOf));
@@ -69,7 +69,7 @@ export function deliverableRoutes(db: Db, store: ObjectStore | undefined, maxByt
     route(
       'get',
       '/projects/:projectId/deliverables/:deliverableId/download',
-      'project:read',
+      'project:internal',
       validate({ params: fileParams }),
       async (req, res) => {
         if (!store) throw new HttpError(503, 'service_unavailable', 'File storage is not configured on this server.');

@@ -1,4 +1,5 @@
 import { healthSchema, type Health } from '@trabeate/contracts';
+import { reply, replyError } from '../../../testing/api-replies';
 import { provideHttpClient } from '@angular/common/http';
 import { HttpTestingController, provideHttpClientTesting } from '@angular/common/http/testing';
 import { ComponentFixture, TestBed } from '@angular/core/testing';
@@ -58,11 +59,11 @@ describe('StatusPage', () => {
     expect(el().querySelector('mat-progress-bar')).not.toBeNull();
     expect(text()).toContain('Asking the Trabeate server');
     expect(byTestId('status-database')).toBeNull();
-    req.flush(healthy);
+    reply(req, healthSchema, healthy);
   });
 
   it('when everything is up, shows the API and a row for each dependency with its status word', async () => {
-    http.expectOne(HEALTH_URL).flush(healthy);
+    reply(http.expectOne(HEALTH_URL), healthSchema, healthy);
     await fixture.whenStable();
 
     expect(byTestId('status-loading')).toBeNull();
@@ -85,7 +86,7 @@ describe('StatusPage', () => {
       latencyMs: null,
       message: 'The database did not answer within 1.5 s.',
     });
-    http.expectOne(HEALTH_URL).flush(down, { status: 503, statusText: 'Service Unavailable' });
+    reply(http.expectOne(HEALTH_URL), healthSchema, down, { status: 503, statusText: 'Service Unavailable' });
     await fixture.whenStable();
 
     expect(byTestId('status-error')).toBeNull();
@@ -110,7 +111,7 @@ describe('StatusPage', () => {
         mailRelay: { status: 'down', latencyMs: null, essential: false },
       },
     });
-    http.expectOne(HEALTH_URL).flush(degraded);
+    reply(http.expectOne(HEALTH_URL), healthSchema, degraded);
     await fixture.whenStable();
 
     expect(byTestId('status-summary')?.textContent).toContain(
@@ -127,7 +128,9 @@ describe('StatusPage', () => {
   });
 
   it('shows a dependency this server runs without as "not set up", not as a fault', async () => {
-    http.expectOne(HEALTH_URL).flush(
+    reply(
+      http.expectOne(HEALTH_URL),
+      healthSchema,
       withDependency('ok', 'mailRelay', {
         status: 'not_configured',
         latencyMs: null,
@@ -157,13 +160,14 @@ describe('StatusPage', () => {
     const again = http.expectOne(HEALTH_URL);
     expect(byTestId('status-error')).toBeNull();
     expect(byTestId('status-loading')).not.toBeNull();
-    again.flush(healthy);
+    reply(again, healthSchema, healthy);
     await fixture.whenStable();
 
     expect(byTestId('status-database')?.textContent).toBe('up');
   });
 
   it('when a proxy answers 504 for a server that is down, says the server could not be reached', async () => {
+    // Not the API's answer: the proxy in front of it.
     http.expectOne(HEALTH_URL).flush('Gateway Timeout', { status: 504, statusText: 'Gateway Timeout' });
     await fixture.whenStable();
 
@@ -171,7 +175,7 @@ describe('StatusPage', () => {
   });
 
   it('when the server fails with 500, names the HTTP status instead of calling it unreachable', async () => {
-    http.expectOne(HEALTH_URL).flush({ error: { code: 'internal' } }, { status: 500, statusText: 'Server Error' });
+    replyError(http.expectOne(HEALTH_URL), 500, { code: 'internal', message: 'Something went wrong on our side.' });
     await fixture.whenStable();
 
     expect(text()).toContain('answered with an error (HTTP 500)');
@@ -193,7 +197,7 @@ describe('StatusPage', () => {
   });
 
   it('"Check again" on a shown result asks the server again and shows the new answer', async () => {
-    http.expectOne(HEALTH_URL).flush(healthy);
+    reply(http.expectOne(HEALTH_URL), healthSchema, healthy);
     await fixture.whenStable();
 
     const button = Array.from(el().querySelectorAll('button')).find((b) => b.textContent?.includes('Check again'));
@@ -201,7 +205,11 @@ describe('StatusPage', () => {
     button!.click();
     fixture.detectChanges();
 
-    http.expectOne(HEALTH_URL).flush(withDependency('degraded', 'objectStorage', { status: 'down', latencyMs: null }));
+    reply(
+      http.expectOne(HEALTH_URL),
+      healthSchema,
+      withDependency('degraded', 'objectStorage', { status: 'down', latencyMs: null }),
+    );
     await fixture.whenStable();
     expect(byTestId('status-objectStorage')?.textContent).toBe('down');
   });
