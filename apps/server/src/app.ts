@@ -153,6 +153,7 @@ export function createApp({ config, db, logger, version = '0.1.0', store, jobs }
     sessionMiddleware(db, {
       secrets,
       idleMinutes: config.SESSION_IDLE_MINUTES ?? 60,
+      touchSeconds: config.SESSION_TOUCH_SECONDS ?? 300,
       absoluteHours,
       secureCookies,
     }),

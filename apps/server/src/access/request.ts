@@ -31,6 +31,8 @@ declare module 'express-session' {
   interface SessionData {
     auth?: SessionAuth;
     signIn?: PendingSignIn;
+    /** When the idle expiry was last pushed forward (ms since 1970); see refreshIdleExpiry. */
+    seenAt?: number;
   }
 }
 

@@ -12,6 +12,8 @@ export const SESSION_COOKIE = 'trabeate.sid';
 export interface SessionSettings {
   secrets: string[];
   idleMinutes: number;
+  /** The idle expiry is pushed forward at most this often (seconds). */
+  touchSeconds: number;
   absoluteHours: number;
   secureCookies: boolean;
 }
@@ -33,7 +35,12 @@ function knexPool(db: Db) {
   };
 }
 
-/** Sessions in PostgreSQL (table `sessions`), so every API process sees the same ones. */
+/**
+ * Sessions in PostgreSQL (table `sessions`), so every API process sees the same ones. A read
+ * request writes nothing: the store's per-request touch is off and the idle expiry moves forward
+ * only every `touchSeconds` (see refreshIdleExpiry), which at 100 concurrent requests was the
+ * largest single cost of a signed-in read.
+ */
 export function sessionMiddleware(db: Db, s: SessionSettings): RequestHandler {
   const PgStore = connectPgSimple(session);
   const store = new PgStore({
@@ -42,19 +49,41 @@ export function sessionMiddleware(db: Db, s: SessionSettings): RequestHandler {
     createTableIfMissing: false,
     // Expired rows are skipped on read; pruning is a maintenance job, not a per-process timer.
     pruneSessionInterval: false,
+    disableTouch: true,
   });
-  return session({
+  const handler = session({
     name: SESSION_COOKIE,
     secret: s.secrets,
     store,
     resave: false,
     saveUninitialized: false,
-    // Each answer pushes the idle expiry forward; the absolute limit is checked in loadCaller.
-    rolling: true,
+    // Not rolling: the cookie and the row are renewed together by refreshIdleExpiry.
+    rolling: false,
     unset: 'destroy',
     genid: () => randomBytes(24).toString('base64url'),
     cookie: { httpOnly: true, sameSite: 'lax', secure: s.secureCookies, path: '/', maxAge: s.idleMinutes * 60_000 },
   });
+  const refresh = refreshIdleExpiry(s.idleMinutes, s.touchSeconds);
+  return (req, res, next) => handler(req, res, (err?: unknown) => (err ? next(err) : refresh(req, res, next)));
+}
+
+/**
+ * Pushes a signed-in session's idle expiry forward when it was last pushed more than
+ * `touchSeconds` ago. Changing `seenAt` marks the session modified, so express-session saves the
+ * row (new expiry) and sends the cookie again (same expiry) in the one write; other requests
+ * leave both alone.
+ */
+export function refreshIdleExpiry(idleMinutes: number, touchSeconds: number): RequestHandler {
+  const idleMs = idleMinutes * 60_000;
+  return (req, _res, next) => {
+    const s = req.session;
+    const expires = s?.auth ? s.cookie.expires : undefined;
+    if (s && expires && new Date(expires).getTime() - Date.now() < idleMs - touchSeconds * 1000) {
+      s.seenAt = Date.now();
+      s.touch();
+    }
+    next();
+  };
 }
 
 /**
