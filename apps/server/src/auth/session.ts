@@ -5,7 +5,8 @@ import connectPgSimple from 'connect-pg-simple';
 import type { Db } from '../db/db';
 import type { Caller } from '../access/policy';
 import type { SessionAuth } from '../access/request';
-import { bindAccount, loadActiveUser } from '../people/people.repository';
+import { bindAccount } from '../people/people.repository';
+import { loadCallerRow } from './caller.repository';
 
 export const SESSION_COOKIE = 'trabeate.sid';
 
@@ -108,12 +109,13 @@ export function loadCaller(db: Db, absoluteHours: number): RequestHandler {
       req.sessionProblem = 'expired';
       return next();
     }
-    let user = auth.userId ? await loadActiveUser(db, auth.userId) : undefined;
+    let user: UserRow | undefined = auth.userId ? await loadCallerRow(db, auth.userId) : undefined;
     if (!auth.userId) {
-      user = await bindAccount(db, auth);
-      if (user) {
-        req.session.auth = { ...auth, userId: user.id } satisfies SessionAuth;
-        req.log?.info({ userId: user.id }, 'signed-in identity bound to an invitation');
+      const bound = await bindAccount(db, auth);
+      if (bound) {
+        req.session.auth = { ...auth, userId: bound.id } satisfies SessionAuth;
+        req.log?.info({ userId: bound.id }, 'signed-in identity bound to an invitation');
+        user = await loadCallerRow(db, bound.id);
       }
     }
     if (user) req.caller = toCaller(user);
@@ -132,10 +134,14 @@ export interface UserRow {
   display_name: string;
   firm_role: 'principal' | 'engineer' | null;
   client_organisation_id: string | null;
+  /** Present when loaded with the names (loadCallerRow). */
+  firm_name?: string;
+  org_name?: string | null;
 }
 
 export function toCaller(u: UserRow): Caller {
   return {
+    ...(u.firm_name === undefined ? {} : { firmName: u.firm_name, clientOrganisationName: u.org_name ?? null }),
     userId: u.id,
     firmId: u.firm_id,
     email: u.email,
