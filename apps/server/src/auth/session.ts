@@ -50,8 +50,10 @@ export function sessionMiddleware(db: Db, s: SessionSettings): RequestHandler {
     createTableIfMissing: false,
     // Expired rows are skipped on read; pruning is a maintenance job, not a per-process timer.
     pruneSessionInterval: false,
-    disableTouch: true,
   });
+  // No touch at all (rather than the store's disableTouch, whose synchronous no-op callback sent
+  // express-session down its write-twice path): express-session then skips it for unchanged sessions.
+  Object.defineProperty(store, 'touch', { value: undefined });
   const handler = session({
     name: SESSION_COOKIE,
     secret: s.secrets,
