@@ -1,14 +1,16 @@
 import { randomBytes } from 'node:crypto';
-import type { RequestHandler } from 'express';
+import type { Request, RequestHandler } from 'express';
 import session from 'express-session';
 import connectPgSimple from 'connect-pg-simple';
 import type { Db } from '../db/db';
 import type { Caller } from '../access/policy';
 import type { SessionAuth } from '../access/request';
 import { bindAccount } from '../people/people.repository';
-import { loadCallerRow } from './caller.repository';
+import { loadCallerRow, loadSessionWithCaller, type CallerRow } from './caller.repository';
 
 export const SESSION_COOKIE = 'trabeate.sid';
+
+const PRELOADED_CALLER = Symbol('preloaded caller');
 
 export interface SessionSettings {
   secrets: string[];
@@ -44,7 +46,26 @@ function knexPool(db: Db) {
  */
 export function sessionMiddleware(db: Db, s: SessionSettings): RequestHandler {
   const PgStore = connectPgSimple(session);
-  const store = new PgStore({
+  /**
+   * Reads the session and the person it names in one query (see loadSessionWithCaller) and hands
+   * the person to loadCaller on the request. Nothing is kept between requests.
+   */
+  class SessionAndCallerStore extends PgStore {
+    override get(sid: string, fn: (err: unknown, sess?: session.SessionData | null) => void): void {
+      loadSessionWithCaller(db, sid).then((found) => {
+        if (!found) return fn(null, null);
+        const sess = (typeof found.sess === 'string' ? JSON.parse(found.sess) : found.sess) as session.SessionData;
+        Object.defineProperty(sess, PRELOADED_CALLER, { value: found.caller, enumerable: false });
+        fn(null, sess);
+      }, fn);
+    }
+    override createSession(req: Request, sess: session.SessionData): session.Session & session.SessionData {
+      const preloaded = (sess as unknown as Record<symbol, CallerRow | null | undefined>)[PRELOADED_CALLER];
+      if (preloaded !== undefined) req.preloadedCaller = preloaded;
+      return super.createSession(req, sess);
+    }
+  }
+  const store = new SessionAndCallerStore({
     pool: knexPool(db) as never,
     tableName: 'sessions',
     createTableIfMissing: false,
@@ -73,7 +94,7 @@ export function sessionMiddleware(db: Db, s: SessionSettings): RequestHandler {
 /**
  * Pushes a signed-in session's idle expiry forward when it was last pushed more than
  * `touchSeconds` ago. Changing `seenAt` marks the session modified, so express-session saves the
- * row (new expiry) and sends the cookie again (same expiry) in the one write; other requests
+ * row and sends the cookie again, both with the new expiry, in the one write; other requests
  * leave both alone.
  */
 export function refreshIdleExpiry(idleMinutes: number, touchSeconds: number): RequestHandler {
@@ -111,7 +132,14 @@ export function loadCaller(db: Db, absoluteHours: number): RequestHandler {
       req.sessionProblem = 'expired';
       return next();
     }
-    let user: UserRow | undefined = auth.userId ? await loadCallerRow(db, auth.userId) : undefined;
+    // Normally read with the session itself (SessionAndCallerStore); null there means no active person.
+    const preloaded = req.preloadedCaller;
+    let user: UserRow | undefined =
+      preloaded !== undefined
+        ? (preloaded ?? undefined)
+        : auth.userId
+          ? await loadCallerRow(db, auth.userId)
+          : undefined;
     if (!auth.userId) {
       const bound = await bindAccount(db, auth);
       if (bound) {
