@@ -39,11 +39,15 @@ function childService(name: string, args: string[], env: Record<string, string>,
       child = spawn(process.execPath, args, { env: { ...process.env, ...env }, stdio: ['ignore', fd, fd] });
       closeSync(fd);
     },
-    ready: () =>
-      waitFor(name, async () => {
+    ready: async () => {
+      await waitFor(name, async () => {
         if (child?.exitCode !== null && child?.exitCode !== undefined) throw new Error(`${name} exited`);
         return httpOk(`http://127.0.0.1:${port}${name === 'api' ? '/api/health' : '/bare'}`);
-      }),
+      });
+      // Still alive a moment later: not a process that lost the port to another one answering there.
+      await new Promise((r) => setTimeout(r, 1000));
+      if (child?.exitCode !== null) throw new Error(`${name} exited (port ${port} taken?); see ${logFile}`);
+    },
     stop: async () => {
       if (child) await stopChild(child);
     },
@@ -65,7 +69,10 @@ async function measure(url: string, cookie?: string): Promise<Figures> {
 }
 
 async function main(): Promise<number> {
-  const ports = { postgres: await freePort(5462), api: await freePort(4340), bare: await freePort(4349) };
+  // Ports picked at random in a high range: colleagues' benchmarks run on the same machine, and a
+  // common default once let a health check reach someone else's API.
+  const pick = () => 20_000 + Math.floor(Math.random() * 20_000);
+  const ports = { postgres: await freePort(pick()), api: await freePort(pick()), bare: await freePort(pick()) };
   const cluster = new Cluster({ name: `pg-bench-api-${process.pid}`, port: ports.postgres, fast: false });
   const databaseUrl = cluster.url('trabeate_bench');
   const apiLog = `tmp/bench-api-${process.pid}.log`;
