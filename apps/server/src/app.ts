@@ -149,7 +149,7 @@ export function createApp({ config, db, logger, version = '0.1.0', store, jobs }
       oidc,
       publicUrl,
       absoluteHours,
-      rateLimit: signInRateLimit(db, config.SIGN_IN_RATE_LIMIT ?? 30),
+      rateLimit: signInRateLimit(db, config.SIGN_IN_RATE_LIMIT),
       issueCsrfToken: (req, res, overwrite) => void csrf.generateCsrfToken(req, res, { overwrite }),
       clearCsrfToken: (res) => void res.clearCookie(CSRF_COOKIE, { path: '/' }),
     }),
@@ -174,6 +174,7 @@ export function createApp({ config, db, logger, version = '0.1.0', store, jobs }
     sessionMiddleware(db, {
       secrets,
       idleMinutes: config.SESSION_IDLE_MINUTES ?? 60,
+      touchSeconds: config.SESSION_TOUCH_SECONDS ?? 300,
       absoluteHours,
       secureCookies,
     }),

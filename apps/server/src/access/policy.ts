@@ -22,6 +22,9 @@ export interface Caller {
   displayName: string;
   role: Role;
   clientOrganisationId: string | null;
+  /** Names loaded with the caller on each request (absent where a caller is built otherwise). */
+  firmName?: string;
+  clientOrganisationName?: string | null;
 }
 
 /** The facts about one project that visibility depends on. */

@@ -64,8 +64,8 @@ export async function listActivity(
   if (q.objectType) base.andWhere('a.object_type', q.objectType);
   if (q.stageKey) base.andWhere('a.stage_key', q.stageKey);
   if (q.actorId) base.andWhere('a.actor_id', q.actorId);
-  const [{ n }] = await base.clone().count<{ n: string }[]>('* as n');
-  const rows: ActivityRow[] = await base
+  // The total rides along as a window count: one round trip instead of two.
+  const rows: Array<ActivityRow & { total_count: string }> = await base
     .clone()
     .leftJoin('users as u', 'u.id', 'a.actor_id')
     .orderBy([
@@ -84,6 +84,10 @@ export async function listActivity(
       'a.object_id',
       'a.stage_key',
       'a.summary',
+      db.raw('count(*) over () as total_count'),
     );
-  return { rows, total: Number(n) };
+  if (rows.length) return { rows, total: Number(rows[0].total_count) };
+  // Past the last page (or nothing matches): the count alone.
+  const [{ n }] = q.page > 1 ? await base.clone().count<{ n: string }[]>('* as n') : [{ n: '0' }];
+  return { rows: [], total: Number(n) };
 }
