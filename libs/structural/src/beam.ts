@@ -7,6 +7,9 @@
 import { bandAdd, bandMatrix, BandMatrix, factorBand, solveBand } from './banded';
 import { CAUTION } from './codes';
 import type { Problem } from './model';
+import { StructuralInputError } from './errors';
+
+export { StructuralInputError };
 
 type Obj = Record<string, unknown>;
 const isObj = (v: unknown): v is Obj => typeof v === 'object' && v !== null && !Array.isArray(v);
@@ -66,17 +69,6 @@ export function uniformLoad(member: number, wKNPerM: number, lengthM: number): L
 /** A point load P kN at a m from the member's start. */
 export function pointLoad(member: number, atM: number, forceKN: number): PointLoad {
   return { kind: 'point', member, atM, forceKN };
-}
-
-/**
- * The one error the engine's builders and formula helpers throw: the input is outside what the
- * function accepts. `problems` names each field and the accepted range.
- */
-export class StructuralInputError extends Error {
-  constructor(readonly problems: Problem[]) {
-    super(problems.map((p) => `${p.path}: ${p.message}`).join('; '));
-    this.name = 'StructuralInputError';
-  }
 }
 
 /**

@@ -31,6 +31,7 @@ export const RULES = {
   columnMerge: 'column.merge',
   columnWall: 'column.wider-than-wall',
   columnCapacity: 'column.capacity',
+  columnUplift: 'column.uplift',
   columnSteel: 'column.steel-ratio',
   columnOffGrid: 'column.off-grid',
   pointLoad: 'beam.point-load-on-long-span',

@@ -1,5 +1,15 @@
 // Envelope of a continuous beam under factored dead load on every span and imposed load
-// patterned over all spans, alternate spans, and adjacent pairs with alternates beyond. Every
+// patterned over all spans, alternate spans, and adjacent pairs with alternates beyond.
+//
+// What the clauses ask: IS 456:2000 cl. 22.4.1 (a) imposed load on two adjacent spans, (b) on
+// alternate spans; ACI 318-19 §6.4.2 (a) on the span and alternate spans for the largest positive
+// moment, (b) on adjacent spans only for the largest negative moment at a support. The engine
+// also loads all spans, and loads every other span beyond an adjacent pair: those further spans
+// add to the hogging at the pair's support, so it gives at least the clause's support moment.
+// These are more arrangements and heavier ones than the clauses ask for (conservative), not the
+// clauses' own list.
+//
+// Every
 // arrangement is evaluated over every span, and extremes are taken exactly: within a span the
 // moment is a piecewise cubic between load discontinuities, so its extremes lie at the ends, at
 // the breakpoints and where the shear crosses zero.
