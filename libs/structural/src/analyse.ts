@@ -13,6 +13,7 @@ import { costOf, Cost, Quantities, QuantityTally } from './quantities';
 import { boundaryOptions, BoundaryOptions, FootingSite, LineClearance, overlappingFootings, OverlapCombined, propertyLineClearances } from './site';
 import { beamDepth, BeamSize, columnSize, slabSizes, SlabSize } from './sizing';
 import { validateScheme } from './validate';
+import { StructuralInputError } from './errors';
 
 export type LevelKind = 'floor' | 'roof';
 
@@ -143,6 +144,20 @@ function tributaries(layout: Layout): Map<string, { area: number; lengths: { lin
 export function analyseScheme(scheme: Scheme): SchemeResult {
   const problems = validateScheme(scheme);
   if (problems.length) return emptyResult(scheme, problems);
+  try {
+    return analyseValid(scheme);
+  } catch (e) {
+    // a helper refusing a derived figure (a span or a load beyond its range) is the scheme's
+    // problem, not a crash; anything else is a bug and propagates
+    if (e instanceof StructuralInputError) return emptyResult(scheme, e.problems.map((p) => ({ ...p, path: `derived.${p.path}`, message: `a figure derived from the scheme is out of range: ${p.message}` })));
+    throw e;
+  }
+}
+
+/** Longest beam span between columns the engine plans, m. */
+export const MAX_SPAN_M = 30;
+
+function analyseValid(scheme: Scheme): SchemeResult {
   const b = scheme.basis;
   const family = b.codeFamily;
   const defaults = codeDefaults(family);
@@ -153,6 +168,12 @@ export function analyseScheme(scheme: Scheme): SchemeResult {
   const fy = b.steelMPa;
   const layout = deriveLayout(scheme);
   const N = b.storeys;
+  const spanProblems: Problem[] = [];
+  for (const l of layout.lines)
+    for (const m of l.members)
+      if (m.lengthM > MAX_SPAN_M)
+        spanProblems.push({ path: `grid.${l.gridLineId}`, elementId: m.id, field: 'span', message: `beam span ${m.lengthM.toFixed(2)} m is beyond the ${MAX_SPAN_M} m the engine plans (accepted: up to ${MAX_SPAN_M} m between columns)` });
+  if (spanProblems.length) return emptyResult(scheme, spanProblems);
 
   // slab
   const slabPanels = slabSizes(family, layout, fy, limits.slabOneWayAspect.value, limits.slabCoverToSteelMm.value, limits.slabMinThicknessMm.value);

@@ -174,10 +174,17 @@ export function codeDefaults(family: CodeFamily): CodeDefaults {
   };
 }
 
-/** The defaults with a project's overrides applied (each value in its limit's own unit); overridden limits say so. */
+/**
+ * The defaults with a project's overrides applied (each value in its limit's own unit, 0 to
+ * 1 000 000); overridden limits say so. Unknown keys are ignored here (validateScheme reports
+ * them); a value that is not such a number throws StructuralInputError.
+ */
 export function resolveLimits(family: CodeFamily, overrides?: Partial<Record<string, number>>): Limits {
   const limits = { ...codeDefaults(family).limits };
-  for (const [k, v] of Object.entries(overrides ?? {})) {
+  const given = typeof overrides === 'object' && overrides !== null ? Object.entries(overrides) : [];
+  const bad = given.filter(([k, v]) => k in limits && v !== undefined && !(typeof v === 'number' && Number.isFinite(v) && v >= 0 && v <= 1e6));
+  if (bad.length) throw new StructuralInputError(bad.map(([k]) => ({ path: `limitOverrides.${k}`, field: k, message: "must be a number from 0 to 1000000 in the limit's unit" })));
+  for (const [k, v] of given) {
     if (typeof v !== 'number' || !(k in limits)) continue;
     const key = k as LimitKey;
     limits[key] = { ...limits[key], value: v, source: `project setting (default ${limits[key].value} ${limits[key].unit}: ${limits[key].source})`, kind: 'project' };

@@ -24,6 +24,7 @@
 // govern. A running maximum and minimum per side and parity finds them in one sweep.
 import { BeamLoad, BeamModel, groupLoads, memberTerms, PreparedBeam, prepareBeam, simpleDeflection, simpleShear, solvePacked, validateBeamModel, validateLoads } from './beam';
 import { CAUTION, Combination } from './codes';
+import { StructuralInputError } from './errors';
 import type { Problem } from './model';
 
 // three points per member: the largest deflection lies near mid-span, or at a free end
@@ -66,8 +67,11 @@ export interface BeamEnvelope {
  * The imposed-load arrangements of a beam with n members (no units): label, loaded members, and
  * scope. Every arrangement is now evaluated over every member, so scope is always null (kept for
  * callers of the earlier form, where adjacent-span arrangements were scanned beside their support only).
+ * Throws StructuralInputError for an invalid model.
  */
 export function loadPatterns(model: BeamModel): { label: string; members: boolean[]; scope: [number, number] | null }[] {
+  const problems = validateBeamModel(model);
+  if (problems.length) throw new StructuralInputError(problems);
   const n = model.members.length;
   return arrangements(model).map((a) => {
     const members: boolean[] = [];

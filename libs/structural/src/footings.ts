@@ -55,7 +55,8 @@ export function isolatedFooting(serviceKN: number, qaKPa: number, alpha: number,
     areaM2,
     sideM,
     adoptedSideM,
-    factoredPressureKPa: factoredKN / (adoptedSideM * adoptedSideM),
+    // no load, no pad: nothing presses on the soil
+    factoredPressureKPa: adoptedSideM > 0 ? factoredKN / (adoptedSideM * adoptedSideM) : 0,
     thicknessM: Math.max(0.3, roundUp(0.2 * adoptedSideM, 0.05)),
   };
 }
