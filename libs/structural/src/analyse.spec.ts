@@ -269,6 +269,11 @@ describe('checks', () => {
     const f = failed(s, 'column.capacity');
     expect(f.map((c) => c.elements[0])).toContain('C1_1');
     expect(f[0].source).toMatch(/IS 456:2000 cl\. 39\.3/);
+    expect(f[0].sourceKind).toBe('code');
+    // EN 1992: capacity worked by strain compatibility from its clauses, so derived
+    const en = analyseScheme({ ...s, basis: { ...s.basis, codeFamily: 'EN1992', concreteMPa: 30, steelMPa: 500 } }).checks.filter((c) => c.ruleId === 'column.capacity');
+    expect(en.length).toBeGreaterThan(0);
+    expect(en[0]).toMatchObject({ sourceKind: 'derived', source: expect.stringMatching(/§6\.1\(4\)/) });
   });
 });
 

@@ -435,14 +435,16 @@ function sizeChecks(
   }
   for (const cs of colSizes) {
     const pu = cs.utilisation[0] * cs.providedCapacityKN;
-    const lim = { value: cs.providedCapacityKN, unit: 'kN', source: cs.source, kind: 'code' as const };
+    // IS 456 cl. 39.3 and ACI §22.4.2 are formulas of the code; the EN value is worked from its clauses
+    const lim = { value: cs.providedCapacityKN, unit: 'kN', source: cs.source, kind: mat.family === 'EN1992' ? ('derived' as const) : ('code' as const) };
     checks.push(check(RULES.columnCapacity, 'error', [cs.columnId], () => `column ${cs.columnId} (${cs.providedMm[0]} × ${cs.providedMm[1]} mm) carries ${pu.toFixed(0)} kN in the lowest storey against ${cs.providedCapacityKN.toFixed(0)} kN; ${cs.requiredSideMm[0]} mm square would do`, pu, lim, 'max'));
   }
   // every column near a property line: how far its isolated pad reaches toward the line against
   // the distance to the line (passes when the pad stays inside the plot)
+  const options = new Map(boundary.map((x) => [`${x.columnId}\u0000${x.propertyLine}`, x]));
   for (const c of clearances) {
     const lim = { value: c.distanceToLineM, unit: 'm', source: `distance to property line ${c.propertyLine} (scheme)`, kind: 'project' as const };
-    const o = boundary.find((x) => x.columnId === c.columnId && x.propertyLine === c.propertyLine);
+    const o = options.get(`${c.columnId}\u0000${c.propertyLine}`);
     checks.push(check(RULES.footingLine, 'warning', [c.columnId], () => (o ? `the isolated footing of ${c.columnId} would cross property line ${c.propertyLine} by ${o.crossingM.toFixed(2)} m; see the footing options` : `the isolated footing of ${c.columnId} reaches ${c.reachM.toFixed(2)} m toward property line ${c.propertyLine}, ${c.distanceToLineM.toFixed(2)} m away`), c.reachM, lim, 'max'));
   }
   for (const o of combined) {
@@ -457,6 +459,13 @@ function sizeChecks(
 function requiredSteelRatio(mat: { family: CodeFamily; fck: number; fy: number; alphaCc?: number }, sec: [number, number], loadKN: number, cap: number): number {
   const cap2 = Math.min(0.1, cap * 1.5);
   const capacity = (r: number) => columnCapacityKN(mat.family, sec[0], sec[1], mat.fck, mat.fy, r, { alphaCc: mat.alphaCc }).value;
+  if (mat.family !== 'EN1992') {
+    // IS 456 cl. 39.3 and ACI §22.4.2 are linear in the steel area: solve directly
+    const c0 = capacity(0);
+    const c1 = capacity(1e-3);
+    const r = c1 > c0 ? ((loadKN - c0) / (c1 - c0)) * 1e-3 : cap2;
+    return Math.min(cap2, Math.max(0, r));
+  }
   if (capacity(0) >= loadKN) return 0;
   if (capacity(cap2) < loadKN) return cap2;
   let lo = 0, hi = cap2;

@@ -458,6 +458,14 @@ function checkSpan(condition: unknown, v: Record<string, number>): void {
 
 /** Refuses a family or strengths the formulas do not cover (one documented error type). */
 function checkFormulaInput(family: unknown, v: { bMm: number; dMm: number; fck: number; fy: number }, opts?: { alphaCc?: number; eccentricityMm?: number }): void {
+  // the usual case, without allocating: sizing calls these formulas tens of thousands of times
+  if (
+    (family === 'IS456' || family === 'ACI318' || family === 'EN1992') &&
+    v.bMm >= 1 && v.bMm <= 5000 && v.dMm >= 1 && v.dMm <= 5000 && v.fck >= 10 && v.fck <= 120 && v.fy >= 200 && v.fy <= 700 &&
+    (opts?.alphaCc === undefined || (opts.alphaCc >= 0.8 && opts.alphaCc <= 1)) &&
+    (opts?.eccentricityMm === undefined || (opts.eccentricityMm >= 0 && opts.eccentricityMm <= 5000))
+  )
+    return;
   const problems: { path: string; field: string; message: string }[] = [];
   if (family !== 'IS456' && family !== 'ACI318' && family !== 'EN1992') problems.push({ path: 'family', field: 'family', message: 'must be one of IS456, ACI318, EN1992' });
   for (const [field, lo, hi] of [['bMm', 1, 5000], ['dMm', 1, 5000], ['fck', 10, 120], ['fy', 200, 700]] as const) {
