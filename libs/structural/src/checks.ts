@@ -4,6 +4,7 @@
 import type { Limit, Limits, SourceKind } from './codes';
 import type { BeamLine, Layout } from './layout';
 import { columnPlan } from './layout';
+import { StructuralInputError } from './errors';
 import type { Scheme } from './model';
 
 export type Severity = 'error' | 'warning' | 'info';
@@ -31,6 +32,7 @@ export const RULES = {
   columnMerge: 'column.merge',
   columnWall: 'column.wider-than-wall',
   columnCapacity: 'column.capacity',
+  columnUplift: 'column.uplift',
   columnSteel: 'column.steel-ratio',
   columnOffGrid: 'column.off-grid',
   pointLoad: 'beam.point-load-on-long-span',
@@ -91,8 +93,12 @@ function margin(c: CheckDraft): number {
   return (c.sense === 'max' ? c.limit - c.value : c.value - c.limit) / (Math.abs(c.limit) || 1);
 }
 
-/** Splits a list of checks into failures and a per-rule summary of passes (see CheckList). */
+/** Splits a list of checks into failures and a per-rule summary of passes (see CheckList); throws StructuralInputError for anything else. No units. */
 export function splitChecks(all: readonly CheckDraft[]): { failed: Check[]; passed: PassedRule[] } {
+  const bad = !Array.isArray(all)
+    ? 0
+    : all.findIndex((c) => typeof c !== 'object' || c === null || typeof c.ruleId !== 'string' || (c.status !== 'pass' && c.status !== 'fail') || !Number.isFinite(c.value) || !Number.isFinite(c.limit) || (c.sense !== 'max' && c.sense !== 'min') || !['error', 'warning', 'info'].includes(c.severity) || (typeof c.message !== 'string' && typeof c.message !== 'function'));
+  if (bad !== -1) throw new StructuralInputError([{ path: Array.isArray(all) ? `checks[${bad}]` : 'checks', field: 'checks', message: 'must be a list of checks { ruleId, severity, status, message, value, limit, sense, … }' }]);
   const list = new CheckList();
   for (const c of all) list.push(c);
   return list.result();

@@ -22,6 +22,13 @@ const fmt = (v: number, d = 0) => v.toLocaleString('en-GB', { maximumFractionDig
 
 /** Compares two analysed schemes; costs in the schemes' currency, lengths m, depths mm. */
 export function compareResults(ra: SchemeResult, rb: SchemeResult): SchemeComparison {
+  // anything but two results of analyseScheme is refused as "not comparable", never a TypeError
+  const usable = (r: unknown): r is SchemeResult => {
+    const o = r as Partial<SchemeResult> | null;
+    return typeof o === 'object' && o !== null && typeof o.ok === 'boolean' && typeof o.cost?.total === 'number' && typeof o.summary === 'object' && o.summary !== null;
+  };
+  if (!usable(ra) || !usable(rb))
+    return { caution: CAUTION, ok: false, a: { id: '', name: '', cost: 0 }, b: { id: '', name: '', cost: 0 }, currency: '', differences: [], costDrivers: [], summary: ['Both arguments must be results of analyseScheme.'] };
   const base = { caution: CAUTION, a: { id: ra.schemeId, name: ra.schemeName, cost: ra.cost.total }, b: { id: rb.schemeId, name: rb.schemeName, cost: rb.cost.total }, currency: ra.cost.currency };
   if (!ra.ok || !rb.ok) return { ...base, ok: false, differences: [], costDrivers: [], summary: ['One of the schemes has input problems; fix them to compare.'] };
   const row = (item: string, unit: string, a: number, b: number) => ({ item, unit, a, b, delta: b - a });

@@ -4,6 +4,7 @@
 // patterns can be formed later.
 import type { BeamLoad, LinearLoad } from './beam';
 import { memberTerms } from './beam';
+import { StructuralInputError } from './errors';
 import type { BeamLine, Layout, Panel } from './layout';
 
 /**
@@ -11,8 +12,15 @@ import type { BeamLine, Layout, Panel } from './layout';
  * short span lx and long span ly (m): for mid-span moment, short-span beam w·lx/3 and long-span
  * beam (w·lx/2)(1 − 1/(3β²)); for end shear w·lx/4 and (w·lx/2)(1 − 1/(2β)), β = ly/lx.
  * Source: the usual textbook equivalents of the 45° distribution (IS 456 cl. 24.5), as quoted.
+ * Throws StructuralInputError outside the accepted ranges.
  */
 export function twoWayEquivalentLoads(wKPa: number, lxM: number, lyM: number) {
+  const bad = (v: number, lo: number, hi: number) => !(typeof v === 'number' && Number.isFinite(v) && v >= lo && v <= hi);
+  const problems = [];
+  if (bad(wKPa, 0, 1000)) problems.push({ path: 'wKPa', field: 'wKPa', message: 'must be a number of kPa from 0 to 1000' });
+  if (bad(lxM, 0.1, 100)) problems.push({ path: 'lxM', field: 'lxM', message: 'must be a number of metres from 0.1 to 100' });
+  if (bad(lyM, 0.1, 100) || lyM < lxM) problems.push({ path: 'lyM', field: 'lyM', message: 'must be a number of metres from lxM (the short span) to 100' });
+  if (problems.length) throw new StructuralInputError(problems);
   const beta = lyM / lxM;
   return {
     shortBeamMomentKNPerM: (wKPa * lxM) / 3,

@@ -64,6 +64,37 @@ function inwardNormals(b: PlotBoundary): { a: Point; len: number; t: Point; n: P
   });
 }
 
+export interface LineClearance {
+  columnId: string;
+  propertyLine: number;
+  /** distance from the column centre to the line, m, and how far the isolated pad reaches toward it, m */
+  distanceToLineM: number;
+  reachM: number;
+}
+
+/**
+ * For every column whose isolated pad faces a property line (its position along the line lies
+ * within the segment, give or take half a pad): the distance to the line and the pad's reach
+ * toward it, m. The pad crosses the line when the reach exceeds the distance.
+ */
+export function propertyLineClearances(boundary: PlotBoundary, sites: FootingSite[]): LineClearance[] {
+  const segs = inwardNormals(boundary);
+  const out: LineClearance[] = [];
+  for (const s of sites) {
+    for (const k of boundary.propertyLines) {
+      const g = segs[k];
+      if (!g) continue;
+      const rel = { x: s.x - g.a.x, y: s.y - g.a.y };
+      const along = rel.x * g.t.x + rel.y * g.t.y;
+      if (along < -s.sideM / 2 || along > g.len + s.sideM / 2) continue;
+      const d = rel.x * g.n.x + rel.y * g.n.y;
+      const reach = (s.sideM / 2) * (Math.abs(g.n.x) + Math.abs(g.n.y));
+      out.push({ columnId: s.columnId, propertyLine: k, distanceToLineM: d, reachM: reach });
+    }
+  }
+  return out;
+}
+
 /**
  * Options for every column whose isolated pad would cross a property line. loadFactor turns
  * service strap moments into factored ones.
