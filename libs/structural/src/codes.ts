@@ -73,11 +73,31 @@ export interface CodeDefaults {
 }
 
 const P = 'common practice';
-const practice = (value: number, unit: string, note = ''): Limit => ({ value, unit, source: note ? `${P} (${note})` : P, kind: 'practice' });
+const practice = (value: number, unit: string, note = ''): Limit => ({
+  value,
+  unit,
+  source: note ? `${P} (${note})` : P,
+  kind: 'practice',
+});
 const code = (value: number, unit: string, source: string): Limit => ({ value, unit, source, kind: 'code' });
-const memory = (value: number, unit: string, source: string): Limit => ({ value, unit, source: `${source}, from memory`, kind: 'memory' });
+const memory = (value: number, unit: string, source: string): Limit => ({
+  value,
+  unit,
+  source: `${source}, from memory`,
+  kind: 'memory',
+});
 
-function sharedLimits(): Omit<Limits, 'stairRiserMaxMm' | 'stairRiserMinMm' | 'stairTreadMinMm' | 'stairRisersPerFlightMax' | 'columnSteelRatioMin' | 'columnSteelRatioMax' | 'columnMinSideMm' | 'headroomUnderBeamMinM'> {
+function sharedLimits(): Omit<
+  Limits,
+  | 'stairRiserMaxMm'
+  | 'stairRiserMinMm'
+  | 'stairTreadMinMm'
+  | 'stairRisersPerFlightMax'
+  | 'columnSteelRatioMin'
+  | 'columnSteelRatioMax'
+  | 'columnMinSideMm'
+  | 'headroomUnderBeamMinM'
+> {
   return {
     beamSpanCantileverMaxM: practice(3, 'm', 'rectangular beams, imposed load up to about 4 kPa'),
     beamSpanSimpleMaxM: practice(6, 'm', 'rectangular beams, imposed load up to about 4 kPa'),
@@ -124,7 +144,11 @@ export function codeDefaults(family: CodeFamily): CodeDefaults {
         columnSteelRatioMin: code(0.008, 'fraction', 'IS 456:2000 cl. 26.5.3.1'),
         columnSteelRatioMax: practice(0.04, 'fraction', 'IS 456 cl. 26.5.3.1 allows 6 %; 4 % keeps laps buildable'),
         columnMinSideMm: practice(230, 'mm'),
-        headroomUnderBeamMinM: memory(2.2, 'm', 'National Building Code of India, headroom (clause not confirmed), used as a guide under beams'),
+        headroomUnderBeamMinM: memory(
+          2.2,
+          'm',
+          'National Building Code of India, headroom (clause not confirmed), used as a guide under beams',
+        ),
       },
     };
   }
@@ -148,7 +172,11 @@ export function codeDefaults(family: CodeFamily): CodeDefaults {
         columnMinSideMm: practice(300, 'mm'),
         // 2032 mm (80 in) is the IBC 2015 §1011.3 headroom over stairways, not a rule for rooms;
         // used as a guide to the clear height under a beam
-        headroomUnderBeamMinM: memory(2.03, 'm', 'IBC 2015 §1011.3 stairway headroom, 80 in (2032 mm), used as a guide under beams'),
+        headroomUnderBeamMinM: memory(
+          2.03,
+          'm',
+          'IBC 2015 §1011.3 stairway headroom, 80 in (2032 mm), used as a guide under beams',
+        ),
       },
     };
   }
@@ -182,12 +210,26 @@ export function codeDefaults(family: CodeFamily): CodeDefaults {
 export function resolveLimits(family: CodeFamily, overrides?: Partial<Record<string, number>>): Limits {
   const limits = { ...codeDefaults(family).limits };
   const given = typeof overrides === 'object' && overrides !== null ? Object.entries(overrides) : [];
-  const bad = given.filter(([k, v]) => k in limits && v !== undefined && !(typeof v === 'number' && Number.isFinite(v) && v >= 0 && v <= 1e6));
-  if (bad.length) throw new StructuralInputError(bad.map(([k]) => ({ path: `limitOverrides.${k}`, field: k, message: "must be a number from 0 to 1000000 in the limit's unit" })));
+  const bad = given.filter(
+    ([k, v]) => k in limits && v !== undefined && !(typeof v === 'number' && Number.isFinite(v) && v >= 0 && v <= 1e6),
+  );
+  if (bad.length)
+    throw new StructuralInputError(
+      bad.map(([k]) => ({
+        path: `limitOverrides.${k}`,
+        field: k,
+        message: "must be a number from 0 to 1000000 in the limit's unit",
+      })),
+    );
   for (const [k, v] of given) {
     if (typeof v !== 'number' || !(k in limits)) continue;
     const key = k as LimitKey;
-    limits[key] = { ...limits[key], value: v, source: `project setting (default ${limits[key].value} ${limits[key].unit}: ${limits[key].source})`, kind: 'project' };
+    limits[key] = {
+      ...limits[key],
+      value: v,
+      source: `project setting (default ${limits[key].value} ${limits[key].unit}: ${limits[key].source})`,
+      kind: 'project',
+    };
   }
   return limits;
 }
@@ -237,7 +279,8 @@ export function beamDepthRule(family: CodeFamily, condition: SupportCondition, s
     const base = condition === 'cantilever' ? 8 : condition === 'simple' ? 16 : condition === 'endSpan' ? 18.5 : 21;
     const mod = 0.4 + fy / 700;
     const kind: SourceKind = condition === 'cantilever' || condition === 'simple' ? 'code' : 'memory';
-    const src = 'ACI 318-19 Table 9.3.1.1, × (0.4 + fy/700)' + (kind === 'memory' ? ' (continuous cases from memory)' : '');
+    const src =
+      'ACI 318-19 Table 9.3.1.1, × (0.4 + fy/700)' + (kind === 'memory' ? ' (continuous cases from memory)' : '');
     return { requiredMm: (Lmm / base) * mod, measure: 'overall', ratio: base / mod, source: src, kind };
   }
   const ratio = condition === 'cantilever' ? 6 : condition === 'simple' ? 14 : condition === 'endSpan' ? 18 : 20;
@@ -269,7 +312,13 @@ export function slabDepthRule(
   if (family === 'IS456') {
     if (oneWay) {
       const ratio = condition === 'cantilever' ? 7 : condition === 'simple' ? 20 : 26;
-      return { requiredMm: lx / ratio + coverMm, measure: 'overall', ratio, source: 'IS 456:2000 cl. 23.2.1 (one-way slab, modification factor taken as 1.0)', kind: 'code' };
+      return {
+        requiredMm: lx / ratio + coverMm,
+        measure: 'overall',
+        ratio,
+        source: 'IS 456:2000 cl. 23.2.1 (one-way slab, modification factor taken as 1.0)',
+        kind: 'code',
+      };
     }
     const base = condition === 'simple' ? 35 : 40;
     // the note gives mild steel (× 1.0) and Fe 415 (× 0.8) only; a lower grade than Fe 415 takes
@@ -280,19 +329,41 @@ export function slabDepthRule(
     // the clause is stated for short spans up to 3.5 m and imposed loads up to 3 kPa
     const scope = lxM > 3.5 ? '; stated for short spans up to 3.5 m, used beyond as a guide' : '';
     const grade =
-      fy <= 250 ? 'mild steel, × 1.0' : fy <= 415 ? `× 0.8 for Fe 415${fy < 415 ? ' (used for Fe ' + fy + ', on the safe side)' : ''}` : `Fe ${fy} is outside the note: × 0.8 × 415/${fy} = ${factor.toFixed(3)}, derived`;
-    return { requiredMm: lx / ratio, measure: 'overall', ratio, source: `IS 456:2000 cl. 24.1 Note 2 (two-way, short span/overall depth, ${grade}${scope})`, kind: fy > 415 ? 'derived' : 'code' };
+      fy <= 250
+        ? 'mild steel, × 1.0'
+        : fy <= 415
+          ? `× 0.8 for Fe 415${fy < 415 ? ' (used for Fe ' + fy + ', on the safe side)' : ''}`
+          : `Fe ${fy} is outside the note: × 0.8 × 415/${fy} = ${factor.toFixed(3)}, derived`;
+    return {
+      requiredMm: lx / ratio,
+      measure: 'overall',
+      ratio,
+      source: `IS 456:2000 cl. 24.1 Note 2 (two-way, short span/overall depth, ${grade}${scope})`,
+      kind: fy > 415 ? 'derived' : 'code',
+    };
   }
   if (family === 'ACI318') {
     if (oneWay) {
       const base = condition === 'cantilever' ? 10 : condition === 'simple' ? 20 : condition === 'endSpan' ? 24 : 28;
       const mod = 0.4 + fy / 700;
-      return { requiredMm: (lx / base) * mod, measure: 'overall', ratio: base / mod, source: 'ACI 318-19 Table 7.3.1.1, × (0.4 + fy/700)', kind: 'code' };
+      return {
+        requiredMm: (lx / base) * mod,
+        measure: 'overall',
+        ratio: base / mod,
+        source: 'ACI 318-19 Table 7.3.1.1, × (0.4 + fy/700)',
+        kind: 'code',
+      };
     }
     const beta = lyM / lxM;
     const ln = lyM * 1000; // clear span in the long direction, taken as the centre-line span here
     const h = (ln * (0.8 + fy / 1400)) / (36 + 9 * beta);
-    return { requiredMm: Math.max(h, 90), measure: 'overall', ratio: ln / h, source: 'ACI 318-19 Table 8.3.1.2 (two-way slab with stiff beams, αfm > 2), from memory', kind: 'memory' };
+    return {
+      requiredMm: Math.max(h, 90),
+      measure: 'overall',
+      ratio: ln / h,
+      source: 'ACI 318-19 Table 8.3.1.2 (two-way slab with stiff beams, αfm > 2), from memory',
+      kind: 'memory',
+    };
   }
   const ratio = condition === 'cantilever' ? 8 : condition === 'simple' ? 20 : condition === 'endSpan' ? 26 : 30;
   return {
@@ -310,11 +381,23 @@ export function slabDepthRule(
  * Design moment capacity of a singly reinforced rectangular section at the limit the code family
  * allows without compression steel, kN·m. b and d in mm, strengths in MPa.
  */
-export function limitingMomentKNm(family: CodeFamily, bMm: number, dMm: number, fck: number, fy: number, opts?: { alphaCc?: number }): { value: number; coefficient: number; source: string; kind: SourceKind } {
+export function limitingMomentKNm(
+  family: CodeFamily,
+  bMm: number,
+  dMm: number,
+  fck: number,
+  fy: number,
+  opts?: { alphaCc?: number },
+): { value: number; coefficient: number; source: string; kind: SourceKind } {
   checkFormulaInput(family, { bMm, dMm, fck, fy }, opts);
   if (family === 'IS456') {
     const k = fy <= 250 ? 0.148 : fy <= 415 ? 0.138 : 0.133;
-    return { value: (k * fck * bMm * dMm * dMm) / 1e6, coefficient: k, source: 'IS 456:2000 Annex G-1.1 (Mu,lim = k·fck·b·d²)', kind: 'code' };
+    return {
+      value: (k * fck * bMm * dMm * dMm) / 1e6,
+      coefficient: k,
+      source: 'IS 456:2000 Annex G-1.1 (Mu,lim = k·fck·b·d²)',
+      kind: 'code',
+    };
   }
   if (family === 'ACI318') {
     // ACI 318-19 Table 21.2.2: tension-controlled when εt ≥ εty + 0.003, εty = fy/Es (Es = 200 GPa,
@@ -334,7 +417,12 @@ export function limitingMomentKNm(family: CodeFamily, bMm: number, dMm: number, 
   const acc = alphaCcOf(opts);
   const x = 0.45;
   const coeff = (acc / 1.5) * 0.8 * x * (1 - 0.4 * x);
-  return { value: (coeff * fck * bMm * dMm * dMm) / 1e6, coefficient: coeff, source: `EN 1992-1-1 §3.1.7 and §5.6.3 (x/d ≤ 0.45, ${alphaCcText(acc)}), derived`, kind: 'derived' };
+  return {
+    value: (coeff * fck * bMm * dMm * dMm) / 1e6,
+    coefficient: coeff,
+    source: `EN 1992-1-1 §3.1.7 and §5.6.3 (x/d ≤ 0.45, ${alphaCcText(acc)}), derived`,
+    kind: 'derived',
+  };
 }
 
 /** αcc of EN 1992-1-1 §3.1.6(1): recommended 1.0; a national annex may choose another value (0.8 to 1.0). */
@@ -343,7 +431,9 @@ function alphaCcOf(opts?: { alphaCc?: number }): number {
   return opts?.alphaCc ?? EN_ALPHA_CC_DEFAULT;
 }
 function alphaCcText(acc: number): string {
-  return acc === EN_ALPHA_CC_DEFAULT ? 'αcc = 1.0, the recommended value of §3.1.6(1)' : `αcc = ${acc} (project setting; recommended 1.0)`;
+  return acc === EN_ALPHA_CC_DEFAULT
+    ? 'αcc = 1.0, the recommended value of §3.1.6(1)'
+    : `αcc = ${acc} (project setting; recommended 1.0)`;
 }
 
 /**
@@ -365,11 +455,17 @@ export function columnCapacityKN(
 ): { value: number; source: string } {
   checkFormulaInput(family, { bMm, dMm, fck, fy }, opts);
   if (!(Number.isFinite(steelRatio) && steelRatio >= 0 && steelRatio <= 0.1))
-    throw new StructuralInputError([{ path: 'steelRatio', field: 'steelRatio', message: 'must be a fraction of the gross area from 0 to 0.1' }]);
+    throw new StructuralInputError([
+      { path: 'steelRatio', field: 'steelRatio', message: 'must be a fraction of the gross area from 0 to 0.1' },
+    ]);
   const ag = bMm * dMm;
   const as = steelRatio * ag;
   const ac = ag - as;
-  if (family === 'IS456') return { value: (0.4 * fck * ac + 0.67 * fy * as) / 1000, source: 'IS 456:2000 cl. 39.3 (Pu = 0.4 fck Ac + 0.67 fy Asc)' };
+  if (family === 'IS456')
+    return {
+      value: (0.4 * fck * ac + 0.67 * fy * as) / 1000,
+      source: 'IS 456:2000 cl. 39.3 (Pu = 0.4 fck Ac + 0.67 fy Asc)',
+    };
   if (family === 'ACI318') {
     const po = 0.85 * fck * ac + fy * as;
     return { value: (0.65 * 0.8 * po) / 1000, source: 'ACI 318-19 §22.4.2 (φ·0.80·Po, tied, φ = 0.65)' };
@@ -380,8 +476,12 @@ export function columnCapacityKN(
   const emin = Math.max(h / 30, 20);
   const e0 = opts?.eccentricityMm ?? emin;
   const n = enSectionAxial(b, h, fck, fy, as, acc, e0);
-  const ecc = opts?.eccentricityMm === undefined ? `e0 = max(h/30, 20 mm) = ${emin.toFixed(1)} mm (§6.1(4))` : `e = ${e0} mm`;
-  return { value: n / 1000, source: `EN 1992-1-1 §3.1.7 and §6.1 (strain compatibility at ${ecc}, steel stress ≤ Es·εc2 in compression, ${alphaCcText(acc)})` };
+  const ecc =
+    opts?.eccentricityMm === undefined ? `e0 = max(h/30, 20 mm) = ${emin.toFixed(1)} mm (§6.1(4))` : `e = ${e0} mm`;
+  return {
+    value: n / 1000,
+    source: `EN 1992-1-1 §3.1.7 and §6.1 (strain compatibility at ${ecc}, steel stress ≤ Es·εc2 in compression, ${alphaCcText(acc)})`,
+  };
 }
 
 /**
@@ -406,7 +506,8 @@ function enSectionAxial(b: number, h: number, fck: number, fyk: number, as: numb
   // axial force N and moment M about mid-depth for neutral-axis depth x (mm from the compressed face)
   const state = (x: number): [number, number] => {
     const eps = (y: number) => (x <= h ? (ecu2 * (x - y)) / x : (ec2 * (x - y)) / (x - yp));
-    let N = 0, M = 0;
+    let N = 0,
+      M = 0;
     for (let k = 0; k < strips; k++) {
       const y = (k + 0.5) * dy;
       const f = sc(eps(y)) * b * dy;
@@ -442,37 +543,76 @@ function enSectionAxial(b: number, h: number, fck: number, fyk: number, as: numb
 
 function checkFamily(family: unknown): void {
   if (family !== 'IS456' && family !== 'ACI318' && family !== 'EN1992')
-    throw new StructuralInputError([{ path: 'family', field: 'family', message: 'must be one of IS456, ACI318, EN1992' }]);
+    throw new StructuralInputError([
+      { path: 'family', field: 'family', message: 'must be one of IS456, ACI318, EN1992' },
+    ]);
 }
 
 /** Spans from 0.1 to 100 m (cover given in m here: 0 to 0.2), and a known support condition. */
 function checkSpan(condition: unknown, v: Record<string, number>): void {
   const problems: { path: string; field: string; message: string }[] = [];
-  if (!['cantilever', 'simple', 'endSpan', 'interior'].includes(condition as string)) problems.push({ path: 'condition', field: 'condition', message: 'must be cantilever, simple, endSpan or interior' });
+  if (!['cantilever', 'simple', 'endSpan', 'interior'].includes(condition as string))
+    problems.push({
+      path: 'condition',
+      field: 'condition',
+      message: 'must be cantilever, simple, endSpan or interior',
+    });
   for (const [field, x] of Object.entries(v)) {
     const [lo, hi] = field === 'coverMm' ? [0, 0.2] : [0.1, 100];
-    if (!(Number.isFinite(x) && x >= lo && x <= hi)) problems.push({ path: field, field, message: field === 'coverMm' ? 'must be a number of mm from 0 to 200' : `must be a number of metres from ${lo} to ${hi}` });
+    if (!(Number.isFinite(x) && x >= lo && x <= hi))
+      problems.push({
+        path: field,
+        field,
+        message:
+          field === 'coverMm'
+            ? 'must be a number of mm from 0 to 200'
+            : `must be a number of metres from ${lo} to ${hi}`,
+      });
   }
   if (problems.length) throw new StructuralInputError(problems);
 }
 
 /** Refuses a family or strengths the formulas do not cover (one documented error type). */
-function checkFormulaInput(family: unknown, v: { bMm: number; dMm: number; fck: number; fy: number }, opts?: { alphaCc?: number; eccentricityMm?: number }): void {
+function checkFormulaInput(
+  family: unknown,
+  v: { bMm: number; dMm: number; fck: number; fy: number },
+  opts?: { alphaCc?: number; eccentricityMm?: number },
+): void {
   // the usual case, without allocating: sizing calls these formulas tens of thousands of times
   if (
     (family === 'IS456' || family === 'ACI318' || family === 'EN1992') &&
-    v.bMm >= 1 && v.bMm <= 5000 && v.dMm >= 1 && v.dMm <= 5000 && v.fck >= 10 && v.fck <= 120 && v.fy >= 200 && v.fy <= 700 &&
+    v.bMm >= 1 &&
+    v.bMm <= 5000 &&
+    v.dMm >= 1 &&
+    v.dMm <= 5000 &&
+    v.fck >= 10 &&
+    v.fck <= 120 &&
+    v.fy >= 200 &&
+    v.fy <= 700 &&
     (opts?.alphaCc === undefined || (opts.alphaCc >= 0.8 && opts.alphaCc <= 1)) &&
     (opts?.eccentricityMm === undefined || (opts.eccentricityMm >= 0 && opts.eccentricityMm <= 5000))
   )
     return;
   const problems: { path: string; field: string; message: string }[] = [];
-  if (family !== 'IS456' && family !== 'ACI318' && family !== 'EN1992') problems.push({ path: 'family', field: 'family', message: 'must be one of IS456, ACI318, EN1992' });
-  for (const [field, lo, hi] of [['bMm', 1, 5000], ['dMm', 1, 5000], ['fck', 10, 120], ['fy', 200, 700]] as const) {
+  if (family !== 'IS456' && family !== 'ACI318' && family !== 'EN1992')
+    problems.push({ path: 'family', field: 'family', message: 'must be one of IS456, ACI318, EN1992' });
+  for (const [field, lo, hi] of [
+    ['bMm', 1, 5000],
+    ['dMm', 1, 5000],
+    ['fck', 10, 120],
+    ['fy', 200, 700],
+  ] as const) {
     const x = v[field];
-    if (!(Number.isFinite(x) && x >= lo && x <= hi)) problems.push({ path: field, field, message: `must be a number from ${lo} to ${hi}` });
+    if (!(Number.isFinite(x) && x >= lo && x <= hi))
+      problems.push({ path: field, field, message: `must be a number from ${lo} to ${hi}` });
   }
-  if (opts?.alphaCc !== undefined && !(opts.alphaCc >= 0.8 && opts.alphaCc <= 1)) problems.push({ path: 'alphaCc', field: 'alphaCc', message: 'must be from 0.8 to 1.0 (EN 1992-1-1 §3.1.6(1))' });
-  if (opts?.eccentricityMm !== undefined && !(opts.eccentricityMm >= 0 && opts.eccentricityMm <= 5000)) problems.push({ path: 'eccentricityMm', field: 'eccentricityMm', message: 'must be a number of mm from 0 to 5000' });
+  if (opts?.alphaCc !== undefined && !(opts.alphaCc >= 0.8 && opts.alphaCc <= 1))
+    problems.push({ path: 'alphaCc', field: 'alphaCc', message: 'must be from 0.8 to 1.0 (EN 1992-1-1 §3.1.6(1))' });
+  if (opts?.eccentricityMm !== undefined && !(opts.eccentricityMm >= 0 && opts.eccentricityMm <= 5000))
+    problems.push({
+      path: 'eccentricityMm',
+      field: 'eccentricityMm',
+      message: 'must be a number of mm from 0 to 5000',
+    });
   if (problems.length) throw new StructuralInputError(problems);
 }

@@ -34,7 +34,9 @@ function statMoment(loads: BeamLoad[], m1: number, v1: number, x: number): numbe
       const h = l.toM - l.fromM;
       const w = (t: number) => (h > 0 ? l.startKNPerM + ((l.endKNPerM - l.startKNPerM) * (t - l.fromM)) / h : 0);
       // resultant of the trapezoid from fromM to e, acting at its centroid
-      const wa = l.startKNPerM, wb = w(e), d = e - l.fromM;
+      const wa = l.startKNPerM,
+        wb = w(e),
+        d = e - l.fromM;
       const W = ((wa + wb) / 2) * d;
       if (W !== 0) {
         const xc = l.fromM + (d * (wa + 2 * wb)) / (3 * (wa + wb));
@@ -66,7 +68,8 @@ function nodalLoads(L: number, loads: BeamLoad[]): number[] {
       for (let k = 0; k < 4; k++) f[k] -= l.forceKN * N[k];
     } else {
       // composite Simpson, 400 intervals: integrand of degree 4, error far below the tolerances
-      const n = 400, h = (l.toM - l.fromM) / n;
+      const n = 400,
+        h = (l.toM - l.fromM) / n;
       if (!(h > 0)) continue;
       for (let j = 0; j <= n; j++) {
         const t = l.fromM + j * h;
@@ -129,21 +132,42 @@ function bruteEnvelope(model: BeamModel, dead: BeamLoad[], live: BeamLoad[], com
   const nm = model.members.length;
   // the arrangements, written out from their definition
   const sets: boolean[][] = [new Array(nm).fill(true)];
-  if (nm > 1) sets.push([...Array(nm).keys()].map((i) => i % 2 === 0), [...Array(nm).keys()].map((i) => i % 2 === 1));
+  if (nm > 1)
+    sets.push(
+      [...Array(nm).keys()].map((i) => i % 2 === 0),
+      [...Array(nm).keys()].map((i) => i % 2 === 1),
+    );
   for (let k = 1; k < nm; k++) {
     if (model.supports[k] === 'free') continue;
     sets.push([...Array(nm).keys()].map((i) => (i >= k ? (i - k) % 2 === 0 : (k - 1 - i) % 2 === 0)));
   }
-  const out: Brute = { maxM: new Array(nm).fill(-Infinity), minM: new Array(nm).fill(Infinity), maxV: new Array(nm).fill(0), maxR: new Array(nm + 1).fill(-Infinity) };
-  const scale = (ls: BeamLoad[], f: number) => ls.map((l) => (l.kind === 'point' ? { ...l, forceKN: l.forceKN * f } : { ...l, startKNPerM: l.startKNPerM * f, endKNPerM: l.endKNPerM * f }));
+  const out: Brute = {
+    maxM: new Array(nm).fill(-Infinity),
+    minM: new Array(nm).fill(Infinity),
+    maxV: new Array(nm).fill(0),
+    maxR: new Array(nm + 1).fill(-Infinity),
+  };
+  const scale = (ls: BeamLoad[], f: number) =>
+    ls.map((l) =>
+      l.kind === 'point'
+        ? { ...l, forceKN: l.forceKN * f }
+        : { ...l, startKNPerM: l.startKNPerM * f, endKNPerM: l.endKNPerM * f },
+    );
   for (const c of combos) {
     for (const set of c.live === 0 ? [new Array(nm).fill(false)] : sets) {
-      const loads = [...scale(dead, c.dead), ...scale(live.filter((l) => set[l.member]), c.live)];
+      const loads = [
+        ...scale(dead, c.dead),
+        ...scale(
+          live.filter((l) => set[l.member]),
+          c.live,
+        ),
+      ];
       const { ends, reactions } = denseSolve(model, loads);
       model.members.forEach((mb, i) => {
         const L = mb.lengthM;
         const own = loads.filter((l) => l.member === i);
-        const m1 = -ends[i][1], v1 = ends[i][0];
+        const m1 = -ends[i][1],
+          v1 = ends[i][0];
         const xs: number[] = [];
         const N = 400;
         for (let k = 0; k <= N; k++) xs.push((L * k) / N);
@@ -152,9 +176,11 @@ function bruteEnvelope(model: BeamModel, dead: BeamLoad[], live: BeamLoad[], com
         const ms = xs.map((x) => statMoment(own, m1, v1, x));
         // refine each extreme between its neighbouring samples by ternary search
         const refine = (k: number, sign: number) => {
-          let lo = xs[Math.max(0, k - 1)], hi = xs[Math.min(xs.length - 1, k + 1)];
+          let lo = xs[Math.max(0, k - 1)],
+            hi = xs[Math.min(xs.length - 1, k + 1)];
           for (let it = 0; it < 80; it++) {
-            const a = lo + (hi - lo) / 3, b = hi - (hi - lo) / 3;
+            const a = lo + (hi - lo) / 3,
+              b = hi - (hi - lo) / 3;
             if (sign * statMoment(own, m1, v1, a) < sign * statMoment(own, m1, v1, b)) lo = a;
             else hi = b;
           }
@@ -166,7 +192,16 @@ function bruteEnvelope(model: BeamModel, dead: BeamLoad[], live: BeamLoad[], com
         out.minM[i] = Math.min(out.minM[i], refine(kMin, -1));
         // shear just inside each end (statics): a point load standing on the end support itself is
         // not in the member's end shear
-        const carried = own.reduce((a, l) => a + (l.kind === 'point' ? (l.atM < L * (1 - 1e-12) ? l.forceKN : 0) : ((l.startKNPerM + l.endKNPerM) / 2) * (l.toM - l.fromM)), 0);
+        const carried = own.reduce(
+          (a, l) =>
+            a +
+            (l.kind === 'point'
+              ? l.atM < L * (1 - 1e-12)
+                ? l.forceKN
+                : 0
+              : ((l.startKNPerM + l.endKNPerM) / 2) * (l.toM - l.fromM)),
+          0,
+        );
         out.maxV[i] = Math.max(out.maxV[i], Math.abs(v1), Math.abs(v1 - carried));
       });
       reactions.forEach((r, n) => (out.maxR[n] = model.supports[n] === 'free' ? 0 : Math.max(out.maxR[n], r)));
@@ -180,8 +215,15 @@ function bruteEnvelope(model: BeamModel, dead: BeamLoad[], live: BeamLoad[], com
 describe('envelope against published single-span values', () => {
   it('one span, one point load at 0.88 L: sagging = 1.5 (D + L)·a·b/L [AISC Table 3-23 "Simple beam – concentrated load at any point"]', () => {
     // the sampled envelope of the earlier engine gave this about 9 % low
-    const L = 5, a = 0.88 * L, b = L - a;
-    const env = envelopeBeam(continuousBeam({ spansM: [L], eiKNm2: 30000 }), [pointLoad(0, a, 20)], [pointLoad(0, a, 30)], combo);
+    const L = 5,
+      a = 0.88 * L,
+      b = L - a;
+    const env = envelopeBeam(
+      continuousBeam({ spansM: [L], eiKNm2: 30000 }),
+      [pointLoad(0, a, 20)],
+      [pointLoad(0, a, 30)],
+      combo,
+    );
     expect(env.ok).toBe(true);
     expect(env.members[0].maxMomentKNm).toBeCloseTo((1.5 * 50 * a * b) / L, 9);
     expect(env.members[0].maxMomentAtM).toBeCloseTo(a, 9);
@@ -190,11 +232,20 @@ describe('envelope against published single-span values', () => {
   it('one span, uniform load over part of it: the peak is where the shear vanishes [AISC Table 3-23 "Simple beam – uniform load partially distributed", derived with R1 = wb(2c + b)/2L]', () => {
     // w over b = 2 m starting a = 1 m from the left of a 6 m span: R1 = w·b·(2c + b)/(2L), c = 3 m;
     // Mmax = R1 (a + R1/(2w))
-    const L = 6, a = 1, bb = 2, c = 3, w = 10;
+    const L = 6,
+      a = 1,
+      bb = 2,
+      c = 3,
+      w = 10;
     const R1 = (w * bb * (2 * c + bb)) / (2 * L);
     const Mmax = R1 * (a + R1 / (2 * w));
     const part: BeamLoad = { kind: 'linear', member: 0, fromM: a, toM: a + bb, startKNPerM: w, endKNPerM: w };
-    const env = envelopeBeam(continuousBeam({ spansM: [L], eiKNm2: 30000 }), [part], [], [{ id: 'x', dead: 1, live: 0, source: 'unit' }]);
+    const env = envelopeBeam(
+      continuousBeam({ spansM: [L], eiKNm2: 30000 }),
+      [part],
+      [],
+      [{ id: 'x', dead: 1, live: 0, source: 'unit' }],
+    );
     expect(env.members[0].maxMomentKNm).toBeCloseTo(Mmax, 9);
     expect(env.members[0].maxMomentAtM).toBeCloseTo(a + R1 / w, 9);
   });
@@ -204,9 +255,15 @@ describe('envelope with patterned imposed load', () => {
   it('three equal spans under uniform load: end span 0.101 wL² and interior support −0.117 wL² for imposed load alone [Hicks Table 2.1 / standard influence coefficients, as quoted]', () => {
     // dead 0, imposed 10 kN/m, factor 1: maximum end-span sagging 0.101 wL², centre span 0.075 wL²,
     // interior support −0.117 wL² (the usual tabulated maxima for three equal spans)
-    const L = 5, w = 10;
+    const L = 5,
+      w = 10;
     const model = continuousBeam({ spansM: [L, L, L], eiKNm2: 30000 });
-    const env = envelopeBeam(model, [], [0, 1, 2].map((i) => uniformLoad(i, w, L)), [{ id: 'L', dead: 1, live: 1, source: 'unit' }]);
+    const env = envelopeBeam(
+      model,
+      [],
+      [0, 1, 2].map((i) => uniformLoad(i, w, L)),
+      [{ id: 'L', dead: 1, live: 1, source: 'unit' }],
+    );
     expect(env.members[0].maxMomentKNm / (w * L * L)).toBeCloseTo(0.1013, 3);
     expect(env.members[1].maxMomentKNm / (w * L * L)).toBeCloseTo(0.075, 3);
     expect(env.members[0].minMomentKNm / (w * L * L)).toBeCloseTo(-0.1167, 3);
@@ -222,16 +279,42 @@ describe('envelope with patterned imposed load', () => {
         rightEnd: fc.constantFrom<'pin' | 'fixed'>('pin', 'fixed'),
         eis: fc.array(fc.double({ min: 1e4, max: 1e5, noNaN: true }), { minLength: 10, maxLength: 10 }),
       })
-      .map((r) => continuousBeam({ spansM: r.spans, eiKNm2: r.eis, leftCantileverM: r.left, rightCantileverM: r.right, leftEnd: r.leftEnd, rightEnd: r.rightEnd }));
+      .map((r) =>
+        continuousBeam({
+          spansM: r.spans,
+          eiKNm2: r.eis,
+          leftCantileverM: r.left,
+          rightCantileverM: r.right,
+          leftEnd: r.leftEnd,
+          rightEnd: r.rightEnd,
+        }),
+      );
     const loadsOn = (m: BeamModel) =>
       fc.array(
         fc.oneof(
-          fc.record({ i: fc.nat(m.members.length - 1), f: fc.double({ min: 0, max: 1, noNaN: true }), p: fc.double({ min: 1, max: 80, noNaN: true }) }).map(
-            ({ i, f, p }): BeamLoad => ({ kind: 'point', member: i, atM: f * m.members[i].lengthM, forceKN: p }),
-          ),
-          fc.record({ i: fc.nat(m.members.length - 1), a: fc.double({ min: 0, max: 1, noNaN: true }), b: fc.double({ min: 0, max: 1, noNaN: true }), w1: fc.double({ min: 0, max: 30, noNaN: true }), w2: fc.double({ min: 0, max: 30, noNaN: true }) }).map(
-            ({ i, a, b, w1, w2 }): BeamLoad => ({ kind: 'linear', member: i, fromM: Math.min(a, b) * m.members[i].lengthM, toM: Math.max(a, b) * m.members[i].lengthM, startKNPerM: w1, endKNPerM: w2 }),
-          ),
+          fc
+            .record({
+              i: fc.nat(m.members.length - 1),
+              f: fc.double({ min: 0, max: 1, noNaN: true }),
+              p: fc.double({ min: 1, max: 80, noNaN: true }),
+            })
+            .map(({ i, f, p }): BeamLoad => ({ kind: 'point', member: i, atM: f * m.members[i].lengthM, forceKN: p })),
+          fc
+            .record({
+              i: fc.nat(m.members.length - 1),
+              a: fc.double({ min: 0, max: 1, noNaN: true }),
+              b: fc.double({ min: 0, max: 1, noNaN: true }),
+              w1: fc.double({ min: 0, max: 30, noNaN: true }),
+              w2: fc.double({ min: 0, max: 30, noNaN: true }),
+            })
+            .map(({ i, a, b, w1, w2 }): BeamLoad => ({
+              kind: 'linear',
+              member: i,
+              fromM: Math.min(a, b) * m.members[i].lengthM,
+              toM: Math.max(a, b) * m.members[i].lengthM,
+              startKNPerM: w1,
+              endKNPerM: w2,
+            })),
         ),
         { minLength: 1, maxLength: 10 },
       );
@@ -267,7 +350,12 @@ describe('envelope with patterned imposed load', () => {
       supports: ['pin', 'pin', 'free', 'fixed', 'pin', 'pin'],
     };
     const dead = m.members.map((mb, i) => uniformLoad(i, 8, mb.lengthM));
-    const live: BeamLoad[] = [pointLoad(0, 3.5, 40), { kind: 'linear', member: 2, fromM: 1, toM: 4, startKNPerM: 5, endKNPerM: 15 }, pointLoad(4, 0.7, 25), uniformLoad(3, 6, 2.5)];
+    const live: BeamLoad[] = [
+      pointLoad(0, 3.5, 40),
+      { kind: 'linear', member: 2, fromM: 1, toM: 4, startKNPerM: 5, endKNPerM: 15 },
+      pointLoad(4, 0.7, 25),
+      uniformLoad(3, 6, 2.5),
+    ];
     const env = envelopeBeam(m, dead, live, combo);
     const b = bruteEnvelope(m, dead, live, combo);
     env.members.forEach((e, i) => {
@@ -282,7 +370,12 @@ describe('envelope with patterned imposed load', () => {
     // spans 2, 9, 2, 9 m with a heavy point load near the end of the second span
     const m = continuousBeam({ spansM: [2, 9, 2, 9], eiKNm2: 30000 });
     const dead = m.members.map((mb, i) => uniformLoad(i, 2, mb.lengthM));
-    const live: BeamLoad[] = [pointLoad(1, 8, 100), uniformLoad(0, 40, 2), uniformLoad(2, 40, 2), uniformLoad(3, 10, 9)];
+    const live: BeamLoad[] = [
+      pointLoad(1, 8, 100),
+      uniformLoad(0, 40, 2),
+      uniformLoad(2, 40, 2),
+      uniformLoad(3, 10, 9),
+    ];
     const env = envelopeBeam(m, dead, live, combo);
     const b = bruteEnvelope(m, dead, live, combo);
     env.members.forEach((e, i) => expect(e.maxMomentKNm).toBeCloseTo(b.maxM[i], 4));
@@ -318,11 +411,24 @@ describe('envelope input', () => {
   const model = continuousBeam({ spansM: [4, 4], eiKNm2: 1000 });
   const ok = [uniformLoad(0, 10, 4)];
   it('refuses NaN loads, loads off their member, loads on a missing member and missing combinations, naming the field', () => {
-    expect(envelopeBeam(model, [uniformLoad(0, NaN, 4)], [], combo)).toMatchObject({ ok: false, problems: [expect.objectContaining({ path: 'dead[0].startKNPerM' }), expect.objectContaining({ path: 'dead[0].endKNPerM' })] });
-    expect(envelopeBeam(model, ok, [pointLoad(0, 9, 10)], combo).problems).toEqual([expect.objectContaining({ path: 'live[0].atM', field: 'atM' })]);
-    expect(envelopeBeam(model, ok, [pointLoad(7, 1, 10)], combo).problems).toEqual([expect.objectContaining({ path: 'live[0].member', field: 'member' })]);
+    expect(envelopeBeam(model, [uniformLoad(0, NaN, 4)], [], combo)).toMatchObject({
+      ok: false,
+      problems: [
+        expect.objectContaining({ path: 'dead[0].startKNPerM' }),
+        expect.objectContaining({ path: 'dead[0].endKNPerM' }),
+      ],
+    });
+    expect(envelopeBeam(model, ok, [pointLoad(0, 9, 10)], combo).problems).toEqual([
+      expect.objectContaining({ path: 'live[0].atM', field: 'atM' }),
+    ]);
+    expect(envelopeBeam(model, ok, [pointLoad(7, 1, 10)], combo).problems).toEqual([
+      expect.objectContaining({ path: 'live[0].member', field: 'member' }),
+    ]);
     expect(envelopeBeam(model, ok, [], []).problems).toEqual([expect.objectContaining({ path: 'combos' })]);
-    expect(envelopeBeam(null as unknown as BeamModel, ok, [], combo)).toMatchObject({ ok: false, problems: [expect.objectContaining({ path: 'model' })] });
+    expect(envelopeBeam(null as unknown as BeamModel, ok, [], combo)).toMatchObject({
+      ok: false,
+      problems: [expect.objectContaining({ path: 'model' })],
+    });
   });
 });
 
@@ -339,13 +445,33 @@ describe('envelope from load parts', () => {
       { kind: 'linear', member: 4, fromM: 0, toM: 1.5, startKNPerM: 1, endKNPerM: 1 },
     ];
     const extra = [0, 1, 2, 3].map((i) => uniformLoad(i, 4, model.members[i].lengthM));
-    const scale = (ls: BeamLoad[], f: number): BeamLoad[] => ls.map((l) => (l.kind === 'point' ? { ...l, forceKN: l.forceKN * f } : { ...l, startKNPerM: l.startKNPerM * f, endKNPerM: l.endKNPerM * f }));
+    const scale = (ls: BeamLoad[], f: number): BeamLoad[] =>
+      ls.map((l) =>
+        l.kind === 'point'
+          ? { ...l, forceKN: l.forceKN * f }
+          : { ...l, startKNPerM: l.startKNPerM * f, endKNPerM: l.endKNPerM * f },
+      );
     const p = prepareBeam(model);
     const sp = loadPart(p, shape);
     const cache = new Map();
-    const combos: Combination[] = [{ id: 'a', dead: 1.4, live: 0, source: 'x' }, { id: 'b', dead: 1.2, live: 1.6, source: 'x' }];
-    for (const [sd, l] of [[5, 3], [4, 1.5]]) {
-      const viaParts = envelopeParts(p, [[sp, sd], [loadPart(p, extra), 1]], [[sp, l]], combos, cache);
+    const combos: Combination[] = [
+      { id: 'a', dead: 1.4, live: 0, source: 'x' },
+      { id: 'b', dead: 1.2, live: 1.6, source: 'x' },
+    ];
+    for (const [sd, l] of [
+      [5, 3],
+      [4, 1.5],
+    ]) {
+      const viaParts = envelopeParts(
+        p,
+        [
+          [sp, sd],
+          [loadPart(p, extra), 1],
+        ],
+        [[sp, l]],
+        combos,
+        cache,
+      );
       const direct = envelopeBeam(model, [...scale(shape, sd), ...extra], scale(shape, l), combos);
       viaParts.members.forEach((m, i) => {
         expect(m.maxMomentKNm).toBeCloseTo(direct.members[i].maxMomentKNm, 9);
@@ -372,13 +498,15 @@ describe('load parts', () => {
       { ...u, fromM: u.toM / 3 },
     ]);
     const general = loadPart(p, split);
-    for (const k of ['terms', 'v0', 'defl'] as const) fast[k].forEach((v, i) => expect(v).toBeCloseTo(general[k][i], 9));
+    for (const k of ['terms', 'v0', 'defl'] as const)
+      fast[k].forEach((v, i) => expect(v).toBeCloseTo(general[k][i], 9));
     // the piecewise cubic of the general path gives w·x(L − x)/2 everywhere (statics)
     for (let i = 0; i < 3; i++) {
       const L = model.members[i].lengthM;
       for (let g = general.off[i]; g + 1 < general.off[i + 1]; g++) {
         const o = 4 * (g - i);
-        const x0 = general.bp[g], h = general.bp[g + 1] - x0;
+        const x0 = general.bp[g],
+          h = general.bp[g + 1] - x0;
         for (const t of [0, h / 2, h]) {
           const x = x0 + t;
           const c = general.coef;

@@ -22,7 +22,19 @@
 // the largest and smallest moments over the span are convex and concave in it, and shears and
 // reactions are linear in it, so only the arrangements with the largest and smallest scalar can
 // govern. A running maximum and minimum per side and parity finds them in one sweep.
-import { BeamLoad, BeamModel, groupLoads, memberTerms, PreparedBeam, prepareBeam, simpleDeflection, simpleShear, solvePacked, validateBeamModel, validateLoads } from './beam';
+import {
+  BeamLoad,
+  BeamModel,
+  groupLoads,
+  memberTerms,
+  PreparedBeam,
+  prepareBeam,
+  simpleDeflection,
+  simpleShear,
+  solvePacked,
+  validateBeamModel,
+  validateLoads,
+} from './beam';
 import { CAUTION, Combination } from './codes';
 import { StructuralInputError } from './errors';
 import type { Problem } from './model';
@@ -69,7 +81,9 @@ export interface BeamEnvelope {
  * callers of the earlier form, where adjacent-span arrangements were scanned beside their support only).
  * Throws StructuralInputError for an invalid model.
  */
-export function loadPatterns(model: BeamModel): { label: string; members: boolean[]; scope: [number, number] | null }[] {
+export function loadPatterns(
+  model: BeamModel,
+): { label: string; members: boolean[]; scope: [number, number] | null }[] {
   const problems = validateBeamModel(model);
   if (problems.length) throw new StructuralInputError(problems);
   const n = model.members.length;
@@ -89,7 +103,10 @@ interface Arrangement {
 
 function arrangements(model: BeamModel): Arrangement[] {
   const n = model.members.length;
-  const out: Arrangement[] = [{ kind: 'all', node: 0 }, { kind: 'none', node: 0 }];
+  const out: Arrangement[] = [
+    { kind: 'all', node: 0 },
+    { kind: 'none', node: 0 },
+  ];
   if (n > 1) out.push({ kind: 'odd', node: 0 }, { kind: 'even', node: 0 });
   // spans node-1 and node loaded, then every other span beyond on both sides
   for (let node = 1; node < n; node++) if (model.supports[node] !== 'free') out.push({ kind: 'adjacent', node });
@@ -112,11 +129,16 @@ function adjacentLoads(k: number, i: number): boolean {
 
 function arrangementLabel(a: Arrangement): string {
   switch (a.kind) {
-    case 'all': return 'all spans';
-    case 'none': return 'dead only';
-    case 'odd': return 'alternate spans (odd)';
-    case 'even': return 'alternate spans (even)';
-    default: return `adjacent spans at support ${a.node}`;
+    case 'all':
+      return 'all spans';
+    case 'none':
+      return 'dead only';
+    case 'odd':
+      return 'alternate spans (odd)';
+    case 'even':
+      return 'alternate spans (even)';
+    default:
+      return `adjacent spans at support ${a.node}`;
   }
 }
 
@@ -142,7 +164,9 @@ export interface LoadPart {
 }
 
 function deflectionPoints(model: BeamModel, i: number): number[] {
-  return model.supports[i] === 'free' || model.supports[i + 1] === 'free' ? DEFLECTION_POINTS_CANTILEVER : DEFLECTION_POINTS;
+  return model.supports[i] === 'free' || model.supports[i + 1] === 'free'
+    ? DEFLECTION_POINTS_CANTILEVER
+    : DEFLECTION_POINTS;
 }
 
 /**
@@ -194,7 +218,8 @@ function pieceCubic(loads: readonly BeamLoad[], ra: number, x0: number, h: numbe
 export function loadPart(p: PreparedBeam, loads: readonly BeamLoad[] | BeamLoad[][]): LoadPart {
   const model = p.model;
   const nm = model.members.length;
-  const by = loads.length > 0 && Array.isArray(loads[0]) ? (loads as BeamLoad[][]) : groupLoads(nm, loads as BeamLoad[]);
+  const by =
+    loads.length > 0 && Array.isArray(loads[0]) ? (loads as BeamLoad[][]) : groupLoads(nm, loads as BeamLoad[]);
   const terms = new Float64Array(4 * nm);
   const v0 = new Float64Array(2 * nm);
   const defl = new Float64Array(3 * nm);
@@ -260,9 +285,13 @@ export function loadPart(p: PreparedBeam, loads: readonly BeamLoad[] | BeamLoad[
       continue;
     }
     const t = memberTerms(L, li);
-    terms[4 * i] = t.fa; terms[4 * i + 1] = t.fb; terms[4 * i + 2] = t.ra; terms[4 * i + 3] = t.rb;
+    terms[4 * i] = t.fa;
+    terms[4 * i + 1] = t.fb;
+    terms[4 * i + 2] = t.ra;
+    terms[4 * i + 3] = t.rb;
     const n = off[i + 1] - off[i];
-    for (let j = 0; j + 1 < n; j++) pieceCubic(li, t.ra, bp[off[i] + j], bp[off[i] + j + 1] - bp[off[i] + j], coef, cb + 4 * j);
+    for (let j = 0; j + 1 < n; j++)
+      pieceCubic(li, t.ra, bp[off[i] + j], bp[off[i] + j + 1] - bp[off[i] + j], coef, cb + 4 * j);
     v0[2 * i] = simpleShear(L, li, t.ra, 0);
     v0[2 * i + 1] = simpleShear(L, li, t.ra, L * (1 - 1e-12));
     for (let q = 0; q < 3; q++) defl[3 * i + q] = simpleDeflection(L, model.members[i].eiKNm2, li, L * pts[q]);
@@ -333,7 +362,10 @@ function combineParts(deadParts: Parts, liveParts: Parts, lengths: Float64Array)
           const x = bp[g];
           while (j + 2 < pe && part.bp[j + 1] <= x) j++;
           const src = 4 * (j - i);
-          const c0 = part.coef[src], c1 = part.coef[src + 1], c2 = part.coef[src + 2], c3 = part.coef[src + 3];
+          const c0 = part.coef[src],
+            c1 = part.coef[src + 1],
+            c2 = part.coef[src + 2],
+            c3 = part.coef[src + 3];
           const d = x - part.bp[j];
           // the same cubic about the new origin (Taylor shift)
           const o = 4 * (g - i);
@@ -363,7 +395,10 @@ function combineParts(deadParts: Parts, liveParts: Parts, lengths: Float64Array)
 // ---- exact extremes within one member ----
 
 // results of memberExtremes, kept outside to keep the innermost loop allocation-free
-let exMax = 0, exMaxAt = 0, exMin = 0, exMinAt = 0;
+let exMax = 0,
+  exMaxAt = 0,
+  exMin = 0,
+  exMinAt = 0;
 
 /**
  * Largest and smallest of M(x) = fd·M0D(x) + fl·M0L(x) + ml + (mr − ml)·x/L over member i, kN·m:
@@ -374,7 +409,10 @@ function memberExtremes(c: Combined, i: number, L: number, fd: number, fl: numbe
   const s = (mr - ml) / L;
   const g0 = c.off[i];
   const g1 = c.off[i + 1];
-  let mx = -Infinity, mxAt = 0, mn = Infinity, mnAt = 0;
+  let mx = -Infinity,
+    mxAt = 0,
+    mn = Infinity,
+    mnAt = 0;
   for (let g = g0; g + 1 < g1; g++) {
     const x0 = bp[g];
     const h = bp[g + 1] - x0;
@@ -383,14 +421,29 @@ function memberExtremes(c: Combined, i: number, L: number, fd: number, fl: numbe
     const a1 = fd * cD[o + 1] + fl * cL[o + 1] + s;
     const a2 = fd * cD[o + 2] + fl * cL[o + 2];
     const a3 = fd * cD[o + 3] + fl * cL[o + 3];
-    if (a0 > mx) { mx = a0; mxAt = x0; }
-    if (a0 < mn) { mn = a0; mnAt = x0; }
+    if (a0 > mx) {
+      mx = a0;
+      mxAt = x0;
+    }
+    if (a0 < mn) {
+      mn = a0;
+      mnAt = x0;
+    }
     const end = a0 + h * (a1 + h * (a2 + h * a3));
-    if (end > mx) { mx = end; mxAt = x0 + h; }
-    if (end < mn) { mn = end; mnAt = x0 + h; }
+    if (end > mx) {
+      mx = end;
+      mxAt = x0 + h;
+    }
+    if (end < mn) {
+      mn = end;
+      mnAt = x0 + h;
+    }
     // roots of a1 + 2 a2 t + 3 a3 t² in (0, h), in the form that keeps its precision
-    const A = 3 * a3, B = 2 * a2, C = a1;
-    let r1 = -1, r2 = -1;
+    const A = 3 * a3,
+      B = 2 * a2,
+      C = a1;
+    let r1 = -1,
+      r2 = -1;
     if (A === 0) {
       if (B !== 0) r1 = -C / B;
     } else {
@@ -403,16 +456,31 @@ function memberExtremes(c: Combined, i: number, L: number, fd: number, fl: numbe
     }
     if (r1 > 0 && r1 < h) {
       const m = a0 + r1 * (a1 + r1 * (a2 + r1 * a3));
-      if (m > mx) { mx = m; mxAt = x0 + r1; }
-      if (m < mn) { mn = m; mnAt = x0 + r1; }
+      if (m > mx) {
+        mx = m;
+        mxAt = x0 + r1;
+      }
+      if (m < mn) {
+        mn = m;
+        mnAt = x0 + r1;
+      }
     }
     if (r2 > 0 && r2 < h) {
       const m = a0 + r2 * (a1 + r2 * (a2 + r2 * a3));
-      if (m > mx) { mx = m; mxAt = x0 + r2; }
-      if (m < mn) { mn = m; mnAt = x0 + r2; }
+      if (m > mx) {
+        mx = m;
+        mxAt = x0 + r2;
+      }
+      if (m < mn) {
+        mn = m;
+        mnAt = x0 + r2;
+      }
     }
   }
-  exMax = mx; exMaxAt = mxAt; exMin = mn; exMinAt = mnAt;
+  exMax = mx;
+  exMaxAt = mxAt;
+  exMin = mn;
+  exMinAt = mnAt;
 }
 
 // ---- the arrangement corrections (three-moment form) ----
@@ -469,7 +537,19 @@ function shapeOf(model: BeamModel, lengths: Float64Array, T: Float64Array): Shap
   for (let i = 0; i < nm; i++) f[i] = lengths[i] / model.members[i].eiKNm2;
   const isK = new Uint8Array(nm + 1);
   for (let k = 1; k < nm; k++) isK[k] = s[k] !== 'free' ? 1 : 0;
-  return { nm, f, lengths, T, a, b, fixedA: s[a] === 'fixed', fixedB: s[b] === 'fixed', leftCantilever: lc, rightCantilever: rc, isK };
+  return {
+    nm,
+    f,
+    lengths,
+    T,
+    a,
+    b,
+    fixedA: s[a] === 'fixed',
+    fixedB: s[b] === 'fixed',
+    leftCantilever: lc,
+    rightCantilever: rc,
+    isK,
+  };
 }
 
 function mirrorShape(sh: Shape): Shape {
@@ -489,8 +569,17 @@ function mirrorShape(sh: Shape): Shape {
   const isK = new Uint8Array(nm + 1);
   for (let k = 0; k <= nm; k++) isK[k] = sh.isK[nm - k];
   return {
-    nm, f, lengths, T, a: nm - sh.b, b: nm - sh.a, fixedA: sh.fixedB, fixedB: sh.fixedA,
-    leftCantilever: sh.rightCantilever, rightCantilever: sh.leftCantilever, isK,
+    nm,
+    f,
+    lengths,
+    T,
+    a: nm - sh.b,
+    b: nm - sh.a,
+    fixedA: sh.fixedB,
+    fixedB: sh.fixedA,
+    leftCantilever: sh.rightCantilever,
+    rightCantilever: sh.leftCantilever,
+    isK,
   };
 }
 
@@ -559,21 +648,34 @@ function sweep(sh: Shape): Sweep {
     if (isK[j]) {
       const p = j & 1;
       const v = c[j];
-      if (cur.kx[p] < 0 || v > cur.mx[p]) { cur.mx[p] = v; cur.kx[p] = j; }
-      if (cur.kn[p] < 0 || v < cur.mn[p]) { cur.mn[p] = v; cur.kn[p] = j; }
+      if (cur.kx[p] < 0 || v > cur.mx[p]) {
+        cur.mx[p] = v;
+        cur.kx[p] = j;
+      }
+      if (cur.kn[p] < 0 || v < cur.mn[p]) {
+        cur.mn[p] = v;
+        cur.kn[p] = j;
+      }
     }
     for (let p = 0; p < 2; p++) {
-      maxV[2 * j + p] = cur.mx[p]; minV[2 * j + p] = cur.mn[p];
-      maxK[2 * j + p] = cur.kx[p]; minK[2 * j + p] = cur.kn[p];
+      maxV[2 * j + p] = cur.mx[p];
+      minV[2 * j + p] = cur.mn[p];
+      maxK[2 * j + p] = cur.kx[p];
+      minK[2 * j + p] = cur.kn[p];
     }
     if (j < nm) {
       const r = j >= a && j < b ? rho[j] : 0;
       for (let p = 0; p < 2; p++) {
-        if (r >= 0) { cur.mx[p] *= r; cur.mn[p] *= r; }
-        else {
-          const t = cur.mx[p], tk = cur.kx[p];
-          cur.mx[p] = cur.mn[p] * r; cur.kx[p] = cur.kn[p];
-          cur.mn[p] = t * r; cur.kn[p] = tk;
+        if (r >= 0) {
+          cur.mx[p] *= r;
+          cur.mn[p] *= r;
+        } else {
+          const t = cur.mx[p],
+            tk = cur.kx[p];
+          cur.mx[p] = cur.mn[p] * r;
+          cur.kx[p] = cur.kn[p];
+          cur.mn[p] = t * r;
+          cur.kn[p] = tk;
         }
       }
     }
@@ -608,12 +710,22 @@ function reactionsOf(free: Uint8Array, lengths: Float64Array, T: Float64Array, e
 }
 
 function emptyEnvelope(problems: Problem[]): BeamEnvelope {
-  return { caution: CAUTION, ok: false, problems, members: [], deadReactionsKN: [], liveReactionsKN: [], maxFactoredReactionsKN: [], patternsTried: 0 };
+  return {
+    caution: CAUTION,
+    ok: false,
+    problems,
+    members: [],
+    deadReactionsKN: [],
+    liveReactionsKN: [],
+    maxFactoredReactionsKN: [],
+    patternsTried: 0,
+  };
 }
 
 /** Problems with load combinations: at least one, factors finite and not negative. */
 export function validateCombinations(combos: unknown): Problem[] {
-  if (!Array.isArray(combos) || combos.length === 0) return [{ path: 'combos', field: 'combos', message: 'at least one load combination is needed' }];
+  if (!Array.isArray(combos) || combos.length === 0)
+    return [{ path: 'combos', field: 'combos', message: 'at least one load combination is needed' }];
   const out: Problem[] = [];
   combos.forEach((c, k) => {
     const o = (typeof c === 'object' && c !== null ? c : {}) as Record<string, unknown>;
@@ -621,7 +733,12 @@ export function validateCombinations(combos: unknown): Problem[] {
     for (const field of ['dead', 'live'] as const) {
       const v = o[field];
       if (typeof v !== 'number' || !Number.isFinite(v) || v < 0 || v > 10)
-        out.push({ path: `combos[${k}].${field}`, ...(id ? { elementId: id } : {}), field, message: 'must be a load factor from 0 to 10' });
+        out.push({
+          path: `combos[${k}].${field}`,
+          ...(id ? { elementId: id } : {}),
+          field,
+          message: 'must be a load factor from 0 to 10',
+        });
     }
     if (id === undefined) out.push({ path: `combos[${k}].id`, field: 'id', message: 'must be a text' });
   });
@@ -641,10 +758,17 @@ export function envelopeBeam(
   combos: readonly Combination[],
   opts: { samplesPerMember?: number; prepared?: PreparedBeam } = {},
 ): BeamEnvelope {
-  const problems = [...validateBeamInput(model, dead, 'dead'), ...validateLoadsOnly(model, live, 'live'), ...validateCombinations(combos)];
+  const problems = [
+    ...validateBeamInput(model, dead, 'dead'),
+    ...validateLoadsOnly(model, live, 'live'),
+    ...validateCombinations(combos),
+  ];
   if (problems.length) return emptyEnvelope(problems);
   const p = opts.prepared ?? prepareBeam(model);
-  if (!p.ok) return emptyEnvelope([{ path: 'supports', field: 'supports', message: 'the supports do not hold the beam up (it is a mechanism)' }]);
+  if (!p.ok)
+    return emptyEnvelope([
+      { path: 'supports', field: 'supports', message: 'the supports do not hold the beam up (it is a mechanism)' },
+    ]);
   return envelopeParts(p, [[loadPart(p, dead), 1]], [[loadPart(p, live), 1]], combos);
 }
 
@@ -652,10 +776,19 @@ export function envelopeBeam(
  * The envelope from load parts: dead = Σ factor × part, imposed likewise (parts from loadPart).
  * Units as envelopeBeam. The caller has validated the loads.
  */
-export function envelopeParts(p: PreparedBeam, deadParts: Parts, liveParts: Parts, combos: readonly Combination[], cache?: ArrangementCache): BeamEnvelope {
+export function envelopeParts(
+  p: PreparedBeam,
+  deadParts: Parts,
+  liveParts: Parts,
+  combos: readonly Combination[],
+  cache?: ArrangementCache,
+): BeamEnvelope {
   const model = p.model;
   const nm = model.members.length;
-  if (!p.ok) return emptyEnvelope([{ path: 'supports', field: 'supports', message: 'the supports do not hold the beam up (it is a mechanism)' }]);
+  if (!p.ok)
+    return emptyEnvelope([
+      { path: 'supports', field: 'supports', message: 'the supports do not hold the beam up (it is a mechanism)' },
+    ]);
   const lengths = p.len;
   const C = combineParts(deadParts, liveParts, lengths);
   const { TD, v0D, v0L } = C;
@@ -663,8 +796,10 @@ export function envelopeParts(p: PreparedBeam, deadParts: Parts, liveParts: Part
   for (let n = 0; n <= nm; n++) free[n] = model.supports[n] === 'free' ? 1 : 0;
   const rhs = new Float64Array(p.nEq);
   // service solutions: dead on all spans, imposed on all spans
-  const sD = new Float64Array(2 * nm), uD = new Float64Array(2 * (nm + 1));
-  const sL = new Float64Array(2 * nm), uL = new Float64Array(2 * (nm + 1));
+  const sD = new Float64Array(2 * nm),
+    uD = new Float64Array(2 * (nm + 1));
+  const sL = new Float64Array(2 * nm),
+    uL = new Float64Array(2 * (nm + 1));
   solvePacked(p, TD, rhs, uD, sD);
   solvePacked(p, C.TL, rhs, uL, sL);
   const rD = reactionsOf(free, lengths, TD, sD);
@@ -684,8 +819,13 @@ export function envelopeParts(p: PreparedBeam, deadParts: Parts, liveParts: Part
   const patterns = arrangements(model);
   const nPat = patterns.length;
   const patIndexAt = new Int32Array(nm + 1).fill(-1);
-  patterns.forEach((a, i) => { if (a.kind === 'adjacent') patIndexAt[a.node] = i; });
-  const PAT_ALL = 0, PAT_NONE = 1, PAT_ODD = 2, PAT_EVEN = 3;
+  patterns.forEach((a, i) => {
+    if (a.kind === 'adjacent') patIndexAt[a.node] = i;
+  });
+  const PAT_ALL = 0,
+    PAT_NONE = 1,
+    PAT_ODD = 2,
+    PAT_EVEN = 3;
 
   // per member: max moment, its x, its scan; min moment, its x, its scan; max |shear|
   const acc = new Float64Array(nm * 7);
@@ -707,8 +847,16 @@ export function envelopeParts(p: PreparedBeam, deadParts: Parts, liveParts: Part
     const gl = on ? gc : 0;
     memberExtremes(C, i, L, cd, gl, ml, mr);
     const o = i * 7;
-    if (exMax > acc[o]) { acc[o] = exMax; acc[o + 1] = exMaxAt; acc[o + 2] = id; }
-    if (exMin < acc[o + 3]) { acc[o + 3] = exMin; acc[o + 4] = exMinAt; acc[o + 5] = id; }
+    if (exMax > acc[o]) {
+      acc[o] = exMax;
+      acc[o + 1] = exMaxAt;
+      acc[o + 2] = id;
+    }
+    if (exMin < acc[o + 3]) {
+      acc[o + 3] = exMin;
+      acc[o + 4] = exMinAt;
+      acc[o + 5] = id;
+    }
     const dv = (mr - ml) / L;
     const va = Math.abs(cd * v0D[2 * i] + gl * v0L[2 * i] + dv);
     const vb = Math.abs(cd * v0D[2 * i + 1] + gl * v0L[2 * i + 1] + dv);
@@ -716,18 +864,30 @@ export function envelopeParts(p: PreparedBeam, deadParts: Parts, liveParts: Part
     if (v > acc[o + 6]) acc[o + 6] = v;
   };
   // reaction at node n from the two members beside it (imposed end moments per unit, as above)
-  const reaction = (n: number, cd: number, gc: number, onL: boolean, lml: number, lmr: number, onR: boolean, rml: number, rmr: number) => {
+  const reaction = (
+    n: number,
+    cd: number,
+    gc: number,
+    onL: boolean,
+    lml: number,
+    lmr: number,
+    onR: boolean,
+    rml: number,
+    rmr: number,
+  ) => {
     if (free[n]) return;
     const gu = gc * scale;
     let r = 0;
     if (n > 0) {
       const i = n - 1;
-      const ml = cd * sD[2 * i] + gu * lml, mr = cd * sD[2 * i + 1] + gu * lmr;
+      const ml = cd * sD[2 * i] + gu * lml,
+        mr = cd * sD[2 * i + 1] + gu * lmr;
       r += cd * TD[4 * i + 3] + (onL ? gu * uT[4 * i + 3] : 0) - (mr - ml) / lengths[i];
     }
     if (n < nm) {
       const i = n;
-      const ml = cd * sD[2 * i] + gu * rml, mr = cd * sD[2 * i + 1] + gu * rmr;
+      const ml = cd * sD[2 * i] + gu * rml,
+        mr = cd * sD[2 * i + 1] + gu * rmr;
       r += cd * TD[4 * i + 2] + (onR ? gu * uT[4 * i + 2] : 0) + (mr - ml) / lengths[i];
     }
     if (r > maxR[n]) maxR[n] = r;
@@ -752,8 +912,19 @@ export function envelopeParts(p: PreparedBeam, deadParts: Parts, liveParts: Part
       const arr = patterns[pat];
       for (let i = 0; i < nm; i++) member(i, cd, gl, loadedIn(arr, i), em[2 * i], em[2 * i + 1], id);
       for (let n = 0; n <= nm; n++) {
-        const onL = n > 0 && loadedIn(arr, n - 1), onR = n < nm && loadedIn(arr, n);
-        reaction(n, cd, gl, onL, n > 0 ? em[2 * n - 2] : 0, n > 0 ? em[2 * n - 1] : 0, onR, n < nm ? em[2 * n] : 0, n < nm ? em[2 * n + 1] : 0);
+        const onL = n > 0 && loadedIn(arr, n - 1),
+          onR = n < nm && loadedIn(arr, n);
+        reaction(
+          n,
+          cd,
+          gl,
+          onL,
+          n > 0 ? em[2 * n - 2] : 0,
+          n > 0 ? em[2 * n - 1] : 0,
+          onR,
+          n < nm ? em[2 * n] : 0,
+          n < nm ? em[2 * n + 1] : 0,
+        );
       }
     };
     base(PAT_ALL, sol.emAll);
@@ -808,13 +979,20 @@ export function envelopeParts(p: PreparedBeam, deadParts: Parts, liveParts: Part
       if (patIndexAt[n] >= 0) {
         // the arrangement at n itself: members n − 1 and n both loaded
         const k = n;
-        const eL = s.emAlt[(k - 1) & 1], eR = s.emAlt[k & 1];
+        const eL = s.emAlt[(k - 1) & 1],
+          eR = s.emAlt[k & 1];
         const cR = sR ? R.c[k] : 0;
         const cL = sL ? Lf.c[nm - k] : 0;
         reaction(
-          n, cd, gl,
-          n > 0, n > 0 ? eL[2 * n - 2] + cL * lamL : 0, n > 0 ? eL[2 * n - 1] + cL : 0,
-          n < nm, n < nm ? eR[2 * n] + cR : 0, n < nm ? eR[2 * n + 1] + cR * R.rho[n] : 0,
+          n,
+          cd,
+          gl,
+          n > 0,
+          n > 0 ? eL[2 * n - 2] + cL * lamL : 0,
+          n > 0 ? eL[2 * n - 1] + cL : 0,
+          n < nm,
+          n < nm ? eR[2 * n] + cR : 0,
+          n < nm ? eR[2 * n + 1] + cR * R.rho[n] : 0,
         );
       }
       for (let p = 0; p < 2; p++) {
@@ -828,9 +1006,15 @@ export function envelopeParts(p: PreparedBeam, deadParts: Parts, liveParts: Part
               const em = s.emAlt[k & 1];
               const atN = sL ? v * R.rho[n - 1] : 0;
               reaction(
-                n, cd, gl,
-                adjacentLoads(k, n - 1), em[2 * n - 2] + (sL ? v : 0), em[2 * n - 1] + atN,
-                n < nm && adjacentLoads(k, n), n < nm ? em[2 * n] + (sR ? atN : 0) : 0, n < nm ? em[2 * n + 1] + (sR ? atN * R.rho[n] : 0) : 0,
+                n,
+                cd,
+                gl,
+                adjacentLoads(k, n - 1),
+                em[2 * n - 2] + (sL ? v : 0),
+                em[2 * n - 1] + atN,
+                n < nm && adjacentLoads(k, n),
+                n < nm ? em[2 * n] + (sR ? atN : 0) : 0,
+                n < nm ? em[2 * n + 1] + (sR ? atN * R.rho[n] : 0) : 0,
               );
             }
           }
@@ -844,9 +1028,15 @@ export function envelopeParts(p: PreparedBeam, deadParts: Parts, liveParts: Part
               const em = s.emAlt[(k - 1) & 1];
               const atN = sR ? v * lamR : 0;
               reaction(
-                n, cd, gl,
-                n > 0 && adjacentLoads(k, n - 1), n > 0 ? em[2 * n - 2] + (sL ? atN * lamL : 0) : 0, n > 0 ? em[2 * n - 1] + (sL ? atN : 0) : 0,
-                adjacentLoads(k, n), em[2 * n] + atN, em[2 * n + 1] + (sR ? v : 0),
+                n,
+                cd,
+                gl,
+                n > 0 && adjacentLoads(k, n - 1),
+                n > 0 ? em[2 * n - 2] + (sL ? atN * lamL : 0) : 0,
+                n > 0 ? em[2 * n - 1] + (sL ? atN : 0) : 0,
+                adjacentLoads(k, n),
+                em[2 * n] + atN,
+                em[2 * n + 1] + (sR ? v : 0),
               );
             }
           }
@@ -872,8 +1062,19 @@ export function envelopeParts(p: PreparedBeam, deadParts: Parts, liveParts: Part
       const id = ci * nPat + pi;
       for (let i = 0; i < nm; i++) member(i, cd, gl, loadedIn(arr, i), em[2 * i], em[2 * i + 1], id);
       for (let n = 0; n <= nm; n++) {
-        const onL = n > 0 && loadedIn(arr, n - 1), onR = n < nm && loadedIn(arr, n);
-        reaction(n, cd, gl, onL, n > 0 ? em[2 * n - 2] : 0, n > 0 ? em[2 * n - 1] : 0, onR, n < nm ? em[2 * n] : 0, n < nm ? em[2 * n + 1] : 0);
+        const onL = n > 0 && loadedIn(arr, n - 1),
+          onR = n < nm && loadedIn(arr, n);
+        reaction(
+          n,
+          cd,
+          gl,
+          onL,
+          n > 0 ? em[2 * n - 2] : 0,
+          n > 0 ? em[2 * n - 1] : 0,
+          onR,
+          n < nm ? em[2 * n] : 0,
+          n < nm ? em[2 * n + 1] : 0,
+        );
       }
     }
   }
@@ -893,9 +1094,15 @@ export function envelopeParts(p: PreparedBeam, deadParts: Parts, liveParts: Part
   const env: MemberEnvelope[] = [];
   for (let i = 0; i < nm; i++) {
     env.push({
-      maxMomentKNm: acc[i * 7], maxMomentAtM: acc[i * 7 + 1], maxPattern: scanLabel(acc[i * 7 + 2]),
-      minMomentKNm: acc[i * 7 + 3], minMomentAtM: acc[i * 7 + 4], minPattern: scanLabel(acc[i * 7 + 5]),
-      maxShearKN: acc[i * 7 + 6], serviceDeflectionMm: 0, serviceDeflectionAtM: 0,
+      maxMomentKNm: acc[i * 7],
+      maxMomentAtM: acc[i * 7 + 1],
+      maxPattern: scanLabel(acc[i * 7 + 2]),
+      minMomentKNm: acc[i * 7 + 3],
+      minMomentAtM: acc[i * 7 + 4],
+      minPattern: scanLabel(acc[i * 7 + 5]),
+      maxShearKN: acc[i * 7 + 6],
+      serviceDeflectionMm: 0,
+      serviceDeflectionAtM: 0,
     });
   }
   // service deflection: chord between the end deflections, plus each member's own loads and end
@@ -917,7 +1124,16 @@ export function envelopeParts(p: PreparedBeam, deadParts: Parts, liveParts: Part
       }
     }
   }
-  return { caution: CAUTION, ok: true, problems: [], members: env, deadReactionsKN: [...rD], liveReactionsKN: [...rL], maxFactoredReactionsKN: [...maxR], patternsTried };
+  return {
+    caution: CAUTION,
+    ok: true,
+    problems: [],
+    members: env,
+    deadReactionsKN: [...rD],
+    liveReactionsKN: [...rL],
+    maxFactoredReactionsKN: [...maxR],
+    patternsTried,
+  };
 }
 
 /** Unit-factor solutions of the imposed part on all, odd and even spans, and the sweeps. */

@@ -28,7 +28,7 @@ describe('footing plan sizes', () => {
     expect(t.feasible).toBe(true);
     // resultant at the centroid of the trapezoid (derived)
     const { widthAtFirstM: b1, widthAtFarM: b2 } = t;
-    expect((6 / 3) * (b1 + 2 * b2) / (b1 + b2)).toBeCloseTo(t.resultantFromWideEndM, 9);
+    expect(((6 / 3) * (b1 + 2 * b2)) / (b1 + b2)).toBeCloseTo(t.resultantFromWideEndM, 9);
   });
   it('strap, worked by hand statics (derived): 600 kN column 0.15 m from the line, 1.5 m pad, 900 kN interior column 5 m away', () => {
     const s = strapFooting(600, 900, 5, 0.15, 150, 0.1, 1.5);

@@ -1,11 +1,39 @@
 // Public surface of the structural planning engine. Pure TypeScript, no I/O.
 // Units: SI throughout (m, mm where a name says Mm, kN, kN/m, kPa, kN·m, MPa).
 export * from './model';
-export { CAUTION, codeDefaults, resolveLimits, concreteModulusMPa, beamDepthRule, slabDepthRule, limitingMomentKNm, columnCapacityKN, LIMIT_KEYS, EN_ALPHA_CC_DEFAULT } from './codes';
+export {
+  CAUTION,
+  codeDefaults,
+  resolveLimits,
+  concreteModulusMPa,
+  beamDepthRule,
+  slabDepthRule,
+  limitingMomentKNm,
+  columnCapacityKN,
+  LIMIT_KEYS,
+  EN_ALPHA_CC_DEFAULT,
+} from './codes';
 export { StructuralInputError } from './errors';
-export type { CodeDefaults, Combination, Limit, LimitKey, Limits, SourceKind, SupportCondition, DepthRule } from './codes';
+export type {
+  CodeDefaults,
+  Combination,
+  Limit,
+  LimitKey,
+  Limits,
+  SourceKind,
+  SupportCondition,
+  DepthRule,
+} from './codes';
 export { validateScheme, SCHEME_LIMITS } from './validate';
-export { analyseBeam, continuousBeam, uniformLoad, pointLoad, validateBeamModel, validateLoads, BEAM_RANGES } from './beam';
+export {
+  analyseBeam,
+  continuousBeam,
+  uniformLoad,
+  pointLoad,
+  validateBeamModel,
+  validateLoads,
+  BEAM_RANGES,
+} from './beam';
 export type { BeamLoad, BeamModel, BeamMember, BeamResult, MemberResult, PointLoad, LinearLoad, Support } from './beam';
 export { envelopeBeam, loadPatterns, validateCombinations } from './envelope';
 export type { BeamEnvelope, MemberEnvelope } from './envelope';

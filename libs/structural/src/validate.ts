@@ -47,9 +47,20 @@ class Collector {
     }
     if (rule.int && !Number.isInteger(v)) this.add(path, field, 'must be a whole number', elementId);
     if (rule.gt !== undefined && !(v > rule.gt)) this.add(path, field, `must be greater than ${rule.gt}`, elementId);
-    if (rule.min !== undefined && v < rule.min) this.add(path, field, `must be at least ${rule.min}${rule.max !== undefined ? ` (accepted: ${rule.min} to ${rule.max})` : ''}`, elementId);
+    if (rule.min !== undefined && v < rule.min)
+      this.add(
+        path,
+        field,
+        `must be at least ${rule.min}${rule.max !== undefined ? ` (accepted: ${rule.min} to ${rule.max})` : ''}`,
+        elementId,
+      );
     if (rule.max !== undefined && v > rule.max)
-      this.add(path, field, `must be at most ${rule.max} (accepted: ${rule.min ?? rule.gt ?? '−'}${rule.gt !== undefined && rule.min === undefined ? ' exclusive' : ''} to ${rule.max})`, elementId);
+      this.add(
+        path,
+        field,
+        `must be at most ${rule.max} (accepted: ${rule.min ?? rule.gt ?? '−'}${rule.gt !== undefined && rule.min === undefined ? ' exclusive' : ''} to ${rule.max})`,
+        elementId,
+      );
     return v;
   }
   str(o: Obj, base: string, field: string, elementId?: string): string | undefined {
@@ -101,11 +112,16 @@ export function validateScheme(input: unknown): Problem[] {
   const basis = input['basis'];
   if (!isObj(basis)) c.add('basis', 'basis', 'the design basis is missing');
   else {
-    if (!['IS456', 'ACI318', 'EN1992'].includes(basis['codeFamily'] as string)) c.add('basis.codeFamily', 'codeFamily', 'must be one of IS456, ACI318, EN1992');
+    if (!['IS456', 'ACI318', 'EN1992'].includes(basis['codeFamily'] as string))
+      c.add('basis.codeFamily', 'codeFamily', 'must be one of IS456, ACI318, EN1992');
     c.num(basis, 'basis', 'concreteMPa', { min: 10, max: 120 });
     c.num(basis, 'basis', 'steelMPa', { min: 200, max: 700 });
     if (basis['codeFamily'] === 'IS456' && typeof basis['steelMPa'] === 'number' && basis['steelMPa'] > 550)
-      c.add('basis.steelMPa', 'steelMPa', 'IS 456:2000 covers reinforcement grades up to Fe 550 (accepted: 200 to 550 for IS456)');
+      c.add(
+        'basis.steelMPa',
+        'steelMPa',
+        'IS 456:2000 covers reinforcement grades up to Fe 550 (accepted: 200 to 550 for IS456)',
+      );
     c.num(basis, 'basis', 'imposedKPa', { min: 0, max: LIM.loadKPa });
     c.num(basis, 'basis', 'roofImposedKPa', { min: 0, max: LIM.loadKPa, optional: true });
     c.num(basis, 'basis', 'superimposedDeadKPa', { min: 0, max: LIM.loadKPa });
@@ -131,7 +147,8 @@ export function validateScheme(input: unknown): Problem[] {
       else
         for (const [k, v] of Object.entries(ov)) {
           if (!(LIMIT_KEYS as readonly string[]).includes(k)) c.add(`basis.limitOverrides.${k}`, k, 'unknown limit');
-          else if (typeof v !== 'number' || !Number.isFinite(v) || v < 0 || v > 1e6) c.add(`basis.limitOverrides.${k}`, k, 'must be a number from 0 to 1000000 in the limit\'s unit');
+          else if (typeof v !== 'number' || !Number.isFinite(v) || v < 0 || v > 1e6)
+            c.add(`basis.limitOverrides.${k}`, k, "must be a number from 0 to 1000000 in the limit's unit");
         }
     }
   }
@@ -153,7 +170,8 @@ export function validateScheme(input: unknown): Problem[] {
     if (!Array.isArray(pl)) c.add('boundary.propertyLines', 'propertyLines', 'must be a list of segment indices');
     else
       pl.forEach((k, i) => {
-        if (!Number.isInteger(k) || (k as number) < 0 || (k as number) >= vs.length) c.add(`boundary.propertyLines[${i}]`, 'propertyLines', `segment index must be 0..${vs.length - 1}`);
+        if (!Number.isInteger(k) || (k as number) < 0 || (k as number) >= vs.length)
+          c.add(`boundary.propertyLines[${i}]`, 'propertyLines', `segment index must be 0..${vs.length - 1}`);
       });
   }
 
@@ -203,7 +221,8 @@ export function validateScheme(input: unknown): Problem[] {
     const y = c.num(col, base, 'y', { min: -LIM.coordM, max: LIM.coordM }, id);
     c.num(col, base, 'widthMm', { min: 100, max: 5000 }, id);
     c.num(col, base, 'depthMm', { min: 100, max: 5000 }, id);
-    if (col['orientationDeg'] !== 0 && col['orientationDeg'] !== 90) c.add(`${base}.orientationDeg`, 'orientationDeg', 'must be 0 or 90', id);
+    if (col['orientationDeg'] !== 0 && col['orientationDeg'] !== 90)
+      c.add(`${base}.orientationDeg`, 'orientationDeg', 'must be 0 or 90', id);
     if (x !== undefined && y !== undefined && id) pos.push({ id, x, y, i });
   });
   pos.sort((a, b) => a.x - b.x);
@@ -219,12 +238,16 @@ export function validateScheme(input: unknown): Problem[] {
     if (!isObj(s)) return c.add(base, 'secondaryBeams', 'must be an object');
     const id = typeof s['id'] === 'string' ? s['id'] : undefined;
     c.str(s, base, 'id', id);
-    const a = s['start'], b = s['end'];
+    const a = s['start'],
+      b = s['end'];
     if (!isObj(a) || !isObj(b)) return c.add(`${base}.start`, 'start', 'start and end must be points {x, y}', id);
-    const ax = c.num(a, `${base}.start`, 'x', XY, id), ay = c.num(a, `${base}.start`, 'y', XY, id);
-    const bx = c.num(b, `${base}.end`, 'x', XY, id), by = c.num(b, `${base}.end`, 'y', XY, id);
+    const ax = c.num(a, `${base}.start`, 'x', XY, id),
+      ay = c.num(a, `${base}.start`, 'y', XY, id);
+    const bx = c.num(b, `${base}.end`, 'x', XY, id),
+      by = c.num(b, `${base}.end`, 'y', XY, id);
     if ([ax, ay, bx, by].every((v) => v !== undefined)) {
-      const dx = Math.abs((bx as number) - (ax as number)), dy = Math.abs((by as number) - (ay as number));
+      const dx = Math.abs((bx as number) - (ax as number)),
+        dy = Math.abs((by as number) - (ay as number));
       if (dx > 0.02 && dy > 0.02) c.add(`${base}.end`, 'end', 'a secondary beam must run parallel to x or to y', id);
       if (dx < 0.1 && dy < 0.1) c.add(`${base}.end`, 'end', 'a secondary beam must be longer than 0.1 m', id);
     }
@@ -243,7 +266,8 @@ export function validateScheme(input: unknown): Problem[] {
     c.num(f, base, 'treadMm', { min: 100, max: 1000 }, id);
     c.num(f, base, 'risers', { min: 1, max: 100, int: true }, id);
     c.num(f, base, 'widthM', { min: 0.5, max: 20 }, id);
-    if (f['use'] !== 'residential' && f['use'] !== 'other') c.add(`${base}.use`, 'use', 'must be residential or other', id);
+    if (f['use'] !== 'residential' && f['use'] !== 'other')
+      c.add(`${base}.use`, 'use', 'must be residential or other', id);
   });
   return c.problems;
 }
