@@ -1,6 +1,8 @@
 // npm start: PostgreSQL, migrations and the demo seed on first run, the client build and the API,
 // all on loopback. Ctrl-C stops everything this started; data is kept for the next start.
 import path from 'node:path';
+import { createObjectStore, objectStoreConfigFrom, storageConfigSchema } from '../apps/server/src/storage';
+import { storeDemoDrawingFiles } from '../seeds/demo-drawings';
 import { CLIENT_DIST } from './lib/client-build';
 import { fakeServicesEnv, s3Service, smtpService } from './lib/fake-services';
 import { Cluster } from './lib/postgres';
@@ -57,6 +59,7 @@ async function main(): Promise<void> {
 
   try {
     stopAll = await startAll(services);
+    await storeDemoFiles(env);
   } catch (err) {
     log('start', `could not start: ${(err as Error).message}`);
     process.exit(1);
@@ -72,3 +75,14 @@ async function main(): Promise<void> {
 }
 
 void main();
+
+/** The demo register's PDFs live in S3, which is up only now; missing ones are put there. */
+async function storeDemoFiles(env: Record<string, string>): Promise<void> {
+  const store = createObjectStore(objectStoreConfigFrom(storageConfigSchema.parse(env)));
+  try {
+    const stored = await storeDemoDrawingFiles(store);
+    if (stored) log('start', `demo drawing files stored in S3: ${stored}`);
+  } finally {
+    store.close();
+  }
+}

@@ -8,7 +8,8 @@ import {
   revisionFileSchema,
   revisionSchema,
 } from '@trabeate/contracts';
-import { DEMO } from '../../seeds/demo';
+import { DEMO, seedDemo } from '../../seeds/demo';
+import { DEMO_DRAWINGS, storeDemoDrawingFiles } from '../../seeds/demo-drawings';
 import { testApp, type TestApp } from '../support/app';
 import { send, signedInAs } from '../support/agents';
 import { tinyPdf } from '../support/fakes';
@@ -391,6 +392,26 @@ describe('drawing register: drawings, revisions and their lifecycle', () => {
       const bad = await tomas.get(`/api/projects/${kestrel}/drawings?sort=colour`);
       expect(bad.status).toBe(400);
     });
+  });
+
+  it('seeds the demo register safely twice, and its stored files match their recorded SHA-256', async () => {
+    await seedDemo(t.db);
+    expect(await storeDemoDrawingFiles(t.store)).toBeGreaterThan(0);
+    expect(await storeDemoDrawingFiles(t.store)).toBe(0);
+    const list = drawingListSchema.parse((await fenwick.get(`/api/projects/${kestrel}/drawings?q=S-00`)).body);
+    // S-003 is only a draft: the client sees the two issued drawings.
+    expect(list.items.map((i) => `${i.number} ${i.current?.code} ${i.current?.state}`)).toEqual([
+      'S-001 P02 issued',
+      'S-002 P01 issued',
+    ]);
+    const s001 = drawingSchema.parse(
+      (await fenwick.get(`/api/projects/${kestrel}/drawings/${DEMO_DRAWINGS.foundations.id}`)).body,
+    );
+    expect(s001.revisions.map((r) => `${r.code} ${r.state}`)).toEqual(['P02 issued', 'P01 superseded']);
+    const file = s001.revisions[0].files[0];
+    const res = await fenwick.get(file.downloadUrl).buffer(true).parse(binary);
+    expect(res.status).toBe(200);
+    expect(sha(res.body as Buffer)).toBe(file.sha256);
   });
 
   describe('exports', () => {

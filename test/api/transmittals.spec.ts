@@ -29,6 +29,8 @@ describe('transmittals: issuing approved revisions, the sheet, e-mails, signed l
   let harbourlight: TestAgent;
   let issued: Transmittal;
   const pdfs: Buffer[] = [];
+  // The demo seed already issued some on Kestrel Yard; numbers continue from there.
+  let demoTransmittals = 0;
 
   beforeAll(async () => {
     smtp = await startFakeSmtp({ httpPort: null });
@@ -43,6 +45,7 @@ describe('transmittals: issuing approved revisions, the sheet, e-mails, signed l
     priya = await signedInAs(t, DEMO.users.engineerB.email);
     fenwick = await signedInAs(t, DEMO.users.fenwickContact.email);
     harbourlight = await signedInAs(t, DEMO.users.harbourlightContact.email);
+    demoTransmittals = Number((await t.db('transmittals').where({ project_id: kestrel }).count('* as n').first())!.n);
   });
   afterAll(async () => {
     await t.close();
@@ -71,7 +74,7 @@ describe('transmittals: issuing approved revisions, the sheet, e-mails, signed l
     });
     expect(res.status).toBe(409);
     expect(res.body.error.message).toBe('Only approved revisions can be issued: S-090 revision P01 is draft.');
-    expect(await t.db('transmittals').count('* as n').first()).toEqual({ n: '0' });
+    expect(await t.db('transmittals').count('* as n').first()).toEqual({ n: String(demoTransmittals) });
   });
 
   it('refuses recipients who are not this project’s client contacts', async () => {
@@ -106,8 +109,10 @@ describe('transmittals: issuing approved revisions, the sheet, e-mails, signed l
     });
     expect(res.status).toBe(201);
     issued = transmittalSchema.parse(res.body);
-    expect(issued.number).toBe(1);
-    expect(issued.reference).toBe(`${DEMO.projects.kestrel.reference}-TR-001`);
+    expect(issued.number).toBe(demoTransmittals + 1);
+    expect(issued.reference).toBe(
+      `${DEMO.projects.kestrel.reference}-TR-${String(demoTransmittals + 1).padStart(3, '0')}`,
+    );
     expect(issued.items.map((i) => `${i.number} ${i.code} ${i.state}`)).toEqual([
       'S-091 P01 issued',
       'S-101 P01 issued',
@@ -159,7 +164,7 @@ describe('transmittals: issuing approved revisions, the sheet, e-mails, signed l
       contactIds: [DEMO.users.fenwickContact.id],
     });
     expect(second.status).toBe(201);
-    expect(second.body.number).toBe(2);
+    expect(second.body.number).toBe(demoTransmittals + 2);
     const drawing = drawingSchema.parse((await fenwick.get(`/api/projects/${kestrel}/drawings/${drawingId}`)).body);
     expect(drawing.revisions.map((x) => `${x.code} ${x.state}`)).toEqual(['P02 issued', 'P01 superseded']);
     expect(drawing.current).toMatchObject({ code: 'P02', state: 'issued' });
@@ -167,7 +172,7 @@ describe('transmittals: issuing approved revisions, the sheet, e-mails, signed l
 
   it('shows a client contact only the transmittals sent to them, and hides them from other clients', async () => {
     const mine = transmittalListSchema.parse((await fenwick.get(`/api/projects/${kestrel}/transmittals`)).body);
-    expect(mine.map((x) => x.number)).toEqual([2, 1]);
+    expect(mine.map((x) => x.number).slice(0, 2)).toEqual([demoTransmittals + 2, demoTransmittals + 1]);
     expect(mine[1].myAcknowledgement).toEqual({ acknowledgedAt: null });
     const detail = transmittalSchema.parse(
       (await fenwick.get(`/api/projects/${kestrel}/transmittals/${issued.id}`)).body,
