@@ -5,6 +5,7 @@ import * as m20261202000100 from './20261202000100_identity';
 import * as m20261210000000 from './20261210000000_stages';
 import * as m20261220000100 from './20261220000100_one_pending_invitation';
 import * as m20261220000400 from './20261220000400_identity_sign_in_throttle';
+import * as m20261221000000 from './20261221000000_drawings';
 
 /** Every migration, by name, in the order they run. Add new ones here as well as in the folder. */
 export const migrations: Record<string, Knex.Migration> = {
@@ -14,4 +15,5 @@ export const migrations: Record<string, Knex.Migration> = {
   '20261210000000_stages': m20261210000000,
   '20261220000100_one_pending_invitation': m20261220000100,
   '20261220000400_identity_sign_in_throttle': m20261220000400,
+  '20261221000000_drawings': m20261221000000,
 };

@@ -3,6 +3,8 @@
 // Each fake runs in its own process and is restarted when it dies; every child exits when this
 // command dies, and the next start stops anything a crashed run still left (pid files in tmp/run).
 import path from 'node:path';
+import { createObjectStore, objectStoreConfigFrom, storageConfigSchema } from '../apps/server/src/storage';
+import { storeDemoDrawingFiles } from '../seeds/demo-drawings';
 import { CLIENT_DIST } from './lib/client-build';
 import { fakeServicesEnv, s3Service, smtpService } from './lib/fake-services';
 import { releaseRunDir, takeOverRunDir } from './lib/leftovers';
@@ -83,6 +85,7 @@ async function main(): Promise<void> {
 
   try {
     stopAll = await startAll(services);
+    await storeDemoFiles(env);
   } catch (err) {
     log('start', `could not start: ${(err as Error).message}`);
     releaseRunDir(RUN_DIR);
@@ -99,3 +102,14 @@ async function main(): Promise<void> {
 }
 
 void main();
+
+/** The demo register's PDFs live in S3, which is up only now; missing ones are put there. */
+async function storeDemoFiles(env: Record<string, string>): Promise<void> {
+  const store = createObjectStore(objectStoreConfigFrom(storageConfigSchema.parse(env)));
+  try {
+    const stored = await storeDemoDrawingFiles(store);
+    if (stored) log('start', `demo drawing files stored in S3: ${stored}`);
+  } finally {
+    store.close();
+  }
+}

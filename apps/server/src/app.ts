@@ -1,4 +1,4 @@
-import { randomUUID } from 'node:crypto';
+import { createHmac, randomUUID } from 'node:crypto';
 import { existsSync } from 'node:fs';
 import path from 'node:path';
 import { randomBytes } from 'node:crypto';
@@ -21,6 +21,8 @@ import { peopleRoutes } from './people/people.routes';
 import { projectRoutes } from './projects/projects.routes';
 import { activityRoutes } from './activity/activity.routes';
 import { deliverableRoutes } from './deliverables/deliverables.routes';
+import { drawingRoutes } from './drawings/drawings.routes';
+import { transmittalRoutes } from './transmittals/transmittals.routes';
 import type { Jobs } from './jobs';
 import { createNotices } from './notices/notices';
 import { outboxRoutes } from './outbox/outbox.routes';
@@ -164,6 +166,15 @@ export function createApp({ config, db, logger, version = '0.1.0', store, jobs }
     ...stageRoutes(db, notices),
     ...deliverableRoutes(db, store, config.UPLOAD_MAX_BYTES ?? 1024 * 1024 * 1024),
     ...activityRoutes(db),
+    ...drawingRoutes(db, store, config.UPLOAD_MAX_BYTES ?? 1024 * 1024 * 1024),
+    ...transmittalRoutes({
+      db,
+      store,
+      notices,
+      publicUrl,
+      // Outside recipients' download links are signed with a key derived from the session secret.
+      linkSecret: createHmac('sha256', secrets[0]).update('trabeate transmittal links').digest(),
+    }),
     ...outboxRoutes(outboxUrlOf(config)),
   ];
 

@@ -5,3 +5,4 @@ export * from './auth';
 export * from './scheme';
 export * from './projects';
 export * from './errors';
+export * from './drawings';

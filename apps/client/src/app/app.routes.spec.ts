@@ -53,14 +53,22 @@ describe('app routes', () => {
     expect(shownText()).toContain('Sign in to Trabeate');
   });
 
-  it.each([
-    ['/drawings', 'The drawing register is on its way', 'purpose of issue'],
-    ['/fees', 'Fees and invoices are coming soon', 'adding up to 100 %'],
-  ])('%s shows a designed placeholder that says what is coming', async (url, heading, detail) => {
-    await open(url, grantedMe('principal'));
-    expect(shownText()).toContain(heading);
-    expect(shownText()).toContain('What is coming');
-    expect(shownText()).toContain(detail);
+  it.each([['/fees', 'Fees and invoices are coming soon', 'adding up to 100 %']])(
+    '%s shows a designed placeholder that says what is coming',
+    async (url, heading, detail) => {
+      await open(url, grantedMe('principal'));
+      expect(shownText()).toContain(heading);
+      expect(shownText()).toContain('What is coming');
+      expect(shownText()).toContain(detail);
+    },
+  );
+
+  it('/drawings opens the register of the first project the caller can see', async () => {
+    await open('/drawings', grantedMe('principal'));
+    backend.expectOne((r) => r.url === '/api/projects').flush({ items: [], total: 0, page: 1, pageSize: 100 });
+    await harness.fixture.whenStable();
+    harness.detectChanges();
+    expect(shownText()).toContain('No project to show drawings for');
   });
 
   it('/status is public: it loads without asking who is signed in and asks the server for its health', async () => {

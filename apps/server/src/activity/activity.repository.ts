@@ -3,7 +3,8 @@ import type { z } from 'zod';
 import type { activityQuerySchema, StageKey } from '@trabeate/contracts';
 import type { Db } from '../db/db';
 
-export type ObjectType = 'project' | 'stage' | 'deliverable' | 'comment' | 'membership';
+export type ObjectType =
+  'project' | 'stage' | 'deliverable' | 'comment' | 'membership' | 'drawing' | 'revision' | 'transmittal';
 
 export interface ActivityInsert {
   firmId: string;
