@@ -25,6 +25,8 @@ import type { Jobs } from './jobs';
 import { createNotices } from './notices/notices';
 import { outboxRoutes } from './outbox/outbox.routes';
 import { stageRoutes } from './stages/stages.routes';
+import { feeRoutes } from './fees/fees.routes';
+import { invoiceRoutes } from './invoices/invoices.routes';
 import type { ObjectStore } from './storage';
 
 export interface AppDeps {
@@ -144,6 +146,8 @@ export function createApp({ config, db, logger, version = '0.1.0', store, jobs }
     ...deliverableRoutes(db, store, config.UPLOAD_MAX_BYTES ?? 1024 * 1024 * 1024),
     ...activityRoutes(db),
     ...outboxRoutes(outboxUrlOf(config)),
+    ...feeRoutes(db),
+    ...invoiceRoutes({ db, notices, store }),
   ];
 
   const api = express.Router();
