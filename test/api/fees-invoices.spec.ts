@@ -421,3 +421,48 @@ describe('fees and invoices through the API', () => {
     expect(new Set(seqs).size).toBe(seqs.length);
   });
 });
+
+describe('overdue reminders', () => {
+  let t: TestApp;
+  let principal: TestAgent;
+  beforeAll(async () => {
+    t = await testApp({ seed: true, identity: true });
+    principal = await signedInAs(t, DEMO.users.principal.email);
+  });
+  afterAll(() => t.close());
+
+  it('sends each reminder step once per invoice as the clock moves, and none when switched off', async () => {
+    const pid = DEMO.projects.kestrel.id;
+    expect((await send(principal, 'put', `/api/projects/${pid}/fee-agreement`, agreement())).status).toBe(200);
+    const ids: string[] = [];
+    for (const netMinor of [10_000, 20_000]) {
+      const d = await send(principal, 'post', `/api/projects/${pid}/invoices`, {
+        lines: [{ kind: 'expense', description: 'Survey', netMinor }],
+      });
+      const issued = invoiceSchema.parse(
+        (await send(principal, 'post', `/api/projects/${pid}/invoices/${d.body.id}/issue`)).body,
+      );
+      ids.push(issued.id);
+    }
+    await t.db('invoices').whereIn('id', ids).update({ due_on: '2027-01-10' });
+    await send(principal, 'put', `/api/projects/${pid}/invoices/${ids[1]}/reminders`, { enabled: false });
+    const { sendOverdueReminders } = await import('../../apps/server/src/invoices/reminders');
+    const notices = createNotices(t.jobs, 'http://127.0.0.1:4310', createLogger('silent'));
+    const run = (today: string) => sendOverdueReminders(t.db, notices, today, [7, 14, 30]);
+    expect(await run('2027-01-12')).toBe(0); // 2 days late: no step reached yet
+    expect(await run('2027-01-17')).toBe(1); // 7 days
+    expect(await run('2027-01-18')).toBe(0); // still the 7-day step: already sent
+    expect(await run('2027-01-24')).toBe(1); // 14 days
+    expect(await run('2027-02-09')).toBe(1); // 30 days
+    expect(await run('2027-02-09')).toBe(0);
+    const sent = await t.db('invoice_reminders').orderBy('days_late').select('invoice_id', 'days_late');
+    expect(sent).toEqual([7, 14, 30].map((d) => ({ invoice_id: ids[0], days_late: d })));
+    const queued = (
+      await t.db.raw(`select data from pgboss.job where name = ? and data->>'template' = 'invoice-overdue'`, [
+        MAIL_QUEUE,
+      ])
+    ).rows;
+    expect(queued).toHaveLength(3);
+    expect(queued[0].data.to).toEqual([DEMO.users.fenwickContact.email]);
+  });
+});

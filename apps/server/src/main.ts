@@ -3,6 +3,8 @@ import { createApp } from './app';
 import { ConfigError, LOCAL_DEFAULTS, loadConfig } from './core/config';
 import { createJobs } from './jobs';
 import { pruneExpired, PRUNE_CRON, PRUNE_JOB } from './maintenance/prune';
+import { REMINDER_CRON, REMINDER_JOB, sendOverdueReminders } from './invoices/reminders';
+import { createNotices } from './notices/notices';
 import { createMailTransport } from './mail';
 import { createObjectStore, objectStoreConfigFrom } from './storage';
 import { createLogger } from './core/logger';
@@ -36,6 +38,11 @@ async function main(): Promise<void> {
   await jobs.start();
   await jobs.every(PRUNE_JOB, PRUNE_CRON, async () => {
     logger.info(await pruneExpired(db), 'pruned expired sessions and sign-in records');
+  });
+  const reminderNotices = createNotices(jobs, config.PUBLIC_URL, logger);
+  await jobs.every(REMINDER_JOB, REMINDER_CRON, async () => {
+    const today = new Date().toISOString().slice(0, 10);
+    logger.info({ sent: await sendOverdueReminders(db, reminderNotices, today) }, 'overdue invoice reminders queued');
   });
   const app = createApp({ config, db, logger, store, jobs });
   const server = createServer(app);
