@@ -4,6 +4,7 @@ import * as m20261202000000 from './20261202000000_access';
 import * as m20261202000100 from './20261202000100_identity';
 import * as m20261210000000 from './20261210000000_stages';
 import * as m20261222000001 from './20261222000001_fees';
+import * as m20261222000101 from './20261222000101_fee_activity';
 
 /** Every migration, by name, in the order they run. Add new ones here as well as in the folder. */
 export const migrations: Record<string, Knex.Migration> = {
@@ -12,4 +13,5 @@ export const migrations: Record<string, Knex.Migration> = {
   '20261202000100_identity': m20261202000100,
   '20261210000000_stages': m20261210000000,
   '20261222000001_fees': m20261222000001,
+  '20261222000101_fee_activity': m20261222000101,
 };

@@ -2,7 +2,8 @@
 // all on loopback. Ctrl-C stops everything this started; data is kept for the next start.
 import path from 'node:path';
 import { CLIENT_DIST } from './lib/client-build';
-import { fakeServicesEnv, s3Service, smtpService } from './lib/fake-services';
+import { fakeServicesEnv, s3Service, smtpService, stripeService } from './lib/fake-services';
+import { fakeStripeEnv } from './fakes/stripe';
 import { Cluster } from './lib/postgres';
 import { log } from './lib/proc';
 import {
@@ -19,6 +20,7 @@ import {
 async function main(): Promise<void> {
   const cluster = new Cluster({ name: 'pg-dev', port: DEV_PORTS.postgres });
   const database = 'trabeate';
+  const stripePort = 4315;
   // A fixed local secret keeps sessions across restarts of `npm start`; never used in production.
   const signIn = localSignIn(cluster.url(database), DEV_PORTS, 'local-development-session-secret-not-for-production');
   const env = {
@@ -31,6 +33,8 @@ async function main(): Promise<void> {
     // Files and mail go to the local fakes; the outbox page reads the SMTP fake's HTTP API.
     ...fakeServicesEnv({ port: DEV_PORTS.s3 }, { port: DEV_PORTS.smtp, httpPort: DEV_PORTS.smtpHttp }),
     DEV_OUTBOX_URL: `http://127.0.0.1:${DEV_PORTS.smtpHttp}`,
+    // Card payments go to the local payments fake.
+    ...fakeStripeEnv(stripePort),
   };
   const services = [
     postgresService(cluster),
@@ -39,6 +43,7 @@ async function main(): Promise<void> {
     // Kept under tmp/ so files and caught mail survive restarts, like the database.
     s3Service({ port: DEV_PORTS.s3, directory: path.resolve('tmp/s3-dev') }),
     smtpService({ port: DEV_PORTS.smtp, httpPort: DEV_PORTS.smtpHttp, directory: path.resolve('tmp/mail-dev') }),
+    stripeService({ port: stripePort, webhookUrl: `http://127.0.0.1:${DEV_PORTS.api}/api/webhooks/stripe` }),
     identityService({ ...signIn.identity, LOG_LEVEL: process.env.LOG_LEVEL ?? 'info' }, DEV_PORTS.identity),
     apiService(env, DEV_PORTS.api),
   ];

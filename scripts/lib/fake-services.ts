@@ -1,5 +1,6 @@
 import type { FakeS3 } from '../fakes/s3';
 import type { FakeSmtp } from '../fakes/smtp';
+import type { FakeStripe } from '../fakes/stripe';
 import type { Service } from './services';
 
 /**
@@ -49,6 +50,32 @@ export function smtpService(opts: {
         signal: AbortSignal.timeout(2000),
       });
       if (!res.ok) throw new Error(`the mail outbox answered ${res.status}`);
+    },
+    stop: async () => {
+      await fake?.stop();
+      fake = undefined;
+    },
+  };
+}
+
+/** The payments fake (emulate behind our front), posting signed events to the API's webhook. */
+export function stripeService(opts: {
+  port: number;
+  webhookUrl: string;
+}): Service & { fake(): FakeStripe | undefined } {
+  let fake: FakeStripe | undefined;
+  return {
+    name: 'stripe',
+    fake: () => fake,
+    start: async () => {
+      const { startFakeStripe } = await import('../fakes/stripe');
+      fake = await startFakeStripe(opts);
+    },
+    ready: async () => {
+      const res = await fetch(`http://127.0.0.1:${fake?.port ?? opts.port}/v1/checkout/sessions`, {
+        signal: AbortSignal.timeout(2000),
+      });
+      if (res.status >= 500) throw new Error(`the payments fake answered ${res.status}`);
     },
     stop: async () => {
       await fake?.stop();

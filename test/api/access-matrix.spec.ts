@@ -5,8 +5,9 @@ import { projectDetailSchema } from '@trabeate/contracts';
 import { DEMO } from '../../seeds/demo';
 import { hashToken } from '../../apps/server/src/people/people.service';
 import { testApp, type TestApp } from '../support/app';
-import { startFakeSmtp, tinyPdf } from '../support/fakes';
+import { startFakeSmtp, startFakeStripe, tinyPdf } from '../support/fakes';
 import type { FakeSmtp } from '../../scripts/fakes/smtp';
+import { FAKE_STRIPE_KEYS, type FakeStripe } from '../../scripts/fakes/stripe';
 import { signIn, xsrfToken } from '../support/identity';
 
 // Each sign-in runs argon2 at the provider; with two workers a file's set-up takes a few seconds.
@@ -241,6 +242,18 @@ const MATRIX: Record<string, Entry> = {
     body: () => ({ enabled: false }),
     expect: onProject(200, 403, 403),
   },
+  // Only the project's client pays; the principal and engineers are refused with the reason.
+  'POST /projects/:projectId/invoices/:invoiceId/checkout': {
+    path: onInvoice(INV.issued, '/checkout'),
+    expect: onProject(403, 403, 201),
+  },
+  // Past the guard, a session this invoice never started is 404 for both who may ask.
+  'POST /projects/:projectId/invoices/:invoiceId/checkout/:sessionId/reconcile': {
+    path: onInvoice(INV.issued, '/checkout/cs_matrix_unknown/reconcile'),
+    expect: onProject(404, 403, 404),
+  },
+  // Public (Stripe has no session): everyone gets past the guard and is refused for the missing signature.
+  'POST /webhooks/stripe': { path: '/webhooks/stripe', body: () => ({ id: 'evt_matrix' }), expect: all(400) },
   'GET /projects/:projectId/invoices/:invoiceId/pdf': {
     path: onInvoice(INV.issued, '/pdf'),
     expect: onProject(200, 403, 200),
@@ -295,10 +308,22 @@ describe('authorization matrix: every API route against every kind of caller', (
   };
 
   let smtp: FakeSmtp;
+  let stripe: FakeStripe;
 
   beforeAll(async () => {
     smtp = await startFakeSmtp({ httpPort: 0 });
-    t = await testApp({ seed: true, identity: true, config: { DEV_OUTBOX_URL: `http://127.0.0.1:${smtp.httpPort}` } });
+    stripe = await startFakeStripe();
+    t = await testApp({
+      seed: true,
+      identity: true,
+      config: {
+        DEV_OUTBOX_URL: `http://127.0.0.1:${smtp.httpPort}`,
+        STRIPE_SECRET_KEY: FAKE_STRIPE_KEYS.secretKey,
+        STRIPE_WEBHOOK_SECRET: FAKE_STRIPE_KEYS.webhookSecret,
+        STRIPE_API_HOST: '127.0.0.1',
+        STRIPE_API_PORT: stripe.port,
+      },
+    });
     await t.db('projects').insert({
       id: SPARE_PROJECT,
       firm_id: DEMO.firm.id,
@@ -417,6 +442,7 @@ describe('authorization matrix: every API route against every kind of caller', (
   afterAll(async () => {
     await t.close();
     await smtp.stop();
+    await stripe.stop();
   });
 
   it('has an entry for every declared route, and no entry for a route that does not exist', () => {

@@ -201,10 +201,22 @@ export const deliverableSchema = z.object({
 });
 export type Deliverable = z.infer<typeof deliverableSchema>;
 
+/** What an activity entry is about; fee entries are shown to the principal and the project's client only. */
+export const activityObjectTypeSchema = z.enum([
+  'project',
+  'stage',
+  'deliverable',
+  'comment',
+  'membership',
+  'fee_agreement',
+  'invoice',
+  'payment',
+]);
+
 export const activityQuerySchema = z.object({
   page: z.coerce.number().int().min(1).default(1),
   pageSize: z.coerce.number().int().min(1).max(100).default(50),
-  objectType: z.enum(['project', 'stage', 'deliverable', 'comment', 'membership']).optional(),
+  objectType: activityObjectTypeSchema.optional(),
   stageKey: stageKeySchema.optional(),
   actorId: id.optional(),
 });
@@ -216,7 +228,7 @@ export const activitySchema = z.object({
   actor: personRef.nullable(),
   /** Dotted verb, e.g. project.created, stage.submitted, deliverable.uploaded, comment.added, membership.added. */
   action: z.string(),
-  objectType: z.enum(['project', 'stage', 'deliverable', 'comment', 'membership']),
+  objectType: activityObjectTypeSchema,
   objectId: z.string(),
   stageKey: stageKeySchema.nullable(),
   /** One readable sentence for the log, e.g. "Tomas Ekwueme submitted Column layout for review". */

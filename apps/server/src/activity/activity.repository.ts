@@ -3,7 +3,11 @@ import type { z } from 'zod';
 import type { activityQuerySchema, StageKey } from '@trabeate/contracts';
 import type { Db } from '../db/db';
 
-export type ObjectType = 'project' | 'stage' | 'deliverable' | 'comment' | 'membership';
+export type ObjectType =
+  'project' | 'stage' | 'deliverable' | 'comment' | 'membership' | 'fee_agreement' | 'invoice' | 'payment';
+
+/** Fee entries are for the principal and the project's client, never the engineers. */
+export const FINANCE_OBJECT_TYPES: ObjectType[] = ['fee_agreement', 'invoice', 'payment'];
 
 export interface ActivityInsert {
   firmId: string;
@@ -57,8 +61,10 @@ export async function listActivity(
   db: Db,
   projectId: string,
   q: ActivityFilters,
+  opts: { seeFinance: boolean } = { seeFinance: true },
 ): Promise<{ rows: ActivityRow[]; total: number }> {
   const base = db('activity as a').where('a.project_id', projectId);
+  if (!opts.seeFinance) base.whereNotIn('a.object_type', FINANCE_OBJECT_TYPES);
   if (q.objectType) base.andWhere('a.object_type', q.objectType);
   if (q.stageKey) base.andWhere('a.stage_key', q.stageKey);
   if (q.actorId) base.andWhere('a.actor_id', q.actorId);

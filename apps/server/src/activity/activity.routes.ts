@@ -27,7 +27,8 @@ export function activityRoutes(db: Db): RouteDecl[] {
       validate({ params, query: activityQuerySchema }),
       async (req, res) => {
         const q = res.locals['query'] as ActivityFilters;
-        const { rows, total } = await listActivity(db, req.project!.id, q);
+        const seeFinance = req.caller?.role !== 'engineer';
+        const { rows, total } = await listActivity(db, req.project!.id, q, { seeFinance });
         res.json({ items: rows.map(activityOf), total, page: q.page, pageSize: q.pageSize });
       },
     ),
