@@ -49,15 +49,24 @@ describe('app routes', () => {
     expect(shownText()).toContain('Sign in to Trabeate');
   });
 
-  it.each([
-    ['/drawings', 'The drawing register is on its way', 'purpose of issue'],
-    ['/fees', 'Fees and invoices are coming soon', 'adding up to 100 %'],
-  ])('%s shows a designed placeholder that says what is coming', async (url, heading, detail) => {
-    await open(url, grantedMe('principal'));
-    expect(shownText()).toContain(heading);
-    expect(shownText()).toContain('What is coming');
-    expect(shownText()).toContain(detail);
+  it('/fees opens the Fees page for a client, who is asked for their invoices only', async () => {
+    await open('/fees', grantedMe('client'));
+    expect(TestBed.inject(Router).url).toBe('/fees');
+    backend.expectOne((r) => r.url === '/api/invoices').flush({ items: [], total: 0, page: 1, pageSize: 25 });
+    backend.expectNone('/api/receivables');
+    await harness.fixture.whenStable();
+    expect(shownText()).toContain('No invoices yet');
   });
+
+  it.each([['/drawings', 'The drawing register is on its way', 'purpose of issue']])(
+    '%s shows a designed placeholder that says what is coming',
+    async (url, heading, detail) => {
+      await open(url, grantedMe('principal'));
+      expect(shownText()).toContain(heading);
+      expect(shownText()).toContain('What is coming');
+      expect(shownText()).toContain(detail);
+    },
+  );
 
   it('/status is public: it loads without asking who is signed in and asks the server for its health', async () => {
     await harness.navigateByUrl('/status');
