@@ -1,4 +1,4 @@
-import { invoiceListSchema, receivablesSchema } from '@trabeate/contracts';
+import { invoiceListSchema, projectListSchema, receivablesSchema } from '@trabeate/contracts';
 import { DEMO, seedDemo } from '../../seeds/demo';
 import { testApp, type TestApp } from '../support/app';
 import { signedInAs } from '../support/agents';
@@ -28,6 +28,9 @@ describe('the demo fees', () => {
     const part = list.items.find((i) => i.state === 'part_paid')!;
     expect(part).toMatchObject({ totalMinor: 360_000, paidMinor: 150_000, dueMinor: 210_000 });
 
+    // The Fees page's project picker reads the same list.
+    const projects = projectListSchema.parse((await principal.get('/api/projects?pageSize=100&status=active')).body);
+    expect(projects.items.map((p) => p.reference)).toContain(DEMO.projects.alder.reference);
     const r = receivablesSchema.parse((await principal.get('/api/receivables')).body);
     expect(r.rows).toHaveLength(1);
     expect(r.rows[0].client.id).toBe(DEMO.clients.harbourlight.id);

@@ -7,6 +7,8 @@ import type { Me } from '@trabeate/contracts';
 import { routes } from './app.routes';
 import { grantedMe } from './core/auth/testing';
 
+// Lazy routes compile their page on first use; on a busy two-core machine that alone can pass 5 s.
+jest.setTimeout(20_000);
 describe('app routes', () => {
   let harness: RouterTestingHarness;
   let backend: HttpTestingController;

@@ -7,6 +7,8 @@ import { PROJECT } from './fees-fixtures';
 
 const CONTACT = { id: '00000000-0000-4000-8000-000000000211', displayName: 'Ines Marrow', role: 'client' as const };
 
+// The first render in a file compiles the components; on a busy two-core machine that alone can pass 5 s.
+jest.setTimeout(20_000);
 describe('FeeAgreementForm', () => {
   let backend: HttpTestingController;
 

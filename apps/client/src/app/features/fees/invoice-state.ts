@@ -48,5 +48,10 @@ export class InvoiceStateTag {
   readonly state = input.required<InvoiceState>();
   readonly overdue = input(false);
   protected readonly key = computed(() => (this.overdue() ? 'overdue' : this.state()));
-  protected readonly label = computed(() => INVOICE_STATE_LABELS[this.key()]);
+  /** Overdue is shown with its own mark, and still says where the payment stands (part paid, say). */
+  protected readonly label = computed(() =>
+    this.overdue() && this.state() !== 'issued'
+      ? { icon: INVOICE_STATE_LABELS.overdue.icon, text: `Overdue · ${INVOICE_STATE_LABELS[this.state()].text}` }
+      : INVOICE_STATE_LABELS[this.key()],
+  );
 }

@@ -6,6 +6,8 @@ import { RouterTestingHarness } from '@angular/router/testing';
 import { PaymentReturnPage } from './payment-return-page';
 import { PROJECT, invoice, outcome, summary } from './fees-fixtures';
 
+// The first render in a file compiles the components; on a busy two-core machine that alone can pass 5 s.
+jest.setTimeout(20_000);
 describe('PaymentReturnPage', () => {
   let backend: HttpTestingController;
   let harness: RouterTestingHarness;
