@@ -6,6 +6,8 @@ import * as m20261210000000 from './20261210000000_stages';
 import * as m20261220000100 from './20261220000100_one_pending_invitation';
 import * as m20261220000400 from './20261220000400_identity_sign_in_throttle';
 import * as m20261221000000 from './20261221000000_drawings';
+import * as m20261222000001 from './20261222000001_fees';
+import * as m20261222000101 from './20261222000101_fee_activity';
 
 /** Every migration, by name, in the order they run. Add new ones here as well as in the folder. */
 export const migrations: Record<string, Knex.Migration> = {
@@ -16,4 +18,6 @@ export const migrations: Record<string, Knex.Migration> = {
   '20261220000100_one_pending_invitation': m20261220000100,
   '20261220000400_identity_sign_in_throttle': m20261220000400,
   '20261221000000_drawings': m20261221000000,
+  '20261222000001_fees': m20261222000001,
+  '20261222000101_fee_activity': m20261222000101,
 };

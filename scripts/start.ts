@@ -6,7 +6,8 @@ import path from 'node:path';
 import { createObjectStore, objectStoreConfigFrom, storageConfigSchema } from '../apps/server/src/storage';
 import { storeDemoDrawingFiles } from '../seeds/demo-drawings';
 import { CLIENT_DIST } from './lib/client-build';
-import { fakeServicesEnv, s3Service, smtpService } from './lib/fake-services';
+import { fakeServicesEnv, s3Service, smtpService, stripeService } from './lib/fake-services';
+import { fakeStripeEnv } from './fakes/stripe';
 import { releaseRunDir, takeOverRunDir } from './lib/leftovers';
 import { Cluster } from './lib/postgres';
 import { log } from './lib/proc';
@@ -33,6 +34,7 @@ async function main(): Promise<void> {
   const runDir = RUN_DIR;
   const cluster = new Cluster({ name: 'pg-dev', port: DEV_PORTS.postgres });
   const database = 'trabeate';
+  const stripePort = 4315;
   // A fixed local secret keeps sessions across restarts of `npm start`; never used in production.
   const signIn = localSignIn(cluster.url(database), DEV_PORTS, 'local-development-session-secret-not-for-production');
   const env = {
@@ -45,6 +47,8 @@ async function main(): Promise<void> {
     // Files and mail go to the local fakes; the outbox page reads the SMTP fake's HTTP API.
     ...fakeServicesEnv({ port: DEV_PORTS.s3 }, { port: DEV_PORTS.smtp, httpPort: DEV_PORTS.smtpHttp }),
     DEV_OUTBOX_URL: `http://127.0.0.1:${DEV_PORTS.smtpHttp}`,
+    // Card payments go to the local payments fake.
+    ...fakeStripeEnv(stripePort),
   };
   const services = [
     postgresService(cluster, { runDir }),
@@ -56,6 +60,11 @@ async function main(): Promise<void> {
       port: DEV_PORTS.smtp,
       httpPort: DEV_PORTS.smtpHttp,
       directory: path.resolve('tmp/mail-dev'),
+      runDir,
+    }),
+    stripeService({
+      port: stripePort,
+      webhookUrl: `http://127.0.0.1:${DEV_PORTS.api}/api/webhooks/stripe`,
       runDir,
     }),
     identityService({ ...signIn.identity, LOG_LEVEL: process.env.LOG_LEVEL ?? 'info' }, DEV_PORTS.identity, {

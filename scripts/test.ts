@@ -6,7 +6,8 @@ import { randomBytes } from 'node:crypto';
 import { existsSync, mkdirSync, readFileSync, rmSync } from 'node:fs';
 import path from 'node:path';
 import { CLIENT_DIST } from './lib/client-build';
-import { fakeServicesEnv, s3Service, smtpService } from './lib/fake-services';
+import { fakeServicesEnv, s3Service, smtpService, stripeService } from './lib/fake-services';
+import { fakeStripeEnv } from './fakes/stripe';
 import { Cluster } from './lib/postgres';
 import { log } from './lib/proc';
 import {
@@ -60,6 +61,7 @@ async function main(): Promise<number> {
     s3: await freePort(TEST_PORTS.s3),
     smtp: await freePort(TEST_PORTS.smtp),
     smtpHttp: await freePort(TEST_PORTS.smtpHttp),
+    stripe: await freePort(4325),
   };
   const cluster = needs('db')
     ? new Cluster({ name: `pg-test-${process.pid}`, port: ports.postgres, fast: true })
@@ -77,6 +79,9 @@ async function main(): Promise<number> {
     // The e2e API keeps files and mail in the local fakes (temporary folders, removed on stop).
     services.push(s3Service({ port: ports.s3 }));
     services.push(smtpService({ port: ports.smtp, httpPort: ports.smtpHttp }));
+    services.push(
+      stripeService({ port: ports.stripe, webhookUrl: `http://127.0.0.1:${ports.api}/api/webhooks/stripe` }),
+    );
     services.push(identityService({ ...signIn.identity, LOG_LEVEL: 'warn' }, ports.identity));
     services.push(
       apiService(
@@ -89,6 +94,7 @@ async function main(): Promise<number> {
           PUBLIC_URL: `http://127.0.0.1:${ports.api}`,
           ...fakeServicesEnv({ port: ports.s3 }, { port: ports.smtp, httpPort: ports.smtpHttp }),
           DEV_OUTBOX_URL: `http://127.0.0.1:${ports.smtpHttp}`,
+          ...fakeStripeEnv(ports.stripe),
           JOBS_POLL_SECONDS: '0.5',
         },
         ports.api,

@@ -2,6 +2,7 @@ import type { Knex } from 'knex';
 import { DEMO } from './demo-data';
 import { seedIdentityAccounts } from './identity';
 import { seedDemoDrawings } from './demo-drawings';
+import { seedDemoFees } from './demo-fees';
 
 // The demo is a scenario of our own invention: a small structural consultancy in the fictional
 // town of Marrowby, its two client organisations and their projects. No real people or firms.
@@ -11,7 +12,7 @@ export { DEMO } from './demo-data';
  * Inserts the demo scenario unless it is already there, then adds what later steps brought (project
  * memberships, identity accounts) where missing; safe to run again.
  */
-export async function seedDemo(db: Knex): Promise<boolean> {
+export async function seedDemo(db: Knex, opts: { fees?: boolean } = {}): Promise<boolean> {
   const existing = await db('firms').where({ id: DEMO.firm.id }).first();
   if (!existing) await insertCore(db);
   await seedMemberships(db);
@@ -19,6 +20,7 @@ export async function seedDemo(db: Knex): Promise<boolean> {
   await seedStages(db);
   await seedDemoDrawings(db);
   await seedIdentityAccounts(db);
+  if (opts.fees ?? true) await seedDemoFees(db);
   return !existing;
 }
 

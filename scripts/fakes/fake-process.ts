@@ -5,6 +5,7 @@
 // (even after a SIGKILL, which gives the parent no chance to clean up).
 import { startFakeS3, type FakeS3Options } from './s3';
 import { startFakeSmtp, type FakeSmtpOptions } from './smtp';
+import { startFakeStripe, type FakeStripeOptions } from './stripe';
 
 // Watched from the first moment: a parent that dies while the fake is still starting counts too.
 let parentGone = false;
@@ -30,8 +31,12 @@ async function main(): Promise<void> {
     const fake = await startFakeSmtp(options as FakeSmtpOptions);
     stop = fake.stop;
     ready = { port: fake.port, httpPort: fake.httpPort };
+  } else if (kind === 'stripe') {
+    const fake = await startFakeStripe(options as FakeStripeOptions);
+    stop = fake.stop;
+    ready = { port: fake.port };
   } else {
-    throw new Error(`unknown fake "${kind}" (s3 or smtp)`);
+    throw new Error(`unknown fake "${kind}" (s3, smtp or stripe)`);
   }
 
   let stopping = false;

@@ -15,7 +15,7 @@ export type FakeService = Service & {
 };
 
 /**
- * The local S3 and SMTP fakes as services for the start and test commands. Each runs in a child
+ * The local S3, SMTP and payments fakes as services for the start and test commands. Each runs in a child
  * process of its own (scripts/fakes/fake-process.ts), bound to 127.0.0.1 only, so one failing
  * cannot stop another or the command; the supervisor says which one died and restarts it on the
  * same port and folder. With `runDir`, its pid is recorded for the next start (leftovers.ts).
@@ -57,7 +57,7 @@ export function smtpService(opts: {
 }
 
 function fakeService(
-  kind: 's3' | 'smtp',
+  kind: 's3' | 'smtp' | 'stripe',
   runDir: string | undefined,
   prepare: () => { options: Record<string, unknown>; ready: () => Promise<void>; cleanUp: () => void },
 ): FakeService {
@@ -88,6 +88,20 @@ function fakeService(
       prepared?.cleanUp();
     },
   };
+}
+
+/** The payments fake (emulate behind our front), posting signed events to the API's webhook. */
+export function stripeService(opts: { port: number; webhookUrl: string; runDir?: string }): FakeService {
+  return fakeService('stripe', opts.runDir, () => ({
+    options: { port: opts.port, webhookUrl: opts.webhookUrl },
+    ready: async () => {
+      const res = await fetch(`http://127.0.0.1:${opts.port}/v1/checkout/sessions`, {
+        signal: AbortSignal.timeout(2000),
+      });
+      if (res.status >= 500) throw new Error(`the payments fake answered ${res.status}`);
+    },
+    cleanUp: () => undefined,
+  }));
 }
 
 /** Environment for the API that points it at the running fakes (LOCAL ONLY credentials). */

@@ -5,8 +5,9 @@ import { projectDetailSchema } from '@trabeate/contracts';
 import { DEMO } from '../../seeds/demo';
 import { hashToken } from '../../apps/server/src/people/people.service';
 import { testApp, type TestApp } from '../support/app';
-import { startFakeSmtp, tinyPdf } from '../support/fakes';
+import { startFakeSmtp, startFakeStripe, tinyPdf } from '../support/fakes';
 import type { FakeSmtp } from '../../scripts/fakes/smtp';
+import { FAKE_STRIPE_KEYS, type FakeStripe } from '../../scripts/fakes/stripe';
 import { signIn, xsrfToken } from '../support/identity';
 import { REGISTER_IDS as REG, seedRegisterForMatrix } from '../support/drawings';
 
@@ -51,6 +52,27 @@ const INVITE_TOKEN = 'matrix-invitation-token-0123456789abcdef';
 // A second project of Fenwick's with the same team, for the rows that change a project's state.
 const SPARE_PROJECT = randomUUID();
 const SPARE_FILE = randomUUID();
+// Invoices on Kestrel Yard for the fee rows: one issued (with its PDF), one to void, two drafts.
+const INV = { issued: randomUUID(), toVoid: randomUUID(), draft: randomUUID(), toIssue: randomUUID() };
+const SHARES = {
+  design_basis: 1000,
+  column_layout: 2000,
+  beam_framing: 2500,
+  slab_panels: 2000,
+  stairs: 500,
+  foundations: 2000,
+};
+const feeAgreementBody = () => ({
+  basis: 'lump_sum',
+  lumpSumMinor: 1_000_000,
+  currency: 'EUR',
+  taxRateBp: 2000,
+  taxLabel: 'VAT',
+  paymentTermsDays: 30,
+  billingContactId: DEMO.users.fenwickContact.id,
+  stageShares: SHARES,
+});
+const onInvoice = (id: string, tail = '') => `/projects/${KESTREL}/invoices/${id}${tail}`;
 
 interface Entry {
   expect: Expected;
@@ -168,6 +190,77 @@ const MATRIX: Record<string, Entry> = {
   },
   'GET /projects/:projectId/activity': { path: `/projects/${KESTREL}/activity`, expect: onProject(200, 200, 200) },
   'GET /dev/outbox': { path: '/dev/outbox', expect: principalOnly(200) },
+  'GET /projects/:projectId/fee-agreement': {
+    path: `/projects/${KESTREL}/fee-agreement`,
+    expect: onProject(200, 403, 403),
+  },
+  'PUT /projects/:projectId/fee-agreement': {
+    path: `/projects/${SPARE_PROJECT}/fee-agreement`,
+    body: feeAgreementBody,
+    expect: onProject(200, 403, 403),
+  },
+  'POST /projects/:projectId/fee-variations': {
+    path: `/projects/${KESTREL}/fee-variations`,
+    body: (c) => ({ amountMinor: 100, reason: `Variation by ${c}`, effectiveOn: '2026-12-01' }),
+    expect: onProject(201, 403, 403),
+  },
+  'GET /invoices': {
+    path: '/invoices',
+    expect: { ...signedIn(200), assignedEngineer: 403, unassignedEngineer: 403 },
+  },
+  'GET /receivables': { path: '/receivables', expect: principalOnly(200) },
+  'GET /projects/:projectId/invoices': { path: `/projects/${KESTREL}/invoices`, expect: onProject(200, 403, 200) },
+  'POST /projects/:projectId/invoices': {
+    path: `/projects/${KESTREL}/invoices`,
+    body: (c) => ({ lines: [{ kind: 'expense', description: `Copies for ${c}`, netMinor: 500 }] }),
+    expect: onProject(201, 403, 403),
+  },
+  'GET /projects/:projectId/invoices/:invoiceId': { path: onInvoice(INV.issued), expect: onProject(200, 403, 200) },
+  'PUT /projects/:projectId/invoices/:invoiceId': {
+    path: onInvoice(INV.draft),
+    body: () => ({ lines: [{ kind: 'expense', description: 'Copies', netMinor: 700 }] }),
+    expect: onProject(200, 403, 403),
+  },
+  'POST /projects/:projectId/invoices/:invoiceId/issue': {
+    path: onInvoice(INV.toIssue, '/issue'),
+    expect: onProject(200, 403, 403),
+  },
+  'POST /projects/:projectId/invoices/:invoiceId/void': {
+    path: onInvoice(INV.toVoid, '/void'),
+    body: () => ({ reason: 'Raised in error' }),
+    expect: onProject(200, 403, 403),
+  },
+  'POST /projects/:projectId/invoices/:invoiceId/credit-notes': {
+    path: onInvoice(INV.issued, '/credit-notes'),
+    body: () => ({ reason: 'Small correction', lines: [{ description: 'Correction', netMinor: 100 }] }),
+    expect: onProject(201, 403, 403),
+  },
+  'POST /projects/:projectId/invoices/:invoiceId/payments': {
+    path: onInvoice(INV.issued, '/payments'),
+    body: () => ({ amountMinor: 100, receivedOn: '2026-12-01', reference: 'BT-MATRIX' }),
+    expect: onProject(201, 403, 403),
+  },
+  'PUT /projects/:projectId/invoices/:invoiceId/reminders': {
+    path: onInvoice(INV.issued, '/reminders'),
+    body: () => ({ enabled: false }),
+    expect: onProject(200, 403, 403),
+  },
+  // Only the project's client pays; the principal and engineers are refused with the reason.
+  'POST /projects/:projectId/invoices/:invoiceId/checkout': {
+    path: onInvoice(INV.issued, '/checkout'),
+    expect: onProject(403, 403, 201),
+  },
+  // Past the guard, a session this invoice never started is 404 for both who may ask.
+  'POST /projects/:projectId/invoices/:invoiceId/checkout/:sessionId/reconcile': {
+    path: onInvoice(INV.issued, '/checkout/cs_matrix_unknown/reconcile'),
+    expect: onProject(404, 403, 404),
+  },
+  // Public (Stripe has no session): everyone gets past the guard and is refused for the missing signature.
+  'POST /webhooks/stripe': { path: '/webhooks/stripe', body: () => ({ id: 'evt_matrix' }), expect: all(400) },
+  'GET /projects/:projectId/invoices/:invoiceId/pdf': {
+    path: onInvoice(INV.issued, '/pdf'),
+    expect: onProject(200, 403, 200),
+  },
   'GET /projects/:projectId': {
     path: `/projects/${KESTREL}`,
     expect: {
@@ -318,10 +411,22 @@ describe('authorization matrix: every API route against every kind of caller', (
   };
 
   let smtp: FakeSmtp;
+  let stripe: FakeStripe;
 
   beforeAll(async () => {
     smtp = await startFakeSmtp({ httpPort: 0 });
-    t = await testApp({ seed: true, identity: true, config: { DEV_OUTBOX_URL: `http://127.0.0.1:${smtp.httpPort}` } });
+    stripe = await startFakeStripe();
+    t = await testApp({
+      seed: true,
+      identity: true,
+      config: {
+        DEV_OUTBOX_URL: `http://127.0.0.1:${smtp.httpPort}`,
+        STRIPE_SECRET_KEY: FAKE_STRIPE_KEYS.secretKey,
+        STRIPE_WEBHOOK_SECRET: FAKE_STRIPE_KEYS.webhookSecret,
+        STRIPE_API_HOST: '127.0.0.1',
+        STRIPE_API_PORT: stripe.port,
+      },
+    });
     await t.db('projects').insert({
       id: SPARE_PROJECT,
       firm_id: DEMO.firm.id,
@@ -358,6 +463,54 @@ describe('authorization matrix: every API route against every kind of caller', (
       detected_type: 'pdf',
       uploaded_by: DEMO.users.engineerA.id,
     });
+    await t.db('fee_agreements').insert({
+      project_id: KESTREL,
+      firm_id: DEMO.firm.id,
+      basis: 'lump_sum',
+      lump_sum_minor: 1_000_000,
+      currency: 'EUR',
+      tax_rate_bp: 2000,
+      tax_label: 'VAT',
+      payment_terms_days: 30,
+      billing_contact_id: DEMO.users.fenwickContact.id,
+      stage_shares: JSON.stringify(SHARES),
+    });
+    const invoice = (id: string, seq: number | null) => ({
+      id,
+      firm_id: DEMO.firm.id,
+      project_id: KESTREL,
+      state: seq ? 'issued' : 'draft',
+      ...(seq
+        ? {
+            series: 'invoice',
+            year: 1999,
+            seq,
+            number: `INV-1999-${seq}`,
+            issued_on: '1999-01-01',
+            due_on: '1999-02-01',
+          }
+        : {}),
+      currency: 'EUR',
+      tax_label: 'VAT',
+      subtotal_minor: 100_000,
+      total_minor: 100_000,
+      pdf_object_key: seq ? `invoices/${id}.pdf` : null,
+    });
+    await t
+      .db('invoices')
+      .insert([invoice(INV.issued, 1), invoice(INV.toVoid, 2), invoice(INV.draft, null), invoice(INV.toIssue, null)]);
+    await t.db('invoice_lines').insert(
+      Object.values(INV).map((id) => ({
+        invoice_id: id,
+        position: 1,
+        kind: 'expense',
+        description: 'Copies',
+        net_minor: 100_000,
+        tax_rate_bp: 0,
+        tax_minor: 0,
+      })),
+    );
+    await t.store.putStream(`invoices/${INV.issued}.pdf`, Readable.from([pdf]), { contentType: 'application/pdf' });
     await t.db('users').insert([
       {
         id: SPARE.patch,
@@ -399,6 +552,7 @@ describe('authorization matrix: every API route against every kind of caller', (
   afterAll(async () => {
     await t.close();
     await smtp.stop();
+    await stripe.stop();
   });
 
   it('has an entry for every declared route, and no entry for a route that does not exist', () => {

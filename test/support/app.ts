@@ -35,6 +35,8 @@ export const TEST_MAIL_RETRY: RetryPolicy = { retryLimit: 5, retryDelay: 1, retr
 export async function testApp(
   opts: {
     seed?: boolean;
+    /** With `seed`: also the demo's fee agreement and invoices (seeds/demo-fees.ts). */
+    seedFees?: boolean;
     /** true, or the provider's test options (its throttle, say). */
     identity?: boolean | Parameters<typeof startIdentity>[1];
     config?: Partial<AppDeps['config']>;
@@ -63,7 +65,8 @@ export async function testApp(
   };
   try {
     await jobs.start();
-    if (opts.seed) await seedDemo(db);
+    // API tests build their own fee scenarios on a clean invoice series; the demo's fees have their own test.
+    if (opts.seed) await seedDemo(db, { fees: opts.seedFees ?? false });
     identity = opts.identity
       ? await startIdentity(db, typeof opts.identity === 'object' ? opts.identity : {})
       : undefined;

@@ -4,6 +4,7 @@ import { startFakeS3, FAKE_S3_CREDENTIALS, type FakeS3 } from '../../scripts/fak
 
 export { startFakeS3 } from '../../scripts/fakes/s3';
 export { startFakeSmtp } from '../../scripts/fakes/smtp';
+export { startFakeStripe, TEST_CARDS } from '../../scripts/fakes/stripe';
 
 /** The S3 fake in this process (port 0, temporary folder) and a store pointed at it. */
 export async function fakeObjectStore(): Promise<{ s3: FakeS3; store: ObjectStore; close: () => Promise<void> }> {

@@ -12,7 +12,7 @@ import { authRoutes } from './auth/auth.routes';
 import { OidcClient } from './auth/oidc';
 import { signInRateLimit } from './auth/rate-limit';
 import { loadCaller, sessionMiddleware } from './auth/session';
-import { outboxUrlOf, type AuthConfig, type Config } from './core/config';
+import { outboxUrlOf, type AuthConfig, type Config, type PaymentsConfig } from './core/config';
 import { apiNotFound, errorHandler } from './core/errors';
 import type { Logger } from './core/logger';
 import type { Db } from './db/db';
@@ -27,6 +27,10 @@ import type { Jobs } from './jobs';
 import { createNotices } from './notices/notices';
 import { outboxRoutes } from './outbox/outbox.routes';
 import { stageRoutes } from './stages/stages.routes';
+import { feeRoutes } from './fees/fees.routes';
+import { invoiceRoutes } from './invoices/invoices.routes';
+import { paymentRoutes, STRIPE_WEBHOOK_PATH } from './payments/payments.routes';
+import { createPayments, type Payments } from './payments/stripe-client';
 import { storageUnavailableHandler, type ObjectStore } from './storage';
 
 export interface AppDeps {
@@ -34,7 +38,8 @@ export interface AppDeps {
     Partial<AuthConfig> &
     Partial<Pick<Config, 'NODE_ENV' | 'UPLOAD_MAX_BYTES' | 'DEV_OUTBOX_URL' | 'MAIL_OUTBOX_URL'>> &
     /** The relay the health check greets; without SMTP_HOST it reports the mail relay as not set up. */
-    Partial<Pick<Config, 'SMTP_HOST' | 'SMTP_PORT' | 'SMTP_SECURE'>>;
+    Partial<Pick<Config, 'SMTP_HOST' | 'SMTP_PORT' | 'SMTP_SECURE'>> &
+    Partial<PaymentsConfig>;
   db: Db;
   logger: Logger;
   version?: string;
@@ -42,6 +47,8 @@ export interface AppDeps {
   store?: ObjectStore;
   /** The pg-boss queue that e-mail notices go through (main.ts always gives one). */
   jobs?: Jobs;
+  /** Card payments; built from the STRIPE_* settings when not given. */
+  payments?: Payments;
 }
 
 /** The cookie Angular's HttpClient reads and echoes as X-XSRF-TOKEN on every state change. */
@@ -50,7 +57,7 @@ export const CSRF_COOKIE = 'XSRF-TOKEN';
 const REQUEST_ID = /^[\w.:-]{1,128}$/;
 
 /** Builds the Express app without listening, so tests can mount it with supertest. */
-export function createApp({ config, db, logger, version = '0.1.0', store, jobs }: AppDeps): Express {
+export function createApp({ config, db, logger, version = '0.1.0', store, jobs, payments }: AppDeps): Express {
   const app = express();
   app.disable('x-powered-by');
   if (config.TRUST_PROXY) app.set('trust proxy', 1);
@@ -176,9 +183,14 @@ export function createApp({ config, db, logger, version = '0.1.0', store, jobs }
       linkSecret: createHmac('sha256', secrets[0]).update('trabeate transmittal links').digest(),
     }),
     ...outboxRoutes(outboxUrlOf(config)),
+    ...feeRoutes(db),
+    ...invoiceRoutes({ db, notices, store }),
+    ...paymentRoutes({ db, notices, publicUrl, payments: payments ?? createPayments(config) }),
   ];
 
   const api = express.Router();
+  // Stripe signs the exact bytes it sends: that route keeps its raw body (express.json then skips it).
+  api.use(STRIPE_WEBHOOK_PATH, express.raw({ type: () => true, limit: '1mb' }));
   api.use(express.json({ limit: '1mb' }));
   api.use(cookieParser());
   api.use(

@@ -4,6 +4,8 @@ import { ConfigError, LOCAL_DEFAULTS, loadConfig } from './core/config';
 import { createJobs } from './jobs';
 import { pruneExpired, PRUNE_CRON, PRUNE_JOB } from './maintenance/prune';
 import { sweepIncompleteUploads, UPLOAD_SWEEP_CRON, UPLOAD_SWEEP_JOB } from './maintenance/sweep-uploads';
+import { REMINDER_CRON, REMINDER_JOB, sendOverdueReminders } from './invoices/reminders';
+import { createNotices } from './notices/notices';
 import { createMailTransport } from './mail';
 import { createObjectStore, objectStoreConfigFrom } from './storage';
 import { createLogger } from './core/logger';
@@ -40,6 +42,11 @@ async function main(): Promise<void> {
   });
   await jobs.every(UPLOAD_SWEEP_JOB, UPLOAD_SWEEP_CRON, async () => {
     logger.info(await sweepIncompleteUploads(store), 'aborted incomplete uploads older than a day');
+  });
+  const reminderNotices = createNotices(jobs, config.PUBLIC_URL, logger);
+  await jobs.every(REMINDER_JOB, REMINDER_CRON, async () => {
+    const today = new Date().toISOString().slice(0, 10);
+    logger.info({ sent: await sendOverdueReminders(db, reminderNotices, today) }, 'overdue invoice reminders queued');
   });
   const app = createApp({
     config: { ...config, SMTP_HOST: config.SMTP_HOST ?? LOCAL_DEFAULTS.SMTP_HOST },

@@ -6,3 +6,4 @@ export * from './scheme';
 export * from './projects';
 export * from './errors';
 export * from './drawings';
+export * from './fees';

@@ -202,6 +202,7 @@ export const deliverableSchema = z.object({
 });
 export type Deliverable = z.infer<typeof deliverableSchema>;
 
+/** What an activity entry is about; fee entries are shown to the principal and the project's client only. */
 export const activityObjectTypeSchema = z.enum([
   'project',
   'stage',
@@ -211,6 +212,9 @@ export const activityObjectTypeSchema = z.enum([
   'drawing',
   'revision',
   'transmittal',
+  'fee_agreement',
+  'invoice',
+  'payment',
 ]);
 
 export const activityQuerySchema = z.object({

@@ -68,6 +68,13 @@ export const routes: Routes = [
     loadComponent: () => import('./features/fees/fees-page').then((m) => m.FeesPage),
   },
   {
+    // Where the payment page sends a client back; the server confirms what happened.
+    path: 'fees/return',
+    title: 'Payment · Trabeate',
+    canActivate: [signedInGuard, roleGuard('client', 'principal')],
+    loadComponent: () => import('./features/fees/payment-return-page').then((m) => m.PaymentReturnPage),
+  },
+  {
     path: 'people',
     title: 'People · Trabeate',
     canActivate: [signedInGuard, roleGuard('principal')],

@@ -4,7 +4,20 @@ import type { activityQuerySchema, StageKey } from '@trabeate/contracts';
 import type { Db } from '../db/db';
 
 export type ObjectType =
-  'project' | 'stage' | 'deliverable' | 'comment' | 'membership' | 'drawing' | 'revision' | 'transmittal';
+  | 'project'
+  | 'stage'
+  | 'deliverable'
+  | 'comment'
+  | 'membership'
+  | 'drawing'
+  | 'revision'
+  | 'transmittal'
+  | 'fee_agreement'
+  | 'invoice'
+  | 'payment';
+
+/** Fee entries are for the principal and the project's client, never the engineers. */
+export const FINANCE_OBJECT_TYPES: ObjectType[] = ['fee_agreement', 'invoice', 'payment'];
 
 export interface ActivityInsert {
   firmId: string;

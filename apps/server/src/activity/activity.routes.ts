@@ -4,7 +4,7 @@ import type { Db } from '../db/db';
 import { validate } from '../core/validate';
 import { route, type RouteDecl } from '../access/registry';
 import { projectRefusal, type Caller } from '../access/policy';
-import { listActivity, type ActivityFilters, type ActivityRow } from './activity.repository';
+import { FINANCE_OBJECT_TYPES, listActivity, type ActivityFilters, type ActivityRow } from './activity.repository';
 
 const params = z.object({ projectId: z.uuid() });
 const CLIENT_HIDDEN: readonly Activity['objectType'][] = ['deliverable', 'comment'];
@@ -31,7 +31,12 @@ export function activityRoutes(db: Db): RouteDecl[] {
         const q = res.locals['query'] as ActivityFilters;
         // Uploads and review notes are the firm's work in progress; clients see the stage moves.
         const internal = projectRefusal((req.caller as Caller).role, 'internal') === null;
-        const { rows, total } = await listActivity(db, req.project!.id, q, internal ? [] : CLIENT_HIDDEN);
+        // Fee entries are for the principal and the project's client, never the engineers.
+        const seeFinance = req.caller?.role !== 'engineer';
+        const { rows, total } = await listActivity(db, req.project!.id, q, [
+          ...(internal ? [] : CLIENT_HIDDEN),
+          ...(seeFinance ? [] : FINANCE_OBJECT_TYPES),
+        ]);
         res.json({ items: rows.map(activityOf), total, page: q.page, pageSize: q.pageSize });
       },
     ),

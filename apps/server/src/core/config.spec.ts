@@ -136,3 +136,43 @@ describe('files and mail configuration', () => {
     ).toThrow(/DEV_OUTBOX_URL is for the local SMTP fake only/);
   });
 });
+
+describe('card payments configuration', () => {
+  const base = { DATABASE_URL: 'postgres://a:b@127.0.0.1:5442/trabeate' };
+  const keys = { STRIPE_SECRET_KEY: 'sk_test_abc123', STRIPE_WEBHOOK_SECRET: 'whsec_abc123' };
+
+  it('needs the webhook secret with the secret key, and refuses values of the wrong kind', () => {
+    expect(() => loadConfig({ ...base, STRIPE_SECRET_KEY: 'sk_test_abc123' })).toThrow(
+      /STRIPE_WEBHOOK_SECRET is required with STRIPE_SECRET_KEY/,
+    );
+    expect(() => loadConfig({ ...base, ...keys, STRIPE_SECRET_KEY: 'pk_test_abc' })).toThrow(
+      /STRIPE_SECRET_KEY must be a Stripe secret key/,
+    );
+    expect(loadConfig({ ...base, ...keys })).toMatchObject(keys);
+  });
+
+  it('points at a payments fake only on loopback, and never in production', () => {
+    expect(loadConfig({ ...base, ...keys, STRIPE_API_HOST: '127.0.0.1', STRIPE_API_PORT: '4315' })).toMatchObject({
+      STRIPE_API_HOST: '127.0.0.1',
+      STRIPE_API_PORT: 4315,
+    });
+    expect(() => loadConfig({ ...base, ...keys, STRIPE_API_HOST: 'payments.example.com' })).toThrow(
+      /STRIPE_API_HOST must be the payments fake on loopback/,
+    );
+    const production = {
+      ...base,
+      ...keys,
+      NODE_ENV: 'production',
+      OIDC_ISSUER: 'https://login.example.com',
+      OIDC_CLIENT_ID: 'c',
+      OIDC_CLIENT_SECRET: 's',
+      SESSION_SECRET: 'x'.repeat(32),
+      S3_BUCKET: 'firm-files',
+      SMTP_HOST: 'smtp.example.com',
+    };
+    expect(loadConfig(production).STRIPE_API_HOST).toBeUndefined();
+    expect(() => loadConfig({ ...production, STRIPE_API_HOST: '127.0.0.1' })).toThrow(
+      /STRIPE_API_HOST and STRIPE_API_PORT\/PROTOCOL are for the local payments fake only/,
+    );
+  });
+});

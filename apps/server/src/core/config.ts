@@ -73,6 +73,25 @@ const configSchema = z
     // The SMTP fake's HTTP API, for the development outbox (GET /api/dev/outbox). Loopback only.
     // MAIL_OUTBOX_URL (what the fake itself reports) is taken when DEV_OUTBOX_URL is absent.
     DEV_OUTBOX_URL: z.preprocess(blank, z.url().optional()),
+    // Card payments through Stripe. Without the secret key, Pay answers 503. STRIPE_API_* point the
+    // SDK at the local payments fake (loopback only, refused in production).
+    STRIPE_SECRET_KEY: z.preprocess(
+      blank,
+      z
+        .string()
+        .regex(/^(sk|rk)_(test|live)_\w+$/, 'must be a Stripe secret key')
+        .optional(),
+    ),
+    STRIPE_WEBHOOK_SECRET: z.preprocess(
+      blank,
+      z
+        .string()
+        .regex(/^whsec_\w+$/, 'must be a webhook signing secret (whsec_…)')
+        .optional(),
+    ),
+    STRIPE_API_HOST: z.preprocess(blank, z.string().min(1).optional()),
+    STRIPE_API_PORT: z.preprocess(blank, port.optional()),
+    STRIPE_API_PROTOCOL: z.preprocess(blank, z.enum(['http', 'https']).optional()),
     // Seconds a mail worker waits between looks at an empty queue.
     JOBS_POLL_SECONDS: z.coerce.number().min(0.5).max(60).default(2),
   })
@@ -91,7 +110,19 @@ const configSchema = z
       if (!c.SMTP_HOST) issue('SMTP_HOST', 'is required in production (the mail server that sends notices)');
       if (c.DEV_OUTBOX_URL) issue('DEV_OUTBOX_URL', 'is for the local SMTP fake only and is refused in production');
       if (c.MAIL_OUTBOX_URL) issue('MAIL_OUTBOX_URL', 'is for the local SMTP fake only and is refused in production');
+      if (c.STRIPE_API_HOST || c.STRIPE_API_PORT || c.STRIPE_API_PROTOCOL)
+        issue(
+          'STRIPE_API_HOST',
+          'and STRIPE_API_PORT/PROTOCOL are for the local payments fake only and are refused in production',
+        );
     }
+    if (c.STRIPE_SECRET_KEY && !c.STRIPE_WEBHOOK_SECRET)
+      issue(
+        'STRIPE_WEBHOOK_SECRET',
+        'is required with STRIPE_SECRET_KEY (card payments are confirmed by signed webhooks)',
+      );
+    if (c.STRIPE_API_HOST && !isLoopback(`http://${c.STRIPE_API_HOST}`))
+      issue('STRIPE_API_HOST', 'must be the payments fake on loopback (127.0.0.1)');
     if (Boolean(c.S3_ACCESS_KEY_ID) !== Boolean(c.S3_SECRET_ACCESS_KEY))
       issue('S3_ACCESS_KEY_ID', 'and S3_SECRET_ACCESS_KEY must be set together');
     if (Boolean(c.SMTP_USER) !== Boolean(c.SMTP_PASS)) issue('SMTP_USER', 'and SMTP_PASS must be set together');
@@ -119,6 +150,12 @@ export type StorageSettings = Pick<
   | 'S3_SECRET_ACCESS_KEY'
   | 'S3_FORCE_PATH_STYLE'
   | 'UPLOAD_MAX_BYTES'
+>;
+
+/** Card payments: the Stripe keys and, locally, where the payments fake listens. */
+export type PaymentsConfig = Pick<
+  Config,
+  'STRIPE_SECRET_KEY' | 'STRIPE_WEBHOOK_SECRET' | 'STRIPE_API_HOST' | 'STRIPE_API_PORT' | 'STRIPE_API_PROTOCOL'
 >;
 
 /** The development outbox's source, when the local SMTP fake is configured. */

@@ -1,2 +1,2 @@
 export { createJobs, DEFAULT_MAIL_RETRY, MAIL_QUEUE } from './jobs';
-export type { Jobs, JobsOptions, MailJob, MailRequest, RetryPolicy } from './jobs';
+export type { Jobs, JobsOptions, MailAttachment, MailJob, MailRequest, RetryPolicy } from './jobs';

@@ -16,6 +16,14 @@ export interface MailJob {
   /** Fixed when queued, so a message sent twice after a crash can be recognised as one. */
   messageId: string;
   template: string;
+  /** Small generated files (an invoice PDF) carried in the job, so every retry sends the same bytes. */
+  attachments?: MailAttachment[];
+}
+
+export interface MailAttachment {
+  filename: string;
+  contentType: string;
+  contentBase64: string;
 }
 
 export interface MailRequest<N extends MailTemplateName = MailTemplateName> {
@@ -24,6 +32,7 @@ export interface MailRequest<N extends MailTemplateName = MailTemplateName> {
   replyTo?: string;
   template: N;
   data: MailData<N>;
+  attachments?: MailAttachment[];
 }
 
 export interface RetryPolicy {
@@ -122,6 +131,11 @@ export function createJobs(opts: JobsOptions): Jobs {
                 html: m.html,
                 text: m.text,
                 messageId: m.messageId,
+                attachments: m.attachments?.map((a) => ({
+                  filename: a.filename,
+                  contentType: a.contentType,
+                  content: Buffer.from(a.contentBase64, 'base64'),
+                })),
               });
               opts.logger?.info({ jobId: job.id, template: m.template }, 'mail sent');
             } catch (err) {
@@ -170,6 +184,7 @@ export function createJobs(opts: JobsOptions): Jobs {
         ...rendered,
         messageId: `<${randomUUID()}@mail.trabeate>`,
         template: request.template,
+        ...(request.attachments ? { attachments: request.attachments } : {}),
       };
       const id = await boss.send(MAIL_QUEUE, job, { ...retry, db: trx ? transactionDb(trx) : undefined });
       if (!id) throw new Error('the mail job was not queued');

@@ -160,6 +160,103 @@ These links are for you alone and work until {{expiresOn}}.
 Please confirm that you have received them: {{link}}
 {{/if}}`,
   },
+
+  'invoice-issued': {
+    data: z.object({
+      recipientName: name,
+      firmName: name,
+      projectName: name,
+      number: name,
+      total: name,
+      dueOn: name,
+      link,
+    }),
+    subject: '{{firmName}}: invoice {{number}} for {{projectName}}',
+    html: `<p>Hello {{recipientName}},</p>
+<p>{{firmName}} has issued invoice <strong>{{number}}</strong> for <strong>{{projectName}}</strong>: {{total}}, due on {{dueOn}}. The invoice is attached as a PDF.</p>
+<p>You can pay it online from the Fees page, or by bank transfer quoting {{number}}.</p>
+{{> button label="Open your invoices"}}`,
+    text: `Hello {{recipientName}},
+
+{{firmName}} has issued invoice {{number}} for {{projectName}}: {{total}}, due on {{dueOn}}. The invoice is attached as a PDF.
+
+You can pay it online from the Fees page, or by bank transfer quoting {{number}}.
+
+Open your invoices: {{link}}`,
+  },
+
+  'payment-receipt': {
+    data: z.object({
+      recipientName: name,
+      firmName: name,
+      projectName: name,
+      number: name,
+      amount: name,
+      paidOn: name,
+      link,
+    }),
+    subject: '{{firmName}}: receipt for your payment of {{amount}}',
+    html: `<p>Hello {{recipientName}},</p>
+<p>Thank you: we received your card payment of <strong>{{amount}}</strong> on {{paidOn}} for invoice <strong>{{number}}</strong> ({{projectName}}).</p>
+{{> button label="See the invoice"}}`,
+    text: `Hello {{recipientName}},
+
+Thank you: we received your card payment of {{amount}} on {{paidOn}} for invoice {{number}} ({{projectName}}).
+
+See the invoice: {{link}}`,
+  },
+
+  'payment-notice': {
+    data: z.object({
+      recipientName: name,
+      firmName: name,
+      projectName: name,
+      clientName: name,
+      number: name,
+      amount: name,
+      overpaid: z.string().max(200).optional(),
+      link,
+    }),
+    subject: '{{projectName}}: {{clientName}} paid {{amount}} on {{number}}',
+    html: `<p>Hello {{recipientName}},</p>
+<p>{{clientName}} paid <strong>{{amount}}</strong> by card on invoice <strong>{{number}}</strong> ({{projectName}}).</p>
+{{#if overpaid}}<p style="margin:16px 0;padding:12px 16px;background:#f3f5f5;border-left:3px solid #016973;">Overpayment: {{overpaid}} more than was owed. Please arrange a refund or a credit with the client.</p>{{/if}}
+{{> button label="Open Fees"}}`,
+    text: `Hello {{recipientName}},
+
+{{clientName}} paid {{amount}} by card on invoice {{number}} ({{projectName}}).
+{{#if overpaid}}
+
+Overpayment: {{overpaid}} more than was owed. Please arrange a refund or a credit with the client.
+{{/if}}
+
+Open Fees: {{link}}`,
+  },
+
+  'invoice-overdue': {
+    data: z.object({
+      recipientName: name,
+      firmName: name,
+      projectName: name,
+      number: name,
+      due: name,
+      dueOn: name,
+      daysLate: z.number().int(),
+      link,
+    }),
+    subject: '{{firmName}}: invoice {{number}} is {{daysLate}} days past due',
+    html: `<p>Hello {{recipientName}},</p>
+<p>A friendly reminder: invoice <strong>{{number}}</strong> for {{projectName}} was due on {{dueOn}}, and {{due}} is still open.</p>
+<p>If you have already paid, thank you, and please ignore this message.</p>
+{{> button label="Pay or view the invoice"}}`,
+    text: `Hello {{recipientName}},
+
+A friendly reminder: invoice {{number}} for {{projectName}} was due on {{dueOn}}, and {{due}} is still open.
+
+If you have already paid, thank you, and please ignore this message.
+
+Pay or view the invoice: {{link}}`,
+  },
 } as const;
 
 export type MailTemplateName = keyof typeof mailTemplates;

@@ -23,6 +23,7 @@ import {
   type CommentRow,
   type StageRow,
 } from './stages.repository';
+import { offerStageDraft } from '../fees/fees.service';
 import { allowedActions, STATE_WORDS, transitionRefusal, TRANSITIONS } from './stage-rules';
 
 export function stageOf(r: StageRow, caller: Caller, archived: boolean): Stage {
@@ -179,6 +180,8 @@ export async function transition(
     if (input.action === 'approve') changes['approved_at'] = trx.fn.now();
     if (input.action === 'reopen') changes['approved_at'] = null;
     await updateStage(trx, projectId, key, changes);
+    // Approval offers the principal a draft invoice for the stage's share of the fee.
+    if (input.action === 'approve') await offerStageDraft(trx, caller, projectId, key);
 
     const text = input.action === 'reopen' ? input.reason : 'comment' in input ? input.comment : undefined;
     if (text)

@@ -1,32 +1,250 @@
-import { ChangeDetectionStrategy, Component } from '@angular/core';
+import { HttpParams, httpResource } from '@angular/common/http';
+import {
+  ChangeDetectionStrategy,
+  Component,
+  OnDestroy,
+  computed,
+  inject,
+  input,
+  linkedSignal,
+  signal,
+} from '@angular/core';
+import { MatButton } from '@angular/material/button';
+import { MatOption } from '@angular/material/core';
+import { MatFormField, MatLabel, MatPrefix } from '@angular/material/form-field';
+import { MatIcon } from '@angular/material/icon';
+import { MatInput } from '@angular/material/input';
+import { MatPaginator, PageEvent } from '@angular/material/paginator';
+import { MatProgressBar } from '@angular/material/progress-bar';
+import { MatSelect } from '@angular/material/select';
+import { MatSort, MatSortHeader, Sort } from '@angular/material/sort';
+import {
+  MatCell,
+  MatCellDef,
+  MatColumnDef,
+  MatHeaderCell,
+  MatHeaderCellDef,
+  MatHeaderRow,
+  MatHeaderRowDef,
+  MatRow,
+  MatRowDef,
+  MatTable,
+} from '@angular/material/table';
+import { Router } from '@angular/router';
+import {
+  AGE_BAND_LABELS,
+  AGE_BANDS,
+  invoiceListSchema,
+  projectListSchema,
+  receivablesSchema,
+  type InvoiceListQuery,
+  type InvoiceSummary,
+} from '@trabeate/contracts';
+import { errorMessage } from '../../core/auth/api-error';
+import { PageLocation } from '../../core/auth/page-location';
+import { Session } from '../../core/auth/session';
 import { EmptyState } from '../../shared/empty-state/empty-state';
+import { FeeAgreementForm } from './fee-agreement-form';
+import { CHECKOUT_KEY, FeesApi, invoiceUrl } from './fees-api';
+import { InvoicePanel } from './invoice-panel';
+import { INVOICE_STATE_LABELS, InvoiceStateTag } from './invoice-state';
+import { ReceivablesChart } from './receivables-chart';
+import { formatDay, formatMinor } from './money';
 
+type SortKey = NonNullable<InvoiceListQuery['sort']>;
+type StateFilter = NonNullable<InvoiceListQuery['state']>;
+const SORTS: readonly SortKey[] = ['number', 'issuedOn', 'dueOn', 'total', 'due', 'client', 'project', 'state'];
+const STATES: readonly StateFilter[] = ['draft', 'issued', 'part_paid', 'paid', 'void', 'overdue'];
+const DEFAULT_PAGE_SIZE = 25;
+const SEARCH_DELAY_MS = 300;
+const positive = (v: string | undefined, fallback: number, max = Infinity) => {
+  const n = Number(v);
+  return Number.isInteger(n) && n >= 1 ? Math.min(n, max) : fallback;
+};
+
+/**
+ * Fees. The principal: every invoice across projects (sorted, filtered and paged by the server),
+ * what clients owe by age, and each project's fee agreement. A client: their organisation's
+ * invoices, each with its PDF and, while money is owed, Pay.
+ */
 @Component({
   selector: 'tb-fees-page',
-  imports: [EmptyState],
-  template: `
-    <h1 class="page-title">Fees</h1>
-    <tb-empty-state
-      icon="receipt_long"
-      heading="Fees and invoices are coming soon"
-      lead="Billing will follow the design work itself, so invoices no longer trail behind approved stages."
-      [coming]="coming"
-    />
-  `,
-  styles: `
-    .page-title {
-      font: var(--mat-sys-headline-medium);
-      margin: 0 0 1rem;
-    }
-  `,
+  imports: [
+    EmptyState,
+    FeeAgreementForm,
+    InvoicePanel,
+    InvoiceStateTag,
+    ReceivablesChart,
+    MatButton,
+    MatFormField,
+    MatLabel,
+    MatPrefix,
+    MatIcon,
+    MatInput,
+    MatOption,
+    MatPaginator,
+    MatProgressBar,
+    MatSelect,
+    MatSort,
+    MatSortHeader,
+    MatTable,
+    MatColumnDef,
+    MatHeaderCell,
+    MatHeaderCellDef,
+    MatCell,
+    MatCellDef,
+    MatHeaderRow,
+    MatHeaderRowDef,
+    MatRow,
+    MatRowDef,
+  ],
+  templateUrl: './fees-page.html',
+  styleUrls: ['../../shared/page/page.scss', './fees-page.scss'],
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
-export class FeesPage {
-  protected readonly coming = [
-    'A fee agreement per project: a lump sum or a share of the estimated construction cost.',
-    'The fee split over the stages, adding up to 100 %.',
-    'A draft invoice offered as soon as a stage is approved.',
-    'Invoices with tax, due dates and PDFs; clients pay online.',
-    'Money owed, sorted by how long it has been waiting.',
-  ] as const;
+export class FeesPage implements OnDestroy {
+  private readonly router = inject(Router);
+  private readonly api = inject(FeesApi);
+  private readonly location = inject(PageLocation);
+  protected readonly session = inject(Session);
+
+  // Route-bound query parameters.
+  readonly page = input<string>();
+  readonly pageSize = input<string>();
+  readonly sort = input<string>();
+  readonly direction = input<string>();
+  readonly q = input<string>();
+  readonly state = input<string>();
+  readonly client = input<string>();
+  readonly project = input<string>();
+
+  protected readonly list$ = computed(() => ({
+    page: positive(this.page(), 1),
+    pageSize: positive(this.pageSize(), DEFAULT_PAGE_SIZE, 100),
+    sort: SORTS.includes(this.sort() as SortKey) ? (this.sort() as SortKey) : 'issuedOn',
+    direction: (this.direction() === 'asc' ? 'asc' : 'desc') as 'asc' | 'desc',
+    q: (this.q() ?? '').trim().slice(0, 100),
+    state: STATES.includes(this.state() as StateFilter) ? (this.state() as StateFilter) : '',
+    client: this.client() ?? '',
+    project: this.project() ?? '',
+  }));
+
+  protected readonly invoices = httpResource(
+    () => {
+      const s = this.list$();
+      let params = new HttpParams()
+        .set('page', s.page)
+        .set('pageSize', s.pageSize)
+        .set('sort', s.sort)
+        .set('direction', s.direction);
+      if (s.q) params = params.set('q', s.q);
+      if (s.state) params = params.set('state', s.state);
+      if (s.client) params = params.set('clientId', s.client);
+      if (s.project) params = params.set('projectId', s.project);
+      return { url: '/api/invoices', params };
+    },
+    { parse: (v) => invoiceListSchema.parse(v) },
+  );
+  protected readonly shown = linkedSignal({
+    source: () => (this.invoices.hasValue() ? this.invoices.value() : undefined),
+    computation: (next, previous?: { value: ReturnType<typeof invoiceListSchema.parse> | undefined }) =>
+      next ?? previous?.value,
+  });
+
+  protected readonly receivables = httpResource(() => (this.session.isPrincipal() ? '/api/receivables' : undefined), {
+    parse: (v) => receivablesSchema.parse(v),
+  });
+  protected readonly organisations = httpResource<{ id: string; name: string }[]>(() =>
+    this.session.isPrincipal() ? '/api/client-organisations' : undefined,
+  );
+  protected readonly projects = httpResource(
+    () =>
+      this.session.isPrincipal() ? { url: '/api/projects', params: { pageSize: 100, status: 'active' } } : undefined,
+    { parse: (v) => projectListSchema.parse(v) },
+  );
+
+  protected readonly columns = computed(() =>
+    this.session.isPrincipal()
+      ? ['number', 'project', 'client', 'state', 'total', 'due', 'dueOn']
+      : ['number', 'project', 'state', 'total', 'due', 'dueOn', 'actions'],
+  );
+  protected readonly bands = AGE_BANDS.map((b) => ({ key: b, label: AGE_BAND_LABELS[b] }));
+  protected readonly stateOptions = STATES.map((s) => ({ value: s, label: INVOICE_STATE_LABELS[s].text }));
+  protected readonly selected = signal<InvoiceSummary | null>(null);
+  protected readonly agreementProject = signal<string>('');
+  protected readonly paying = signal<string | null>(null);
+  protected readonly payError = signal<{ id: string; message: string } | null>(null);
+  protected readonly filtered = computed(() => {
+    const s = this.list$();
+    return !!(s.q || s.state || s.client || s.project);
+  });
+
+  private searchTimer?: ReturnType<typeof setTimeout>;
+
+  protected money(minor: number, currency: string): string {
+    return formatMinor(minor, currency);
+  }
+  protected day(iso: string | null): string {
+    return formatDay(iso);
+  }
+  protected message(err: unknown): string {
+    return errorMessage(err);
+  }
+  protected pdfUrl(i: InvoiceSummary): string {
+    return `${invoiceUrl(i.project.id, i.id)}/pdf`;
+  }
+  protected canPay(i: InvoiceSummary): boolean {
+    return i.kind === 'invoice' && (i.state === 'issued' || i.state === 'part_paid') && i.dueMinor > 0;
+  }
+
+  /** Pay: the server opens a payment page for what is owed now, and the browser goes there. */
+  protected async pay(i: InvoiceSummary): Promise<void> {
+    if (this.paying()) return;
+    this.paying.set(i.id);
+    this.payError.set(null);
+    try {
+      const start = await this.api.checkout(i.project.id, i.id);
+      sessionStorage.setItem(CHECKOUT_KEY(i.id), start.sessionId);
+      this.location.assign(start.url);
+    } catch (err) {
+      this.payError.set({ id: i.id, message: errorMessage(err) });
+      this.paying.set(null);
+    }
+  }
+
+  protected select(i: InvoiceSummary): void {
+    if (!this.session.isPrincipal()) return;
+    this.selected.set(this.selected()?.id === i.id ? null : i);
+  }
+  protected changed(): void {
+    this.invoices.reload();
+    this.receivables.reload();
+  }
+
+  protected searchTyped(value: string): void {
+    clearTimeout(this.searchTimer);
+    this.searchTimer = setTimeout(() => this.go({ q: value.trim() || null, page: null }), SEARCH_DELAY_MS);
+  }
+  protected filter(key: 'state' | 'client' | 'project', value: string): void {
+    this.go({ [key]: value || null, page: null });
+  }
+  protected sorted(sort: Sort): void {
+    if (!sort.direction) this.go({ sort: null, direction: null, page: null });
+    else this.go({ sort: sort.active, direction: sort.direction, page: null });
+  }
+  protected paged(event: PageEvent): void {
+    this.go({
+      page: event.pageIndex === 0 ? null : event.pageIndex + 1,
+      pageSize: event.pageSize === DEFAULT_PAGE_SIZE ? null : event.pageSize,
+    });
+  }
+  protected clearFilters(): void {
+    this.go({ q: null, state: null, client: null, project: null, page: null });
+  }
+  ngOnDestroy(): void {
+    clearTimeout(this.searchTimer);
+  }
+  private go(queryParams: Record<string, string | number | null>): void {
+    void this.router.navigate([], { queryParams, queryParamsHandling: 'merge' });
+  }
 }
