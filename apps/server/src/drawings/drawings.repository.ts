@@ -73,10 +73,7 @@ function registerQuery(db: Q, projectId: string, outOnly: boolean) {
       this.on('s.project_id', 'd.project_id').andOn('s.key', 'd.stage_key');
     })
     .joinRaw(
-      // One pass over a drawing's revisions (by the (drawing_id, seq) index) gives both the current
-      // one and how many there are: the window count sees every row before the limit keeps one.
-      `left join lateral (select x.id, x.code, x.suitability, x.state, x.revision_date, x.issued_at, x.seq,
-          count(*) over ()::int as n
+      `left join lateral (select x.id, x.code, x.suitability, x.state, x.revision_date, x.issued_at, x.seq
         from drawing_revisions x where x.drawing_id = d.id ${visible} order by x.seq desc limit 1) r on true`,
     )
     .where('d.project_id', projectId)
@@ -97,7 +94,10 @@ function registerQuery(db: Q, projectId: string, outOnly: boolean) {
       'r.state as r_state',
       db.raw(`to_char(r.revision_date, 'YYYY-MM-DD') as r_date`),
       'r.issued_at as r_issued_at',
-      db.raw('coalesce(r.n, 0) as revision_count'),
+      // Kept as a select-list subquery on purpose: PostgreSQL evaluates it only for the rows the
+      // page returns (after sort and limit). A count folded into the lateral above ran for every
+      // drawing and made the first page about 3x slower in bench:register.
+      db.raw(`(select count(*)::int from drawing_revisions x where x.drawing_id = d.id ${visible}) as revision_count`),
     );
 }
 
