@@ -352,6 +352,16 @@ const MATRIX: Record<string, Entry> = {
     attach: (c) => ({ data: tinyPdf(), name: `matrix-${c}.pdf` }),
     expect: onProject(201, 201, 403),
   },
+  // Files of an issued revision never change: staff get the 409 that says so, the client 403.
+  'PUT /projects/:projectId/revisions/:revisionId/files/:fileId': {
+    path: `/projects/${KESTREL}/revisions/${REG.issued}/files/${REG.issuedFile}`,
+    attach: (c) => ({ data: tinyPdf(), name: `matrix-replace-${c}.pdf` }),
+    expect: onProject(409, 409, 403),
+  },
+  'DELETE /projects/:projectId/revisions/:revisionId/files/:fileId': {
+    path: `/projects/${KESTREL}/revisions/${REG.issued}/files/${REG.issuedFile}`,
+    expect: onProject(409, 409, 403),
+  },
   'GET /projects/:projectId/revisions/:revisionId/files/:fileId/download': {
     path: `/projects/${KESTREL}/revisions/${REG.issued}/files/${REG.issuedFile}/download`,
     expect: onProject(200, 200, 200),

@@ -12,6 +12,7 @@ import { DEMO, seedDemo } from '../../seeds/demo';
 import { DEMO_DRAWINGS, storeDemoDrawingFiles } from '../../seeds/demo-drawings';
 import { testApp, type TestApp } from '../support/app';
 import { send, signedInAs } from '../support/agents';
+import { xsrfToken } from '../support/identity';
 import { tinyPdf } from '../support/fakes';
 import { approvedRevision, binary, drawingBody, pdfText, revisionBody, uploadRevisionFile } from '../support/drawings';
 
@@ -172,6 +173,104 @@ describe('drawing register: drawings, revisions and their lifecycle', () => {
     expect(another.body.error.message).toContain('P01 of S-201 is still approved');
   });
 
+  describe('files on a draft revision', () => {
+    const replaceFile = (api: TestAgent, revisionId: string, fileId: string, data: Buffer, filename: string) =>
+      api
+        .put(`/api/projects/${kestrel}/revisions/${revisionId}/files/${fileId}`)
+        .set('X-XSRF-TOKEN', xsrfToken(api))
+        .attach('file', data, { filename, contentType: 'application/pdf' });
+    const removeFile = (api: TestAgent, revisionId: string, fileId: string) =>
+      send(api, 'delete', `/api/projects/${kestrel}/revisions/${revisionId}/files/${fileId}`);
+    const draft = async (number: string) => {
+      const d = drawingSchema.parse(
+        (await send(tomas, 'post', `/api/projects/${kestrel}/drawings`, drawingBody({ number }))).body,
+      );
+      return revisionSchema.parse(
+        (await send(tomas, 'post', `/api/projects/${kestrel}/drawings/${d.id}/revisions`, revisionBody())).body,
+      );
+    };
+
+    it('replaces the PDF of a draft: the new file is kept with its hash, the old row and object are gone', async () => {
+      const r = await draft('S-251');
+      const first = tinyPdf('S-251 first issue of the layout');
+      const up = await uploadRevisionFile(tomas, kestrel, r.id, first, 'S-251.pdf');
+      expect(up.status).toBe(201);
+      const oldKey = (await t.db('revision_files').where({ id: up.body.id }).first()).object_key;
+
+      const second = tinyPdf('S-251 with the stair opening moved');
+      const res = await replaceFile(tomas, r.id, up.body.id, second, 'S-251 corrected.pdf');
+      expect(res.status).toBe(200);
+      const replaced = revisionFileSchema.parse(res.body);
+      expect(replaced).toMatchObject({ role: 'pdf', fileName: 'S-251 corrected.pdf', sha256: sha(second) });
+      expect(replaced.id).not.toBe(up.body.id);
+
+      const rows = await t.db('revision_files').where({ revision_id: r.id });
+      expect(rows.map((f) => [f.id, f.sha256])).toEqual([[replaced.id, sha(second)]]);
+      await expect(t.store.getStream(oldKey)).rejects.toThrow();
+      const download = await tomas.get(replaced.downloadUrl).buffer(true).parse(binary);
+      expect(sha(download.body as Buffer)).toBe(sha(second));
+      const activity = await t
+        .db('activity')
+        .where({ object_id: r.id, action: 'revision.file_replaced' })
+        .first('summary');
+      expect(activity?.summary).toContain('replaced S-251.pdf with S-251 corrected.pdf');
+    });
+
+    it('refuses a replacement PDF that is not a PDF, and keeps the old one', async () => {
+      const r = await draft('S-252');
+      const pdf = tinyPdf('S-252');
+      const up = await uploadRevisionFile(tomas, kestrel, r.id, pdf, 'S-252.pdf');
+      const res = await replaceFile(tomas, r.id, up.body.id, Buffer.from('not a drawing at all'), 'S-252.pdf');
+      expect(res.status).toBe(422);
+      expect(res.body.error.message).toEqual(expect.any(String));
+      const rows = await t.db('revision_files').where({ revision_id: r.id });
+      expect(rows.map((f) => f.sha256)).toEqual([sha(pdf)]);
+    });
+
+    it('deletes a source file and then the PDF of a draft, after which it cannot be checked until a PDF comes back', async () => {
+      const r = await draft('S-253');
+      const pdf = await uploadRevisionFile(tomas, kestrel, r.id, tinyPdf('S-253'), 'S-253.pdf');
+      const dxf = await uploadRevisionFile(
+        tomas,
+        kestrel,
+        r.id,
+        Buffer.from('0\nSECTION\n2\nENTITIES\n0\nENDSEC\n0\nEOF\n'),
+        'S-253.dxf',
+        'source',
+      );
+      const dxfKey = (await t.db('revision_files').where({ id: dxf.body.id }).first()).object_key;
+
+      expect((await removeFile(tomas, r.id, dxf.body.id)).status).toBe(204);
+      await expect(t.store.getStream(dxfKey)).rejects.toThrow();
+      expect((await removeFile(tomas, r.id, dxf.body.id)).status).toBe(404);
+      expect((await removeFile(tomas, r.id, pdf.body.id)).status).toBe(204);
+      expect(await t.db('revision_files').where({ revision_id: r.id })).toEqual([]);
+
+      const check = await transition(priya, r.id, 'check');
+      expect(check.status).toBe(409);
+      expect(check.body.error.message).toContain('no PDF');
+      expect((await uploadRevisionFile(tomas, kestrel, r.id, tinyPdf('S-253 again'), 'S-253.pdf')).status).toBe(201);
+      expect((await transition(priya, r.id, 'check')).status).toBe(200);
+    });
+
+    it('refuses to replace or delete a file once the revision is checked, and a file of another revision', async () => {
+      const r = await draft('S-254');
+      const pdf = await uploadRevisionFile(tomas, kestrel, r.id, tinyPdf('S-254'), 'S-254.pdf');
+      const other = await draft('S-255');
+      expect((await removeFile(tomas, other.id, pdf.body.id)).status).toBe(404);
+      expect((await replaceFile(tomas, other.id, pdf.body.id, tinyPdf('x'), 'x.pdf')).status).toBe(404);
+
+      expect((await transition(priya, r.id, 'check')).status).toBe(200);
+      const del = await removeFile(tomas, r.id, pdf.body.id);
+      expect(del.status).toBe(409);
+      expect(del.body.error.message).toContain('is checked');
+      const rep = await replaceFile(tomas, r.id, pdf.body.id, tinyPdf('S-254 late'), 'late.pdf');
+      expect(rep.status).toBe(409);
+      expect((await t.db('revision_files').where({ revision_id: r.id })).map((f) => f.id)).toEqual([pdf.body.id]);
+      expect((await removeFile(fenwick, r.id, pdf.body.id)).status).toBe(403);
+    });
+  });
+
   it('refuses a suitability that does not fit the series, and never lets a contractual drawing go back', async () => {
     const d = drawingSchema.parse(
       (await send(tomas, 'post', `/api/projects/${kestrel}/drawings`, drawingBody({ number: 'S-301' }))).body,
@@ -291,6 +390,17 @@ describe('drawing register: drawings, revisions and their lifecycle', () => {
       expect((await transition(principal, revisionId, 'approve')).status).toBe(409);
       const file = await uploadRevisionFile(tomas, kestrel, revisionId, tinyPdf(), 'extra.dxf', 'source');
       expect(file.status).toBe(409);
+      const removed = await send(tomas, 'delete', `/api/projects/${kestrel}/revisions/${revisionId}/files/${fileId}`);
+      expect(removed.status).toBe(409);
+      expect(removed.body.error.message).toBe(
+        'Revision P01 has been issued and never changes; register a new revision instead.',
+      );
+      const replaced = await tomas
+        .put(`/api/projects/${kestrel}/revisions/${revisionId}/files/${fileId}`)
+        .set('X-XSRF-TOKEN', xsrfToken(tomas))
+        .attach('file', tinyPdf('swap'), { filename: 'swap.pdf', contentType: 'application/pdf' });
+      expect(replaced.status).toBe(409);
+      expect(await t.db('revision_files').where({ id: fileId }).first('id')).toEqual({ id: fileId });
     });
 
     it('refuses a direct update or delete through Knex, of the revision and of its files', async () => {

@@ -1,5 +1,6 @@
 import { createHash, randomUUID } from 'node:crypto';
 import { Readable } from 'node:stream';
+import { crc32 } from 'node:zlib';
 import type { Knex } from 'knex';
 import type TestAgent from 'supertest/lib/agent';
 import type { Response } from 'supertest';
@@ -38,7 +39,10 @@ export function unzip(data: Buffer): Promise<Map<string, Buffer>> {
           const chunks: Buffer[] = [];
           stream.on('data', (c: Buffer) => chunks.push(c));
           stream.on('end', () => {
-            out.set(entry.fileName, Buffer.concat(chunks));
+            const body = Buffer.concat(chunks);
+            // yauzl does not check CRCs itself; a wrong one would make other unzip tools refuse the file.
+            if (crc32(body) !== entry.crc32) return reject(new Error(`CRC-32 of ${entry.fileName} does not match`));
+            out.set(entry.fileName, body);
             zip.readEntry();
           });
         });

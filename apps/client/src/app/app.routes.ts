@@ -56,6 +56,12 @@ export const routes: Routes = [
     loadComponent: () => import('./features/projects/project-form-page').then((m) => m.ProjectFormPage),
   },
   {
+    path: 'drawings/numbering',
+    title: 'Drawing numbering · Trabeate',
+    canActivate: [signedInGuard, roleGuard('principal')],
+    loadComponent: () => import('./features/drawings/numbering-settings-page').then((m) => m.NumberingSettingsPage),
+  },
+  {
     path: 'drawings',
     title: 'Drawings · Trabeate',
     canActivate: [signedInGuard],

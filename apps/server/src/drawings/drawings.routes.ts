@@ -21,6 +21,7 @@ import { deliverableUpload, uploadedFile } from '../uploads';
 import { getFile, logDownload, type DrawingListFilters } from './drawings.repository';
 import {
   createDrawing,
+  deleteFile,
   fileCheck,
   getDrawing,
   listDrawings,
@@ -216,7 +217,7 @@ export function drawingRoutes(db: Db, store: ObjectStore | undefined, maxBytes: 
         const file = uploadedFile(req);
         try {
           const role = (res.locals['query'] as z.output<typeof fileRoleQuery>).role;
-          const created = await recordFile(
+          const { file: created } = await recordFile(
             db,
             callerOf(req),
             req.project!.id,
@@ -229,6 +230,62 @@ export function drawingRoutes(db: Db, store: ObjectStore | undefined, maxBytes: 
           await store?.remove(file.key).catch(() => undefined);
           throw err;
         }
+      },
+    ),
+    route(
+      'put',
+      '/projects/:projectId/revisions/:revisionId/files/:fileId',
+      'project:work',
+      validate({ params: fileParams }),
+      async (req, res, next) => {
+        res.locals['role'] = await fileCheck(
+          db,
+          req.project!.id,
+          String(req.params['revisionId']),
+          'pdf',
+          String(req.params['fileId']),
+        );
+        next();
+      },
+      upload,
+      async (req, res) => {
+        const file = uploadedFile(req);
+        let replacedKey: string | undefined;
+        let created;
+        try {
+          ({ file: created, replacedKey } = await recordFile(
+            db,
+            callerOf(req),
+            req.project!.id,
+            String(req.params['revisionId']),
+            res.locals['role'] as 'pdf' | 'source',
+            file,
+            String(req.params['fileId']),
+          ));
+        } catch (err) {
+          await store?.remove(file.key).catch(() => undefined);
+          throw err;
+        }
+        // Committed: the old object is no longer referenced; failing to remove it loses nothing.
+        if (replacedKey) await store?.remove(replacedKey).catch(() => undefined);
+        res.status(200).location(created.downloadUrl).json(created);
+      },
+    ),
+    route(
+      'delete',
+      '/projects/:projectId/revisions/:revisionId/files/:fileId',
+      'project:work',
+      validate({ params: fileParams }),
+      async (req, res) => {
+        const key = await deleteFile(
+          db,
+          callerOf(req),
+          req.project!.id,
+          String(req.params['revisionId']),
+          String(req.params['fileId']),
+        );
+        await store?.remove(key).catch(() => undefined);
+        res.status(204).end();
       },
     ),
     route(

@@ -11,8 +11,10 @@ import {
   type RevisionFile,
   type RevisionPatch,
   type RevisionSeries,
+  type RevisionState,
   type revisionCreateSchema,
 } from '@trabeate/contracts';
+import type { Knex } from 'knex';
 import type { z } from 'zod';
 import type { Db } from '../db/db';
 import { HttpError, notFound } from '../core/errors';
@@ -392,15 +394,74 @@ export async function transitionRevision(
   return readRevision(db, caller, projectId, id);
 }
 
-/** Refuses, before a byte is streamed, a file for a revision that cannot take one now. */
-export async function fileCheck(db: Db, projectId: string, id: string, role: 'pdf' | 'source'): Promise<void> {
+/**
+ * Refuses, before a byte is streamed, a file for a revision that cannot take one now. With
+ * `replaces`, the file must exist on that revision, and the new one takes its role.
+ */
+export async function fileCheck(
+  db: Db,
+  projectId: string,
+  id: string,
+  role: 'pdf' | 'source',
+  replaces?: string,
+): Promise<'pdf' | 'source'> {
   const r = await db('drawing_revisions').where({ project_id: projectId, id }).first('code', 'state');
   if (!r) throw notFound('No revision with this id.');
   if (r.state === 'issued' || r.state === 'superseded') throw frozen(r.code);
   if (r.state !== 'draft')
     throw conflict(`Revision ${r.code} is ${r.state}; its files are fixed once it has been checked.`);
+  if (replaces) {
+    const old = await db('revision_files').where({ revision_id: id, id: replaces }).first('role');
+    if (!old) throw notFound('No file with this id on this revision.');
+    return old.role;
+  }
   if (role === 'pdf' && (await db('revision_files').where({ revision_id: id, role: 'pdf' }).first('id')))
-    throw conflict(`Revision ${r.code} already has its PDF; register a new revision to change it.`);
+    throw conflict(`Revision ${r.code} already has its PDF; replace it or delete it first.`);
+  return role;
+}
+
+/** The file row of a draft revision, locked with its revision, or the reason it cannot change. */
+async function lockDraftFile(trx: Knex.Transaction, projectId: string, revisionId: string, fileId: string) {
+  const r = await lockRevision(trx, projectId, revisionId);
+  if (!r) throw notFound('No revision with this id.');
+  if (r.state === 'issued' || r.state === 'superseded') throw frozen(r.code);
+  if (r.state !== 'draft') throw conflict(`Revision ${r.code} is ${r.state}; its files are fixed.`);
+  const f = await trx('revision_files')
+    .where({ revision_id: revisionId, id: fileId })
+    .forUpdate()
+    .first<RevisionFileRow | undefined>();
+  if (!f) throw notFound('No file with this id on this revision.');
+  return { r, f };
+}
+
+/**
+ * Removes a file from a draft revision and returns its object key, for the caller to remove from
+ * storage once this has committed (a failed removal then leaves only an unreferenced object).
+ * The PDF may go too: a revision cannot be checked without one.
+ */
+export async function deleteFile(
+  db: Db,
+  caller: Caller,
+  projectId: string,
+  revisionId: string,
+  fileId: string,
+): Promise<string> {
+  return db.transaction(async (trx) => {
+    await refuseArchived(trx, projectId);
+    const { r, f } = await lockDraftFile(trx, projectId, revisionId, fileId);
+    await trx('revision_files').where({ id: f.id }).delete();
+    await insertActivity(trx, {
+      firmId: caller.firmId,
+      projectId,
+      actorId: caller.userId,
+      action: 'revision.file_removed',
+      objectType: 'revision',
+      objectId: revisionId,
+      summary: `${caller.displayName} removed ${f.file_name} from revision ${r.code}`,
+      details: { fileName: f.file_name, sizeBytes: Number(f.size_bytes), sha256: f.sha256, role: f.role },
+    });
+    return f.object_key;
+  });
 }
 
 export async function recordFile(
@@ -410,7 +471,8 @@ export async function recordFile(
   id: string,
   role: 'pdf' | 'source',
   file: StoredUpload,
-): Promise<RevisionFile> {
+  replaces?: string,
+): Promise<{ file: RevisionFile; replacedKey?: string }> {
   if (role === 'pdf' && file.detectedType !== 'pdf')
     throw new HttpError(
       415,
@@ -419,9 +481,19 @@ export async function recordFile(
     );
   const row = await db.transaction(async (trx) => {
     await refuseArchived(trx, projectId);
-    const r = await lockRevision(trx, projectId, id);
-    if (!r) throw notFound('No revision with this id.');
-    if (r.state !== 'draft') throw conflict(`Revision ${r.code} is ${r.state}; its files are fixed.`);
+    let replaced: RevisionFileRow | undefined;
+    let r: { code: string; state: RevisionState };
+    if (replaces) {
+      ({ r, f: replaced } = await lockDraftFile(trx, projectId, id, replaces));
+      if (replaced.role !== role) throw conflict(`That file is a ${replaced.role} file, not a ${role} file.`);
+      await trx('revision_files').where({ id: replaced.id }).delete();
+    } else {
+      const locked = await lockRevision(trx, projectId, id);
+      if (!locked) throw notFound('No revision with this id.');
+      if (locked.state === 'issued' || locked.state === 'superseded') throw frozen(locked.code);
+      if (locked.state !== 'draft') throw conflict(`Revision ${locked.code} is ${locked.state}; its files are fixed.`);
+      r = locked;
+    }
     let inserted: RevisionFileRow;
     try {
       [inserted] = await trx.transaction(async (inner) =>
@@ -447,13 +519,21 @@ export async function recordFile(
       firmId: caller.firmId,
       projectId,
       actorId: caller.userId,
-      action: 'revision.file_added',
+      action: replaced ? 'revision.file_replaced' : 'revision.file_added',
       objectType: 'revision',
       objectId: id,
-      summary: `${caller.displayName} added ${file.safeName} to revision ${r.code}`,
-      details: { fileName: file.safeName, sizeBytes: file.size, sha256: file.sha256, role },
+      summary: replaced
+        ? `${caller.displayName} replaced ${replaced.file_name} with ${file.safeName} on revision ${r.code}`
+        : `${caller.displayName} added ${file.safeName} to revision ${r.code}`,
+      details: {
+        fileName: file.safeName,
+        sizeBytes: file.size,
+        sha256: file.sha256,
+        role,
+        ...(replaced ? { replaced: { fileName: replaced.file_name, sha256: replaced.sha256 } } : {}),
+      },
     });
-    return inserted;
+    return { inserted, replacedKey: replaced?.object_key };
   });
-  return fileOf(row);
+  return { file: fileOf(row.inserted), replacedKey: row.replacedKey };
 }

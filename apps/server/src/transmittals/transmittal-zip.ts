@@ -1,6 +1,10 @@
 import type { Readable } from 'node:stream';
 import { ZipFile } from 'yazl';
 import type { ObjectStore } from '../storage';
+import { useNativeCrc32 } from './native-crc';
+
+// Every ZIP this module writes checks its entries with the native CRC-32 (see native-crc.ts).
+useNativeCrc32();
 
 export interface ZipEntry {
   /** The path inside the archive (made from the register's own fields, cleaned). */

@@ -33,7 +33,7 @@ import {
   MatRowDef,
   MatTable,
 } from '@angular/material/table';
-import { Router } from '@angular/router';
+import { Router, RouterLink } from '@angular/router';
 import {
   REVISION_STATES,
   SHEET_SIZES,
@@ -73,6 +73,7 @@ const positive = (v: string | undefined, fallback: number, max = Infinity) => {
 @Component({
   selector: 'tb-drawings-page',
   imports: [
+    RouterLink,
     DatePipe,
     DrawingDetail,
     EmptyState,
