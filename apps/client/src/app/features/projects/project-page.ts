@@ -1,4 +1,4 @@
-import { DatePipe, DecimalPipe } from '@angular/common';
+import { DecimalPipe } from '@angular/common';
 import { HttpClient, httpResource } from '@angular/common/http';
 import {
   ChangeDetectionStrategy,
@@ -28,13 +28,15 @@ import { ActivityLog } from './activity-log';
 import { STAGE_ORDER, STATE_LABELS, codeFamilyLabel } from './project-labels';
 import { ProjectsApi, projectUrl } from './projects-api';
 import { StagePanel } from './stages/stage-panel';
+import { DayPipe, WaitedPipe } from '../../shared/dates/app-dates';
 
 /** One project: its facts, its six stages as a row of bays, the chosen stage's panel, and the log. */
 @Component({
   selector: 'tb-project-page',
   imports: [
     ActivityLog,
-    DatePipe,
+    DayPipe,
+    WaitedPipe,
     DecimalPipe,
     MatButton,
     MatIconButton,

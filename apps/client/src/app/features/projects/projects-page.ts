@@ -1,4 +1,3 @@
-import { DatePipe } from '@angular/common';
 import { HttpParams, httpResource } from '@angular/common/http';
 import { ChangeDetectionStrategy, Component, OnDestroy, computed, inject, input, linkedSignal } from '@angular/core';
 import { MatButton } from '@angular/material/button';
@@ -29,6 +28,7 @@ import { errorMessage } from '../../core/auth/api-error';
 import { Session } from '../../core/auth/session';
 import { EmptyState } from '../../shared/empty-state/empty-state';
 import { STATE_LABELS } from './project-labels';
+import { DayTimePipe } from '../../shared/dates/app-dates';
 
 type SortKey = NonNullable<ProjectListQuery['sort']>;
 type Status = NonNullable<ProjectListQuery['status']>;
@@ -61,7 +61,7 @@ const positive = (v: string | undefined, fallback: number, max = Infinity) => {
 @Component({
   selector: 'tb-projects-page',
   imports: [
-    DatePipe,
+    DayTimePipe,
     EmptyState,
     MatButton,
     MatFormField,

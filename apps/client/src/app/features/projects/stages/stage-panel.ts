@@ -1,4 +1,3 @@
-import { DatePipe } from '@angular/common';
 import { HttpErrorResponse } from '@angular/common/http';
 import {
   ChangeDetectionStrategy,
@@ -14,7 +13,8 @@ import {
 import { MatButton } from '@angular/material/button';
 import { MatOption } from '@angular/material/core';
 import { MatDialog } from '@angular/material/dialog';
-import { MatFormField, MatHint, MatLabel } from '@angular/material/form-field';
+import { MatDatepicker, MatDatepickerInput, MatDatepickerToggle } from '@angular/material/datepicker';
+import { MatFormField, MatHint, MatLabel, MatSuffix } from '@angular/material/form-field';
 import { MatIcon } from '@angular/material/icon';
 import { MatInput } from '@angular/material/input';
 import { MatSelect } from '@angular/material/select';
@@ -27,6 +27,8 @@ import { ProjectsApi } from '../projects-api';
 import { DeliverablesPanel } from './deliverables-panel';
 import { StageActionDialog, StageActionDialogData } from './stage-action-dialog';
 import { StageComments } from './stage-comments';
+import { fromIsoDay, toIsoDay } from '../../../shared/dates/firm-date-adapter';
+import { DayPipe, DayTimePipe, WaitedPipe } from '../../../shared/dates/app-dates';
 
 const ACTION_ORDER: readonly StageAction[] = ['start', 'submit', 'approve', 'return', 'reopen'];
 const DONE: Readonly<Record<StageAction, string>> = {
@@ -41,11 +43,17 @@ const DONE: Readonly<Record<StageAction, string>> = {
 @Component({
   selector: 'tb-stage-panel',
   imports: [
-    DatePipe,
+    DayPipe,
+    DayTimePipe,
+    WaitedPipe,
     DeliverablesPanel,
     MatButton,
+    MatDatepicker,
+    MatDatepickerInput,
+    MatDatepickerToggle,
     MatFormField,
     MatHint,
+    MatSuffix,
     MatIcon,
     MatInput,
     MatLabel,
@@ -90,6 +98,8 @@ export class StagePanel {
 
   protected readonly assigneeId = linkedSignal(() => this.stage().assignee?.id ?? '');
   protected readonly dueDate = linkedSignal(() => this.stage().dueDate ?? '');
+  protected readonly dueDateValue = computed(() => fromIsoDay(this.dueDate()));
+  protected readonly toIsoDay = toIsoDay;
   protected readonly assignmentChanged = computed(
     () => this.assigneeId() !== (this.stage().assignee?.id ?? '') || this.dueDate() !== (this.stage().dueDate ?? ''),
   );
