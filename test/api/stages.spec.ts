@@ -156,6 +156,10 @@ describe('design stages: assignment and the enforced workflow', () => {
     expect(toEngineer.to).toEqual([DEMO.users.engineerA.email]);
     expect(toEngineer.text).toContain('Use the assembly load for the hall.');
     expect(toEngineer.text).toContain(`/projects/${projectId}?stage=design_basis`);
+    // The assignee is offered one way on from a returned stage: submit again, not also "start".
+    const back = projectPageSchema.parse((await tomas.get(`/api/projects/${projectId}/full`)).body);
+    expect(back.stages.find((s) => s.key === 'design_basis')!.allowedActions).toEqual(['submit']);
+    expect((await move(tomas, 'design_basis', { action: 'start' })).status).toBe(409);
 
     expect((await move(tomas, 'design_basis', { action: 'submit' })).body.state).toBe('under_review');
     const approved = await move(principal, 'design_basis', { action: 'approve' });

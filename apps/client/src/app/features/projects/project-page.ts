@@ -25,15 +25,17 @@ import { ROLE_LABELS } from '../../core/auth/session';
 import { Notice } from '../../core/notice';
 import { ConfirmDialog, ConfirmData } from '../../shared/confirm-dialog/confirm-dialog';
 import { ActivityLog } from './activity-log';
-import { STAGE_ORDER, STATE_LABELS, codeFamilyLabel } from './project-labels';
+import { STAGE_ORDER, STATE_LABELS, STATE_MARKERS, codeFamilyLabel } from './project-labels';
 import { ProjectsApi, projectUrl } from './projects-api';
 import { StagePanel } from './stages/stage-panel';
 import { DayPipe, WaitedPipe } from '../../shared/dates/app-dates';
+import { StateMarker } from '../../shared/state-marker/state-marker';
 
 /** One project: its facts, its six stages as a row of bays, the chosen stage's panel, and the log. */
 @Component({
   selector: 'tb-project-page',
   imports: [
+    StateMarker,
     ActivityLog,
     DayPipe,
     WaitedPipe,
@@ -88,6 +90,7 @@ export class ProjectPage {
   });
 
   protected readonly stateLabels = STATE_LABELS;
+  protected readonly markers = STATE_MARKERS;
   protected readonly familyLabel = codeFamilyLabel;
   protected readonly busy = signal(false);
   private readonly activity = viewChild(ActivityLog);

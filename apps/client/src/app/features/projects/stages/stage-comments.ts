@@ -1,6 +1,6 @@
 import { httpResource } from '@angular/common/http';
-import { ChangeDetectionStrategy, Component, inject, input, output, signal } from '@angular/core';
-import { NonNullableFormBuilder, ReactiveFormsModule, Validators } from '@angular/forms';
+import { ChangeDetectionStrategy, Component, inject, input, output, signal, viewChild } from '@angular/core';
+import { FormGroupDirective, NonNullableFormBuilder, ReactiveFormsModule, Validators } from '@angular/forms';
 import { MatButton } from '@angular/material/button';
 import { ErrorStateMatcher } from '@angular/material/core';
 import { MatError, MatFormField, MatLabel } from '@angular/material/form-field';
@@ -138,6 +138,7 @@ export class StageComments {
   readonly posted = output<Comment>();
 
   protected readonly thread = httpResource<Comment[]>(() => `${stageUrl(this.projectId(), this.stageKey())}/comments`);
+  private readonly formDirective = viewChild(FormGroupDirective);
   protected readonly form = inject(NonNullableFormBuilder).group({
     body: ['', [Validators.required, Validators.maxLength(4000), notBlank]],
   });
@@ -173,7 +174,8 @@ export class StageComments {
     this.postError.set('');
     try {
       const c = await this.api.addComment(this.projectId(), this.stageKey(), this.form.controls.body.value.trim());
-      this.form.reset();
+      // resetForm, not reset: it also clears "submitted", so the empty box shows no error after a post.
+      this.formDirective()?.resetForm();
       this.thread.reload();
       this.posted.emit(c);
     } catch (err) {

@@ -138,6 +138,31 @@ describe('StagePanel', () => {
     expect(changed).toBe(1);
   });
 
+  it('approves only after the principal confirms, and sends nothing when they keep it as is', async () => {
+    await open(stage({ state: 'under_review', allowedActions: ['approve', 'return'] }), true);
+    (el().querySelector('[data-testid="action-approve"]') as HTMLButtonElement).click();
+    await settle(50);
+    expect(document.querySelector('mat-dialog-container h2')?.textContent).toContain('Approve Column layout?');
+    backend.expectNone(`${BASE}/transitions`);
+    (
+      Array.from(document.querySelectorAll('mat-dialog-container button')).find((b) =>
+        b.textContent?.includes('Keep as is'),
+      ) as HTMLButtonElement
+    ).click();
+    await settle(50);
+    backend.expectNone(`${BASE}/transitions`);
+
+    (el().querySelector('[data-testid="action-approve"]') as HTMLButtonElement).click();
+    await settle(50);
+    (document.querySelector('[data-testid="confirm"]') as HTMLButtonElement).click();
+    await settle(50);
+    const req = backend.expectOne(`${BASE}/transitions`);
+    expect(req.request.body).toEqual({ action: 'approve' });
+    reply(req, stageSchema, stage({ state: 'approved' }));
+    await settle(50);
+    reply(backend.expectOne(`${BASE}/comments`), commentSchema.array(), []);
+  });
+
   it('will not return a stage without a comment, then sends the comment with the return', async () => {
     await open(stage({ state: 'under_review', allowedActions: ['approve', 'return'] }), true);
     (el().querySelector('[data-testid="action-return"]') as HTMLButtonElement).click();
