@@ -1,3 +1,4 @@
+import { formatDay } from '@trabeate/dates';
 import type TestAgent from 'supertest/lib/agent';
 import { outboxMessageSchema } from '@trabeate/contracts';
 import { DEMO } from '../../seeds/demo';
@@ -54,7 +55,7 @@ describe('e-mail notices go through the queue and survive a mail server outage',
     const msg = await smtp.waitFor((m) => m.to.includes(DEMO.users.engineerA.email), 20_000);
     expect(msg.subject).toBe('Kestrel Yard apartments: Column layout is approved');
     expect(msg.text).toContain(`${DEMO.users.principal.name} has approved Column layout of Kestrel Yard apartments`);
-    expect(msg.text).toContain(`http://127.0.0.1:4310/projects/${kestrel}`);
+    expect(msg.text).toContain(`http://127.0.0.1:4310/projects/${kestrel}?stage=column_layout`);
   });
 
   it('an invitation is e-mailed with its link', async () => {
@@ -68,6 +69,9 @@ describe('e-mail notices go through the queue and survive a mail server outage',
     const msg = await smtp.waitFor((m) => m.to.includes('mira.sollen@sablequay.example'));
     expect(msg.subject).toBe(`${DEMO.users.principal.name} invites you to ${DEMO.firm.name} on Trabeate`);
     expect(msg.text).toContain(res.body.invitation.url);
+    // The expiry in the app's one date format ("20 Dec 2026"), never an ISO date.
+    expect(msg.text).toContain(`works until ${formatDay(res.body.invitation.expiresAt, { timeZone: 'UTC' })}.`);
+    expect(msg.text).toMatch(/works until \d{1,2} [A-Z][a-z]{2} \d{4}\./);
     const entry = await t
       .db('activity')
       .where({ project_id: kestrel, action: 'membership.added', object_id: res.body.person.id })

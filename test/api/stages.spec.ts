@@ -134,6 +134,8 @@ describe('design stages: assignment and the enforced workflow', () => {
     expect(toPrincipal.to).toEqual([DEMO.users.principal.email]);
     expect(toPrincipal.subject).toBe('Stage workflow test: Design basis is ready for your review');
     expect(toPrincipal.text).toContain("Loads per the architect's schedule.");
+    // The link opens the stage the notice is about, not only the project.
+    expect(toPrincipal.text).toMatch(new RegExp(`/projects/${projectId}\\?stage=design_basis(\\s|$)`));
 
     // The principal sees the review actions; the engineer cannot approve their own work.
     const page = projectPageSchema.parse((await principal.get(`/api/projects/${projectId}/full`)).body);
@@ -153,6 +155,11 @@ describe('design stages: assignment and the enforced workflow', () => {
     const [toEngineer] = await mails('stage-returned');
     expect(toEngineer.to).toEqual([DEMO.users.engineerA.email]);
     expect(toEngineer.text).toContain('Use the assembly load for the hall.');
+    expect(toEngineer.text).toContain(`/projects/${projectId}?stage=design_basis`);
+    // The assignee is offered one way on from a returned stage: submit again, not also "start".
+    const back = projectPageSchema.parse((await tomas.get(`/api/projects/${projectId}/full`)).body);
+    expect(back.stages.find((s) => s.key === 'design_basis')!.allowedActions).toEqual(['submit']);
+    expect((await move(tomas, 'design_basis', { action: 'start' })).status).toBe(409);
 
     expect((await move(tomas, 'design_basis', { action: 'submit' })).body.state).toBe('under_review');
     const approved = await move(principal, 'design_basis', { action: 'approve' });
@@ -252,11 +259,41 @@ describe('design stages: assignment and the enforced workflow', () => {
     expect(res.body).toMatchObject({ dueDate: yesterday, late: true });
   });
 
+  it('a stage past its due date is late while with the assignee, and not while waiting for review', async () => {
+    const lastWeek = new Date(Date.now() - 7 * 86_400_000).toISOString().slice(0, 10);
+    const key: StageKey = 'slab_panels';
+    const at = (state: string) => t.db('stages').where({ project_id: projectId, key }).update({ state });
+    const late = async () =>
+      stageSchema.parse(
+        (await principal.get(`/api/projects/${projectId}/full`)).body.stages.find(
+          (s: { key: string }) => s.key === key,
+        ),
+      ).late;
+    const lateForClient = async () =>
+      (await client.get(`/api/projects/${projectId}/full`)).body.stages.find((s: { key: string }) => s.key === key)
+        .late;
+    expect((await send(principal, 'patch', stagePath(key), { dueDate: lastWeek })).status).toBe(200);
+    const seen: Array<[string, boolean, boolean]> = [];
+    for (const state of ['not_started', 'in_progress', 'under_review', 'returned', 'approved']) {
+      await at(state);
+      seen.push([state, await late(), await lateForClient()]);
+    }
+    expect(seen).toEqual([
+      ['not_started', true, true],
+      ['in_progress', true, true],
+      ['under_review', false, false],
+      ['returned', true, true],
+      ['approved', false, false],
+    ]);
+    await at('not_started');
+    await send(principal, 'patch', stagePath(key), { dueDate: null });
+  });
+
   it('the seeded demo has an approved, an under-review and a late stage', async () => {
     const page = projectPageSchema.parse((await principal.get(`/api/projects/${DEMO.projects.kestrel.id}/full`)).body);
     expect(page.stages.map((s) => [s.key, s.state, s.late])).toEqual([
       ['design_basis', 'approved', false],
-      ['column_layout', 'under_review', true],
+      ['column_layout', 'under_review', false],
       ['beam_framing', 'in_progress', true],
       ['slab_panels', 'not_started', false],
       ['stairs', 'not_started', false],

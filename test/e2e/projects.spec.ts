@@ -176,6 +176,7 @@ describe('a design stage from assignment to approval, in Chromium', () => {
     const page = principal.page;
     await openStage(page);
     await testId(page, 'action-approve').click();
+    await testId(page, 'confirm').click();
     await expectState(page, 'Approved');
     // The panel stays on the stage just approved.
     await expect(testId(page, 'stage-panel').locator('h2').textContent()).resolves.toContain('Design basis');

@@ -10,7 +10,7 @@ export const SCREENSHOTS = path.resolve(__dirname, '../e2e/screenshots');
  * leave loopback is aborted and recorded, so a test can assert the app needs nothing outside;
  * console errors are recorded too, so a test can assert the page logged none.
  */
-export async function openBrowser(): Promise<{
+export async function openBrowser(options: { bypassCSP?: boolean } = {}): Promise<{
   context: BrowserContext;
   page: Page;
   outside: string[];
@@ -22,6 +22,8 @@ export async function openBrowser(): Promise<{
     executablePath: process.env.CHROMIUM_PATH ?? '/usr/bin/chromium',
     headless: true,
     viewport: { width: 1280, height: 800 },
+    // Only for injecting axe-core with addScriptTag: the app's policy (rightly) refuses inline scripts.
+    bypassCSP: options.bypassCSP ?? false,
     args: [
       '--no-sandbox',
       '--disable-gpu',

@@ -35,7 +35,7 @@ const BAD_LINK =
 
 const PAGE_HEADERS: Record<string, string> = {
   'Content-Security-Policy':
-    "default-src 'none'; style-src 'unsafe-inline'; img-src data:; frame-ancestors 'none'; base-uri 'none'",
+    "default-src 'none'; style-src 'unsafe-inline'; img-src data:; font-src data:; frame-ancestors 'none'; base-uri 'none'",
   'X-Content-Type-Options': 'nosniff',
   // same-origin, not no-referrer: with no-referrer browsers send "Origin: null" on the form post.
   'Referrer-Policy': 'same-origin',

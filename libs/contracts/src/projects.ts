@@ -89,7 +89,7 @@ export const stageSchema = z.object({
   state: stageStateSchema,
   assignee: personRef.nullable(),
   dueDate: isoDate.nullable(),
-  /** Due date passed and not approved. */
+  /** Due date passed while the work is with the assignee (not started, in progress or returned); never while under review. */
   late: z.boolean(),
   submittedAt: z.iso.datetime().nullable(),
   approvedAt: z.iso.datetime().nullable(),

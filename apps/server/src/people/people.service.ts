@@ -1,4 +1,5 @@
 import { createHash, createHmac, randomUUID } from 'node:crypto';
+import { formatDay } from '@trabeate/dates';
 import type { InvitationCreated, Person, PersonPatch, Role } from '@trabeate/contracts';
 import { invitationCreateSchema } from '@trabeate/contracts';
 import type { z } from 'zod';
@@ -177,7 +178,7 @@ export async function invite(
             invitedBy: caller.displayName,
             role: ROLE_WORDS[input.role],
             link: url,
-            expiresOn: expiresAt.toISOString().slice(0, 10),
+            expiresOn: formatDay(expiresAt, { timeZone: 'UTC' }),
           },
         });
       }

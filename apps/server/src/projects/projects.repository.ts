@@ -4,6 +4,7 @@ import type { ProjectCreate, projectListQuerySchema } from '@trabeate/contracts'
 import type { Db } from '../db/db';
 import type { Caller } from '../access/policy';
 import { notFound } from '../core/errors';
+import { LATE_SQL } from '../stages/stages.repository';
 
 type Q = Db | Knex.Transaction;
 
@@ -162,7 +163,7 @@ export async function listProjects(
       `cross join lateral (
          select (array_agg(s.key order by s.position))[1] as current_key,
                 (array_agg(s.state order by s.position))[1] as current_state,
-                (count(*) filter (where s.due_date < current_date))::int as late_stages
+                (count(*) filter (where ${LATE_SQL('s')}))::int as late_stages
          from stages s where s.project_id = page.id and s.state <> 'approved') st`,
     )
     .select('page.*', 'st.current_key', 'st.current_state', 'st.late_stages')

@@ -6,8 +6,11 @@ import type { Role } from '@trabeate/contracts';
  * may take it. The server enforces it; the client only shows the actions the server lists.
  *
  *   not_started --start--> in_progress --submit--> under_review --approve--> approved
- *   returned ----start--> in_progress              under_review --return--> returned
+ *                                                  under_review --return--> returned
  *   returned ---submit--> under_review             approved ----reopen---> in_progress
+ *
+ * A returned stage is already being worked on again: it offers one way on (submit once the
+ * comments are addressed), not a second "start" that would only relabel it.
  */
 interface Transition {
   from: StageState[];
@@ -16,7 +19,7 @@ interface Transition {
 }
 
 export const TRANSITIONS: Record<StageAction, Transition> = {
-  start: { from: ['not_started', 'returned'], to: 'in_progress', by: 'assignee' },
+  start: { from: ['not_started'], to: 'in_progress', by: 'assignee' },
   submit: { from: ['in_progress', 'returned'], to: 'under_review', by: 'assignee' },
   approve: { from: ['under_review'], to: 'approved', by: 'principal' },
   return: { from: ['under_review'], to: 'returned', by: 'principal' },

@@ -4,6 +4,13 @@ import type { Db } from '../db/db';
 
 type Q = Db | Knex.Transaction;
 
+/**
+ * Late means past its due date while the work is with the assignee. A stage under review waits on
+ * the reviewer, not the engineer, so it is never late (the principal sees how long it has waited).
+ */
+export const LATE_SQL = (alias: string) =>
+  `${alias}.due_date is not null and ${alias}.due_date < current_date and ${alias}.state in ('not_started', 'in_progress', 'returned')`;
+
 export interface StageRow {
   project_id: string;
   key: StageKey;
@@ -35,7 +42,7 @@ function stagesQuery(db: Q) {
       's.assignee_id',
       'u.display_name as assignee_name',
       db.raw(`to_char(s.due_date, 'YYYY-MM-DD') as due_date`),
-      db.raw(`(s.due_date is not null and s.due_date < current_date and s.state <> 'approved') as late`),
+      db.raw(`(${LATE_SQL('s')}) as late`),
       's.submitted_at',
       's.approved_at',
       db.raw(

@@ -199,7 +199,8 @@ export async function transition(
     });
     await trx('projects').where({ id: projectId }).update({ updated_at: trx.fn.now() });
 
-    const link = notices.link(`/projects/${projectId}`);
+    // Straight to the stage the notice is about: the project page opens the panel named by ?stage=.
+    const link = notices.link(`/projects/${projectId}?stage=${key}`);
     const common = { firmName: project.firm_name, projectName: project.name, stageName: title, link };
     if (input.action === 'submit') {
       const principals = await trx('users')

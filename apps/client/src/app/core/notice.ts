@@ -10,7 +10,13 @@ export class Notice {
 
   show(message: string, duration = 8000): void {
     void import('@angular/material/snack-bar').then(({ MatSnackBar }) =>
-      this.injector.get(MatSnackBar).open(message, 'Dismiss', { duration }),
+      // Top right, under the bar: errors and buttons sit low on a page, and a toast at the foot
+      // used to cover the very error it reported.
+      this.injector.get(MatSnackBar).open(message, 'Dismiss', {
+        duration,
+        verticalPosition: 'top',
+        horizontalPosition: 'end',
+      }),
     );
   }
 }

@@ -71,6 +71,15 @@ describe('Shell', () => {
   describe('for a principal', () => {
     beforeEach(() => start(grantedMe('principal', 'Aster Pellow')));
 
+    it('offers a skip link as the first focusable element, which moves focus to the page', () => {
+      const first = el().querySelector<HTMLElement>('a[href], button, input, select, textarea, [tabindex]');
+      expect(first?.getAttribute('data-testid')).toBe('skip-link');
+      expect(first?.textContent).toContain('Skip to main content');
+      first!.click();
+      expect(document.activeElement?.id).toBe('main');
+      expect(document.activeElement?.tagName).toBe('MAIN');
+    });
+
     it('shows the Trabeate wordmark linking home', () => {
       const home = el().querySelector('a.wordmark');
       expect(home?.textContent).toContain('Trabeate');

@@ -143,6 +143,14 @@ export class Shell {
     void this.session.signOut();
   }
 
+  private readonly main = viewChild.required<ElementRef<HTMLElement>>('main');
+
+  /** Moves focus (not only the scroll position) to the page, so the next Tab starts inside it. */
+  protected skipToMain(event: Event): void {
+    event.preventDefault();
+    this.main().nativeElement.focus();
+  }
+
   /** On a narrow screen the drawer covers the page, so picking a link should put it away. */
   protected afterNavigate(): void {
     if (this.narrow()) void this.drawer().close();

@@ -1,4 +1,3 @@
-import { DatePipe } from '@angular/common';
 import { HttpErrorResponse, httpResource } from '@angular/common/http';
 import { ChangeDetectionStrategy, Component, computed, inject, linkedSignal } from '@angular/core';
 import { MatButton } from '@angular/material/button';
@@ -8,6 +7,7 @@ import { DomSanitizer, SafeHtml } from '@angular/platform-browser';
 import type { OutboxMessage } from '@trabeate/contracts';
 import { errorMessage } from '../../core/auth/api-error';
 import { EmptyState } from '../../shared/empty-state/empty-state';
+import { DayTimePipe } from '../../shared/dates/app-dates';
 
 /**
  * The message's HTML, shut in: the iframe has `sandbox=""` (no scripts, forms, navigation or
@@ -22,7 +22,7 @@ export function sealedHtml(html: string): string {
 /** Development only: the e-mail the local fake SMTP server kept, newest first. */
 @Component({
   selector: 'tb-outbox-page',
-  imports: [DatePipe, EmptyState, MatButton, MatIcon, MatProgressSpinner],
+  imports: [DayTimePipe, EmptyState, MatButton, MatIcon, MatProgressSpinner],
   template: `
     <div class="page-head">
       <div>
@@ -65,7 +65,7 @@ export function sealedHtml(html: string): string {
               >
                 <span class="subject">{{ m.subject }}</span>
                 <span class="meta">To {{ m.to.join(', ') }}</span>
-                <time class="meta" [attr.datetime]="m.receivedAt">{{ m.receivedAt | date: 'd MMM y, HH:mm:ss' }}</time>
+                <time class="meta" [attr.datetime]="m.receivedAt">{{ m.receivedAt | tbDayTime }}</time>
               </button>
             </li>
           }
@@ -79,7 +79,7 @@ export function sealedHtml(html: string): string {
               <dt>To</dt>
               <dd>{{ m.to.join(', ') }}</dd>
               <dt>Received</dt>
-              <dd>{{ m.receivedAt | date: 'd MMM y, HH:mm:ss' }}</dd>
+              <dd>{{ m.receivedAt | tbDayTime }}</dd>
             </dl>
             @if (html(); as h) {
               <h3>As HTML</h3>

@@ -1,4 +1,3 @@
-import { DatePipe } from '@angular/common';
 import { HttpErrorResponse, httpResource } from '@angular/common/http';
 import { ChangeDetectionStrategy, Component, computed, inject, input } from '@angular/core';
 import { MatButton } from '@angular/material/button';
@@ -9,11 +8,12 @@ import { anonymousOk } from '../../core/auth/auth-context';
 import { errorMessage } from '../../core/auth/api-error';
 import { PageLocation } from '../../core/auth/page-location';
 import { ROLE_LABELS, Session } from '../../core/auth/session';
+import { DayTimePipe } from '../../shared/dates/app-dates';
 
 /** Where an invitation link lands: who invited whom, as what, and the way in. Public. */
 @Component({
   selector: 'tb-invitation-page',
-  imports: [DatePipe, MatButton, MatIcon, MatProgressSpinner],
+  imports: [DayTimePipe, MatButton, MatIcon, MatProgressSpinner],
   template: `
     <section class="panel" aria-labelledby="invitation-heading" data-testid="invitation">
       <mat-icon class="mark" aria-hidden="true">mail</mat-icon>
@@ -33,7 +33,7 @@ import { ROLE_LABELS, Session } from '../../core/auth/session';
           <dt>Invited as</dt>
           <dd>{{ roleLabel(inv.role) }}</dd>
           <dt>{{ inv.status === 'expired' ? 'Expired' : 'Open until' }}</dt>
-          <dd>{{ inv.expiresAt | date: 'd MMM y, HH:mm' }}</dd>
+          <dd>{{ inv.expiresAt | tbDayTime }}</dd>
         </dl>
         @switch (inv.status) {
           @case ('pending') {

@@ -22,6 +22,7 @@ import { firstValueFrom } from 'rxjs';
 import { errorMessage, fieldErrors } from '../../core/auth/api-error';
 import { ROLE_LABELS } from '../../core/auth/session';
 import { applyServerErrors, asYouType, fieldErrorText } from '../../shared/forms/field-errors';
+import { formErrorFocus } from '../../shared/forms/form-error-focus';
 
 /** What the dialog needs of a project: the people page passes items of the paged project list. */
 export type InviteProjectChoice = Pick<ProjectListItem, 'id' | 'reference' | 'name' | 'clientOrganisation'>;
@@ -62,6 +63,7 @@ const notBlank = (c: { value: string }) => (c.value && !c.value.trim() ? { white
 })
 export class InviteDialog {
   private readonly http = inject(HttpClient);
+  private readonly reportInvalid = formErrorFocus();
   private readonly ref = inject<MatDialogRef<InviteDialog, InvitationCreated | null>>(MatDialogRef);
   protected readonly data = inject<InviteDialogData>(MAT_DIALOG_DATA);
   protected readonly roles = Object.entries(ROLE_LABELS) as [Role, string][];
@@ -101,8 +103,10 @@ export class InviteDialog {
 
   protected async send(): Promise<void> {
     if (this.sending()) return;
-    this.form.markAllAsTouched();
-    if (this.form.invalid) return;
+    if (this.form.invalid) {
+      this.reportInvalid(this.form);
+      return;
+    }
     this.sending.set(true);
     this.formError.set(null);
     const v = this.form.getRawValue();

@@ -1,4 +1,3 @@
-import { DatePipe } from '@angular/common';
 import { HttpClient, httpResource } from '@angular/common/http';
 import { ChangeDetectionStrategy, Component, effect, inject, signal, viewChild } from '@angular/core';
 import { MatButton, MatIconButton } from '@angular/material/button';
@@ -29,6 +28,7 @@ import { ROLE_LABELS, Session } from '../../core/auth/session';
 import { Notice } from '../../core/notice';
 import { ConfirmDialog, type ConfirmData } from '../../shared/confirm-dialog/confirm-dialog';
 import { InviteDialog, type InviteDialogData } from './invite-dialog';
+import { DayPipe, DayTimePipe } from '../../shared/dates/app-dates';
 
 /** The most projects the invite dialog offers (the API's largest page). */
 export const INVITE_PROJECT_PAGE = 100;
@@ -43,7 +43,8 @@ const STATUS_LABELS: Record<Person['status'], string> = {
 @Component({
   selector: 'tb-people-page',
   imports: [
-    DatePipe,
+    DayPipe,
+    DayTimePipe,
     MatButton,
     MatIconButton,
     MatIcon,

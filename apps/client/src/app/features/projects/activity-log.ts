@@ -1,4 +1,3 @@
-import { DatePipe } from '@angular/common';
 import { HttpParams, httpResource } from '@angular/common/http';
 import { ChangeDetectionStrategy, Component, input, linkedSignal, signal } from '@angular/core';
 import { MatOption } from '@angular/material/core';
@@ -9,6 +8,7 @@ import type { Activity, StageKey } from '@trabeate/contracts';
 import { errorMessage } from '../../core/auth/api-error';
 import { ACTIVITY_TYPES, ActivityObjectType, STAGE_ORDER, STAGE_TITLES } from './project-labels';
 import { projectUrl } from './projects-api';
+import { DayTimePipe } from '../../shared/dates/app-dates';
 
 interface ActivityPage {
   readonly items: Activity[];
@@ -20,7 +20,7 @@ interface ActivityPage {
 /** Everything that happened on the project, newest first, filterable by kind and stage. */
 @Component({
   selector: 'tb-activity-log',
-  imports: [DatePipe, MatFormField, MatLabel, MatOption, MatPaginator, MatSelect],
+  imports: [DayTimePipe, MatFormField, MatLabel, MatOption, MatPaginator, MatSelect],
   template: `
     <section aria-labelledby="activity-heading" data-testid="activity">
       <div class="head">
@@ -61,7 +61,7 @@ interface ActivityPage {
           <ol class="log">
             @for (a of data.items; track a.id) {
               <li data-testid="activity-entry">
-                <time [attr.datetime]="a.at">{{ a.at | date: 'd MMM y, HH:mm' }}</time>
+                <time [attr.datetime]="a.at">{{ a.at | tbDayTime }}</time>
                 <span>{{ a.summary }}</span>
               </li>
             }

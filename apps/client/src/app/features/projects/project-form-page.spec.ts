@@ -87,8 +87,15 @@ describe('ProjectFormPage', () => {
     (el().querySelector('[data-testid="save-project"]') as HTMLButtonElement).click();
     await fixture.whenStable();
     backend.expectNone('/api/projects');
-    expect(el().querySelector('[data-testid="form-error"]')?.textContent).toContain('Some fields need attention');
+    const invalid = Array.from(el().querySelectorAll<HTMLElement>('input.ng-invalid, mat-select.ng-invalid'));
+    const summary = `${invalid.length} fields need attention.`;
+    expect(invalid.length).toBeGreaterThan(1);
+    expect(el().querySelector('[data-testid="form-error"]')?.textContent).toContain(summary);
     expect(errorBeside('name')).toBe('Name is required.');
+    // Focus leaves the button for the first field in error, and the count is announced.
+    expect(document.activeElement).toBe(invalid[0]);
+    await new Promise((r) => setTimeout(r, 150));
+    expect(document.querySelector('.cdk-live-announcer-element')?.textContent).toBe(summary);
   });
 
   it('creates once however often Create is pressed, then opens the new project', async () => {

@@ -15,6 +15,7 @@ import { Notice } from '../../core/notice';
 import { asYouType, fieldErrorText, integer, patternWithHint, positive } from '../../shared/forms/field-errors';
 import { CODE_FAMILIES, CodeFamily } from './project-labels';
 import { ProjectsApi, projectUrl } from './projects-api';
+import { fieldCountText, formErrorFocus } from '../../shared/forms/form-error-focus';
 
 const notBlank = (c: AbstractControl) =>
   typeof c.value === 'string' && c.value && !c.value.trim() ? { whitespace: true } : null;
@@ -51,6 +52,7 @@ export class ProjectFormPage {
   private readonly api = inject(ProjectsApi);
   private readonly router = inject(Router);
   private readonly notice = inject(Notice);
+  private readonly reportInvalid = formErrorFocus();
 
   /** Route-bound `:projectId`; absent on /projects/new. */
   readonly projectId = input<string>();
@@ -135,8 +137,8 @@ export class ProjectFormPage {
     if (this.saving()) return;
     this.formError.set('');
     if (this.form.invalid) {
-      this.form.markAllAsTouched();
-      this.formError.set('Some fields need attention before the project can be saved.');
+      const n = this.reportInvalid(this.form);
+      this.formError.set(`${fieldCountText(n)} The project is not saved yet.`);
       return;
     }
     this.saving.set(true);

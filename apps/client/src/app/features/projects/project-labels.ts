@@ -1,4 +1,5 @@
 import type { StageAction, StageKey, StageState } from '@trabeate/contracts';
+import type { MarkerShape, MarkerTone } from '../../shared/state-marker/state-marker';
 
 // Runtime words for the screens. The contracts hold the same keys, but importing their values
 // would bring zod into the browser bundle; the types keep these in step with the server.
@@ -69,3 +70,12 @@ export function formatBytes(bytes: number): string {
   } while (value >= 1000 && unit < units.length - 1);
   return `${value < 10 ? value.toFixed(1) : Math.round(value)} ${units[unit]}`;
 }
+
+/** Each stage state as a shape and a tone (see shared/state-marker): readable without colour. */
+export const STATE_MARKERS: Readonly<Record<StageState, { shape: MarkerShape; tone: MarkerTone }>> = {
+  not_started: { shape: 'open', tone: 'neutral' },
+  in_progress: { shape: 'half', tone: 'accent' },
+  under_review: { shape: 'wait', tone: 'accent' },
+  returned: { shape: 'back', tone: 'alert' },
+  approved: { shape: 'done', tone: 'accent' },
+};

@@ -15,6 +15,7 @@ import {
   type StageKey,
 } from '@trabeate/contracts';
 import { reply, replyAll } from '../../../testing/api-replies';
+import { provideFirmDates } from '../../shared/dates/firm-date-adapter';
 import { ProjectPage } from './project-page';
 import { STAGE_ORDER, STAGE_TITLES } from './project-labels';
 
@@ -98,6 +99,7 @@ describe('ProjectPage', () => {
         provideHttpClient(),
         provideHttpClientTesting(),
         { provide: ANIMATION_MODULE_TYPE, useValue: 'NoopAnimations' },
+        provideFirmDates(),
       ],
     });
     backend = TestBed.inject(HttpTestingController);
@@ -129,6 +131,38 @@ describe('ProjectPage', () => {
     expect(bays[1].textContent).toContain('Cato Brennagh');
     expect(bays[1].querySelector('[data-testid="late-marker"]')?.textContent).toContain('Late');
     expect(el().querySelectorAll('[data-testid="late-marker"]').length).toBe(1);
+  });
+
+  it('shows the principal how long a stage under review has waited, and never calls it late', async () => {
+    const data = project(true);
+    const submittedAt = new Date(Date.now() - 3 * 86_400_000 - 3_600_000).toISOString();
+    data.stages[4] = stage('slab_panels', { state: 'under_review', dueDate: '2026-01-01', late: false, submittedAt });
+    await open(`/projects/${ID}`, data);
+    answerPanel('column_layout');
+    await settle();
+    const bay = el().querySelector('[data-testid="stage-slab_panels"]')!;
+    expect(bay.querySelector('[data-testid="waiting-marker"]')?.textContent).toContain('Waiting 3 days');
+    expect(bay.querySelector('[data-testid="late-marker"]')).toBeNull();
+  });
+
+  it('does not show a client how long a review has waited', async () => {
+    const data = project(false);
+    data.stages[4] = stage('slab_panels', {
+      state: 'under_review',
+      submittedAt: new Date(Date.now() - 3 * 86_400_000).toISOString(),
+    });
+    await open(`/projects/${ID}`, data);
+    answerPanel('column_layout');
+    await settle();
+    expect(el().querySelector('[data-testid="waiting-marker"]')).toBeNull();
+  });
+
+  it('writes due dates in the one app format', async () => {
+    await open(`/projects/${ID}`, project(false));
+    answerPanel('column_layout');
+    await settle();
+    expect(el().querySelector('[data-testid="stage-column_layout"]')?.textContent).toContain('Due 10 Jan 2026');
+    expect(el().querySelector('[data-testid="stage-panel"]')?.textContent).toContain('Due 10 Jan 2026');
   });
 
   it('opens the first stage not yet approved, and the stage named in the address when there is one', async () => {

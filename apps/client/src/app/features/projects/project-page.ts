@@ -1,4 +1,4 @@
-import { DatePipe, DecimalPipe } from '@angular/common';
+import { DecimalPipe } from '@angular/common';
 import { HttpClient, httpResource } from '@angular/common/http';
 import {
   ChangeDetectionStrategy,
@@ -25,16 +25,20 @@ import { ROLE_LABELS } from '../../core/auth/session';
 import { Notice } from '../../core/notice';
 import { ConfirmDialog, ConfirmData } from '../../shared/confirm-dialog/confirm-dialog';
 import { ActivityLog } from './activity-log';
-import { STAGE_ORDER, STATE_LABELS, codeFamilyLabel } from './project-labels';
+import { STAGE_ORDER, STATE_LABELS, STATE_MARKERS, codeFamilyLabel } from './project-labels';
 import { ProjectsApi, projectUrl } from './projects-api';
 import { StagePanel } from './stages/stage-panel';
+import { DayPipe, WaitedPipe } from '../../shared/dates/app-dates';
+import { StateMarker } from '../../shared/state-marker/state-marker';
 
 /** One project: its facts, its six stages as a row of bays, the chosen stage's panel, and the log. */
 @Component({
   selector: 'tb-project-page',
   imports: [
+    StateMarker,
     ActivityLog,
-    DatePipe,
+    DayPipe,
+    WaitedPipe,
     DecimalPipe,
     MatButton,
     MatIconButton,
@@ -86,6 +90,7 @@ export class ProjectPage {
   });
 
   protected readonly stateLabels = STATE_LABELS;
+  protected readonly markers = STATE_MARKERS;
   protected readonly familyLabel = codeFamilyLabel;
   protected readonly busy = signal(false);
   private readonly activity = viewChild(ActivityLog);

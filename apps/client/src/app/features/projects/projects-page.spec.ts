@@ -51,7 +51,7 @@ describe('ProjectsPage', () => {
     harness.detectChanges();
   };
 
-  async function open(url: string, role: 'principal' | 'engineer' = 'principal'): Promise<void> {
+  async function open(url: string, role: 'principal' | 'engineer' | 'client' = 'principal'): Promise<void> {
     TestBed.configureTestingModule({
       providers: [
         provideRouter([{ path: 'projects', component: ProjectsPage }], withComponentInputBinding()),
@@ -148,6 +148,17 @@ describe('ProjectsPage', () => {
     reply(listRequest(), projectListSchema, page([], 0));
     await settle();
     expect(el().textContent).toContain('No projects match');
+    expect(el().querySelector('[data-testid="no-match"]')?.textContent).toContain('another client');
+  });
+
+  it('never suggests a client filter to a client contact, who has none', async () => {
+    await open('/projects?q=zzz', 'client');
+    reply(listRequest(), projectListSchema, page([], 0));
+    await settle();
+    const text = el().querySelector('[data-testid="no-match"]')?.textContent ?? '';
+    expect(text).toContain('No projects match');
+    expect(text).not.toMatch(/client/i);
+    expect(el().querySelector('[data-testid="client-filter"]')).toBeNull();
   });
 
   it('shows the server’s reason when the list cannot be loaded', async () => {

@@ -1,4 +1,3 @@
-import { DatePipe } from '@angular/common';
 import { HttpParams, httpResource } from '@angular/common/http';
 import { ChangeDetectionStrategy, Component, OnDestroy, computed, inject, input, linkedSignal } from '@angular/core';
 import { MatButton } from '@angular/material/button';
@@ -28,7 +27,9 @@ import type { ProjectList, ProjectListQuery, StageState } from '@trabeate/contra
 import { errorMessage } from '../../core/auth/api-error';
 import { Session } from '../../core/auth/session';
 import { EmptyState } from '../../shared/empty-state/empty-state';
-import { STATE_LABELS } from './project-labels';
+import { STATE_LABELS, STATE_MARKERS } from './project-labels';
+import { DayTimePipe } from '../../shared/dates/app-dates';
+import { StateMarker } from '../../shared/state-marker/state-marker';
 
 type SortKey = NonNullable<ProjectListQuery['sort']>;
 type Status = NonNullable<ProjectListQuery['status']>;
@@ -61,7 +62,8 @@ const positive = (v: string | undefined, fallback: number, max = Infinity) => {
 @Component({
   selector: 'tb-projects-page',
   imports: [
-    DatePipe,
+    StateMarker,
+    DayTimePipe,
     EmptyState,
     MatButton,
     MatFormField,
@@ -146,6 +148,10 @@ export class ProjectsPage implements OnDestroy {
   });
 
   private searchTimer?: ReturnType<typeof setTimeout>;
+
+  protected marker(state: StageState) {
+    return STATE_MARKERS[state];
+  }
 
   protected stateLabel(state: StageState): string {
     return STATE_LABELS[state];

@@ -12,6 +12,8 @@ export interface ConfirmData {
   readonly title: string;
   readonly message: string;
   readonly confirm: string;
+  /** Colours the confirm button as destructive (default); false for a positive step such as approving. */
+  readonly danger?: boolean;
 }
 
 /** Asks once before something that cannot be undone from the same screen. Closes with true to go ahead. */
@@ -25,7 +27,13 @@ export interface ConfirmData {
     </mat-dialog-content>
     <mat-dialog-actions align="end">
       <button mat-button type="button" [mat-dialog-close]="false">Keep as is</button>
-      <button mat-flat-button type="button" class="danger" data-testid="confirm" [mat-dialog-close]="true">
+      <button
+        mat-flat-button
+        type="button"
+        [class.danger]="data.danger !== false"
+        data-testid="confirm"
+        [mat-dialog-close]="true"
+      >
         {{ data.confirm }}
       </button>
     </mat-dialog-actions>

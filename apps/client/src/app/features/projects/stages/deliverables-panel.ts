@@ -1,5 +1,4 @@
 import { CdkCopyToClipboard } from '@angular/cdk/clipboard';
-import { DatePipe } from '@angular/common';
 import { HttpErrorResponse, HttpEventType, httpResource } from '@angular/common/http';
 import { ChangeDetectionStrategy, Component, DestroyRef, computed, inject, input, output, signal } from '@angular/core';
 import { MatButton, MatIconButton } from '@angular/material/button';
@@ -11,6 +10,7 @@ import { errorMessage } from '../../../core/auth/api-error';
 import { Notice } from '../../../core/notice';
 import { formatBytes } from '../project-labels';
 import { ProjectsApi, stageUrl } from '../projects-api';
+import { DayTimePipe } from '../../../shared/dates/app-dates';
 
 export interface DeliverableGroup {
   readonly fileName: string;
@@ -48,7 +48,7 @@ interface Progress {
 /** A stage's deliverable files: versions, sizes and SHA-256, with a drop area for new ones. */
 @Component({
   selector: 'tb-deliverables-panel',
-  imports: [CdkCopyToClipboard, DatePipe, MatButton, MatIconButton, MatIcon, MatProgressBar],
+  imports: [CdkCopyToClipboard, DayTimePipe, MatButton, MatIconButton, MatIcon, MatProgressBar],
   template: `
     <section aria-labelledby="deliverables-heading" data-testid="deliverables">
       <h3 id="deliverables-heading">Deliverables</h3>
@@ -129,7 +129,7 @@ interface Progress {
                           <mat-icon>content_copy</mat-icon>
                         </button>
                       </td>
-                      <td>{{ d.uploadedBy.displayName }}, {{ d.uploadedAt | date: 'd MMM y, HH:mm' }}</td>
+                      <td>{{ d.uploadedBy.displayName }}, {{ d.uploadedAt | tbDayTime }}</td>
                       <td>
                         <a mat-button [href]="d.downloadUrl" download data-testid="download"
                           ><mat-icon>download</mat-icon>Download</a

@@ -1,7 +1,6 @@
-import { DatePipe } from '@angular/common';
 import { httpResource } from '@angular/common/http';
-import { ChangeDetectionStrategy, Component, inject, input, output, signal } from '@angular/core';
-import { NonNullableFormBuilder, ReactiveFormsModule, Validators } from '@angular/forms';
+import { ChangeDetectionStrategy, Component, inject, input, output, signal, viewChild } from '@angular/core';
+import { FormGroupDirective, NonNullableFormBuilder, ReactiveFormsModule, Validators } from '@angular/forms';
 import { MatButton } from '@angular/material/button';
 import { ErrorStateMatcher } from '@angular/material/core';
 import { MatError, MatFormField, MatLabel } from '@angular/material/form-field';
@@ -10,6 +9,7 @@ import type { Comment, StageAction, StageKey } from '@trabeate/contracts';
 import { errorMessage } from '../../../core/auth/api-error';
 import { asYouType, fieldErrorText } from '../../../shared/forms/field-errors';
 import { ProjectsApi, stageUrl } from '../projects-api';
+import { DayTimePipe } from '../../../shared/dates/app-dates';
 
 const notBlank = (c: { value: string }) => (c.value && !c.value.trim() ? { whitespace: true } : null);
 
@@ -24,7 +24,7 @@ const ACTION_NOTES: Readonly<Record<StageAction, string>> = {
 /** The stage's thread: notes between the engineer and the principal, with the comments that came with decisions. */
 @Component({
   selector: 'tb-stage-comments',
-  imports: [DatePipe, ReactiveFormsModule, MatButton, MatError, MatFormField, MatLabel, MatInput],
+  imports: [DayTimePipe, ReactiveFormsModule, MatButton, MatError, MatFormField, MatLabel, MatInput],
   providers: [{ provide: ErrorStateMatcher, useValue: asYouType }],
   template: `
     <section aria-labelledby="thread-heading" data-testid="comments">
@@ -44,7 +44,7 @@ const ACTION_NOTES: Readonly<Record<StageAction, string>> = {
                 @if (c.action) {
                   <span class="tag">{{ note(c.action) }}</span>
                 }
-                <time [attr.datetime]="c.createdAt">{{ c.createdAt | date: 'd MMM y, HH:mm' }}</time>
+                <time [attr.datetime]="c.createdAt">{{ c.createdAt | tbDayTime }}</time>
               </div>
               <p class="body">{{ c.body }}</p>
             </li>
@@ -138,6 +138,7 @@ export class StageComments {
   readonly posted = output<Comment>();
 
   protected readonly thread = httpResource<Comment[]>(() => `${stageUrl(this.projectId(), this.stageKey())}/comments`);
+  private readonly formDirective = viewChild(FormGroupDirective);
   protected readonly form = inject(NonNullableFormBuilder).group({
     body: ['', [Validators.required, Validators.maxLength(4000), notBlank]],
   });
@@ -173,7 +174,8 @@ export class StageComments {
     this.postError.set('');
     try {
       const c = await this.api.addComment(this.projectId(), this.stageKey(), this.form.controls.body.value.trim());
-      this.form.reset();
+      // resetForm, not reset: it also clears "submitted", so the empty box shows no error after a post.
+      this.formDirective()?.resetForm();
       this.thread.reload();
       this.posted.emit(c);
     } catch (err) {

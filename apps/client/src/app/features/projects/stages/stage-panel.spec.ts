@@ -6,6 +6,7 @@ import { commentSchema, deliverableSchema, stageSchema, type ProjectPage, type S
 import { reply, replyError } from '../../../../testing/api-replies';
 import { aProjectPage } from '../../../../testing/fixtures';
 import { UPLOAD_HTTP } from '../projects-api';
+import { provideFirmDates } from '../../../shared/dates/firm-date-adapter';
 import { StagePanel } from './stage-panel';
 
 const PROJECT_ID = '00000000-0000-4000-8000-000000000301';
@@ -74,6 +75,7 @@ describe('StagePanel', () => {
         provideHttpClientTesting(),
         { provide: UPLOAD_HTTP, useFactory: () => inject(HttpClient) },
         { provide: ANIMATION_MODULE_TYPE, useValue: 'NoopAnimations' },
+        provideFirmDates(),
       ],
     });
     backend = TestBed.inject(HttpTestingController);
@@ -134,6 +136,31 @@ describe('StagePanel', () => {
     await settle();
     reply(backend.expectOne(`${BASE}/comments`), commentSchema.array(), []);
     expect(changed).toBe(1);
+  });
+
+  it('approves only after the principal confirms, and sends nothing when they keep it as is', async () => {
+    await open(stage({ state: 'under_review', allowedActions: ['approve', 'return'] }), true);
+    (el().querySelector('[data-testid="action-approve"]') as HTMLButtonElement).click();
+    await settle(50);
+    expect(document.querySelector('mat-dialog-container h2')?.textContent).toContain('Approve Column layout?');
+    backend.expectNone(`${BASE}/transitions`);
+    (
+      Array.from(document.querySelectorAll('mat-dialog-container button')).find((b) =>
+        b.textContent?.includes('Keep as is'),
+      ) as HTMLButtonElement
+    ).click();
+    await settle(50);
+    backend.expectNone(`${BASE}/transitions`);
+
+    (el().querySelector('[data-testid="action-approve"]') as HTMLButtonElement).click();
+    await settle(50);
+    (document.querySelector('[data-testid="confirm"]') as HTMLButtonElement).click();
+    await settle(50);
+    const req = backend.expectOne(`${BASE}/transitions`);
+    expect(req.request.body).toEqual({ action: 'approve' });
+    reply(req, stageSchema, stage({ state: 'approved' }));
+    await settle(50);
+    reply(backend.expectOne(`${BASE}/comments`), commentSchema.array(), []);
   });
 
   it('will not return a stage without a comment, then sends the comment with the return', async () => {
@@ -199,9 +226,12 @@ describe('StagePanel', () => {
 
   it('lets the principal assign an engineer and set a due date', async () => {
     await open(stage({ assignee: null, dueDate: null }), true);
+    // Typed the way the firm writes dates (en-GB, day first); the field then shows the app format.
     const due = el().querySelector('[data-testid="due-date"]') as HTMLInputElement;
-    due.value = '2026-05-15';
+    due.value = '15/05/2026';
+    due.dispatchEvent(new Event('input'));
     due.dispatchEvent(new Event('change'));
+    due.dispatchEvent(new Event('blur'));
     fixture.componentInstance['assigneeId'].set(ENGINEER.id);
     await settle();
     (el().querySelector('[data-testid="save-assignment"]') as HTMLButtonElement).click();
@@ -212,6 +242,7 @@ describe('StagePanel', () => {
     expect(fixture.componentInstance['staff']().map((m: { displayName: string }) => m.displayName)).toEqual([
       'Cato Brennagh',
     ]);
+    expect(due.value).toBe('15 May 2026');
     reply(req, stageSchema, stage());
     await settle();
     reply(backend.expectOne(`${BASE}/comments`), commentSchema.array(), []);

@@ -1,4 +1,3 @@
-import { DatePipe } from '@angular/common';
 import { HttpErrorResponse } from '@angular/common/http';
 import {
   ChangeDetectionStrategy,
@@ -14,7 +13,8 @@ import {
 import { MatButton } from '@angular/material/button';
 import { MatOption } from '@angular/material/core';
 import { MatDialog } from '@angular/material/dialog';
-import { MatFormField, MatHint, MatLabel } from '@angular/material/form-field';
+import { MatDatepicker, MatDatepickerInput, MatDatepickerToggle } from '@angular/material/datepicker';
+import { MatFormField, MatHint, MatLabel, MatSuffix } from '@angular/material/form-field';
 import { MatIcon } from '@angular/material/icon';
 import { MatInput } from '@angular/material/input';
 import { MatSelect } from '@angular/material/select';
@@ -22,11 +22,15 @@ import type { ProjectPage, Stage, StageAction, StageTransition } from '@trabeate
 import { firstValueFrom } from 'rxjs';
 import { errorMessage } from '../../../core/auth/api-error';
 import { Notice } from '../../../core/notice';
-import { ACTION_LABELS, STATE_LABELS } from '../project-labels';
+import { ACTION_LABELS, STATE_LABELS, STATE_MARKERS } from '../project-labels';
 import { ProjectsApi } from '../projects-api';
 import { DeliverablesPanel } from './deliverables-panel';
+import { ConfirmDialog, type ConfirmData } from '../../../shared/confirm-dialog/confirm-dialog';
 import { StageActionDialog, StageActionDialogData } from './stage-action-dialog';
 import { StageComments } from './stage-comments';
+import { fromIsoDay, toIsoDay } from '../../../shared/dates/firm-date-adapter';
+import { DayPipe, DayTimePipe, WaitedPipe } from '../../../shared/dates/app-dates';
+import { StateMarker } from '../../../shared/state-marker/state-marker';
 
 const ACTION_ORDER: readonly StageAction[] = ['start', 'submit', 'approve', 'return', 'reopen'];
 const DONE: Readonly<Record<StageAction, string>> = {
@@ -41,11 +45,18 @@ const DONE: Readonly<Record<StageAction, string>> = {
 @Component({
   selector: 'tb-stage-panel',
   imports: [
-    DatePipe,
+    StateMarker,
+    DayPipe,
+    DayTimePipe,
+    WaitedPipe,
     DeliverablesPanel,
     MatButton,
+    MatDatepicker,
+    MatDatepickerInput,
+    MatDatepickerToggle,
     MatFormField,
     MatHint,
+    MatSuffix,
     MatIcon,
     MatInput,
     MatLabel,
@@ -70,6 +81,7 @@ export class StagePanel {
   private readonly comments = viewChild(StageComments);
 
   protected readonly stateLabels = STATE_LABELS;
+  protected readonly markers = STATE_MARKERS;
   protected readonly actions = computed(() => ACTION_ORDER.filter((a) => this.stage().allowedActions.includes(a)));
   protected readonly manage = computed(() => this.project().abilities.manage);
   protected readonly work = computed(() => this.project().abilities.work);
@@ -90,6 +102,8 @@ export class StagePanel {
 
   protected readonly assigneeId = linkedSignal(() => this.stage().assignee?.id ?? '');
   protected readonly dueDate = linkedSignal(() => this.stage().dueDate ?? '');
+  protected readonly dueDateValue = computed(() => fromIsoDay(this.dueDate()));
+  protected readonly toIsoDay = toIsoDay;
   protected readonly assignmentChanged = computed(
     () => this.assigneeId() !== (this.stage().assignee?.id ?? '') || this.dueDate() !== (this.stage().dueDate ?? ''),
   );
@@ -112,6 +126,19 @@ export class StagePanel {
       const text = await firstValueFrom(ref.afterClosed());
       if (!text) return;
       body = action === 'return' ? { action, comment: text } : { action, reason: text };
+    } else if (action === 'approve') {
+      // Approving tells the engineer and closes the stage's files: ask once, naming what happens.
+      const ref = this.dialog.open<ConfirmDialog, ConfirmData, boolean>(ConfirmDialog, {
+        data: {
+          title: `Approve ${this.stage().title}?`,
+          message:
+            'The stage is marked approved, its files can no longer change and the engineer is told by e-mail. You can reopen it later, giving a reason.',
+          confirm: 'Approve stage',
+          danger: false,
+        },
+      });
+      if (!(await firstValueFrom(ref.afterClosed()))) return;
+      body = { action };
     } else {
       body = { action };
     }
