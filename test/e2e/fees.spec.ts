@@ -100,6 +100,7 @@ describe('fees from agreement to card payment, in Chromium', () => {
     await page.goto(`${base}/projects/${kestrel.id}?stage=column_layout`);
     await testId(page, 'stage-panel').waitFor({ timeout: 20_000 });
     await testId(page, 'action-approve').click();
+    await testId(page, 'confirm').click();
     await testId(page, 'stage-panel')
       .locator('[data-testid="stage-state"]')
       .filter({ hasText: 'Approved' })
