@@ -3,6 +3,7 @@ import * as m20261201000000 from './20261201000000_core';
 import * as m20261202000000 from './20261202000000_access';
 import * as m20261202000100 from './20261202000100_identity';
 import * as m20261210000000 from './20261210000000_stages';
+import * as m20261223000001 from './20261223000001_schemes';
 
 /** Every migration, by name, in the order they run. Add new ones here as well as in the folder. */
 export const migrations: Record<string, Knex.Migration> = {
@@ -10,4 +11,5 @@ export const migrations: Record<string, Knex.Migration> = {
   '20261202000000_access': m20261202000000,
   '20261202000100_identity': m20261202000100,
   '20261210000000_stages': m20261210000000,
+  '20261223000001_schemes': m20261223000001,
 };

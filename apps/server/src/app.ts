@@ -25,6 +25,7 @@ import type { Jobs } from './jobs';
 import { createNotices } from './notices/notices';
 import { outboxRoutes } from './outbox/outbox.routes';
 import { stageRoutes } from './stages/stages.routes';
+import { schemeRoutes } from './schemes/schemes.routes';
 import type { ObjectStore } from './storage';
 
 export interface AppDeps {
@@ -143,6 +144,7 @@ export function createApp({ config, db, logger, version = '0.1.0', store, jobs }
     ...stageRoutes(db, notices),
     ...deliverableRoutes(db, store, config.UPLOAD_MAX_BYTES ?? 1024 * 1024 * 1024),
     ...activityRoutes(db),
+    ...schemeRoutes(db),
     ...outboxRoutes(outboxUrlOf(config)),
   ];
 

@@ -4,3 +4,4 @@ export * from './health';
 export * from './auth';
 export * from './scheme';
 export * from './projects';
+export * from './schemes';
