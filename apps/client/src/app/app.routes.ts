@@ -56,6 +56,19 @@ export const routes: Routes = [
     loadComponent: () => import('./features/projects/project-form-page').then((m) => m.ProjectFormPage),
   },
   {
+    // Schemes are the firm's working files: clients are steered away here, and refused by the server.
+    path: 'projects/:projectId/schemes',
+    title: 'Schemes · Trabeate',
+    canActivate: [signedInGuard, roleGuard('principal', 'engineer')],
+    loadComponent: () => import('./features/planning/schemes-page').then((m) => m.SchemesPage),
+  },
+  {
+    path: 'projects/:projectId/schemes/:schemeId',
+    title: 'Planning · Trabeate',
+    canActivate: [signedInGuard, roleGuard('principal', 'engineer')],
+    loadComponent: () => import('./features/planning/planning-page').then((m) => m.PlanningPage),
+  },
+  {
     path: 'drawings',
     title: 'Drawings · Trabeate',
     canActivate: [signedInGuard],
