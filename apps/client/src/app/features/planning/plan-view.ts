@@ -10,6 +10,9 @@ interface Marker {
   y: number;
 }
 
+/** spacing of markers that share a spot, m on the plan */
+const MARKER_STEP_M = 0.95;
+
 const SHAPE_LABEL = { error: 'must fix', warning: 'worth a look', info: 'note' } as const;
 
 /**
@@ -252,9 +255,16 @@ export class PlanView {
   protected readonly geometry = computed(() => planGeometry(this.document()));
   protected readonly markers = computed<Marker[]>(() => {
     const out: Marker[] = [];
+    // Checks about the same place (a long span and the wide column spacing under it) would hide
+    // one another: each further marker at a spot steps along to the right.
+    const taken = new Map<string, number>();
     this.checks().forEach((check, index) => {
       const p = markerPoint(this.document(), this.geometry(), check.elements);
-      if (p) out.push({ index, check, ...p });
+      if (!p) return;
+      const spot = `${p.x.toFixed(2)},${p.y.toFixed(2)}`;
+      const n = taken.get(spot) ?? 0;
+      taken.set(spot, n + 1);
+      out.push({ index, check, x: p.x + n * MARKER_STEP_M, y: p.y });
     });
     return out;
   });

@@ -94,6 +94,9 @@ describe('PlanningPage', () => {
     const span = checks.find((c) => c.textContent?.includes('continuous span 8.4 m'));
     expect(span).toBeDefined();
     expect(all('[data-testid="marker-beam.span"]')).toHaveLength(1);
+    // no marker hides another: the span and the column spacing under it share a spot on the plan
+    const spots = all('.marker').map((m) => m.getAttribute('transform'));
+    expect(new Set(spots).size).toBe(spots.length);
 
     span!.click();
     await settle();
