@@ -63,6 +63,13 @@ export const routes: Routes = [
     loadComponent: () => import('./features/planning/schemes-page').then((m) => m.SchemesPage),
   },
   {
+    // Before `:schemeId`, so "compare" is not read as a scheme id.
+    path: 'projects/:projectId/schemes/compare',
+    title: 'Compare schemes · Trabeate',
+    canActivate: [signedInGuard, roleGuard('principal', 'engineer')],
+    loadComponent: () => import('./features/planning/compare-page').then((m) => m.ComparePage),
+  },
+  {
     path: 'projects/:projectId/schemes/:schemeId',
     title: 'Planning · Trabeate',
     canActivate: [signedInGuard, roleGuard('principal', 'engineer')],

@@ -23,7 +23,7 @@ describe('the engine worker protocol', () => {
     expect(reply.seq).toBe(3);
     // either the engine names the problem, or the fault comes back as a message
     if (reply.kind === 'result') expect(reply.result.ok).toBe(false);
-    else expect(reply.message).toEqual(expect.any(String));
+    else expect(reply).toEqual({ kind: 'failed', seq: 3, message: expect.any(String) });
   });
 
   it('the in-thread stand-in answers later, as a worker does, and not at all once stopped', async () => {
@@ -38,5 +38,15 @@ describe('the engine worker protocol', () => {
     port.terminate();
     await new Promise((r) => setTimeout(r, 0));
     expect(replies).toHaveLength(1);
+  });
+});
+
+describe('the engine worker protocol, comparing', () => {
+  it('answers a compare request with the two schemes side by side', () => {
+    const reply = handlePlanRequest({ kind: 'compare', seq: 4, a: doc(demoScheme()), b: doc(demoSchemeVariant()) });
+    expect(reply.kind).toBe('comparison');
+    if (reply.kind !== 'comparison') return;
+    expect(reply.seq).toBe(4);
+    expect(reply.comparison.differences.find((d) => d.item === 'columns')).toMatchObject({ a: 20, b: 19, delta: -1 });
   });
 });

@@ -1,5 +1,5 @@
-import { handlePlanRequest, type AnalyseRequest } from './plan-protocol';
+import { handlePlanRequest, type PlanRequest } from './plan-protocol';
 
-addEventListener('message', (event: MessageEvent<AnalyseRequest>) => {
+addEventListener('message', (event: MessageEvent<PlanRequest>) => {
   postMessage(handlePlanRequest(event.data));
 });

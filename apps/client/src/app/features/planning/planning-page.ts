@@ -88,7 +88,7 @@ export class PlanningPage {
       if (reply.kind === 'result') {
         this.engineFault.set(null);
         this.result.set(reply.result);
-      } else this.engineFault.set(reply.message);
+      } else if (reply.kind === 'failed') this.engineFault.set(reply.message);
     };
     effect(() => {
       const d = this.detail();

@@ -112,6 +112,14 @@ export class SchemesPage {
   protected readonly errorText = fieldErrorText;
   protected readonly asYouType = asYouType;
 
+  /** Up to two schemes picked for the side-by-side comparison, oldest pick first. */
+  protected readonly picked = signal<readonly string[]>([]);
+
+  protected pick(id: string): void {
+    const now = this.picked();
+    this.picked.set(now.includes(id) ? now.filter((x) => x !== id) : [...now, id].slice(-2));
+  }
+
   protected sorted(s: Sort): void {
     this.sort.set(s.active as SortKey);
     this.direction.set(s.direction === 'asc' ? 'asc' : 'desc');
