@@ -52,6 +52,20 @@ describe('planning a scheme, in Chromium', () => {
     await expect(testId(page, 'check-source').textContent()).resolves.toContain('common practice');
     await expect(page.locator('[data-beam].hl').count()).resolves.toBeGreaterThan(0);
     await shot(page, '2-scheme-b');
+  });
+
+  it('compares the two demo schemes and reads what drives the cost difference', async () => {
+    const page = engineer.page;
+    await page.goto(`${base}/projects/${DEMO.projects.kestrel.id}/schemes`);
+    await testId(page, 'pick').first().waitFor({ timeout: 20_000 });
+    for (const pick of await testId(page, 'pick').all()) await pick.click();
+    await testId(page, 'compare-link').click();
+    const summary = testId(page, 'compare-summary');
+    await summary.waitFor({ timeout: 30_000 });
+    const text = (await summary.textContent()) ?? '';
+    expect(text).toMatch(/1 column (fewer|more) than/);
+    expect(text).toMatch(/costs [\d,]+ EUR (more|less)/);
+    await shot(page, '3-compare');
     expect(engineer.outside).toEqual([]);
     expect(engineer.consoleErrors).toEqual([]);
   });
