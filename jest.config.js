@@ -38,8 +38,12 @@ module.exports = {
       setupFilesAfterEnv: ['<rootDir>/test/support/jest-setup-api.ts'],
     }),
     node('build', ['<rootDir>/test/build/**/*.spec.ts']),
-    node('lint', ['<rootDir>/test/static/lint.spec.ts'], { testTimeout: 300_000 }),
-    node('typecheck', ['<rootDir>/test/static/typecheck.spec.ts'], { testTimeout: 300_000 }),
+    node('lint', ['<rootDir>/test/static/lint.spec.ts'], {
+      setupFilesAfterEnv: ['<rootDir>/test/support/jest-timeout-static.ts'],
+    }),
+    node('typecheck', ['<rootDir>/test/static/typecheck.spec.ts'], {
+      setupFilesAfterEnv: ['<rootDir>/test/support/jest-timeout-static.ts'],
+    }),
     node('e2e', ['<rootDir>/test/e2e/**/*.spec.ts'], {
       setupFilesAfterEnv: ['<rootDir>/test/support/jest-timeout-e2e.ts'],
     }),

@@ -3,6 +3,9 @@ import * as m20261201000000 from './20261201000000_core';
 import * as m20261202000000 from './20261202000000_access';
 import * as m20261202000100 from './20261202000100_identity';
 import * as m20261210000000 from './20261210000000_stages';
+import * as m20261220000100 from './20261220000100_one_pending_invitation';
+import * as m20261220000400 from './20261220000400_identity_sign_in_throttle';
+import * as m20261221000000 from './20261221000000_drawings';
 import * as m20261223000001 from './20261223000001_schemes';
 
 /** Every migration, by name, in the order they run. Add new ones here as well as in the folder. */
@@ -11,5 +14,8 @@ export const migrations: Record<string, Knex.Migration> = {
   '20261202000000_access': m20261202000000,
   '20261202000100_identity': m20261202000100,
   '20261210000000_stages': m20261210000000,
+  '20261220000100_one_pending_invitation': m20261220000100,
+  '20261220000400_identity_sign_in_throttle': m20261220000400,
+  '20261221000000_drawings': m20261221000000,
   '20261223000001_schemes': m20261223000001,
 };

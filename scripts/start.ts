@@ -1,8 +1,13 @@
 // npm start: PostgreSQL, migrations and the demo seed on first run, the client build and the API,
 // all on loopback. Ctrl-C stops everything this started; data is kept for the next start.
+// Each fake runs in its own process and is restarted when it dies; every child exits when this
+// command dies, and the next start stops anything a crashed run still left (pid files in tmp/run).
 import path from 'node:path';
+import { createObjectStore, objectStoreConfigFrom, storageConfigSchema } from '../apps/server/src/storage';
+import { storeDemoDrawingFiles } from '../seeds/demo-drawings';
 import { CLIENT_DIST } from './lib/client-build';
 import { fakeServicesEnv, s3Service, smtpService } from './lib/fake-services';
+import { releaseRunDir, takeOverRunDir } from './lib/leftovers';
 import { Cluster } from './lib/postgres';
 import { log } from './lib/proc';
 import {
@@ -16,7 +21,16 @@ import {
   startAll,
 } from './lib/services';
 
+const RUN_DIR = path.resolve('tmp/run/start');
+
 async function main(): Promise<void> {
+  try {
+    await takeOverRunDir(RUN_DIR);
+  } catch (err) {
+    log('start', (err as Error).message);
+    process.exit(1);
+  }
+  const runDir = RUN_DIR;
   const cluster = new Cluster({ name: 'pg-dev', port: DEV_PORTS.postgres });
   const database = 'trabeate';
   // A fixed local secret keeps sessions across restarts of `npm start`; never used in production.
@@ -33,14 +47,21 @@ async function main(): Promise<void> {
     DEV_OUTBOX_URL: `http://127.0.0.1:${DEV_PORTS.smtpHttp}`,
   };
   const services = [
-    postgresService(cluster),
+    postgresService(cluster, { runDir }),
     databaseStep(cluster, database, { seed: true }),
     clientBuildStep(),
     // Kept under tmp/ so files and caught mail survive restarts, like the database.
-    s3Service({ port: DEV_PORTS.s3, directory: path.resolve('tmp/s3-dev') }),
-    smtpService({ port: DEV_PORTS.smtp, httpPort: DEV_PORTS.smtpHttp, directory: path.resolve('tmp/mail-dev') }),
-    identityService({ ...signIn.identity, LOG_LEVEL: process.env.LOG_LEVEL ?? 'info' }, DEV_PORTS.identity),
-    apiService(env, DEV_PORTS.api),
+    s3Service({ port: DEV_PORTS.s3, directory: path.resolve('tmp/s3-dev'), runDir }),
+    smtpService({
+      port: DEV_PORTS.smtp,
+      httpPort: DEV_PORTS.smtpHttp,
+      directory: path.resolve('tmp/mail-dev'),
+      runDir,
+    }),
+    identityService({ ...signIn.identity, LOG_LEVEL: process.env.LOG_LEVEL ?? 'info' }, DEV_PORTS.identity, {
+      runDir,
+    }),
+    apiService(env, DEV_PORTS.api, { runDir }),
   ];
 
   let stopAll: (() => Promise<void>) | undefined;
@@ -50,15 +71,24 @@ async function main(): Promise<void> {
     stopping = true;
     log('start', 'stopping…');
     await stopAll?.();
+    releaseRunDir(RUN_DIR);
     process.exit(code);
   };
   process.on('SIGINT', () => void stop(0));
   process.on('SIGTERM', () => void stop(0));
+  process.on('SIGHUP', () => void stop(0));
+  // A bug in this command must not leave the services running without it.
+  process.on('uncaughtException', (err) => {
+    log('start', `failed: ${err.stack ?? err.message}`);
+    void stop(1);
+  });
 
   try {
     stopAll = await startAll(services);
+    await storeDemoFiles(env);
   } catch (err) {
     log('start', `could not start: ${(err as Error).message}`);
+    releaseRunDir(RUN_DIR);
     process.exit(1);
   }
   log('start', '');
@@ -72,3 +102,14 @@ async function main(): Promise<void> {
 }
 
 void main();
+
+/** The demo register's PDFs live in S3, which is up only now; missing ones are put there. */
+async function storeDemoFiles(env: Record<string, string>): Promise<void> {
+  const store = createObjectStore(objectStoreConfigFrom(storageConfigSchema.parse(env)));
+  try {
+    const stored = await storeDemoDrawingFiles(store);
+    if (stored) log('start', `demo drawing files stored in S3: ${stored}`);
+  } finally {
+    store.close();
+  }
+}

@@ -22,6 +22,8 @@ import {
   type Service,
 } from './lib/services';
 
+// Only for the PostgreSQL watchdog's pid file; every child of this command exits with it.
+const RUN_DIR = path.resolve(`tmp/run/test-${process.pid}`);
 const SUITES = ['lint', 'typecheck', 'libs', 'client', 'api', 'build', 'e2e'] as const;
 type Suite = (typeof SUITES)[number];
 const NEEDS: Record<Suite, { db?: boolean; client?: boolean; api?: boolean }> = {
@@ -64,7 +66,7 @@ async function main(): Promise<number> {
     : undefined;
   const services: Service[] = [];
   if (cluster) {
-    services.push(postgresService(cluster));
+    services.push(postgresService(cluster, { runDir: RUN_DIR }));
     services.push(databaseStep(cluster, 'trabeate_template', { seed: false }));
     if (needs('api')) services.push(databaseStep(cluster, 'trabeate_e2e', { seed: true }));
   }
@@ -98,6 +100,7 @@ async function main(): Promise<number> {
   const cleanup = async () => {
     await stopAll?.();
     cluster?.remove();
+    rmSync(RUN_DIR, { recursive: true, force: true });
   };
   process.on('SIGINT', () => void cleanup().then(() => process.exit(130)));
   process.on('SIGTERM', () => void cleanup().then(() => process.exit(143)));
@@ -121,6 +124,8 @@ async function main(): Promise<number> {
     env.E2E_OUTBOX_URL = `http://127.0.0.1:${ports.smtpHttp}`;
     env.E2E_BASE_URL = `http://127.0.0.1:${ports.api}`;
     env.E2E_IDENTITY_URL = `http://127.0.0.1:${ports.identity}`;
+    // Lets a browser test give a new invitee an account at the local provider, as seeds/identity.ts does.
+    if (cluster) env.E2E_DATABASE_URL = cluster.url('trabeate_e2e');
   }
   const jestArgs = [
     'jest',

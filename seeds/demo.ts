@@ -2,6 +2,7 @@ import type { Knex } from 'knex';
 import { DEMO } from './demo-data';
 import { seedIdentityAccounts } from './identity';
 import { seedDemoSchemes } from './demo-schemes';
+import { seedDemoDrawings } from './demo-drawings';
 
 // The demo is a scenario of our own invention: a small structural consultancy in the fictional
 // town of Marrowby, its two client organisations and their projects. No real people or firms.
@@ -17,6 +18,7 @@ export async function seedDemo(db: Knex): Promise<boolean> {
   await seedMemberships(db);
   await seedDesignBasis(db);
   await seedStages(db);
+  await seedDemoDrawings(db);
   await seedIdentityAccounts(db);
   await seedDemoSchemes(db);
   return !existing;

@@ -1,58 +1,91 @@
-import type { FakeS3 } from '../fakes/s3';
-import type { FakeSmtp } from '../fakes/smtp';
+import { mkdtempSync, rmSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import path from 'node:path';
 import type { Service } from './services';
+import { supervise, type Supervised } from './supervisor';
+
+const FAKE_PROCESS = 'scripts/fakes/fake-process.ts';
+
+/** A local fake as a service: its own child process, restarted with backoff when it dies. */
+export type FakeService = Service & {
+  /** The fake's current process id (it changes when the fake is restarted). */
+  pid(): number | undefined;
+  /** How many times the fake was started again after it stopped unexpectedly. */
+  restarts(): number;
+};
 
 /**
- * The local S3 and SMTP fakes as services for the start and test commands. They run inside the
- * command's own process (no child), bound to 127.0.0.1 only.
+ * The local S3 and SMTP fakes as services for the start and test commands. Each runs in a child
+ * process of its own (scripts/fakes/fake-process.ts), bound to 127.0.0.1 only, so one failing
+ * cannot stop another or the command; the supervisor says which one died and restarts it on the
+ * same port and folder. With `runDir`, its pid is recorded for the next start (leftovers.ts).
  */
-export function s3Service(opts: {
-  port: number;
-  directory?: string;
-  bucket?: string;
-}): Service & { fake(): FakeS3 | undefined } {
-  let fake: FakeS3 | undefined;
-  return {
-    name: 's3',
-    fake: () => fake,
-    start: async () => {
-      const { startFakeS3 } = await import('../fakes/s3');
-      fake = await startFakeS3(opts);
-    },
-    ready: async () => {
-      // Any HTTP answer means it listens; the bucket was created before run() resolved.
-      const res = await fetch(`http://127.0.0.1:${fake?.port ?? opts.port}/`, { signal: AbortSignal.timeout(2000) });
-      if (res.status >= 500) throw new Error(`the S3 fake answered ${res.status}`);
-    },
-    stop: async () => {
-      await fake?.stop();
-      fake = undefined;
-    },
-  };
+export function s3Service(opts: { port: number; directory?: string; bucket?: string; runDir?: string }): FakeService {
+  let temporary: string | undefined;
+  return fakeService('s3', opts.runDir, () => {
+    // A restarted fake must find the files of the one before: the folder is chosen here, once.
+    const directory = opts.directory ?? (temporary = mkdtempSync(path.join(tmpdir(), 'trabeate-s3-')));
+    return {
+      options: { port: opts.port, directory, bucket: opts.bucket },
+      ready: async () => {
+        // Any HTTP answer means it listens; the bucket was created before it said ready.
+        const res = await fetch(`http://127.0.0.1:${opts.port}/`, { signal: AbortSignal.timeout(2000) });
+        if (res.status >= 500) throw new Error(`the S3 fake answered ${res.status}`);
+      },
+      cleanUp: () => {
+        if (temporary) rmSync(temporary, { recursive: true, force: true });
+        temporary = undefined;
+      },
+    };
+  });
 }
 
 export function smtpService(opts: {
   port: number;
   httpPort: number;
   directory?: string;
-}): Service & { fake(): FakeSmtp | undefined } {
-  let fake: FakeSmtp | undefined;
-  return {
-    name: 'smtp',
-    fake: () => fake,
-    start: async () => {
-      const { startFakeSmtp } = await import('../fakes/smtp');
-      fake = await startFakeSmtp(opts);
-    },
+  runDir?: string;
+}): FakeService {
+  return fakeService('smtp', opts.runDir, () => ({
+    options: { port: opts.port, httpPort: opts.httpPort, directory: opts.directory },
     ready: async () => {
-      const res = await fetch(`http://127.0.0.1:${fake?.httpPort ?? opts.httpPort}/health`, {
-        signal: AbortSignal.timeout(2000),
-      });
+      const res = await fetch(`http://127.0.0.1:${opts.httpPort}/health`, { signal: AbortSignal.timeout(2000) });
       if (!res.ok) throw new Error(`the mail outbox answered ${res.status}`);
     },
+    cleanUp: () => undefined,
+  }));
+}
+
+function fakeService(
+  kind: 's3' | 'smtp',
+  runDir: string | undefined,
+  prepare: () => { options: Record<string, unknown>; ready: () => Promise<void>; cleanUp: () => void },
+): FakeService {
+  let proc: Supervised | undefined;
+  let prepared: ReturnType<typeof prepare> | undefined;
+  return {
+    name: kind,
+    pid: () => proc?.pid(),
+    restarts: () => proc?.restarts() ?? 0,
+    start: async () => {
+      prepared = prepare();
+      proc = supervise({
+        name: kind,
+        args: ['--import', 'tsx', FAKE_PROCESS, kind, JSON.stringify(prepared.options)],
+        restart: true,
+        readyMessage: true,
+        runDir,
+      });
+      await proc.start();
+    },
+    ready: async () => {
+      await proc?.whenReady();
+      await prepared?.ready();
+    },
     stop: async () => {
-      await fake?.stop();
-      fake = undefined;
+      await proc?.stop(5000);
+      proc = undefined;
+      prepared?.cleanUp();
     },
   };
 }

@@ -1,6 +1,6 @@
 import { chmodSync, chownSync, existsSync, mkdirSync, readdirSync, rmSync, writeFileSync } from 'node:fs';
 import path from 'node:path';
-import { spawnSync } from 'node:child_process';
+import { spawn, spawnSync } from 'node:child_process';
 import { commandExists, isRoot, log, run } from './proc';
 
 // A project-local PostgreSQL cluster on loopback, from Debian's packages. As root the server runs
@@ -152,6 +152,34 @@ export class Cluster {
     } catch (err) {
       log('postgres', `stop: ${(err as Error).message}`);
     }
+  }
+
+  /**
+   * Starts a watchdog process that stops this cluster if the calling process dies without
+   * stopping it (scripts/lib/pg-watchdog.mjs); disarm() before a stop of one's own.
+   */
+  watchParent(runDir: string): { disarm(): void } {
+    const exe = path.join(this.bin, 'pg_ctl');
+    const stop = ['-D', this.dataDir, '-m', 'fast', '-w', 'stop'];
+    const command = isRoot ? ['runuser', '-u', 'postgres', '--', exe, ...stop] : [exe, ...stop];
+    const child = spawn(process.execPath, ['scripts/lib/pg-watchdog.mjs', JSON.stringify(command)], {
+      stdio: ['pipe', 'ignore', 'ignore'],
+      detached: true,
+    });
+    mkdirSync(runDir, { recursive: true });
+    writeFileSync(
+      path.join(runDir, `pg-watchdog-${this.opts.name}.pid`),
+      `${JSON.stringify({ pid: child.pid, args: ['scripts/lib/pg-watchdog.mjs'] })}\n`,
+    );
+    // Neither the watchdog nor its pipe may keep this process alive.
+    child.unref();
+    (child.stdin as unknown as { unref?: () => void }).unref?.();
+    return {
+      disarm: () => {
+        child.stdin?.end('disarm\n');
+        rmSync(path.join(runDir, `pg-watchdog-${this.opts.name}.pid`), { force: true });
+      },
+    };
   }
 
   /** Runs SQL through psql over the local socket as the cluster's superuser. */

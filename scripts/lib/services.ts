@@ -1,6 +1,9 @@
-import type { ChildProcess } from 'node:child_process';
 import { Cluster } from './postgres';
-import { httpOk, log, startChild, stopChild, waitFor } from './proc';
+import { httpOk, log, waitFor } from './proc';
+import { supervise, type Supervised } from './supervisor';
+
+/** Preloaded into the API and identity children: they stop when their parent goes away. */
+const EXIT_WITH_PARENT = ['--import', './scripts/lib/exit-with-parent.mjs'];
 
 /**
  * Every service the product needs locally, in start order. Each has a start, a readiness check
@@ -58,36 +61,45 @@ export function localSignIn(
   };
 }
 
-export function identityService(env: Record<string, string>, port: number): Service {
-  let child: ChildProcess | undefined;
+export function identityService(env: Record<string, string>, port: number, opts: { runDir?: string } = {}): Service {
+  let child: Supervised | undefined;
   return {
     name: 'identity',
     start: async () => {
-      child = startChild('identity', process.execPath, ['--import', 'tsx', 'apps/identity/src/main.ts'], {
+      child = supervise({
+        name: 'identity',
+        args: [...EXIT_WITH_PARENT, '--import', 'tsx', 'apps/identity/src/main.ts'],
         env: { ...process.env, ...env, IDENTITY_PORT: String(port) },
+        restart: false,
+        runDir: opts.runDir,
       });
-      child.once('exit', (code, signal) => {
-        if (code !== 0 && signal === null) log('identity', `exited with code ${code}`);
-      });
+      await child.start();
     },
     ready: () =>
       waitFor('the identity provider', async () => {
-        if (child?.exitCode !== null && child?.exitCode !== undefined)
-          throw new Error('the identity provider process exited');
+        if (child?.pid() === undefined) throw new Error('the identity provider process exited');
         return httpOk(`http://127.0.0.1:${port}/.well-known/openid-configuration`);
       }),
     stop: async () => {
-      if (child) await stopChild(child);
+      await child?.stop();
     },
   };
 }
 
-export function postgresService(cluster: Cluster): Service {
+export function postgresService(cluster: Cluster, opts: { runDir?: string } = {}): Service {
+  let watchdog: { disarm(): void } | undefined;
   return {
     name: 'postgres',
-    start: async () => cluster.start(),
+    start: async () => {
+      cluster.start();
+      // pg_ctl runs PostgreSQL as a daemon that would outlive a crashed start command.
+      if (opts.runDir) watchdog = cluster.watchParent(opts.runDir);
+    },
     ready: async () => undefined, // pg_ctl -w returns once connections are accepted
-    stop: async () => cluster.stop(),
+    stop: async () => {
+      watchdog?.disarm();
+      cluster.stop();
+    },
   };
 }
 
@@ -95,26 +107,32 @@ export function postgresService(cluster: Cluster): Service {
  * The API as a child process: from TypeScript through tsx (start, tests), or from the bundled
  * production build when `bundle` names it (benchmarks measure what production runs).
  */
-export function apiService(env: Record<string, string>, port: number, opts: { bundle?: string } = {}): Service {
-  let child: ChildProcess | undefined;
+export function apiService(
+  env: Record<string, string>,
+  port: number,
+  opts: { bundle?: string; runDir?: string } = {},
+): Service {
+  let child: Supervised | undefined;
   return {
     name: 'api',
     start: async () => {
       const args = opts.bundle ? ['--enable-source-maps', opts.bundle] : ['--import', 'tsx', 'apps/server/src/main.ts'];
-      child = startChild('api', process.execPath, args, {
+      child = supervise({
+        name: 'api',
+        args: [...EXIT_WITH_PARENT, ...args],
         env: { ...process.env, ...env, PORT: String(port), HOST: '127.0.0.1' },
+        restart: false,
+        runDir: opts.runDir,
       });
-      child.once('exit', (code, signal) => {
-        if (code !== 0 && signal === null) log('api', `exited with code ${code}`);
-      });
+      await child.start();
     },
     ready: () =>
       waitFor('the API', async () => {
-        if (child?.exitCode !== null && child?.exitCode !== undefined) throw new Error('the API process exited');
+        if (child?.pid() === undefined) throw new Error('the API process exited');
         return httpOk(`http://127.0.0.1:${port}/api/health`);
       }),
     stop: async () => {
-      if (child) await stopChild(child);
+      await child?.stop();
     },
   };
 }

@@ -11,6 +11,7 @@ import { testApp, type TestApp } from '../support/app';
 import { startFakeSmtp, tinyPdf } from '../support/fakes';
 import type { FakeSmtp } from '../../scripts/fakes/smtp';
 import { signIn, xsrfToken } from '../support/identity';
+import { REGISTER_IDS as REG, seedRegisterForMatrix } from '../support/drawings';
 
 // Each sign-in runs argon2 at the provider; with two workers a file's set-up takes a few seconds.
 jest.setTimeout(30_000);
@@ -166,7 +167,8 @@ const MATRIX: Record<string, Entry> = {
   },
   'GET /projects/:projectId/stages/:stageKey/comments': {
     path: `/projects/${KESTREL}/stages/column_layout/comments`,
-    expect: onProject(200, 200, 200),
+    // Review threads are the firm's: the project's client sees stage progress, not the notes.
+    expect: onProject(200, 200, 403),
   },
   'POST /projects/:projectId/stages/:stageKey/comments': {
     path: `/projects/${SPARE_PROJECT}/stages/column_layout/comments`,
@@ -175,7 +177,8 @@ const MATRIX: Record<string, Entry> = {
   },
   'GET /projects/:projectId/stages/:stageKey/deliverables': {
     path: `/projects/${KESTREL}/stages/beam_framing/deliverables`,
-    expect: onProject(200, 200, 200),
+    // Working files are the firm's; files reach clients as issued drawing revisions.
+    expect: onProject(200, 200, 403),
   },
   'POST /projects/:projectId/stages/:stageKey/deliverables': {
     path: `/projects/${SPARE_PROJECT}/stages/column_layout/deliverables`,
@@ -184,7 +187,7 @@ const MATRIX: Record<string, Entry> = {
   },
   'GET /projects/:projectId/deliverables/:deliverableId/download': {
     path: `/projects/${KESTREL}/deliverables/${SPARE_FILE}/download`,
-    expect: onProject(200, 200, 200),
+    expect: onProject(200, 200, 403),
   },
   'GET /projects/:projectId/activity': { path: `/projects/${KESTREL}/activity`, expect: onProject(200, 200, 200) },
   'GET /dev/outbox': { path: '/dev/outbox', expect: principalOnly(200) },
@@ -262,6 +265,106 @@ const MATRIX: Record<string, Entry> = {
       projectClient: 403,
       otherClient: 404,
     },
+  },
+  // The drawing register (rows made by seedRegisterForMatrix on Kestrel Yard).
+  'GET /drawing-settings': {
+    path: '/drawing-settings',
+    expect: { ...signedIn(200), projectClient: 403, otherClient: 403 },
+  },
+  'PUT /drawing-settings': {
+    path: '/drawing-settings',
+    body: () => ({ revisionScheme: 'iso19650', numberPattern: 'S-{seq:3}' }),
+    expect: principalOnly(200),
+  },
+  'GET /projects/:projectId/drawings': { path: `/projects/${KESTREL}/drawings`, expect: onProject(200, 200, 200) },
+  'POST /projects/:projectId/drawings': {
+    path: `/projects/${KESTREL}/drawings`,
+    body: (c) => ({ number: `MX-${c}`, title: 'Matrix', stageKey: 'stairs', sheetSize: 'A3', scale: '1:50' }),
+    expect: onProject(201, 201, 403),
+  },
+  'GET /projects/:projectId/drawings/next-number': {
+    path: `/projects/${KESTREL}/drawings/next-number`,
+    expect: onProject(200, 200, 403),
+  },
+  'GET /projects/:projectId/drawings/export.csv': {
+    path: `/projects/${KESTREL}/drawings/export.csv`,
+    expect: onProject(200, 200, 403),
+  },
+  'GET /projects/:projectId/drawings/export.pdf': {
+    path: `/projects/${KESTREL}/drawings/export.pdf`,
+    expect: onProject(200, 200, 403),
+  },
+  'GET /projects/:projectId/drawings/:drawingId': {
+    path: `/projects/${KESTREL}/drawings/${REG.drawing}`,
+    expect: onProject(200, 200, 200),
+  },
+  'GET /projects/:projectId/drawings/:drawingId/next-revision': {
+    path: `/projects/${KESTREL}/drawings/${REG.drawing}/next-revision`,
+    expect: onProject(200, 200, 403),
+  },
+  // The principal's new draft is still open when the engineer tries: the guard let both through.
+  'POST /projects/:projectId/drawings/:drawingId/revisions': {
+    path: `/projects/${KESTREL}/drawings/${REG.drawing}/revisions`,
+    body: () => ({ suitability: 'S3', purpose: 'comment', date: '2026-12-02' }),
+    expect: onProject(201, 409, 403),
+  },
+  'PATCH /projects/:projectId/revisions/:revisionId': {
+    path: `/projects/${KESTREL}/revisions/${REG.draft}`,
+    body: (c) => ({ description: `Edited by ${c}` }),
+    expect: onProject(200, 200, 403),
+  },
+  // The principal checks it; the engineer drew it and may not (and it is checked by then).
+  'POST /projects/:projectId/revisions/:revisionId/transitions': {
+    path: `/projects/${KESTREL}/revisions/${REG.toCheck}/transitions`,
+    body: () => ({ action: 'check' }),
+    expect: onProject(200, 409, 403),
+  },
+  'POST /projects/:projectId/revisions/:revisionId/files': {
+    path: `/projects/${KESTREL}/revisions/${REG.draft}/files?role=source`,
+    attach: (c) => ({ data: tinyPdf(), name: `matrix-${c}.pdf` }),
+    expect: onProject(201, 201, 403),
+  },
+  'GET /projects/:projectId/revisions/:revisionId/files/:fileId/download': {
+    path: `/projects/${KESTREL}/revisions/${REG.issued}/files/${REG.issuedFile}/download`,
+    expect: onProject(200, 200, 200),
+  },
+  'GET /projects/:projectId/transmittals': {
+    path: `/projects/${KESTREL}/transmittals`,
+    expect: onProject(200, 200, 200),
+  },
+  'POST /projects/:projectId/transmittals': {
+    path: `/projects/${KESTREL}/transmittals`,
+    body: () => ({
+      purpose: 'information',
+      revisionIds: [REG.approved],
+      contactIds: [DEMO.users.fenwickContact.id],
+    }),
+    expect: onProject(201, 403, 403),
+  },
+  'GET /projects/:projectId/transmittals/:transmittalId': {
+    path: `/projects/${KESTREL}/transmittals/${REG.transmittal}`,
+    expect: onProject(200, 200, 200),
+  },
+  'GET /projects/:projectId/transmittals/:transmittalId/sheet': {
+    path: `/projects/${KESTREL}/transmittals/${REG.transmittal}/sheet`,
+    expect: onProject(200, 200, 200),
+  },
+  'GET /projects/:projectId/transmittals/:transmittalId/zip': {
+    path: `/projects/${KESTREL}/transmittals/${REG.transmittal}/zip`,
+    expect: onProject(200, 200, 200),
+  },
+  'POST /projects/:projectId/transmittals/:transmittalId/acknowledge': {
+    path: `/projects/${KESTREL}/transmittals/${REG.transmittal}/acknowledge`,
+    expect: onProject(403, 403, 200),
+  },
+  'GET /projects/:projectId/transmittals/:transmittalId/downloads': {
+    path: `/projects/${KESTREL}/transmittals/${REG.transmittal}/downloads`,
+    expect: onProject(200, 403, 403),
+  },
+  // Public, but only with a valid signature: without one every caller gets 403 with the reason.
+  'GET /shared/transmittals/:transmittalId/:item': {
+    path: `/shared/transmittals/${REG.transmittal}/zip?r=${REG.transmittal}&e=4102444800&s=${'A'.repeat(43)}`,
+    expect: all(403),
   },
 };
 
@@ -361,6 +464,13 @@ describe('authorization matrix: every API route against every kind of caller', (
         }),
       );
     }
+    await seedRegisterForMatrix(t.db, t.store, {
+      firmId: DEMO.firm.id,
+      projectId: KESTREL,
+      engineerId: DEMO.users.engineerA.id,
+      principalId: DEMO.users.principal.id,
+      contactId: DEMO.users.fenwickContact.id,
+    });
     for (const name of Object.keys(CALLERS) as CallerName[]) agents[name] = await signedInAgent(name);
   });
   afterAll(async () => {
@@ -442,13 +552,21 @@ describe('what each caller sees', () => {
       work: true,
       manage: false,
       seeFinance: false,
+      seeInternal: true,
       pay: false,
       acknowledge: false,
     });
     expect((await detail(DEMO.users.principal)).finance).toEqual({ estimatedCost: 4_850_000, currency: 'EUR' });
     const client = await detail(DEMO.users.fenwickContact);
     expect(client.finance).toEqual({ estimatedCost: 4_850_000, currency: 'EUR' });
-    expect(client.abilities).toEqual({ work: false, manage: false, seeFinance: true, pay: true, acknowledge: true });
+    expect(client.abilities).toEqual({
+      work: false,
+      manage: false,
+      seeFinance: true,
+      seeInternal: false,
+      pay: true,
+      acknowledge: true,
+    });
   });
 
   it('says why when a visible project refuses an action', async () => {

@@ -51,15 +51,13 @@ describe('the core schema', () => {
     const firm = await t.db('firms').first();
     const org = await t.db('client_organisations').first();
     await expect(
-      t
-        .db('users')
-        .insert({
-          firm_id: firm.id,
-          email: 'x@example.test',
-          display_name: 'X',
-          firm_role: 'engineer',
-          client_organisation_id: org.id,
-        }),
+      t.db('users').insert({
+        firm_id: firm.id,
+        email: 'x@example.test',
+        display_name: 'X',
+        firm_role: 'engineer',
+        client_organisation_id: org.id,
+      }),
     ).rejects.toThrow(/users_one_kind/);
   });
 

@@ -2,14 +2,16 @@ import { createHash } from 'node:crypto';
 import { Readable } from 'node:stream';
 import { objectStoreConfigFrom, storageConfigSchema, type ObjectStore } from '../../apps/server/src/storage';
 import { generatedSha256, pdfLikeStream } from '../../scripts/bench/lib/generate';
+import type { FakeS3 } from '../../scripts/fakes/s3';
 import { fakeObjectStore } from '../support/fakes';
 
 describe('object store against the local S3 fake', () => {
   let store: ObjectStore;
+  let s3: FakeS3;
   let close: () => Promise<void>;
 
   beforeAll(async () => {
-    ({ store, close } = await fakeObjectStore());
+    ({ store, s3, close } = await fakeObjectStore());
   });
   afterAll(() => close());
 
@@ -75,6 +77,21 @@ describe('object store against the local S3 fake', () => {
     ).rejects.toThrow();
     expect(await store.head('aborted/big.pdf')).toBeNull();
     expect(await store.list('aborted/')).toEqual([]);
+    // The multipart upload itself is aborted: no part files are left in the fake's folder.
+    expect(await s3.pendingUploads()).toEqual([]);
+    expect(await store.listIncompleteUploads()).toEqual([]);
+  });
+
+  it('a key with a segment over 255 bytes is refused with an S3 error, and the fake keeps serving', async () => {
+    // 90 CJK characters: 270 bytes in UTF-8, more than a file name on disk may hold.
+    const key = `long/${'梁'.repeat(90)}.pdf`;
+    await expect(
+      store.putStream(key, Readable.from([Buffer.from('%PDF-1.4\n')]), { contentType: 'application/pdf' }),
+    ).rejects.toMatchObject({ name: 'KeyTooLongError' });
+    await store.putStream('long/after.pdf', Readable.from([Buffer.from('%PDF-1.4\n')]), {
+      contentType: 'application/pdf',
+    });
+    expect(await store.head('long/after.pdf')).toMatchObject({ size: 9 });
   });
 
   it('removing an object makes it disappear, and removing it again is not an error', async () => {

@@ -7,6 +7,7 @@ import { createLogger } from '../../apps/server/src/core/logger';
 import { errorHandler } from '../../apps/server/src/core/errors';
 import type { ObjectStore } from '../../apps/server/src/storage';
 import { deliverableUpload, safeFileName, uploadedFile } from '../../apps/server/src/uploads';
+import type { FakeS3 } from '../../scripts/fakes/s3';
 import { fakeObjectStore, tinyPdf, windowsProgram, zipOf } from '../support/fakes';
 
 const LIMIT = 3 * 1024 * 1024;
@@ -16,7 +17,7 @@ function uploadApp(store: ObjectStore): Express {
   const app = express();
   app.post(
     '/deliverables',
-    deliverableUpload({ store, maxBytes: LIMIT, keyFor: (_req, f) => `deliverables/${randomUUID()}/${f.safeName}` }),
+    deliverableUpload({ store, maxBytes: LIMIT, keyFor: () => `deliverables/${randomUUID()}` }),
     (req, res) => {
       res.status(201).json({ file: uploadedFile(req), note: req.body.note ?? null });
     },
@@ -27,11 +28,12 @@ function uploadApp(store: ObjectStore): Express {
 
 describe('deliverable uploads stream into object storage and are checked on the way', () => {
   let store: ObjectStore;
+  let s3: FakeS3;
   let close: () => Promise<void>;
   let app: Express;
 
   beforeAll(async () => {
-    ({ store, close } = await fakeObjectStore());
+    ({ store, s3, close } = await fakeObjectStore());
     app = uploadApp(store);
   });
   afterAll(() => close());
@@ -166,7 +168,7 @@ describe('deliverable uploads stream into object storage and are checked on the 
       .attach('file', tinyPdf(), { filename: '../../etc/passwd.pdf' });
     expect(res.status).toBe(201);
     expect(res.body.file.safeName).toBe('passwd.pdf');
-    expect(res.body.file.key).toMatch(/^deliverables\/[0-9a-f-]{36}\/passwd\.pdf$/);
+    expect(res.body.file.key).toMatch(/^deliverables\/[0-9a-f-]{36}$/);
     await store.remove(res.body.file.key);
 
     expect(safeFileName('../../etc/passwd')).toBe('passwd');
@@ -183,14 +185,26 @@ describe('deliverable uploads stream into object storage and are checked on the 
     expect(safeFileName('Plan — Geschoss 2 (rev B).pdf')).toBe('Plan — Geschoss 2 (rev B).pdf');
   });
 
+  it('long names are capped by UTF-8 bytes, not characters, without splitting a character', () => {
+    // 90 CJK characters are 270 bytes: under a 180-character cap, yet over the 255 bytes a file system takes.
+    const cjk = safeFileName(`${'梁柱配筋'.repeat(23)}.pdf`);
+    expect(Buffer.byteLength(cjk, 'utf8')).toBeLessThanOrEqual(180);
+    expect(cjk).toBe(`${'梁柱配筋'.repeat(14)}梁柱.pdf`); // 58 × 3 bytes + ".pdf"
+    // A letter with a combining mark that has no precomposed form (q + U+0307, 3 bytes) stays whole.
+    expect(safeFileName(`${'q\u0307'.repeat(100)}.dwg`)).toBe(`${'q\u0307'.repeat(58)}.dwg`);
+    // Four-byte characters (an emoji) are never cut in half.
+    const emoji = safeFileName(`${'🏗'.repeat(60)}.pdf`);
+    expect(emoji).toBe(`${'🏗'.repeat(44)}.pdf`);
+  });
+
   it('a request without a file is refused with 400', async () => {
     const res = await request(app).post('/deliverables').field('note', 'no file');
     expect(res.status).toBe(400);
     expect(res.body.error.code).toBe('bad_request');
   });
 
-  it('when the client hangs up after parts were sent, the multipart upload is abandoned and nothing is stored', async () => {
-    // A larger limit, so more than one 8 MiB part is on its way when the line drops.
+  it('when the client hangs up 40 MiB into a 100 MiB upload, the multipart upload is aborted and no part is left', async () => {
+    // A larger limit, so several 8 MiB parts are stored when the line drops.
     const keys: string[] = [];
     const errors: unknown[] = [];
     const big = express();
@@ -198,9 +212,9 @@ describe('deliverable uploads stream into object storage and are checked on the 
       '/deliverables',
       deliverableUpload({
         store,
-        maxBytes: 64 * 1024 * 1024,
-        keyFor: (_r, f) => {
-          const key = `deliverables/${randomUUID()}/${f.safeName}`;
+        maxBytes: 128 * 1024 * 1024,
+        keyFor: () => {
+          const key = `deliverables/${randomUUID()}`;
           keys.push(key);
           return key;
         },
@@ -222,7 +236,7 @@ describe('deliverable uploads stream into object storage and are checked on the 
       path: '/deliverables',
       headers: {
         'content-type': `multipart/form-data; boundary=${boundary}`,
-        'content-length': String(40 * 1024 * 1024),
+        'content-length': String(100 * 1024 * 1024),
       },
     });
     req.on('error', () => undefined);
@@ -230,14 +244,21 @@ describe('deliverable uploads stream into object storage and are checked on the 
       `--${boundary}\r\nContent-Disposition: form-data; name="file"; filename="half.pdf"\r\nContent-Type: application/pdf\r\n\r\n`,
     );
     req.write(tinyPdf());
-    for (let i = 0; i < 12; i++) await new Promise((r) => req.write(Buffer.alloc(1024 * 1024, 0x41), r));
+    for (let i = 0; i < 40; i++) await new Promise((r) => req.write(Buffer.alloc(1024 * 1024, 0x41), r));
     await new Promise((r) => setTimeout(r, 500));
+    // Parts are in storage at this point: the check below can see them.
+    expect((await s3.pendingUploads()).some((u) => u.parts > 0)).toBe(true);
     req.destroy();
     for (let i = 0; i < 50 && errors.length === 0; i++) await new Promise((r) => setTimeout(r, 100));
     expect(keys).toHaveLength(1);
     expect(errors).toHaveLength(1);
     expect(await store.head(keys[0])).toBeNull();
     expect(await stored()).toEqual([]);
+    // Not only no object: no parts either (they would stay in storage, unseen, forever). Multer
+    // answers a dropped request at once; the abort follows when the part in flight is done.
+    for (let i = 0; i < 150 && (await s3.pendingUploads()).length > 0; i++)
+      await new Promise((r) => setTimeout(r, 100));
+    expect(await s3.pendingUploads()).toEqual([]);
     server.closeAllConnections();
     await new Promise((r) => server.close(r));
   });

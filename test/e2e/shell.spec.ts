@@ -14,11 +14,14 @@ describe('the shell in Chromium, signed out', () => {
   });
   afterAll(() => browser?.close());
 
-  it('shows the status page with the database up, and nothing loads from outside', async () => {
+  it('shows the status page with every dependency up, and nothing loads from outside', async () => {
     await page.goto(`${base}/status`);
-    const db = page.locator('[data-testid=db-status]');
+    const db = page.locator('[data-testid=status-database]');
     await db.waitFor({ state: 'visible', timeout: 20_000 });
-    await expect(db.textContent()).resolves.toMatch(/^\s*up\s*$/i);
+    // The e2e API runs with the S3 and SMTP fakes and its own job queue: all four answer.
+    for (const name of ['database', 'jobQueue', 'objectStorage', 'mailRelay']) {
+      await expect(page.locator(`[data-testid=status-${name}]`).textContent()).resolves.toMatch(/^\s*up\s*$/i);
+    }
     await page.screenshot({ path: path.join(SCREENSHOTS, 'status.png'), fullPage: true });
     expect(browser.outside).toEqual([]);
     expect(browser.consoleErrors).toEqual([]);
@@ -36,7 +39,7 @@ describe('the shell in Chromium, signed out', () => {
   it('keeps the navigation reachable on a phone-sized screen', async () => {
     await page.setViewportSize({ width: 390, height: 800 });
     await page.goto(`${base}/status`);
-    await page.locator('[data-testid=db-status]').waitFor({ timeout: 20_000 });
+    await page.locator('[data-testid=status-database]').waitFor({ timeout: 20_000 });
     await page.screenshot({ path: path.join(SCREENSHOTS, 'status-narrow.png') });
     await page
       .getByRole('button', { name: /menu|navigation/i })

@@ -35,7 +35,8 @@ export const TEST_MAIL_RETRY: RetryPolicy = { retryLimit: 5, retryDelay: 1, retr
 export async function testApp(
   opts: {
     seed?: boolean;
-    identity?: boolean;
+    /** true, or the provider's test options (its throttle, say). */
+    identity?: boolean | Parameters<typeof startIdentity>[1];
     config?: Partial<AppDeps['config']>;
     logger?: AppDeps['logger'];
     /** Run the mail worker against an SMTP server on this loopback port. */
@@ -63,7 +64,9 @@ export async function testApp(
   try {
     await jobs.start();
     if (opts.seed) await seedDemo(db);
-    identity = opts.identity ? await startIdentity(db) : undefined;
+    identity = opts.identity
+      ? await startIdentity(db, typeof opts.identity === 'object' ? opts.identity : {})
+      : undefined;
   } catch (err) {
     // pg-boss keeps timers running; a set-up that fails must not leave them to outlive the test file.
     await close();

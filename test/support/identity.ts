@@ -5,6 +5,7 @@ import request from 'supertest';
 import type TestAgent from 'supertest/lib/agent';
 import type { Db } from '../../apps/server/src/db/db';
 import { createIdentityProvider } from '../../apps/identity/src/provider';
+import type { ThrottlePolicy } from '../../apps/identity/src/throttle';
 import { DEMO_PASSWORD } from '../../seeds/identity';
 
 /** Where the API under test says it lives; nothing listens there, tests only take the path. */
@@ -17,7 +18,10 @@ export interface TestIdentity {
 }
 
 /** The real local identity provider, in this process on a free port, on the test file's database. */
-export async function startIdentity(db: Db, opts: { loginRateLimit?: number } = {}): Promise<TestIdentity> {
+export async function startIdentity(
+  db: Db,
+  opts: { loginRateLimit?: number; throttle?: Partial<ThrottlePolicy> } = {},
+): Promise<TestIdentity> {
   // Assigned once the provider is built; the server must listen first to know its own issuer URL.
   // eslint-disable-next-line prefer-const
   let handler: ((req: never, res: never) => void) | undefined;
@@ -29,6 +33,7 @@ export async function startIdentity(db: Db, opts: { loginRateLimit?: number } = 
     issuer,
     logger: pino({ level: process.env.TEST_LOG_LEVEL ?? 'silent' }),
     loginRateLimit: opts.loginRateLimit ?? 1000,
+    throttle: opts.throttle,
     clients: [
       {
         ...TEST_CLIENT,

@@ -6,6 +6,7 @@ import pino from 'pino';
 import { z } from 'zod';
 import { pruneExpired } from './adapter';
 import { createIdentityProvider } from './provider';
+import { pruneFailures } from './throttle';
 
 const list = z.string().transform((s) =>
   s
@@ -37,6 +38,7 @@ async function main(): Promise<void> {
   const db = knex({ client: 'pg', connection: env.IDENTITY_DATABASE_URL, pool: { min: 0, max: 5 } });
   const issuer = env.IDENTITY_ISSUER ?? `http://127.0.0.1:${env.IDENTITY_PORT}`;
   await pruneExpired(db);
+  await pruneFailures(db);
   const { app } = await createIdentityProvider({
     db,
     issuer,

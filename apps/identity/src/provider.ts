@@ -7,6 +7,7 @@ import type { Logger } from 'pino';
 import { PgAdapter } from './adapter';
 import { checkPassword, findAccountById } from './accounts';
 import { loadSecrets } from './keys';
+import { accountKey, claimTry, DEFAULT_THROTTLE, forgiveTry, waitInWords, type ThrottlePolicy } from './throttle';
 import { loginPage, logoutPage, messagePage } from './pages';
 
 export interface IdentityClient {
@@ -23,9 +24,14 @@ export interface IdentityProviderOptions {
   issuer: string;
   clients: IdentityClient[];
   logger: Logger;
-  /** Password attempts per address in 15 minutes. */
+  /** Failed password tries per address in 15 minutes (successful ones are not counted). */
   loginRateLimit?: number;
+  /** How failed passwords for one account slow the next try (DEFAULT_THROTTLE unless given). */
+  throttle?: Partial<ThrottlePolicy>;
 }
+
+const BAD_LINK =
+  'The address of this page is not valid (a "%" in it is not followed by two hex digits). Go back to Trabeate and choose “Sign in” again.';
 
 const PAGE_HEADERS: Record<string, string> = {
   'Content-Security-Policy':
@@ -45,6 +51,7 @@ export async function createIdentityProvider(
   opts: IdentityProviderOptions,
 ): Promise<{ app: Express; provider: Provider }> {
   const { db, issuer, logger } = opts;
+  const throttle: ThrottlePolicy = { ...DEFAULT_THROTTLE, ...opts.throttle };
   const { jwk, cookieKeys } = await loadSecrets(db);
   const clientNames = new Map(opts.clients.map((c) => [c.clientId, c.clientName ?? 'Trabeate']));
 
@@ -138,6 +145,16 @@ export async function createIdentityProvider(
   app.disable('x-powered-by');
   const send = (res: Response, status: number, html: string): void =>
     void res.status(status).set(PAGE_HEADERS).type('html').send(html);
+  // The provider's own routes (Koa) would answer such a path 404 or fail decoding its parameters;
+  // one check here gives every page the same plain 400.
+  app.use((req, res, next) => {
+    try {
+      decodeURIComponent(req.path);
+    } catch {
+      return void send(res, 400, messagePage('This link is damaged', BAD_LINK));
+    }
+    next();
+  });
   const expired = (res: Response): void =>
     void send(
       res,
@@ -170,9 +187,12 @@ export async function createIdentityProvider(
   app.post(
     '/interaction/:uid/login',
     express.urlencoded({ extended: false, limit: '10kb' }),
+    // A backstop against one address trying many accounts; an office signing in successfully
+    // behind one address never meets it. Each account has its own growing wait (below).
     rateLimit({
       windowMs: 15 * 60_000,
-      limit: opts.loginRateLimit ?? 20,
+      limit: opts.loginRateLimit ?? 100,
+      skipSuccessfulRequests: true,
       standardHeaders: 'draft-8',
       legacyHeaders: false,
       handler: (req, res) => {
@@ -219,9 +239,28 @@ export async function createIdentityProvider(
           loginPage({ uid, csrf: expected, email, clientName, error: 'Enter your e-mail address and password.' }),
         );
       }
+      // The same words and the same waits whether or not an account has this e-mail address.
+      const key = accountKey(email);
+      const claim = await claimTry(db, key, throttle);
+      if (!claim.allowed) {
+        logger.warn({ uid }, 'sign-in refused: this account is waiting after failed passwords');
+        res.setHeader('Retry-After', String(Math.max(1, Math.ceil(claim.waitSeconds))));
+        return send(
+          res,
+          429,
+          loginPage({
+            uid,
+            csrf: expected,
+            email,
+            clientName,
+            error: `Too many wrong passwords for this e-mail address. Wait ${waitInWords(claim.waitSeconds)}, then try again. The password was not checked.`,
+          }),
+        );
+      }
       const account = await checkPassword(db, email, password);
       if (!account) {
-        logger.info({ uid }, 'sign-in failed: e-mail and password do not match');
+        logger.info({ uid, failures: claim.failures }, 'sign-in failed: e-mail and password do not match');
+        if (claim.waitSeconds > 0) res.setHeader('Retry-After', String(Math.ceil(claim.waitSeconds)));
         return send(
           res,
           401,
@@ -230,10 +269,15 @@ export async function createIdentityProvider(
             csrf: expected,
             email,
             clientName,
-            error: 'That e-mail address and password do not match.',
+            error:
+              'That e-mail address and password do not match.' +
+              (claim.waitSeconds > 0
+                ? ` Wait ${waitInWords(claim.waitSeconds)} before the next try: each wrong password makes the wait longer.`
+                : ''),
           }),
         );
       }
+      await forgiveTry(db, key);
       logger.info({ accountId: account.id }, 'signed in at the identity provider');
       await provider.interactionFinished(
         req,

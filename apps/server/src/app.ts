@@ -1,4 +1,4 @@
-import { randomUUID } from 'node:crypto';
+import { createHmac, randomUUID } from 'node:crypto';
 import { existsSync } from 'node:fs';
 import path from 'node:path';
 import { randomBytes } from 'node:crypto';
@@ -21,17 +21,21 @@ import { peopleRoutes } from './people/people.routes';
 import { projectRoutes } from './projects/projects.routes';
 import { activityRoutes } from './activity/activity.routes';
 import { deliverableRoutes } from './deliverables/deliverables.routes';
+import { drawingRoutes } from './drawings/drawings.routes';
+import { transmittalRoutes } from './transmittals/transmittals.routes';
 import type { Jobs } from './jobs';
 import { createNotices } from './notices/notices';
 import { outboxRoutes } from './outbox/outbox.routes';
 import { stageRoutes } from './stages/stages.routes';
 import { schemeRoutes } from './schemes/schemes.routes';
-import type { ObjectStore } from './storage';
+import { storageUnavailableHandler, type ObjectStore } from './storage';
 
 export interface AppDeps {
   config: Pick<Config, 'CLIENT_DIST' | 'TRUST_PROXY'> &
     Partial<AuthConfig> &
-    Partial<Pick<Config, 'NODE_ENV' | 'UPLOAD_MAX_BYTES' | 'DEV_OUTBOX_URL' | 'MAIL_OUTBOX_URL'>>;
+    Partial<Pick<Config, 'NODE_ENV' | 'UPLOAD_MAX_BYTES' | 'DEV_OUTBOX_URL' | 'MAIL_OUTBOX_URL'>> &
+    /** The relay the health check greets; without SMTP_HOST it reports the mail relay as not set up. */
+    Partial<Pick<Config, 'SMTP_HOST' | 'SMTP_PORT' | 'SMTP_SECURE'>>;
   db: Db;
   logger: Logger;
   version?: string;
@@ -129,22 +133,50 @@ export function createApp({ config, db, logger, version = '0.1.0', store, jobs }
   const notices = createNotices(jobs, publicUrl, logger);
 
   const routes = [
-    route('get', '/health', 'public', healthHandler(db, version)),
+    route(
+      'get',
+      '/health',
+      'public',
+      healthHandler({
+        db,
+        version,
+        store,
+        jobs,
+        mailRelay: config.SMTP_HOST
+          ? { host: config.SMTP_HOST, port: config.SMTP_PORT ?? 25, secure: config.SMTP_SECURE ?? false }
+          : undefined,
+      }),
+    ),
     ...authRoutes({
       db,
       oidc,
       publicUrl,
       absoluteHours,
-      rateLimit: signInRateLimit(db, config.SIGN_IN_RATE_LIMIT ?? 30),
+      rateLimit: signInRateLimit(db, config.SIGN_IN_RATE_LIMIT),
       issueCsrfToken: (req, res, overwrite) => void csrf.generateCsrfToken(req, res, { overwrite }),
       clearCsrfToken: (res) => void res.clearCookie(CSRF_COOKIE, { path: '/' }),
     }),
-    ...peopleRoutes(db, { publicUrl, invitationTtlDays: config.INVITATION_TTL_DAYS ?? 14, notices }),
+    ...peopleRoutes(db, {
+      publicUrl,
+      invitationTtlDays: config.INVITATION_TTL_DAYS ?? 14,
+      // Invitation links are derived from it, so the same link can be sent again.
+      linkSecret: secrets[0],
+      notices,
+    }),
     ...projectRoutes(db),
     ...stageRoutes(db, notices),
     ...deliverableRoutes(db, store, config.UPLOAD_MAX_BYTES ?? 1024 * 1024 * 1024),
     ...activityRoutes(db),
     ...schemeRoutes(db),
+    ...drawingRoutes(db, store, config.UPLOAD_MAX_BYTES ?? 1024 * 1024 * 1024),
+    ...transmittalRoutes({
+      db,
+      store,
+      notices,
+      publicUrl,
+      // Outside recipients' download links are signed with a key derived from the session secret.
+      linkSecret: createHmac('sha256', secrets[0]).update('trabeate transmittal links').digest(),
+    }),
     ...outboxRoutes(outboxUrlOf(config)),
   ];
 
@@ -155,6 +187,7 @@ export function createApp({ config, db, logger, version = '0.1.0', store, jobs }
     sessionMiddleware(db, {
       secrets,
       idleMinutes: config.SESSION_IDLE_MINUTES ?? 60,
+      touchSeconds: config.SESSION_TOUCH_SECONDS ?? 300,
       absoluteHours,
       secureCookies,
     }),
@@ -184,6 +217,7 @@ export function createApp({ config, db, logger, version = '0.1.0', store, jobs }
     });
   }
 
+  app.use(storageUnavailableHandler);
   app.use(errorHandler(logger));
   return app;
 }

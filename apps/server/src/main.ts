@@ -3,6 +3,7 @@ import { createApp } from './app';
 import { ConfigError, LOCAL_DEFAULTS, loadConfig } from './core/config';
 import { createJobs } from './jobs';
 import { pruneExpired, PRUNE_CRON, PRUNE_JOB } from './maintenance/prune';
+import { sweepIncompleteUploads, UPLOAD_SWEEP_CRON, UPLOAD_SWEEP_JOB } from './maintenance/sweep-uploads';
 import { createMailTransport } from './mail';
 import { createObjectStore, objectStoreConfigFrom } from './storage';
 import { createLogger } from './core/logger';
@@ -37,7 +38,16 @@ async function main(): Promise<void> {
   await jobs.every(PRUNE_JOB, PRUNE_CRON, async () => {
     logger.info(await pruneExpired(db), 'pruned expired sessions and sign-in records');
   });
-  const app = createApp({ config, db, logger, store, jobs });
+  await jobs.every(UPLOAD_SWEEP_JOB, UPLOAD_SWEEP_CRON, async () => {
+    logger.info(await sweepIncompleteUploads(store), 'aborted incomplete uploads older than a day');
+  });
+  const app = createApp({
+    config: { ...config, SMTP_HOST: config.SMTP_HOST ?? LOCAL_DEFAULTS.SMTP_HOST },
+    db,
+    logger,
+    store,
+    jobs,
+  });
   const server = createServer(app);
   server.listen(config.PORT, config.HOST, () => {
     const address = server.address();

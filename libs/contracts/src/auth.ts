@@ -111,6 +111,8 @@ export const projectAbilitiesSchema = z.object({
   work: z.boolean(),
   manage: z.boolean(),
   seeFinance: z.boolean(),
+  /** Review threads and working (deliverable) files: the firm's staff only. */
+  seeInternal: z.boolean(),
   pay: z.boolean(),
   acknowledge: z.boolean(),
 });

@@ -5,3 +5,5 @@ export * from './auth';
 export * from './scheme';
 export * from './projects';
 export * from './schemes';
+export * from './errors';
+export * from './drawings';

@@ -93,8 +93,9 @@ export const stageSchema = z.object({
   late: z.boolean(),
   submittedAt: z.iso.datetime().nullable(),
   approvedAt: z.iso.datetime().nullable(),
-  deliverableCount: z.number().int(),
-  commentCount: z.number().int(),
+  /** Null for callers who may not see the firm's working files and review thread (clients). */
+  deliverableCount: z.number().int().nullable(),
+  commentCount: z.number().int().nullable(),
   /** The transitions the caller may take now (the server decides; the client only shows them). */
   allowedActions: z.array(z.enum(['start', 'submit', 'approve', 'return', 'reopen'])),
 });
@@ -201,10 +202,21 @@ export const deliverableSchema = z.object({
 });
 export type Deliverable = z.infer<typeof deliverableSchema>;
 
+export const activityObjectTypeSchema = z.enum([
+  'project',
+  'stage',
+  'deliverable',
+  'comment',
+  'membership',
+  'drawing',
+  'revision',
+  'transmittal',
+]);
+
 export const activityQuerySchema = z.object({
   page: z.coerce.number().int().min(1).default(1),
   pageSize: z.coerce.number().int().min(1).max(100).default(50),
-  objectType: z.enum(['project', 'stage', 'deliverable', 'comment', 'membership']).optional(),
+  objectType: activityObjectTypeSchema.optional(),
   stageKey: stageKeySchema.optional(),
   actorId: id.optional(),
 });
@@ -216,7 +228,7 @@ export const activitySchema = z.object({
   actor: personRef.nullable(),
   /** Dotted verb, e.g. project.created, stage.submitted, deliverable.uploaded, comment.added, membership.added. */
   action: z.string(),
-  objectType: z.enum(['project', 'stage', 'deliverable', 'comment', 'membership']),
+  objectType: activityObjectTypeSchema,
   objectId: z.string(),
   stageKey: stageKeySchema.nullable(),
   /** One readable sentence for the log, e.g. "Tomas Ekwueme submitted Column layout for review". */

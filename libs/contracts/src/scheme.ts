@@ -31,6 +31,8 @@ export const designBasisSchema = z.object({
   storeys: z.number().int().min(1).max(200),
   storeyHeightM: positive,
   slabThicknessMm: positive.optional(),
+  /** EN 1992-1-1 §3.1.6(1) αcc; recommended 1.0 (the engine's default), a national annex may choose 0.8 to 1.0 */
+  alphaCc: z.number().min(0.8).max(1).optional(),
   beamWidthMm: positive,
   rates: unitRatesSchema,
   limitOverrides: z.record(z.string(), nonNegative).optional(),

@@ -2,17 +2,46 @@
 // storey by storey, footings against the site, checks, quantities and cost.
 import type { BeamModel, Support } from './beam';
 import { prepareBeam, PreparedBeam } from './beam';
-import { check, Check, CheckList, PassedRule, columnSpacingChecks, columnWallChecks, pointLoadChecks, RULES, spanChecks, stairChecks } from './checks';
-import { CAUTION, codeDefaults, Combination, concreteModulusMPa, beamDepthRule, Limits, resolveLimits } from './codes';
+import {
+  check,
+  Check,
+  CheckList,
+  PassedRule,
+  columnSpacingChecks,
+  columnWallChecks,
+  pointLoadChecks,
+  RULES,
+  spanChecks,
+  stairChecks,
+} from './checks';
+import {
+  CAUTION,
+  codeDefaults,
+  columnCapacityKN,
+  Combination,
+  concreteModulusMPa,
+  beamDepthRule,
+  Limits,
+  resolveLimits,
+} from './codes';
 import { ArrangementCache, envelopeParts, loadPart, LoadPart, MemberEnvelope } from './envelope';
 import { isolatedFooting, IsolatedFooting, roundUp } from './footings';
 import { BeamLine, columnPlan, deriveLayout, Layout, SpanKind } from './layout';
 import { levelLoads, LevelLoads, PanelLoad, SecondaryLoad, slabShapes } from './loads';
 import type { CodeFamily, Problem, Scheme } from './model';
 import { costOf, Cost, Quantities, QuantityTally } from './quantities';
-import { boundaryOptions, BoundaryOptions, FootingSite, overlappingFootings, OverlapCombined } from './site';
+import {
+  boundaryOptions,
+  BoundaryOptions,
+  FootingSite,
+  LineClearance,
+  overlappingFootings,
+  OverlapCombined,
+  propertyLineClearances,
+} from './site';
 import { beamDepth, BeamSize, columnSize, slabSizes, SlabSize } from './sizing';
 import { validateScheme } from './validate';
+import { StructuralInputError } from './errors';
 
 export type LevelKind = 'floor' | 'roof';
 
@@ -70,7 +99,14 @@ export interface SchemeResult {
   passed: PassedRule[];
   loads: {
     slabThicknessMm: number;
-    levels: { kind: LevelKind; count: number; slabDeadKPa: number; liveKPa: number; panels: PanelLoad[]; secondaries: SecondaryLoad[] }[];
+    levels: {
+      kind: LevelKind;
+      count: number;
+      slabDeadKPa: number;
+      liveKPa: number;
+      panels: PanelLoad[];
+      secondaries: SecondaryLoad[];
+    }[];
     columns: ColumnLoads[];
   };
   beamLines: BeamLineResult[];
@@ -123,7 +159,8 @@ function tributaries(layout: Layout): Map<string, { area: number; lengths: { lin
     l.nodes.forEach((n, i) => {
       if (!n.columnId) return;
       const left = i > 0 ? (l.nodes[i - 1].columnId ? (n.s - l.nodes[i - 1].s) / 2 : n.s - l.nodes[i - 1].s) : 0;
-      const right = i + 1 < l.nodes.length ? (l.nodes[i + 1].columnId ? (l.nodes[i + 1].s - n.s) / 2 : l.nodes[i + 1].s - n.s) : 0;
+      const right =
+        i + 1 < l.nodes.length ? (l.nodes[i + 1].columnId ? (l.nodes[i + 1].s - n.s) / 2 : l.nodes[i + 1].s - n.s) : 0;
       const e = w.get(n.columnId) ?? { wx: 0, wy: 0, lengths: [] };
       if (l.runs === 'x') e.wx = Math.max(e.wx, left + right);
       else e.wy = Math.max(e.wy, left + right);
@@ -143,6 +180,28 @@ function tributaries(layout: Layout): Map<string, { area: number; lengths: { lin
 export function analyseScheme(scheme: Scheme): SchemeResult {
   const problems = validateScheme(scheme);
   if (problems.length) return emptyResult(scheme, problems);
+  try {
+    return analyseValid(scheme);
+  } catch (e) {
+    // a helper refusing a derived figure (a span or a load beyond its range) is the scheme's
+    // problem, not a crash; anything else is a bug and propagates
+    if (e instanceof StructuralInputError)
+      return emptyResult(
+        scheme,
+        e.problems.map((p) => ({
+          ...p,
+          path: `derived.${p.path}`,
+          message: `a figure derived from the scheme is out of range: ${p.message}`,
+        })),
+      );
+    throw e;
+  }
+}
+
+/** Longest beam span between columns the engine plans, m. */
+export const MAX_SPAN_M = 30;
+
+function analyseValid(scheme: Scheme): SchemeResult {
   const b = scheme.basis;
   const family = b.codeFamily;
   const defaults = codeDefaults(family);
@@ -153,9 +212,27 @@ export function analyseScheme(scheme: Scheme): SchemeResult {
   const fy = b.steelMPa;
   const layout = deriveLayout(scheme);
   const N = b.storeys;
+  const spanProblems: Problem[] = [];
+  for (const l of layout.lines)
+    for (const m of l.members)
+      if (m.lengthM > MAX_SPAN_M)
+        spanProblems.push({
+          path: `grid.${l.gridLineId}`,
+          elementId: m.id,
+          field: 'span',
+          message: `beam span ${m.lengthM.toFixed(2)} m is beyond the ${MAX_SPAN_M} m the engine plans (accepted: up to ${MAX_SPAN_M} m between columns)`,
+        });
+  if (spanProblems.length) return emptyResult(scheme, spanProblems);
 
   // slab
-  const slabPanels = slabSizes(family, layout, fy, limits.slabOneWayAspect.value, limits.slabCoverToSteelMm.value, limits.slabMinThicknessMm.value);
+  const slabPanels = slabSizes(
+    family,
+    layout,
+    fy,
+    limits.slabOneWayAspect.value,
+    limits.slabCoverToSteelMm.value,
+    limits.slabMinThicknessMm.value,
+  );
   const slabRequired = slabPanels.reduce((m, p) => Math.max(m, p.requiredMm), limits.slabMinThicknessMm.value);
   const slabT = b.slabThicknessMm ?? roundUp(slabRequired, 10);
 
@@ -167,13 +244,18 @@ export function analyseScheme(scheme: Scheme): SchemeResult {
   };
   const lineDepth = new Map<string, number>();
   for (const l of layout.lines) {
-    const d = l.specifiedDepthMm ?? roundUp(Math.max(slabT + 100, ...l.members.map((m) => spanDepthOverall(m.kind, m.lengthM))), 25);
+    const d =
+      l.specifiedDepthMm ??
+      roundUp(Math.max(slabT + 100, ...l.members.map((m) => spanDepthOverall(m.kind, m.lengthM))), 25);
     lineDepth.set(l.id, d);
   }
   const secDepth = new Map<string, number>();
   const secWidth = new Map<string, number>();
   for (const s of layout.secondaries) {
-    secDepth.set(s.beam.id, s.beam.depthMm ?? roundUp(Math.max(slabT + 100, spanDepthOverall('simple', s.lengthM)), 25));
+    secDepth.set(
+      s.beam.id,
+      s.beam.depthMm ?? roundUp(Math.max(slabT + 100, spanDepthOverall('simple', s.lengthM)), 25),
+    );
     secWidth.set(s.beam.id, s.beam.widthMm ?? b.beamWidthMm);
   }
   const E = concreteModulusMPa(family, fck).value * 1000; // kN/m²
@@ -188,7 +270,13 @@ export function analyseScheme(scheme: Scheme): SchemeResult {
   }
 
   // levels: every floor below the roof is alike; the roof differs (imposed load, no walls above)
-  const kinds: { kind: LevelKind; count: number }[] = N >= 2 ? [{ kind: 'floor', count: N - 1 }, { kind: 'roof', count: 1 }] : [{ kind: 'roof', count: 1 }];
+  const kinds: { kind: LevelKind; count: number }[] =
+    N >= 2
+      ? [
+          { kind: 'floor', count: N - 1 },
+          { kind: 'roof', count: 1 },
+        ]
+      : [{ kind: 'roof', count: 1 }];
   const shapes = slabShapes(layout, limits.slabOneWayAspect.value);
   const levels = new Map<LevelKind, LevelLoads>();
   for (const k of kinds) {
@@ -215,24 +303,55 @@ export function analyseScheme(scheme: Scheme): SchemeResult {
   }
 
   const checks = new CheckList();
-  const { beamLines, colR, designMoment } = analyseLevels(layout, kinds, levels, prepared, shapeParts, lineDepth, combos, checks);
+  const { beamLines, colR, designMoment } = analyseLevels(
+    layout,
+    kinds,
+    levels,
+    prepared,
+    shapeParts,
+    lineDepth,
+    combos,
+    checks,
+  );
 
   // beam sizes
   const beams: BeamSize[] = [];
   for (const l of layout.lines) {
     for (const m of l.members) {
       const M = designMoment.get(m.id) ?? 0;
-      const d = beamDepth(family, m.kind, m.lengthM, l.widthMm, M, fck, fy, cover);
+      const d = beamDepth(family, m.kind, m.lengthM, l.widthMm, M, fck, fy, cover, { alphaCc: b.alphaCc });
       beams.push({
-        memberId: m.id, lineId: l.id, spanM: m.lengthM, condition: m.kind, widthMm: l.widthMm,
-        fromSpanDepthMm: d.fromSpanDepthMm, spanDepthSource: d.spanDepthSource, designMomentKNm: M, fromMomentMm: d.fromMomentMm,
-        momentSource: d.momentSource, governs: d.governs, adoptedDepthMm: d.adoptedDepthMm, providedDepthMm: l.specifiedDepthMm,
+        memberId: m.id,
+        lineId: l.id,
+        spanM: m.lengthM,
+        condition: m.kind,
+        widthMm: l.widthMm,
+        fromSpanDepthMm: d.fromSpanDepthMm,
+        spanDepthSource: d.spanDepthSource,
+        spanDepthKind: d.spanDepthKind,
+        designMomentKNm: M,
+        fromMomentMm: d.fromMomentMm,
+        momentSource: d.momentSource,
+        momentKind: d.momentKind,
+        governs: d.governs,
+        adoptedDepthMm: d.adoptedDepthMm,
+        providedDepthMm: l.specifiedDepthMm,
       });
     }
   }
 
   // column loads storey by storey, and by tributary area as a cross-check
-  const { columnRows, colSizes, footingRows, sites } = columnPhase(scheme, layout, levels, colR, lineDepth, slabT, gamma, combos, limits);
+  const { columnRows, colSizes, footingRows, sites, uplift } = columnPhase(
+    scheme,
+    layout,
+    levels,
+    colR,
+    lineDepth,
+    slabT,
+    gamma,
+    combos,
+    limits,
+  );
 
   // overall load factor, to quote strap moments factored as well as at service
   let sumFactored = 0;
@@ -242,17 +361,71 @@ export function analyseScheme(scheme: Scheme): SchemeResult {
     sumService += f.serviceKN;
   }
   const ratio = sumService > 0 ? sumFactored / sumService : 1.5;
-  const boundary = boundaryOptions(scheme.boundary, layout, sites, b.bearingPressureKPa, limits.footingAllowance.value, ratio);
-  const combined = overlappingFootings(sites, limits.footingMinGapM.value, b.bearingPressureKPa, limits.footingAllowance.value);
+  const boundary = boundaryOptions(
+    scheme.boundary,
+    layout,
+    sites,
+    b.bearingPressureKPa,
+    limits.footingAllowance.value,
+    ratio,
+  );
+  const combined = overlappingFootings(
+    sites,
+    limits.footingMinGapM.value,
+    b.bearingPressureKPa,
+    limits.footingAllowance.value,
+  );
 
   // checks
-  for (const list of [spanChecks(layout, limits), columnSpacingChecks(scheme, layout, limits), columnWallChecks(scheme, layout), pointLoadChecks(layout, limits), stairChecks(scheme, limits)]) {
+  for (const u of uplift)
+    checks.push({
+      ruleId: RULES.columnUplift,
+      severity: 'error',
+      status: 'fail',
+      elements: [u.columnId],
+      message: `column ${u.columnId} is pulled up by ${(-u.serviceKN).toFixed(1)} kN (service) in the lowest storey; its footing must hold it down`,
+      value: u.serviceKN,
+      limit: 0,
+      unit: 'kN',
+      sense: 'min',
+      source: 'statics',
+      sourceKind: 'derived',
+    });
+  for (const list of [
+    spanChecks(layout, limits),
+    columnSpacingChecks(scheme, layout, limits),
+    columnWallChecks(scheme, layout),
+    pointLoadChecks(layout, limits),
+    stairChecks(scheme, limits),
+  ]) {
     for (const c of list) checks.push(c);
   }
-  sizeChecks(checks, limits, b.storeyHeightM, slabT, slabPanels, beams, colSizes, boundary, combined);
+  sizeChecks(
+    checks,
+    limits,
+    b.storeyHeightM,
+    b.slabThicknessMm ?? null,
+    slabPanels,
+    beams,
+    colSizes,
+    boundary,
+    combined,
+    { family, fck, fy, alphaCc: b.alphaCc },
+    propertyLineClearances(scheme.boundary, sites),
+  );
 
   // quantities
-  const { quantities, summary } = schemeQuantities(scheme, layout, slabT, beams, colSizes, footingRows, secDepth, secWidth, limits);
+  const { quantities, summary } = schemeQuantities(
+    scheme,
+    layout,
+    slabT,
+    beams,
+    colSizes,
+    footingRows,
+    secDepth,
+    secWidth,
+    limits,
+  );
   const cost = costOf(quantities, b.rates);
 
   const split = checks.result();
@@ -272,12 +445,24 @@ export function analyseScheme(scheme: Scheme): SchemeResult {
       slabThicknessMm: slabT,
       levels: kinds.map((k) => {
         const lv = levels.get(k.kind) as LevelLoads;
-        return { kind: k.kind, count: k.count, slabDeadKPa: lv.slabDeadKPa, liveKPa: lv.liveKPa, panels: lv.panels, secondaries: lv.secondaries };
+        return {
+          kind: k.kind,
+          count: k.count,
+          slabDeadKPa: lv.slabDeadKPa,
+          liveKPa: lv.liveKPa,
+          panels: lv.panels,
+          secondaries: lv.secondaries,
+        };
       }),
       columns: columnRows,
     },
     beamLines,
-    sizes: { slab: { adoptedMm: slabT, providedMm: b.slabThicknessMm ?? null, panels: slabPanels }, beams, columns: colSizes, footings: footingRows },
+    sizes: {
+      slab: { adoptedMm: slabT, providedMm: b.slabThicknessMm ?? null, panels: slabPanels },
+      beams,
+      columns: colSizes,
+      footings: footingRows,
+    },
     footings: { boundary, combined },
     quantities,
     cost,
@@ -316,12 +501,33 @@ function analyseLevels(
     for (const l of layout.lines) {
       const p = prepared.get(l.id) as PreparedBeam;
       if (!p.ok) {
-        checks.push({ ruleId: 'beam.unstable', severity: 'error', status: 'fail', elements: [l.id], message: `beam line ${l.label} is not held up by its columns`, value: 0, limit: 1, unit: '', sense: 'min', source: 'statics', sourceKind: 'derived' });
+        checks.push({
+          ruleId: 'beam.unstable',
+          severity: 'error',
+          status: 'fail',
+          elements: [l.id],
+          message: `beam line ${l.label} is not held up by its columns`,
+          value: 0,
+          limit: 1,
+          unit: '',
+          sense: 'min',
+          source: 'statics',
+          sourceKind: 'derived',
+        });
         continue;
       }
       const shape = shapeParts.get(l.id) as LoadPart;
       const extra = loadPart(p, lv.extraDead.get(l.id) ?? []);
-      const env = envelopeParts(p, [[shape, lv.slabDeadKPa], [extra, 1]], [[shape, lv.liveKPa]], combos, arrangementCache);
+      const env = envelopeParts(
+        p,
+        [
+          [shape, lv.slabDeadKPa],
+          [extra, 1],
+        ],
+        [[shape, lv.liveKPa]],
+        combos,
+        arrangementCache,
+      );
       l.nodes.forEach((n, i) => {
         if (n.columnId) addR(n.columnId, k.kind, env.deadReactionsKN[i], env.liveReactionsKN[i]);
       });
@@ -355,7 +561,13 @@ function analyseLevels(
           serviceDeflectionMm: e.serviceDeflectionMm,
           serviceDeflectionAtM: e.serviceDeflectionAtM,
         })),
-        reactions: l.nodes.map((n, i) => ({ s: n.s, columnId: n.columnId, deadKN: env.deadReactionsKN[i], liveKN: env.liveReactionsKN[i], maxFactoredKN: env.maxFactoredReactionsKN[i] })),
+        reactions: l.nodes.map((n, i) => ({
+          s: n.s,
+          columnId: n.columnId,
+          deadKN: env.deadReactionsKN[i],
+          liveKN: env.liveReactionsKN[i],
+          maxFactoredKN: env.maxFactoredReactionsKN[i],
+        })),
         patternsTried: env.patternsTried,
       });
     }
@@ -374,43 +586,188 @@ function sizeChecks(
   checks: CheckList,
   limits: Limits,
   storeyHeightM: number,
-  slabT: number,
+  givenSlabMm: number | null,
   slabPanels: SlabSize[],
   beams: BeamSize[],
   colSizes: ColumnSizes[],
   boundary: BoundaryOptions[],
   combined: OverlapCombined[],
+  mat: { family: CodeFamily; fck: number; fy: number; alphaCc?: number },
+  clearances: LineClearance[],
 ): void {
-  const steel = limits.columnSteelRatio.value;
-  for (const p of slabPanels) {
-    const lim = { value: p.requiredMm, unit: 'mm', source: p.source, kind: p.kind };
-    checks.push(check(RULES.slabThickness, 'error', [p.panelId], () => `slab ${p.panelId} (${p.spanning}, ${p.lxM.toFixed(2)} × ${p.lyM.toFixed(2)} m): ${slabT} mm against ${p.requiredMm} mm needed`, slabT, lim, 'min'));
+  // a derived slab meets its own requirement by construction: only a given thickness is checked
+  if (givenSlabMm !== null) {
+    for (const p of slabPanels) {
+      const lim = { value: p.requiredMm, unit: 'mm', source: p.source, kind: p.kind };
+      checks.push(
+        check(
+          RULES.slabThickness,
+          'error',
+          [p.panelId],
+          () =>
+            `slab ${p.panelId} (${p.spanning}, ${p.lxM.toFixed(2)} × ${p.lyM.toFixed(2)} m): ${givenSlabMm} mm against ${p.requiredMm} mm needed`,
+          givenSlabMm,
+          lim,
+          'min',
+        ),
+      );
+    }
   }
   const headroom = limits.headroomUnderBeamMinM;
   for (const bs of beams) {
     const depth = bs.providedDepthMm ?? bs.adoptedDepthMm;
     if (bs.providedDepthMm !== null) {
-      const lim = { value: bs.adoptedDepthMm, unit: 'mm', source: bs.governs === 'moment' ? bs.momentSource : bs.spanDepthSource, kind: 'code' as const };
-      checks.push(check(RULES.beamDepth, 'error', [bs.memberId], () => `${bs.memberId}: ${bs.providedDepthMm} mm deep against ${bs.adoptedDepthMm} mm needed (${bs.governs} governs)`, bs.providedDepthMm, lim, 'min'));
+      const moment = bs.governs === 'moment';
+      const lim = {
+        value: bs.adoptedDepthMm,
+        unit: 'mm',
+        source: moment ? bs.momentSource : bs.spanDepthSource,
+        kind: moment ? bs.momentKind : bs.spanDepthKind,
+      };
+      checks.push(
+        check(
+          RULES.beamDepth,
+          'error',
+          [bs.memberId],
+          () =>
+            `${bs.memberId}: ${bs.providedDepthMm} mm deep against ${bs.adoptedDepthMm} mm needed (${bs.governs} governs)`,
+          bs.providedDepthMm,
+          lim,
+          'min',
+        ),
+      );
     }
     const clear = storeyHeightM - depth / 1000;
-    checks.push(check(RULES.beamHeadroom, 'warning', [bs.memberId], () => `${bs.memberId}: ${clear.toFixed(2)} m clear under a ${depth} mm beam`, clear, headroom, 'min'));
+    checks.push(
+      check(
+        RULES.beamHeadroom,
+        'warning',
+        [bs.memberId],
+        () => `${bs.memberId}: ${clear.toFixed(2)} m clear under a ${depth} mm beam`,
+        clear,
+        headroom,
+        'min',
+      ),
+    );
   }
-  checks.push(check(RULES.columnSteel, 'error', [], () => `assumed column steel ${(steel * 100).toFixed(2)} % (at least ${(limits.columnSteelRatioMin.value * 100).toFixed(1)} %)`, steel, limits.columnSteelRatioMin, 'min'));
-  checks.push(check(RULES.columnSteel, 'error', [], () => `assumed column steel ${(steel * 100).toFixed(2)} % (at most ${(limits.columnSteelRatioMax.value * 100).toFixed(1)} %)`, steel, limits.columnSteelRatioMax, 'max'));
+  // the steel the given section needs for the lowest storey's load, against the code's maximum
+  const maxRatio = limits.columnSteelRatioMax;
   for (const cs of colSizes) {
     const pu = cs.utilisation[0] * cs.providedCapacityKN;
-    const lim = { value: cs.providedCapacityKN, unit: 'kN', source: cs.source, kind: 'code' as const };
-    checks.push(check(RULES.columnCapacity, 'error', [cs.columnId], () => `column ${cs.columnId} (${cs.providedMm[0]} × ${cs.providedMm[1]} mm) carries ${pu.toFixed(0)} kN in the lowest storey against ${cs.providedCapacityKN.toFixed(0)} kN; ${cs.requiredSideMm[0]} mm square would do`, pu, lim, 'max'));
+    const need = requiredSteelRatio(mat, cs.providedMm, pu, maxRatio.value);
+    const shown =
+      need > maxRatio.value ? `more than ${(maxRatio.value * 100).toFixed(1)} %` : `${(need * 100).toFixed(2)} %`;
+    const floor =
+      need < limits.columnSteelRatioMin.value
+        ? ` (the minimum ${(limits.columnSteelRatioMin.value * 100).toFixed(1)} % governs)`
+        : '';
+    checks.push(
+      check(
+        RULES.columnSteel,
+        'error',
+        [cs.columnId],
+        () =>
+          `column ${cs.columnId} (${cs.providedMm[0]} × ${cs.providedMm[1]} mm) needs ${shown} steel for ${pu.toFixed(0)} kN in the lowest storey${floor}`,
+        need,
+        maxRatio,
+        'max',
+      ),
+    );
   }
-  for (const o of boundary) {
-    const lim = { value: o.distanceToLineM, unit: 'm', source: `property line ${o.propertyLine} (scheme)`, kind: 'project' as const };
-    checks.push({ ...check(RULES.footingLine, 'warning', [o.columnId], () => `the isolated footing of ${o.columnId} would cross property line ${o.propertyLine} by ${o.crossingM.toFixed(2)} m; see the footing options`, o.distanceToLineM + o.crossingM, lim, 'max'), status: 'fail' });
+  for (const cs of colSizes) {
+    const pu = cs.utilisation[0] * cs.providedCapacityKN;
+    // IS 456 cl. 39.3 and ACI §22.4.2 are formulas of the code; the EN value is worked from its clauses
+    const lim = {
+      value: cs.providedCapacityKN,
+      unit: 'kN',
+      source: cs.source,
+      kind: mat.family === 'EN1992' ? ('derived' as const) : ('code' as const),
+    };
+    checks.push(
+      check(
+        RULES.columnCapacity,
+        'error',
+        [cs.columnId],
+        () =>
+          `column ${cs.columnId} (${cs.providedMm[0]} × ${cs.providedMm[1]} mm) carries ${pu.toFixed(0)} kN in the lowest storey against ${cs.providedCapacityKN.toFixed(0)} kN; ${cs.requiredSideMm[0]} mm square would do`,
+        pu,
+        lim,
+        'max',
+      ),
+    );
+  }
+  // every column near a property line: how far its isolated pad reaches toward the line against
+  // the distance to the line (passes when the pad stays inside the plot)
+  const options = new Map(boundary.map((x) => [`${x.columnId}\u0000${x.propertyLine}`, x]));
+  for (const c of clearances) {
+    const lim = {
+      value: c.distanceToLineM,
+      unit: 'm',
+      source: `distance to property line ${c.propertyLine} (scheme)`,
+      kind: 'project' as const,
+    };
+    const o = options.get(`${c.columnId}\u0000${c.propertyLine}`);
+    checks.push(
+      check(
+        RULES.footingLine,
+        'warning',
+        [c.columnId],
+        () =>
+          o
+            ? `the isolated footing of ${c.columnId} would cross property line ${c.propertyLine} by ${o.crossingM.toFixed(2)} m; see the footing options`
+            : `the isolated footing of ${c.columnId} reaches ${c.reachM.toFixed(2)} m toward property line ${c.propertyLine}, ${c.distanceToLineM.toFixed(2)} m away`,
+        c.reachM,
+        lim,
+        'max',
+      ),
+    );
   }
   for (const o of combined) {
-    checks.push(check(RULES.footingOverlap, 'warning', [...o.columnIds], () => `the footings of ${o.columnIds.join(' and ')} ${o.gapM < 0 ? 'overlap' : 'leave ' + o.gapM.toFixed(2) + ' m'}; a combined footing ${o.lengthM.toFixed(1)} × ${o.adoptedWidthM.toFixed(1)} m serves both`, o.gapM, limits.footingMinGapM, 'min'));
+    checks.push(
+      check(
+        RULES.footingOverlap,
+        'warning',
+        [...o.columnIds],
+        () =>
+          `the footings of ${o.columnIds.join(' and ')} ${o.gapM < 0 ? 'overlap' : 'leave ' + o.gapM.toFixed(2) + ' m'}; a combined footing ${o.lengthM.toFixed(1)} × ${o.adoptedWidthM.toFixed(1)} m serves both`,
+        o.gapM,
+        limits.footingMinGapM,
+        'min',
+      ),
+    );
   }
+}
 
+/**
+ * Steel ratio (fraction of the gross area) a column section (mm) needs for an axial load (kN),
+ * by bisection on the family's capacity formula; above `cap` returns a value just over cap.
+ */
+function requiredSteelRatio(
+  mat: { family: CodeFamily; fck: number; fy: number; alphaCc?: number },
+  sec: [number, number],
+  loadKN: number,
+  cap: number,
+): number {
+  const cap2 = Math.min(0.1, cap * 1.5);
+  const capacity = (r: number) =>
+    columnCapacityKN(mat.family, sec[0], sec[1], mat.fck, mat.fy, r, { alphaCc: mat.alphaCc }).value;
+  if (mat.family !== 'EN1992') {
+    // IS 456 cl. 39.3 and ACI §22.4.2 are linear in the steel area: solve directly
+    const c0 = capacity(0);
+    const c1 = capacity(1e-3);
+    const r = c1 > c0 ? ((loadKN - c0) / (c1 - c0)) * 1e-3 : cap2;
+    return Math.min(cap2, Math.max(0, r));
+  }
+  if (capacity(0) >= loadKN) return 0;
+  if (capacity(cap2) < loadKN) return cap2;
+  let lo = 0,
+    hi = cap2;
+  for (let it = 0; it < 40; it++) {
+    const mid = (lo + hi) / 2;
+    if (capacity(mid) >= loadKN) hi = mid;
+    else lo = mid;
+  }
+  return hi;
 }
 
 /** Quantities by member type (m³, kg, m²) and the summary figures the comparison uses. */
@@ -461,18 +818,33 @@ function schemeQuantities(
       tally.add('columns', w * d * b.storeyHeightM, 2 * (w + d) * b.storeyHeightM);
     }
   }
-  for (const f of footingRows) tally.add('footings', f.adoptedSideM ** 2 * f.thicknessM, 4 * f.adoptedSideM * f.thicknessM);
+  for (const f of footingRows)
+    tally.add('footings', f.adoptedSideM ** 2 * f.thicknessM, 4 * f.adoptedSideM * f.thicknessM);
   for (const f of scheme.stairs) {
-    const R = f.riserMm / 1000, T = f.treadMm / 1000;
+    const R = f.riserMm / 1000,
+      T = f.treadMm / 1000;
     const incl = f.risers * Math.sqrt(R * R + T * T);
-    tally.add('stairs', f.widthM * (incl * 0.15 + (f.risers * R * T) / 2) * N, f.widthM * incl * N + f.risers * R * f.widthM * N);
+    tally.add(
+      'stairs',
+      f.widthM * (incl * 0.15 + (f.risers * R * T) / 2) * N,
+      f.widthM * incl * N + f.risers * R * f.widthM * N,
+    );
   }
   const quantities = tally.finish(limits, [
     'Reinforcement from typical kg/m³ ratios per member type (common practice), not a bar schedule.',
     'Beam lengths are centre-line lengths; beam concrete below the slab only; stairs with a 150 mm waist (common practice).',
     'Footings are priced as isolated pads; the boundary and combined options are listed for choice.',
   ]);
-  return { quantities, summary: { columns: scheme.columns.length, beamSpans: spans, beamLengthM: beamLength, longestSpanM: longest, deepestBeamMm: deepest } };
+  return {
+    quantities,
+    summary: {
+      columns: scheme.columns.length,
+      beamSpans: spans,
+      beamLengthM: beamLength,
+      longestSpanM: longest,
+      deepestBeamMm: deepest,
+    },
+  };
 }
 
 /** Column loads per storey (kN), column sections, isolated footings, and the footing sites. */
@@ -486,7 +858,13 @@ function columnPhase(
   gamma: number,
   combos: Combination[],
   limits: Limits,
-): { columnRows: ColumnLoads[]; colSizes: ColumnSizes[]; footingRows: SchemeResult['sizes']['footings']; sites: FootingSite[] } {
+): {
+  columnRows: ColumnLoads[];
+  colSizes: ColumnSizes[];
+  footingRows: SchemeResult['sizes']['footings'];
+  sites: FootingSite[];
+  uplift: { columnId: string; serviceKN: number }[];
+} {
   const b = scheme.basis;
   const N = b.storeys;
   const family = b.codeFamily;
@@ -502,6 +880,7 @@ function columnPhase(
   const colSizes: ColumnSizes[] = [];
   const footingRows: SchemeResult['sizes']['footings'] = [];
   const sites: FootingSite[] = [];
+  const uplift: { columnId: string; serviceKN: number }[] = [];
   const steel = limits.columnSteelRatio.value;
   const floorLv = levels.get('floor');
   const roofLv = levels.get('roof') as LevelLoads;
@@ -532,7 +911,15 @@ function columnPhase(
     }
     const provided: [number, number] = [c.widthMm, c.depthMm];
     const row: ColumnLoads = { columnId: c.id, deadKN: [], liveKN: [], factoredKN: [], tributaryKN: [] };
-    const sizes: ColumnSizes = { columnId: c.id, providedMm: provided, providedCapacityKN: 0, source: '', requiredAreaMm2: [], requiredSideMm: [], utilisation: [] };
+    const sizes: ColumnSizes = {
+      columnId: c.id,
+      providedMm: provided,
+      providedCapacityKN: 0,
+      source: '',
+      requiredAreaMm2: [],
+      requiredSideMm: [],
+      utilisation: [],
+    };
     for (let s = 1; s <= N; s++) {
       const floorsAbove = N - s; // floor levels s..N-1
       const dead = floorsAbove * r.floor[0] + r.roof[0] + (N - s + 1) * sw;
@@ -542,7 +929,7 @@ function columnPhase(
       row.liveKN.push(live);
       row.factoredKN.push(pu);
       row.tributaryKN.push(floorsAbove * tribFloor + tribRoof + (N - s + 1) * sw);
-      const size = columnSize(family, pu, fck, fy, steel, minSide, provided);
+      const size = columnSize(family, pu, fck, fy, steel, minSide, provided, { alphaCc: b.alphaCc });
       sizes.providedCapacityKN = size.providedCapacityKN;
       sizes.source = size.source;
       sizes.requiredAreaMm2.push(size.requiredAreaMm2);
@@ -553,13 +940,27 @@ function columnPhase(
     colSizes.push(sizes);
     const base = { deadKN: row.deadKN[0], liveKN: row.liveKN[0], factoredKN: row.factoredKN[0] };
     const service = base.deadKN + base.liveKN;
-    const f = isolatedFooting(service, b.bearingPressureKPa, limits.footingAllowance.value, base.factoredKN);
+    // a column in net tension (uplift, e.g. beside a short end span) needs a footing that holds it
+    // down; the pad is sized for compression only and the uplift is reported by a check
+    if (service < 0) uplift.push({ columnId: c.id, serviceKN: service });
+    const f = isolatedFooting(
+      Math.max(service, 0),
+      b.bearingPressureKPa,
+      limits.footingAllowance.value,
+      Math.max(base.factoredKN, 0),
+    );
     footingRows.push({
-      columnId: c.id, serviceKN: service, factoredKN: base.factoredKN, areaM2: f.areaM2, sideM: f.sideM,
-      adoptedSideM: f.adoptedSideM, factoredPressureKPa: f.factoredPressureKPa, thicknessM: f.thicknessM,
+      columnId: c.id,
+      serviceKN: service,
+      factoredKN: base.factoredKN,
+      areaM2: f.areaM2,
+      sideM: f.sideM,
+      adoptedSideM: f.adoptedSideM,
+      factoredPressureKPa: f.factoredPressureKPa,
+      thicknessM: f.thicknessM,
     });
     const plan = columnPlan(c);
     sites.push({ columnId: c.id, x: c.x, y: c.y, bx: plan.bx, by: plan.by, serviceKN: service, sideM: f.adoptedSideM });
   }
-  return { columnRows, colSizes, footingRows, sites };
+  return { columnRows, colSizes, footingRows, sites, uplift };
 }

@@ -39,7 +39,9 @@ describe('single spans against handbook cases', () => {
   });
 
   it('fixed both ends, uniform load [T3-23 "Beam fixed at both ends – uniformly distributed load"]', () => {
-    const r = analyseBeam(continuousBeam({ spansM: [L], eiKNm2: EI, leftEnd: 'fixed', rightEnd: 'fixed' }), [uniformLoad(0, w, L)]);
+    const r = analyseBeam(continuousBeam({ spansM: [L], eiKNm2: EI, leftEnd: 'fixed', rightEnd: 'fixed' }), [
+      uniformLoad(0, w, L),
+    ]);
     within(r.members[0].startMomentKNm, (-w * L * L) / 12);
     within(r.members[0].endMomentKNm, (-w * L * L) / 12);
     within(r.members[0].maxMoment.valueKNm, (w * L * L) / 24);
@@ -48,7 +50,9 @@ describe('single spans against handbook cases', () => {
   });
 
   it('fixed both ends, central point load [T3-23 "Beam fixed at both ends – concentrated load at center"]', () => {
-    const r = analyseBeam(continuousBeam({ spansM: [L], eiKNm2: EI, leftEnd: 'fixed', rightEnd: 'fixed' }), [pointLoad(0, L / 2, P)]);
+    const r = analyseBeam(continuousBeam({ spansM: [L], eiKNm2: EI, leftEnd: 'fixed', rightEnd: 'fixed' }), [
+      pointLoad(0, L / 2, P),
+    ]);
     within(r.members[0].startMomentKNm, (-P * L) / 8);
     within(r.members[0].maxMoment.valueKNm, (P * L) / 8);
     within(r.members[0].maxDeflection.valueMm / 1000, (P * L ** 3) / (192 * EI));
@@ -57,13 +61,17 @@ describe('single spans against handbook cases', () => {
   it('fixed both ends, point load at any point [T3-23 "Beam fixed at both ends – concentrated load at any point"]', () => {
     const a = 1.5;
     const b = L - a;
-    const r = analyseBeam(continuousBeam({ spansM: [L], eiKNm2: EI, leftEnd: 'fixed', rightEnd: 'fixed' }), [pointLoad(0, a, P)]);
+    const r = analyseBeam(continuousBeam({ spansM: [L], eiKNm2: EI, leftEnd: 'fixed', rightEnd: 'fixed' }), [
+      pointLoad(0, a, P),
+    ]);
     within(-r.members[0].startMomentKNm, (P * a * b * b) / (L * L));
     within(-r.members[0].endMomentKNm, (P * a * a * b) / (L * L));
   });
 
   it('propped cantilever, uniform load [T3-23 "Beam fixed at one end, supported at other – uniformly distributed load"]', () => {
-    const r = analyseBeam(continuousBeam({ spansM: [L], eiKNm2: EI, leftEnd: 'fixed', rightEnd: 'pin' }), [uniformLoad(0, w, L)]);
+    const r = analyseBeam(continuousBeam({ spansM: [L], eiKNm2: EI, leftEnd: 'fixed', rightEnd: 'pin' }), [
+      uniformLoad(0, w, L),
+    ]);
     within(r.reactions[1].forceKN, (3 * w * L) / 8);
     within(r.reactions[0].forceKN, (5 * w * L) / 8);
     within(-r.members[0].startMomentKNm, (w * L * L) / 8);
@@ -107,13 +115,19 @@ describe('continuous beams against handbook coefficients', () => {
   });
 
   it('two equal spans, central point load on each [T3-23 "Continuous beam – two equal spans – concentrated load at center of each span"]', () => {
-    const r = analyseBeam(continuousBeam({ spansM: [L, L], eiKNm2: EI }), [pointLoad(0, L / 2, P), pointLoad(1, L / 2, P)]);
+    const r = analyseBeam(continuousBeam({ spansM: [L, L], eiKNm2: EI }), [
+      pointLoad(0, L / 2, P),
+      pointLoad(1, L / 2, P),
+    ]);
     [5 / 16, 22 / 16, 5 / 16].forEach((c, i) => within(r.reactions[i].forceKN, c * P));
     within(r.members[0].endMomentKNm, (-3 * P * L) / 16);
   });
 
   it('three equal spans, uniform on all [Hicks Table 2.1]: R 16, 44, 44, 16 kN; M −16 kN·m; span moments 0.080 and 0.025 wL²', () => {
-    const r = analyseBeam(continuousBeam({ spansM: [L, L, L], eiKNm2: EI }), [0, 1, 2].map((i) => uniformLoad(i, w, L)));
+    const r = analyseBeam(
+      continuousBeam({ spansM: [L, L, L], eiKNm2: EI }),
+      [0, 1, 2].map((i) => uniformLoad(i, w, L)),
+    );
     [16, 44, 44, 16].forEach((v, i) => within(r.reactions[i].forceKN, v));
     within(r.members[0].endMomentKNm, -16);
     within(r.members[1].endMomentKNm, -16);
@@ -139,7 +153,11 @@ describe('continuous beams against handbook coefficients', () => {
       { kind: 'linear', member: 1, fromM: 0.5, toM: 2, startKNPerM: 5, endKNPerM: 5 },
     ];
     const r = analyseBeam(continuousBeam({ spansM: [L, L], eiKNm2: EI }), loads);
-    within(r.reactions.reduce((a, x) => a + x.forceKN, 0), 12 + 7.5, 1e-9);
+    within(
+      r.reactions.reduce((a, x) => a + x.forceKN, 0),
+      12 + 7.5,
+      1e-9,
+    );
   });
 });
 

@@ -7,6 +7,22 @@
 import { bandAdd, bandMatrix, BandMatrix, factorBand, solveBand } from './banded';
 import { CAUTION } from './codes';
 import type { Problem } from './model';
+import { StructuralInputError } from './errors';
+
+export { StructuralInputError };
+
+type Obj = Record<string, unknown>;
+const isObj = (v: unknown): v is Obj => typeof v === 'object' && v !== null && !Array.isArray(v);
+const finite = (v: unknown): v is number => typeof v === 'number' && Number.isFinite(v);
+
+/** Physically sensible ranges the beam analysis accepts (m, kN·m², kN, kN/m). */
+export const BEAM_RANGES = {
+  lengthM: [0.05, 200],
+  eiKNm2: [1e-3, 1e12],
+  forceKN: [-1e6, 1e6],
+  intensityKNPerM: [-1e5, 1e5],
+  members: 100_000,
+} as const;
 
 export type Support = 'pin' | 'fixed' | 'free';
 
@@ -58,6 +74,8 @@ export function pointLoad(member: number, atM: number, forceKN: number): PointLo
  * Builds the model of a continuous beam: spans (m) between supports, optional cantilevers (m)
  * beyond the end supports, end supports pinned or fixed, interior supports pinned.
  * EI in kN·m², one value for all members or one per member (cantilevers included, left first).
+ * Throws StructuralInputError when a length is not a positive number of metres (a cantilever
+ * may be 0 or absent) or an end support is neither 'pin' nor 'fixed'; EI is checked by analyseBeam.
  */
 export function continuousBeam(opts: {
   spansM: number[];
@@ -67,6 +85,35 @@ export function continuousBeam(opts: {
   leftCantileverM?: number;
   rightCantileverM?: number;
 }): BeamModel {
+  const problems: Problem[] = [];
+  const [l0, l1] = BEAM_RANGES.lengthM;
+  if (!isObj(opts) || !Array.isArray(opts.spansM) || opts.spansM.length === 0)
+    throw new StructuralInputError([
+      { path: 'spansM', field: 'spansM', message: 'must be a list of at least one span, m' },
+    ]);
+  if (opts.spansM.length > BEAM_RANGES.members)
+    throw new StructuralInputError([
+      { path: 'spansM', field: 'spansM', message: `at most ${BEAM_RANGES.members} spans` },
+    ]);
+  opts.spansM.forEach((l, i) => {
+    if (!finite(l) || l < l0 || l > l1)
+      problems.push({
+        path: `spansM[${i}]`,
+        field: 'spansM',
+        message: `must be a number of metres from ${l0} to ${l1}`,
+      });
+  });
+  for (const field of ['leftCantileverM', 'rightCantileverM'] as const) {
+    const v = opts[field];
+    if (v !== undefined && v !== 0 && (!finite(v) || v < l0 || v > l1))
+      problems.push({ path: field, field, message: `must be 0 (none) or a number of metres from ${l0} to ${l1}` });
+  }
+  for (const field of ['leftEnd', 'rightEnd'] as const) {
+    const v = opts[field];
+    if (v !== undefined && v !== 'pin' && v !== 'fixed')
+      problems.push({ path: field, field, message: "must be 'pin' or 'fixed'" });
+  }
+  if (problems.length) throw new StructuralInputError(problems);
   const lengths: number[] = [];
   const supports: Support[] = [];
   if (opts.leftCantileverM && opts.leftCantileverM > 0) {
@@ -161,7 +208,7 @@ export function simpleMoment(L: number, loads: readonly BeamLoad[], ra: number, 
       const wa = ld.startKNPerM;
       const wb = intensity(ld, e);
       const d = x - ld.fromM;
-      m -= wa * h * (d - h / 2) + (wb - wa) * (d * h / 2 - (h * h) / 3);
+      m -= wa * h * (d - h / 2) + (wb - wa) * ((d * h) / 2 - (h * h) / 3);
     }
   }
   return m;
@@ -241,10 +288,22 @@ function elementK(L: number, ei: number): number[] {
   const c = ei / (L * L * L);
   const L2 = L * L;
   return [
-    12 * c, 6 * L * c, -12 * c, 6 * L * c,
-    6 * L * c, 4 * L2 * c, -6 * L * c, 2 * L2 * c,
-    -12 * c, -6 * L * c, 12 * c, -6 * L * c,
-    6 * L * c, 2 * L2 * c, -6 * L * c, 4 * L2 * c,
+    12 * c,
+    6 * L * c,
+    -12 * c,
+    6 * L * c,
+    6 * L * c,
+    4 * L2 * c,
+    -6 * L * c,
+    2 * L2 * c,
+    -12 * c,
+    -6 * L * c,
+    12 * c,
+    -6 * L * c,
+    6 * L * c,
+    2 * L2 * c,
+    -6 * L * c,
+    4 * L2 * c,
   ];
 }
 
@@ -319,7 +378,10 @@ export function solveTerms(
   for (let i = 0; i < nm; i++) {
     const L = model.members[i].lengthM;
     const { fa, fb, ra, rb } = t[i];
-    const d0 = dof[2 * i], d1 = dof[2 * i + 1], d2 = dof[2 * i + 2], d3 = dof[2 * i + 3];
+    const d0 = dof[2 * i],
+      d1 = dof[2 * i + 1],
+      d2 = dof[2 * i + 2],
+      d3 = dof[2 * i + 3];
     if (d0 >= 0) rhs[d0] -= ra + (fa - fb) / L;
     if (d1 >= 0) rhs[d1] -= fa;
     if (d2 >= 0) rhs[d2] -= rb - (fa - fb) / L;
@@ -332,7 +394,10 @@ export function solveTerms(
   for (let i = 0; i < nm; i++) {
     const { lengthM: L, eiKNm2: ei } = model.members[i];
     const c = ei / (L * L);
-    const v1 = u[2 * i], th1 = u[2 * i + 1], v2 = u[2 * i + 2], th2 = u[2 * i + 3];
+    const v1 = u[2 * i],
+      th1 = u[2 * i + 1],
+      v2 = u[2 * i + 2],
+      th2 = u[2 * i + 3];
     const m1 = c * (6 * v1 + 4 * L * th1 - 6 * v2 + 2 * L * th2) + t[i].fa;
     const m2 = c * (6 * v1 + 2 * L * th1 - 6 * v2 + 4 * L * th2) - t[i].fb;
     endMoments[2 * i] = -m1;
@@ -345,14 +410,26 @@ export function solveTerms(
  * The same solve as solveTerms on packed terms (fa, fb, ra, rb per member in one array), writing
  * into caller-owned buffers: the form the envelope uses for its many arrangements.
  */
-export function solvePacked(p: PreparedBeam, T: Float64Array, rhs: Float64Array, u: Float64Array, endMoments: Float64Array): void {
+export function solvePacked(
+  p: PreparedBeam,
+  T: Float64Array,
+  rhs: Float64Array,
+  u: Float64Array,
+  endMoments: Float64Array,
+): void {
   const { dof, len, eiOverL2 } = p;
   const nm = len.length;
   rhs.fill(0);
   for (let i = 0; i < nm; i++) {
     const L = len[i];
-    const fa = T[4 * i], fb = T[4 * i + 1], ra = T[4 * i + 2], rb = T[4 * i + 3];
-    const d0 = dof[2 * i], d1 = dof[2 * i + 1], d2 = dof[2 * i + 2], d3 = dof[2 * i + 3];
+    const fa = T[4 * i],
+      fb = T[4 * i + 1],
+      ra = T[4 * i + 2],
+      rb = T[4 * i + 3];
+    const d0 = dof[2 * i],
+      d1 = dof[2 * i + 1],
+      d2 = dof[2 * i + 2],
+      d3 = dof[2 * i + 3];
     const sh = (fa - fb) / L;
     if (d0 >= 0) rhs[d0] -= ra + sh;
     if (d1 >= 0) rhs[d1] -= fa;
@@ -364,7 +441,10 @@ export function solvePacked(p: PreparedBeam, T: Float64Array, rhs: Float64Array,
   for (let i = 0; i < nm; i++) {
     const L = len[i];
     const c = eiOverL2[i];
-    const v1 = u[2 * i], th1 = u[2 * i + 1], v2 = u[2 * i + 2], th2 = u[2 * i + 3];
+    const v1 = u[2 * i],
+      th1 = u[2 * i + 1],
+      v2 = u[2 * i + 2],
+      th2 = u[2 * i + 3];
     endMoments[2 * i] = -(c * (6 * v1 + 4 * L * th1 - 6 * v2 + 2 * L * th2) + T[4 * i]);
     endMoments[2 * i + 1] = c * (6 * v1 + 2 * L * th1 - 6 * v2 + 4 * L * th2) - T[4 * i + 1];
   }
@@ -378,7 +458,12 @@ export function solvePrepared(p: PreparedBeam, loadsByMember: BeamLoad[][], term
 }
 
 /** Vertical reactions (kN, upward) at every node from member terms and end moments; zero at free nodes. */
-export function nodeReactions(model: BeamModel, t: readonly MemberTerms[], endMoments: Float64Array, into?: Float64Array): Float64Array {
+export function nodeReactions(
+  model: BeamModel,
+  t: readonly MemberTerms[],
+  endMoments: Float64Array,
+  into?: Float64Array,
+): Float64Array {
   const nm = model.members.length;
   const r = into ? into.fill(0) : new Float64Array(nm + 1);
   for (let i = 0; i < nm; i++) {
@@ -422,7 +507,12 @@ export interface BeamResult {
 }
 
 /** Internal moment (kN·m), shear (kN) and downward deflection (m) at x in member i of a solution. */
-export function memberStateAt(p: PreparedBeam, s: BeamSolution, i: number, x: number): { m: number; v: number; y: number } {
+export function memberStateAt(
+  p: PreparedBeam,
+  s: BeamSolution,
+  i: number,
+  x: number,
+): { m: number; v: number; y: number } {
   const { lengthM: L, eiKNm2: ei } = p.model.members[i];
   const loads = s.loadsByMember[i];
   const ml = s.endMoments[2 * i];
@@ -439,35 +529,122 @@ export function memberStateAt(p: PreparedBeam, s: BeamSolution, i: number, x: nu
   return { m, v, y };
 }
 
-function validateBeam(model: BeamModel, loads: readonly BeamLoad[]): Problem[] {
+/**
+ * Problems with a beam model given as any value: members with lengths (m) and EI (kN·m²) in
+ * range, one support per node, each 'pin', 'fixed' or 'free'. Never throws.
+ */
+export function validateBeamModel(model: unknown): Problem[] {
   const out: Problem[] = [];
-  const nm = model.members.length;
+  if (!isObj(model))
+    return [{ path: 'model', field: 'model', message: 'a beam model must be an object { members, supports }' }];
+  const members = model['members'];
+  const supports = model['supports'];
+  if (!Array.isArray(members))
+    out.push({ path: 'members', field: 'members', message: 'must be a list of { lengthM, eiKNm2 }' });
+  if (!Array.isArray(supports))
+    out.push({
+      path: 'supports',
+      field: 'supports',
+      message: "must be a list of 'pin', 'fixed' or 'free', one per node",
+    });
+  if (out.length) return out;
+  const ms = members as unknown[];
+  const ss = supports as unknown[];
+  const nm = ms.length;
   if (nm === 0) out.push({ path: 'members', field: 'members', message: 'a beam needs at least one member' });
-  if (model.supports.length !== nm + 1)
-    out.push({ path: 'supports', field: 'supports', message: `expected ${nm + 1} supports (one per node), got ${model.supports.length}` });
-  model.members.forEach((mb, i) => {
-    if (!(mb.lengthM > 0) || !Number.isFinite(mb.lengthM))
-      out.push({ path: `members[${i}].lengthM`, field: 'lengthM', message: 'length must be a positive number of metres' });
-    if (!(mb.eiKNm2 > 0) || !Number.isFinite(mb.eiKNm2))
-      out.push({ path: `members[${i}].eiKNm2`, field: 'eiKNm2', message: 'EI must be a positive number (kN·m²)' });
-  });
-  loads.forEach((ld, k) => {
-    const mb = model.members[ld.member];
-    if (!mb) {
-      out.push({ path: `loads[${k}].member`, field: 'member', message: `no member ${ld.member}` });
+  if (nm > BEAM_RANGES.members)
+    return [{ path: 'members', field: 'members', message: `at most ${BEAM_RANGES.members} members` }];
+  if (ss.length !== nm + 1)
+    out.push({
+      path: 'supports',
+      field: 'supports',
+      message: `expected ${nm + 1} supports (one per node), got ${ss.length}`,
+    });
+  ms.forEach((mb, i) => {
+    if (!isObj(mb)) {
+      out.push({ path: `members[${i}]`, field: 'members', message: 'must be an object { lengthM, eiKNm2 }' });
       return;
     }
-    const L = mb.lengthM;
-    if (ld.kind === 'point') {
-      if (!(ld.atM >= 0 && ld.atM <= L)) out.push({ path: `loads[${k}].atM`, field: 'atM', message: `must lie within 0..${L} m` });
-      if (!Number.isFinite(ld.forceKN)) out.push({ path: `loads[${k}].forceKN`, field: 'forceKN', message: 'must be a number' });
-    } else {
-      if (!(ld.fromM >= 0 && ld.toM <= L + 1e-9 && ld.fromM <= ld.toM))
-        out.push({ path: `loads[${k}].fromM`, field: 'fromM', message: `load must lie within 0..${L} m with fromM <= toM` });
-      if (!Number.isFinite(ld.startKNPerM) || !Number.isFinite(ld.endKNPerM))
-        out.push({ path: `loads[${k}].startKNPerM`, field: 'startKNPerM', message: 'intensities must be numbers' });
-    }
+    const [l0, l1] = BEAM_RANGES.lengthM;
+    const [e0, e1] = BEAM_RANGES.eiKNm2;
+    if (!finite(mb['lengthM']) || mb['lengthM'] < l0 || mb['lengthM'] > l1)
+      out.push({
+        path: `members[${i}].lengthM`,
+        field: 'lengthM',
+        message: `length must be a number of metres from ${l0} to ${l1}`,
+      });
+    if (!finite(mb['eiKNm2']) || mb['eiKNm2'] < e0 || mb['eiKNm2'] > e1)
+      out.push({
+        path: `members[${i}].eiKNm2`,
+        field: 'eiKNm2',
+        message: `EI must be a number of kN·m² from ${e0} to ${e1}`,
+      });
   });
+  ss.forEach((sp, n) => {
+    if (sp !== 'pin' && sp !== 'fixed' && sp !== 'free')
+      out.push({ path: `supports[${n}]`, field: 'supports', message: "must be 'pin', 'fixed' or 'free'" });
+  });
+  return out;
+}
+
+// paths are written only when something is wrong: a long line carries tens of thousands of loads
+const at = (name: string, k: number) => `${name}[${k}]`;
+
+/**
+ * Problems with loads (any value) on a valid model: a list of point loads (kN, at m from the
+ * member start) and linear loads (kN/m, fromM ≤ toM), each on an existing member and within its
+ * length. `name` prefixes the paths (e.g. "loads", "dead"). Never throws.
+ */
+export function validateLoads(model: BeamModel, loads: unknown, name = 'loads'): Problem[] {
+  if (!Array.isArray(loads)) return [{ path: name, field: name, message: 'must be a list of loads' }];
+  const out: Problem[] = [];
+  const nm = model.members.length;
+  const [f0, f1] = BEAM_RANGES.forceKN;
+  const [w0, w1] = BEAM_RANGES.intensityKNPerM;
+  for (let k = 0; k < loads.length; k++) {
+    const ld: unknown = loads[k];
+    if (!isObj(ld)) {
+      out.push({ path: at(name, k), field: name, message: "must be a load { kind: 'point' | 'linear', member, … }" });
+      continue;
+    }
+    const m = ld['member'];
+    if (typeof m !== 'number' || !Number.isInteger(m) || m < 0 || m >= nm) {
+      out.push({
+        path: `${at(name, k)}.member`,
+        field: 'member',
+        message: `no member ${String(m)} (members are 0..${nm - 1})`,
+      });
+      continue;
+    }
+    const L = model.members[m].lengthM;
+    const tol = 1e-9 * L;
+    if (ld['kind'] === 'point') {
+      const a = ld['atM'];
+      if (!finite(a) || a < 0 || a > L + tol)
+        out.push({ path: `${at(name, k)}.atM`, field: 'atM', message: `must lie within 0..${L} m of member ${m}` });
+      const f = ld['forceKN'];
+      if (!finite(f) || f < f0 || f > f1)
+        out.push({
+          path: `${at(name, k)}.forceKN`,
+          field: 'forceKN',
+          message: `must be a number of kN from ${f0} to ${f1}`,
+        });
+    } else if (ld['kind'] === 'linear') {
+      const a = ld['fromM'],
+        b = ld['toM'];
+      if (!finite(a) || !finite(b) || a < 0 || b > L + tol || a > b)
+        out.push({
+          path: `${at(name, k)}.fromM`,
+          field: 'fromM',
+          message: `load must lie within 0..${L} m of member ${m} with fromM <= toM`,
+        });
+      for (const field of ['startKNPerM', 'endKNPerM'] as const) {
+        const w = ld[field];
+        if (!finite(w) || w < w0 || w > w1)
+          out.push({ path: `${at(name, k)}.${field}`, field, message: `must be a number of kN/m from ${w0} to ${w1}` });
+      }
+    } else out.push({ path: `${at(name, k)}.kind`, field: 'kind', message: "must be 'point' or 'linear'" });
+  }
   return out;
 }
 
@@ -475,14 +652,37 @@ function validateBeam(model: BeamModel, loads: readonly BeamLoad[]): Problem[] {
  * Analyses one continuous beam under one set of loads.
  * Input: lengths m, EI kN·m², point loads kN, line loads kN/m.
  * Output: reactions kN and kN·m, moments kN·m (sagging +), shears kN, deflections mm (down +).
- * Invalid input or an unstable support arrangement gives problems, not an exception.
+ * Invalid input (any value) or an unstable support arrangement gives problems, not an exception.
  */
-export function analyseBeam(model: BeamModel, loads: readonly BeamLoad[], options: { samplesPerMember?: number } = {}): BeamResult {
-  const empty = (problems: Problem[]): BeamResult => ({ caution: CAUTION, problems, reactions: [], members: [], nodes: [], totalLoadKN: 0 });
-  const problems = validateBeam(model, loads);
+export function analyseBeam(
+  model: BeamModel,
+  loads: readonly BeamLoad[],
+  options: { samplesPerMember?: number } = {},
+): BeamResult {
+  const empty = (problems: Problem[]): BeamResult => ({
+    caution: CAUTION,
+    problems,
+    reactions: [],
+    members: [],
+    nodes: [],
+    totalLoadKN: 0,
+  });
+  const mp = validateBeamModel(model);
+  if (mp.length) return empty(mp);
+  const problems = validateLoads(model, loads);
+  const ns = options?.samplesPerMember;
+  if (ns !== undefined && !(Number.isInteger(ns) && ns >= 1 && ns <= 1000))
+    problems.push({
+      path: 'options.samplesPerMember',
+      field: 'samplesPerMember',
+      message: 'must be a whole number from 1 to 1000',
+    });
   if (problems.length) return empty(problems);
   const p = prepareBeam(model);
-  if (!p.ok) return empty([{ path: 'supports', field: 'supports', message: 'the supports do not hold the beam up (it is a mechanism)' }]);
+  if (!p.ok)
+    return empty([
+      { path: 'supports', field: 'supports', message: 'the supports do not hold the beam up (it is a mechanism)' },
+    ]);
   const s = solvePrepared(p, groupLoads(model.members.length, loads));
   const nm = model.members.length;
   const nSeg = options.samplesPerMember ?? 40;
@@ -562,7 +762,12 @@ export function analyseBeam(model: BeamModel, loads: readonly BeamLoad[], option
     };
   });
 
-  const nodes = model.supports.map((_, n) => ({ node: n, xM: p.xs[n], deflectionMm: -s.u[2 * n] * 1000, rotationRad: s.u[2 * n + 1] }));
+  const nodes = model.supports.map((_, n) => ({
+    node: n,
+    xM: p.xs[n],
+    deflectionMm: -s.u[2 * n] * 1000,
+    rotationRad: s.u[2 * n + 1],
+  }));
   const totalLoadKN = s.terms.reduce((a, t) => a + t.total, 0);
   return { caution: CAUTION, problems: [], reactions, members, nodes, totalLoadKN };
 }
@@ -571,7 +776,10 @@ export function analyseBeam(model: BeamModel, loads: readonly BeamLoad[], option
  * The same reduced stiffness system as prepareBeam/solveTerms, assembled as a full dense matrix
  * (row-major n×n) with its right-hand side; for the benchmark and as an independent check.
  */
-export function assembleDense(model: BeamModel, t: readonly MemberTerms[]): { n: number; a: Float64Array; rhs: Float64Array } {
+export function assembleDense(
+  model: BeamModel,
+  t: readonly MemberTerms[],
+): { n: number; a: Float64Array; rhs: Float64Array } {
   const { dof, nEq: n } = numberDofs(model);
   const a = new Float64Array(n * n);
   const rhs = new Float64Array(n);

@@ -4,6 +4,7 @@
 import type { Limit, Limits, SourceKind } from './codes';
 import type { BeamLine, Layout } from './layout';
 import { columnPlan } from './layout';
+import { StructuralInputError } from './errors';
 import type { Scheme } from './model';
 
 export type Severity = 'error' | 'warning' | 'info';
@@ -31,6 +32,7 @@ export const RULES = {
   columnMerge: 'column.merge',
   columnWall: 'column.wider-than-wall',
   columnCapacity: 'column.capacity',
+  columnUplift: 'column.uplift',
   columnSteel: 'column.steel-ratio',
   columnOffGrid: 'column.off-grid',
   pointLoad: 'beam.point-load-on-long-span',
@@ -47,7 +49,8 @@ export const RULES = {
 /** A check whose message is written only if a person will see it (a failure, or the tightest pass). */
 export type CheckDraft = Omit<Check, 'message'> & { message: string | (() => string) };
 
-const written = (d: CheckDraft): Check => (typeof d.message === 'string' ? (d as Check) : { ...d, message: d.message() });
+const written = (d: CheckDraft): Check =>
+  typeof d.message === 'string' ? (d as Check) : { ...d, message: d.message() };
 
 /** The checks of one rule that passed: how many, and the one nearest its limit in full. */
 export interface PassedRule {
@@ -81,7 +84,11 @@ export class CheckList {
     const rank: Record<Severity, number> = { error: 0, warning: 1, info: 2 };
     return {
       failed: this.failed.map(written).sort((a, b) => rank[a.severity] - rank[b.severity]),
-      passed: [...this.passed.values()].map((p) => ({ ruleId: p.ruleId, count: p.count, tightest: written(p.tightest) })),
+      passed: [...this.passed.values()].map((p) => ({
+        ruleId: p.ruleId,
+        count: p.count,
+        tightest: written(p.tightest),
+      })),
     };
   }
 }
@@ -91,15 +98,46 @@ function margin(c: CheckDraft): number {
   return (c.sense === 'max' ? c.limit - c.value : c.value - c.limit) / (Math.abs(c.limit) || 1);
 }
 
-/** Splits a list of checks into failures and a per-rule summary of passes (see CheckList). */
+/** Splits a list of checks into failures and a per-rule summary of passes (see CheckList); throws StructuralInputError for anything else. No units. */
 export function splitChecks(all: readonly CheckDraft[]): { failed: Check[]; passed: PassedRule[] } {
+  const bad = !Array.isArray(all)
+    ? 0
+    : all.findIndex(
+        (c) =>
+          typeof c !== 'object' ||
+          c === null ||
+          typeof c.ruleId !== 'string' ||
+          (c.status !== 'pass' && c.status !== 'fail') ||
+          !Number.isFinite(c.value) ||
+          !Number.isFinite(c.limit) ||
+          (c.sense !== 'max' && c.sense !== 'min') ||
+          !['error', 'warning', 'info'].includes(c.severity) ||
+          (typeof c.message !== 'string' && typeof c.message !== 'function'),
+      );
+  if (bad !== -1)
+    throw new StructuralInputError([
+      {
+        path: Array.isArray(all) ? `checks[${bad}]` : 'checks',
+        field: 'checks',
+        message: 'must be a list of checks { ruleId, severity, status, message, value, limit, sense, … }',
+      },
+    ]);
   const list = new CheckList();
   for (const c of all) list.push(c);
   return list.result();
 }
 
 /** Builds a check against a limit; the message gets the verdict appended. */
-export function check(ruleId: string, severity: Severity, elements: string[], message: string | (() => string), value: number, limit: Limit, sense: 'max' | 'min', limitValue = limit.value): CheckDraft {
+export function check(
+  ruleId: string,
+  severity: Severity,
+  elements: string[],
+  message: string | (() => string),
+  value: number,
+  limit: Limit,
+  sense: 'max' | 'min',
+  limitValue = limit.value,
+): CheckDraft {
   const ok = sense === 'max' ? value <= limitValue + 1e-9 : value >= limitValue - 1e-9;
   return {
     ruleId,
@@ -123,9 +161,24 @@ export function spanChecks(layout: Layout, limits: Limits): CheckDraft[] {
   const out: CheckDraft[] = [];
   for (const l of layout.lines) {
     for (const m of l.members) {
-      const lim = m.kind === 'cantilever' ? limits.beamSpanCantileverMaxM : m.kind === 'simple' ? limits.beamSpanSimpleMaxM : limits.beamSpanContinuousMaxM;
+      const lim =
+        m.kind === 'cantilever'
+          ? limits.beamSpanCantileverMaxM
+          : m.kind === 'simple'
+            ? limits.beamSpanSimpleMaxM
+            : limits.beamSpanContinuousMaxM;
       const cond = m.kind === 'cantilever' ? 'cantilever' : m.kind === 'simple' ? 'simply supported' : 'continuous';
-      out.push(check(RULES.beamSpan, 'warning', [m.id], () => `${m.id}: ${cond} span ${r2(m.lengthM)} m (limit ${lim.value} m)`, m.lengthM, lim, 'max'));
+      out.push(
+        check(
+          RULES.beamSpan,
+          'warning',
+          [m.id],
+          () => `${m.id}: ${cond} span ${r2(m.lengthM)} m (limit ${lim.value} m)`,
+          m.lengthM,
+          lim,
+          'max',
+        ),
+      );
     }
   }
   return out;
@@ -140,9 +193,31 @@ export function columnSpacingChecks(scheme: Scheme, layout: Layout, limits: Limi
       const d = cols[i + 1].s - cols[i].s;
       const ids = [cols[i].columnId as string, cols[i + 1].columnId as string];
       if (d < limits.columnMergeDistanceM.value) continue; // reported by the merge rule
-      out.push(check(RULES.columnSpacing, 'warning', ids, () => `columns ${ids.join(' and ')} on line ${l.label} are ${r2(d)} m apart (economical at most ${limits.columnSpacingMaxM.value} m)`, d, limits.columnSpacingMaxM, 'max'));
+      out.push(
+        check(
+          RULES.columnSpacing,
+          'warning',
+          ids,
+          () =>
+            `columns ${ids.join(' and ')} on line ${l.label} are ${r2(d)} m apart (economical at most ${limits.columnSpacingMaxM.value} m)`,
+          d,
+          limits.columnSpacingMaxM,
+          'max',
+        ),
+      );
       if (d < limits.columnSpacingMinM.value)
-        out.push(check(RULES.columnSpacing, 'info', ids, () => `columns ${ids.join(' and ')} on line ${l.label} are ${r2(d)} m apart (economical at least ${limits.columnSpacingMinM.value} m)`, d, limits.columnSpacingMinM, 'min'));
+        out.push(
+          check(
+            RULES.columnSpacing,
+            'info',
+            ids,
+            () =>
+              `columns ${ids.join(' and ')} on line ${l.label} are ${r2(d)} m apart (economical at least ${limits.columnSpacingMinM.value} m)`,
+            d,
+            limits.columnSpacingMinM,
+            'min',
+          ),
+        );
     }
   }
   // any two columns closer than the merge distance, on a line or not (sorted sweep on x)
@@ -154,11 +229,34 @@ export function columnSpacingChecks(scheme: Scheme, layout: Layout, limits: Limi
       const dy = cs[j].y - cs[i].y;
       const d = Math.sqrt(dx * dx + dy * dy);
       if (d < lim.value)
-        out.push(check(RULES.columnMerge, 'warning', [cs[i].id, cs[j].id], () => `columns ${cs[i].id} and ${cs[j].id} are ${r2(d)} m apart: one column at (${r2((cs[i].x + cs[j].x) / 2)}, ${r2((cs[i].y + cs[j].y) / 2)}) could serve both`, d, lim, 'min'));
+        out.push(
+          check(
+            RULES.columnMerge,
+            'warning',
+            [cs[i].id, cs[j].id],
+            () =>
+              `columns ${cs[i].id} and ${cs[j].id} are ${r2(d)} m apart: one column at (${r2((cs[i].x + cs[j].x) / 2)}, ${r2((cs[i].y + cs[j].y) / 2)}) could serve both`,
+            d,
+            lim,
+            'min',
+          ),
+        );
     }
   }
   for (const id of layout.looseColumns)
-    out.push({ ruleId: RULES.columnOffGrid, severity: 'warning', status: 'fail', elements: [id], message: `column ${id} stands on no beam line`, value: 0, limit: 1, unit: 'beam lines', sense: 'min', source: 'common practice', sourceKind: 'practice' });
+    out.push({
+      ruleId: RULES.columnOffGrid,
+      severity: 'warning',
+      status: 'fail',
+      elements: [id],
+      message: `column ${id} stands on no beam line`,
+      value: 0,
+      limit: 1,
+      unit: 'beam lines',
+      sense: 'min',
+      source: 'common practice',
+      sourceKind: 'practice',
+    });
   return out;
 }
 
@@ -173,8 +271,24 @@ export function columnWallChecks(scheme: Scheme, layout: Layout): CheckDraft[] {
       const c = byId.get(n.columnId)!;
       const plan = columnPlan(c);
       const across = (l.runs === 'x' ? plan.by : plan.bx) * 1000;
-      const lim: Limit = { value: l.wallThicknessMm, unit: 'mm', source: `wall thickness on line ${l.label} (scheme)`, kind: 'project' };
-      out.push(check(RULES.columnWall, 'warning', [c.id, l.gridLineId], () => `column ${c.id} is ${across} mm across the ${l.wallThicknessMm} mm wall on line ${l.label}; turning it or reshaping it keeps it inside the wall`, across, lim, 'max'));
+      const lim: Limit = {
+        value: l.wallThicknessMm,
+        unit: 'mm',
+        source: `wall thickness on line ${l.label} (scheme)`,
+        kind: 'project',
+      };
+      out.push(
+        check(
+          RULES.columnWall,
+          'warning',
+          [c.id, l.gridLineId],
+          () =>
+            `column ${c.id} is ${across} mm across the ${l.wallThicknessMm} mm wall on line ${l.label}; turning it or reshaping it keeps it inside the wall`,
+          across,
+          lim,
+          'max',
+        ),
+      );
     }
   }
   return out;
@@ -185,7 +299,19 @@ export function pointLoadChecks(layout: Layout, limits: Limits): CheckDraft[] {
   const out: CheckDraft[] = [];
   for (const s of layout.secondaries) {
     if (s.supports.length < 2) {
-      out.push({ ruleId: RULES.secondaryUnsupported, severity: 'error', status: 'fail', elements: [s.beam.id], message: `secondary beam ${s.beam.id} does not land on beam lines at both ends; its load is not carried`, value: s.supports.length, limit: 2, unit: 'supports', sense: 'min', source: 'statics', sourceKind: 'derived' });
+      out.push({
+        ruleId: RULES.secondaryUnsupported,
+        severity: 'error',
+        status: 'fail',
+        elements: [s.beam.id],
+        message: `secondary beam ${s.beam.id} does not land on beam lines at both ends; its load is not carried`,
+        value: s.supports.length,
+        limit: 2,
+        unit: 'supports',
+        sense: 'min',
+        source: 'statics',
+        sourceKind: 'derived',
+      });
       continue;
     }
     for (const sup of s.supports) {
@@ -195,7 +321,18 @@ export function pointLoadChecks(layout: Layout, limits: Limits): CheckDraft[] {
       const a = sup.s - m.startS;
       const frac = Math.min(a, m.lengthM - a) / m.lengthM;
       if (frac < limits.pointLoadEndZone.value) continue;
-      out.push(check(RULES.pointLoad, 'info', [s.beam.id, m.id], () => `${s.beam.id} lands ${r2(a)} m into the ${r2(m.lengthM)} m span ${m.id}; a column there would give spans of ${r2(a)} m and ${r2(m.lengthM - a)} m`, m.lengthM, limits.pointLoadLongSpanM, 'max'));
+      out.push(
+        check(
+          RULES.pointLoad,
+          'info',
+          [s.beam.id, m.id],
+          () =>
+            `${s.beam.id} lands ${r2(a)} m into the ${r2(m.lengthM)} m span ${m.id}; a column there would give spans of ${r2(a)} m and ${r2(m.lengthM - a)} m`,
+          m.lengthM,
+          limits.pointLoadLongSpanM,
+          'max',
+        ),
+      );
     }
   }
   return out;
@@ -207,17 +344,93 @@ export function stairChecks(scheme: Scheme, limits: Limits): CheckDraft[] {
   for (const f of scheme.stairs) {
     // a code family's residential limits apply to dwellings; other buildings get the stricter values where known
     const other = f.use === 'other';
-    const riserMax = scheme.basis.codeFamily === 'IS456' && other ? { ...limits.stairRiserMaxMm, value: 150, source: 'National Building Code of India, other buildings (as quoted)' }
-      : scheme.basis.codeFamily === 'ACI318' && !other ? { ...limits.stairRiserMaxMm, value: 197, source: 'IBC 2015 §1011.5.2 exception, dwelling units' } : limits.stairRiserMaxMm;
-    const treadMin = scheme.basis.codeFamily === 'IS456' && other ? { ...limits.stairTreadMinMm, value: 300, source: 'National Building Code of India, other buildings (as quoted)' }
-      : scheme.basis.codeFamily === 'ACI318' && !other ? { ...limits.stairTreadMinMm, value: 254, source: 'IBC 2015 §1011.5.2 exception, dwelling units' } : limits.stairTreadMinMm;
-    out.push(check(RULES.stairRiser, 'error', [f.id], () => `${f.id}: riser ${f.riserMm} mm (at most ${riserMax.value} mm)`, f.riserMm, riserMax, 'max'));
-    out.push(check(RULES.stairRiser, 'error', [f.id], () => `${f.id}: riser ${f.riserMm} mm (at least ${limits.stairRiserMinMm.value} mm)`, f.riserMm, limits.stairRiserMinMm, 'min'));
-    out.push(check(RULES.stairTread, 'error', [f.id], () => `${f.id}: tread ${f.treadMm} mm (at least ${treadMin.value} mm)`, f.treadMm, treadMin, 'min'));
+    const riserMax =
+      scheme.basis.codeFamily === 'IS456' && other
+        ? {
+            ...limits.stairRiserMaxMm,
+            value: 150,
+            source: 'National Building Code of India, other buildings (as quoted)',
+          }
+        : scheme.basis.codeFamily === 'ACI318' && !other
+          ? { ...limits.stairRiserMaxMm, value: 197, source: 'IBC 2015 §1011.5.2 exception, dwelling units' }
+          : limits.stairRiserMaxMm;
+    const treadMin =
+      scheme.basis.codeFamily === 'IS456' && other
+        ? {
+            ...limits.stairTreadMinMm,
+            value: 300,
+            source: 'National Building Code of India, other buildings (as quoted)',
+          }
+        : scheme.basis.codeFamily === 'ACI318' && !other
+          ? { ...limits.stairTreadMinMm, value: 254, source: 'IBC 2015 §1011.5.2 exception, dwelling units' }
+          : limits.stairTreadMinMm;
+    out.push(
+      check(
+        RULES.stairRiser,
+        'error',
+        [f.id],
+        () => `${f.id}: riser ${f.riserMm} mm (at most ${riserMax.value} mm)`,
+        f.riserMm,
+        riserMax,
+        'max',
+      ),
+    );
+    out.push(
+      check(
+        RULES.stairRiser,
+        'error',
+        [f.id],
+        () => `${f.id}: riser ${f.riserMm} mm (at least ${limits.stairRiserMinMm.value} mm)`,
+        f.riserMm,
+        limits.stairRiserMinMm,
+        'min',
+      ),
+    );
+    out.push(
+      check(
+        RULES.stairTread,
+        'error',
+        [f.id],
+        () => `${f.id}: tread ${f.treadMm} mm (at least ${treadMin.value} mm)`,
+        f.treadMm,
+        treadMin,
+        'min',
+      ),
+    );
     const rt = 2 * f.riserMm + f.treadMm;
-    out.push(check(RULES.stair2RT, 'warning', [f.id], () => `${f.id}: 2R + T = ${rt} mm (comfortable ${limits.stair2RTMinMm.value}–${limits.stair2RTMaxMm.value} mm)`, rt, limits.stair2RTMinMm, 'min'));
-    out.push(check(RULES.stair2RT, 'warning', [f.id], () => `${f.id}: 2R + T = ${rt} mm (comfortable ${limits.stair2RTMinMm.value}–${limits.stair2RTMaxMm.value} mm)`, rt, limits.stair2RTMaxMm, 'max'));
-    out.push(check(RULES.stairRisers, 'error', [f.id], () => `${f.id}: ${f.risers} risers in one flight (at most ${limits.stairRisersPerFlightMax.value})`, f.risers, limits.stairRisersPerFlightMax, 'max'));
+    out.push(
+      check(
+        RULES.stair2RT,
+        'warning',
+        [f.id],
+        () => `${f.id}: 2R + T = ${rt} mm (comfortable ${limits.stair2RTMinMm.value}–${limits.stair2RTMaxMm.value} mm)`,
+        rt,
+        limits.stair2RTMinMm,
+        'min',
+      ),
+    );
+    out.push(
+      check(
+        RULES.stair2RT,
+        'warning',
+        [f.id],
+        () => `${f.id}: 2R + T = ${rt} mm (comfortable ${limits.stair2RTMinMm.value}–${limits.stair2RTMaxMm.value} mm)`,
+        rt,
+        limits.stair2RTMaxMm,
+        'max',
+      ),
+    );
+    out.push(
+      check(
+        RULES.stairRisers,
+        'error',
+        [f.id],
+        () => `${f.id}: ${f.risers} risers in one flight (at most ${limits.stairRisersPerFlightMax.value})`,
+        f.risers,
+        limits.stairRisersPerFlightMax,
+        'max',
+      ),
+    );
   }
   return out;
 }

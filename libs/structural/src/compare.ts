@@ -22,8 +22,43 @@ const fmt = (v: number, d = 0) => v.toLocaleString('en-GB', { maximumFractionDig
 
 /** Compares two analysed schemes; costs in the schemes' currency, lengths m, depths mm. */
 export function compareResults(ra: SchemeResult, rb: SchemeResult): SchemeComparison {
-  const base = { caution: CAUTION, a: { id: ra.schemeId, name: ra.schemeName, cost: ra.cost.total }, b: { id: rb.schemeId, name: rb.schemeName, cost: rb.cost.total }, currency: ra.cost.currency };
-  if (!ra.ok || !rb.ok) return { ...base, ok: false, differences: [], costDrivers: [], summary: ['One of the schemes has input problems; fix them to compare.'] };
+  // anything but two results of analyseScheme is refused as "not comparable", never a TypeError
+  const usable = (r: unknown): r is SchemeResult => {
+    const o = r as Partial<SchemeResult> | null;
+    return (
+      typeof o === 'object' &&
+      o !== null &&
+      typeof o.ok === 'boolean' &&
+      typeof o.cost?.total === 'number' &&
+      typeof o.summary === 'object' &&
+      o.summary !== null
+    );
+  };
+  if (!usable(ra) || !usable(rb))
+    return {
+      caution: CAUTION,
+      ok: false,
+      a: { id: '', name: '', cost: 0 },
+      b: { id: '', name: '', cost: 0 },
+      currency: '',
+      differences: [],
+      costDrivers: [],
+      summary: ['Both arguments must be results of analyseScheme.'],
+    };
+  const base = {
+    caution: CAUTION,
+    a: { id: ra.schemeId, name: ra.schemeName, cost: ra.cost.total },
+    b: { id: rb.schemeId, name: rb.schemeName, cost: rb.cost.total },
+    currency: ra.cost.currency,
+  };
+  if (!ra.ok || !rb.ok)
+    return {
+      ...base,
+      ok: false,
+      differences: [],
+      costDrivers: [],
+      summary: ['One of the schemes has input problems; fix them to compare.'],
+    };
   const row = (item: string, unit: string, a: number, b: number) => ({ item, unit, a, b, delta: b - a });
   const maxCol = (r: SchemeResult) => r.sizes.columns.reduce((m, c) => Math.max(m, c.requiredSideMm[0] ?? 0), 0);
   const concrete = (r: SchemeResult, m: MemberType) => r.quantities.rows.find((x) => x.member === m)?.concreteM3 ?? 0;
@@ -39,8 +74,18 @@ export function compareResults(ra: SchemeResult, rb: SchemeResult): SchemeCompar
     row('concrete', 'm³', ra.quantities.totals.concreteM3, rb.quantities.totals.concreteM3),
     row('reinforcement', 'kg', ra.quantities.totals.steelKg, rb.quantities.totals.steelKg),
     row('formwork', 'm²', ra.quantities.totals.formworkM2, rb.quantities.totals.formworkM2),
-    row('footings crossing a property line', 'no.', new Set(ra.footings.boundary.map((o) => o.columnId)).size, new Set(rb.footings.boundary.map((o) => o.columnId)).size),
-    row('failed checks', 'no.', ra.checks.filter((c) => c.status === 'fail').length, rb.checks.filter((c) => c.status === 'fail').length),
+    row(
+      'footings crossing a property line',
+      'no.',
+      new Set(ra.footings.boundary.map((o) => o.columnId)).size,
+      new Set(rb.footings.boundary.map((o) => o.columnId)).size,
+    ),
+    row(
+      'failed checks',
+      'no.',
+      ra.checks.filter((c) => c.status === 'fail').length,
+      rb.checks.filter((c) => c.status === 'fail').length,
+    ),
     row('cost', ra.cost.currency, ra.cost.total, rb.cost.total),
   ];
   const costDrivers = ra.cost.rows
@@ -52,17 +97,27 @@ export function compareResults(ra: SchemeResult, rb: SchemeResult): SchemeCompar
 
   const summary: string[] = [];
   const dc = rb.summary.columns - ra.summary.columns;
-  if (dc !== 0) summary.push(`${rb.schemeName} has ${Math.abs(dc)} column${Math.abs(dc) === 1 ? '' : 's'} ${dc < 0 ? 'fewer' : 'more'} than ${ra.schemeName} (${rb.summary.columns} against ${ra.summary.columns}).`);
+  if (dc !== 0)
+    summary.push(
+      `${rb.schemeName} has ${Math.abs(dc)} column${Math.abs(dc) === 1 ? '' : 's'} ${dc < 0 ? 'fewer' : 'more'} than ${ra.schemeName} (${rb.summary.columns} against ${ra.summary.columns}).`,
+    );
   if (Math.abs(rb.summary.longestSpanM - ra.summary.longestSpanM) > 1e-6)
-    summary.push(`Its longest beam span is ${fmt(rb.summary.longestSpanM, 2)} m against ${fmt(ra.summary.longestSpanM, 2)} m, and its deepest beam ${fmt(rb.summary.deepestBeamMm)} mm against ${fmt(ra.summary.deepestBeamMm)} mm.`);
-  if (ra.cost.currency !== rb.cost.currency) summary.push(`The schemes price in different currencies (${ra.cost.currency}, ${rb.cost.currency}); the cost difference is not meaningful.`);
+    summary.push(
+      `Its longest beam span is ${fmt(rb.summary.longestSpanM, 2)} m against ${fmt(ra.summary.longestSpanM, 2)} m, and its deepest beam ${fmt(rb.summary.deepestBeamMm)} mm against ${fmt(ra.summary.deepestBeamMm)} mm.`,
+    );
+  if (ra.cost.currency !== rb.cost.currency)
+    summary.push(
+      `The schemes price in different currencies (${ra.cost.currency}, ${rb.cost.currency}); the cost difference is not meaningful.`,
+    );
   else {
     const d = rb.cost.total - ra.cost.total;
     const pct = ra.cost.total > 0 ? (100 * d) / ra.cost.total : 0;
     const drivers = costDrivers.filter((x) => Math.abs(x.delta) > 0.005 * Math.max(ra.cost.total, 1)).slice(0, 3);
     summary.push(
       `${rb.schemeName} costs ${fmt(Math.abs(d))} ${ra.cost.currency} ${d >= 0 ? 'more' : 'less'} (${d >= 0 ? '+' : '−'}${fmt(Math.abs(pct), 1)} %)` +
-        (drivers.length ? `, mostly in ${drivers.map((x) => `${x.member} (${x.delta >= 0 ? '+' : '−'}${fmt(Math.abs(x.delta))})`).join(', ')}.` : '.'),
+        (drivers.length
+          ? `, mostly in ${drivers.map((x) => `${x.member} (${x.delta >= 0 ? '+' : '−'}${fmt(Math.abs(x.delta))})`).join(', ')}.`
+          : '.'),
     );
   }
   return { ...base, ok: true, differences, costDrivers, summary };

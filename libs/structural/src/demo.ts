@@ -30,7 +30,15 @@ export function demoScheme(): Scheme {
     for (const gy of Y) {
       // 230 mm across the wall they stand in; corner columns still stand proud of one wall
       const edge = gx.id === 'A' || gx.id === 'D';
-      columns.push({ id: `${gx.id}${gy.id}`, label: `${gx.id}${gy.id}`, x: gx.x, y: gy.y, widthMm: 230, depthMm: 500, orientationDeg: edge ? 0 : 90 });
+      columns.push({
+        id: `${gx.id}${gy.id}`,
+        label: `${gx.id}${gy.id}`,
+        x: gx.x,
+        y: gy.y,
+        widthMm: 230,
+        depthMm: 500,
+        orientationDeg: edge ? 0 : 90,
+      });
     }
   return {
     schemaVersion: 1,
@@ -70,5 +78,10 @@ export function demoScheme(): Scheme {
 /** The variant: column B3 left out, so lines B and 3 span two bays there (8.0 m and 8.4 m). Units as the model. */
 export function demoSchemeVariant(): Scheme {
   const s = demoScheme();
-  return { ...s, id: 'tamarind-row-s2', name: 'Tamarind Row, scheme 2: without column B3', columns: s.columns.filter((c) => c.id !== 'B3') };
+  return {
+    ...s,
+    id: 'tamarind-row-s2',
+    name: 'Tamarind Row, scheme 2: without column B3',
+    columns: s.columns.filter((c) => c.id !== 'B3'),
+  };
 }

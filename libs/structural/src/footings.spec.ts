@@ -28,21 +28,38 @@ describe('footing plan sizes', () => {
     expect(t.feasible).toBe(true);
     // resultant at the centroid of the trapezoid (derived)
     const { widthAtFirstM: b1, widthAtFarM: b2 } = t;
-    expect((6 / 3) * (b1 + 2 * b2) / (b1 + b2)).toBeCloseTo(t.resultantFromWideEndM, 9);
+    expect(((6 / 3) * (b1 + 2 * b2)) / (b1 + b2)).toBeCloseTo(t.resultantFromWideEndM, 9);
   });
-  it('strap: e = L1/2 − c1/2, R1 = P1·s/(s − e), R2 = P1 + P2 − R1, strap shear R1 − P1 (pub2 formulas, numbers derived)', () => {
-    // 300 mm column flush with the line (d = 0.15), pad 1.5 m long, 600 and 900 kN, 5 m apart
+  it('strap, worked by hand statics (derived): 600 kN column 0.15 m from the line, 1.5 m pad, 900 kN interior column 5 m away', () => {
     const s = strapFooting(600, 900, 5, 0.15, 150, 0.1, 1.5);
+    // The pad's soil reaction R1 acts at its centre, 1.5/2 = 0.75 m from the line, so 0.60 m
+    // inside the exterior column: e = 0.75 − 0.15 = 0.60 m.
     expect(s.eccentricityM).toBeCloseTo(0.6, 9);
-    expect(s.r1KN).toBeCloseTo((600 * 5) / 4.4, 9);
-    expect(s.r2KN).toBeCloseTo(1500 - 3000 / 4.4, 9);
-    expect(s.strapShearKN).toBeCloseTo(3000 / 4.4 - 600, 9);
-    // moment balance about the interior column: P1·s = R1·(s − e)
-    expect(s.r1KN * (5 - s.eccentricityM)).toBeCloseTo(600 * 5, 9);
-    // strap moment at zero shear: P1 (x0/2 − d), x0 = P1·L1/R1
-    const x0 = (600 * 1.5) / s.r1KN;
-    expect(s.strapMomentKNm).toBeCloseTo(600 * (x0 / 2 - 0.15), 9);
-    expect(s.exteriorWidthM).toBeCloseTo((1.1 * s.r1KN) / (150 * 1.5), 9);
+    // Moments about the interior column (strap and pads rigid): R1 × (5 − 0.60) = 600 × 5 → R1 = 3000/4.4 = 681.818 kN
+    expect(s.r1KN).toBeCloseTo(681.818, 3);
+    // Vertical equilibrium: R2 = 600 + 900 − 681.818 = 818.182 kN
+    expect(s.r2KN).toBeCloseTo(818.182, 3);
+    // Shear in the strap between the pads: R1 − P1 = 81.818 kN
+    expect(s.strapShearKN).toBeCloseTo(81.818, 3);
+    // Largest moment, where the shear is zero under the pad: q = 681.818/1.5 = 454.545 kN/m,
+    // x0 = 600/454.545 = 1.320 m from the line; M = 454.545 × 1.320²/2 − 600 × (1.320 − 0.15) = 396.0 − 702.0 = −306.0 kN·m
+    expect(s.strapMomentKNm).toBeCloseTo(306.0, 1);
+    // Pad width for the bearing pressure with 10 % allowance: 1.1 × 681.818 / (150 × 1.5) = 3.333 m
+    expect(s.exteriorWidthM).toBeCloseTo(3.333, 3);
+    expect(s.feasible).toBe(true);
+  });
+  it('strap whose eccentricity reaches the column spacing is flagged infeasible, with finite numbers', () => {
+    // pad 1.5 m long, column 0.15 m from the line: e = 0.60 m, but the interior column is only 0.5 m away
+    const s = strapFooting(600, 900, 0.5, 0.15, 150, 0.1, 1.5);
+    expect(s.feasible).toBe(false);
+    for (const v of Object.values(s)) if (typeof v === 'number') expect(Number.isFinite(v)).toBe(true);
+  });
+  it('refuses a zero bearing pressure, a negative load and a non-number, naming the field and the range', async () => {
+    const { StructuralInputError } = await import('./errors');
+    expect(() => isolatedFooting(1000, 0, 0.1, 1500)).toThrow(StructuralInputError);
+    expect(() => isolatedFooting(-5, 200, 0.1, 1500)).toThrow(/serviceKN: must be a number from 0 to 1000000 kN/);
+    expect(() => rectangularCombined(600, NaN, 4, 0.15, 150, 0.1)).toThrow(/p2KN/);
+    expect(() => trapezoidalCombined(2300, 2100, 5.525, 0.25, 6, 1e-12, 0.15)).toThrow(/qaKPa/);
   });
   it('strap with a chosen pad: the pad width is about twice its length (common practice) and carries R1', () => {
     const s = strapFooting(600, 900, 5, 0.15, 150, 0.1);

@@ -1,16 +1,45 @@
 // Public surface of the structural planning engine. Pure TypeScript, no I/O.
 // Units: SI throughout (m, mm where a name says Mm, kN, kN/m, kPa, kN·m, MPa).
 export * from './model';
-export { CAUTION, codeDefaults, resolveLimits, concreteModulusMPa, beamDepthRule, slabDepthRule, limitingMomentKNm, columnCapacityKN, LIMIT_KEYS } from './codes';
-export type { CodeDefaults, Combination, Limit, LimitKey, Limits, SourceKind, SupportCondition, DepthRule } from './codes';
-export { validateScheme } from './validate';
-export { analyseBeam, continuousBeam, uniformLoad, pointLoad } from './beam';
+export {
+  CAUTION,
+  codeDefaults,
+  resolveLimits,
+  concreteModulusMPa,
+  beamDepthRule,
+  slabDepthRule,
+  limitingMomentKNm,
+  columnCapacityKN,
+  LIMIT_KEYS,
+  EN_ALPHA_CC_DEFAULT,
+} from './codes';
+export { StructuralInputError } from './errors';
+export type {
+  CodeDefaults,
+  Combination,
+  Limit,
+  LimitKey,
+  Limits,
+  SourceKind,
+  SupportCondition,
+  DepthRule,
+} from './codes';
+export { validateScheme, SCHEME_LIMITS } from './validate';
+export {
+  analyseBeam,
+  continuousBeam,
+  uniformLoad,
+  pointLoad,
+  validateBeamModel,
+  validateLoads,
+  BEAM_RANGES,
+} from './beam';
 export type { BeamLoad, BeamModel, BeamMember, BeamResult, MemberResult, PointLoad, LinearLoad, Support } from './beam';
-export { envelopeBeam, loadPatterns } from './envelope';
+export { envelopeBeam, loadPatterns, validateCombinations } from './envelope';
 export type { BeamEnvelope, MemberEnvelope } from './envelope';
 export { twoWayEquivalentLoads } from './loads';
 export type { PanelLoad, SecondaryLoad } from './loads';
-export { isolatedFooting, rectangularCombined, trapezoidalCombined, strapFooting } from './footings';
+export { isolatedFooting, rectangularCombined, trapezoidalCombined, strapFooting, FOOTING_RANGES } from './footings';
 export type { IsolatedFooting, RectCombined, TrapezoidCombined, StrapFooting } from './footings';
 export type { BoundaryOptions, OverlapCombined } from './site';
 export { beamDepth, columnSize } from './sizing';

@@ -84,7 +84,9 @@ export function columnOnLine(c: Column, g: GridLine): boolean {
 
 /** Plan dimensions of a column, m: along x and along y. */
 export function columnPlan(c: Column): { bx: number; by: number } {
-  return c.orientationDeg === 90 ? { bx: c.depthMm / 1000, by: c.widthMm / 1000 } : { bx: c.widthMm / 1000, by: c.depthMm / 1000 };
+  return c.orientationDeg === 90
+    ? { bx: c.depthMm / 1000, by: c.widthMm / 1000 }
+    : { bx: c.widthMm / 1000, by: c.depthMm / 1000 };
 }
 
 function sortedLabels(grid: GridLine[], axis: 'x' | 'y'): GridLine[] {
@@ -129,7 +131,8 @@ export function deriveLayout(scheme: Scheme): Layout {
     const nodes: LineNode[] = [];
     if (g.overhangStartM && g.overhangStartM > 0) nodes.push({ s: cols[0].s - g.overhangStartM, columnId: null });
     nodes.push(...cols);
-    if (g.overhangEndM && g.overhangEndM > 0) nodes.push({ s: cols[cols.length - 1].s + g.overhangEndM, columnId: null });
+    if (g.overhangEndM && g.overhangEndM > 0)
+      nodes.push({ s: cols[cols.length - 1].s + g.overhangEndM, columnId: null });
     const nSpans = cols.length - 1;
     const members: LineMember[] = [];
     let spanNo = 0;
@@ -167,7 +170,10 @@ export function deriveLayout(scheme: Scheme): Layout {
   const lineById = new Map(lines.map((l) => [l.id, l]));
 
   const covers = (l: BeamLine, runs: 'x' | 'y', at: number, from: number, to: number) =>
-    l.runs === runs && near(l.at, at) && l.nodes[0].s <= from + ON_LINE_TOL_M && l.nodes[l.nodes.length - 1].s >= to - ON_LINE_TOL_M;
+    l.runs === runs &&
+    near(l.at, at) &&
+    l.nodes[0].s <= from + ON_LINE_TOL_M &&
+    l.nodes[l.nodes.length - 1].s >= to - ON_LINE_TOL_M;
   // bays look lines up by their exact grid coordinate; anything else scans with the tolerance
   // (keyed by the number itself: no number-to-string conversion on every look-up)
   const exact = { x: new Map<number, BeamLine[]>(), y: new Map<number, BeamLine[]>() };
@@ -250,18 +256,32 @@ export function deriveLayout(scheme: Scheme): Layout {
       // cuts by secondary beams running along y (constant x) or along x (constant y) across the bay
       const cutsX = across(fullY, x1 + ON_LINE_TOL_M, x2 - ON_LINE_TOL_M, y1, y2);
       const cutsY = across(fullX, y1 + ON_LINE_TOL_M, y2 - ON_LINE_TOL_M, x1, x2);
-      const xs = [{ v: x1, c: carrierOf(west) }, ...cutsX.map((s) => ({ v: s.at, c: secondaryCarrier(s) })), { v: x2, c: carrierOf(east) }];
-      const ys = [{ v: y1, c: carrierOf(south) }, ...cutsY.map((s) => ({ v: s.at, c: secondaryCarrier(s) })), { v: y2, c: carrierOf(north) }];
+      const xs = [
+        { v: x1, c: carrierOf(west) },
+        ...cutsX.map((s) => ({ v: s.at, c: secondaryCarrier(s) })),
+        { v: x2, c: carrierOf(east) },
+      ];
+      const ys = [
+        { v: y1, c: carrierOf(south) },
+        ...cutsY.map((s) => ({ v: s.at, c: secondaryCarrier(s) })),
+        { v: y2, c: carrierOf(north) },
+      ];
       let k = 0;
       for (let a = 0; a + 1 < xs.length; a++) {
         for (let b = 0; b + 1 < ys.length; b++) {
-          const px1 = xs[a].v, px2 = xs[a + 1].v, py1 = ys[b].v, py2 = ys[b + 1].v;
+          const px1 = xs[a].v,
+            px2 = xs[a + 1].v,
+            py1 = ys[b].v,
+            py2 = ys[b + 1].v;
           const dx = px2 - px1;
           const dy = py2 - py1;
           const suffix = xs.length + ys.length > 4 ? `.${++k}` : '';
           panels.push({
             id: `S-${xLines[i].label}${xLines[i + 1].label}/${yLines[j].label}${yLines[j + 1].label}${suffix}`,
-            x1: px1, x2: px2, y1: py1, y2: py2,
+            x1: px1,
+            x2: px2,
+            y1: py1,
+            y2: py2,
             lx: Math.min(dx, dy),
             ly: Math.max(dx, dy),
             edges: [

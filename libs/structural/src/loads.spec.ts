@@ -6,7 +6,13 @@ import { twoWayEquivalentLoads, panelEdgeProfiles } from './loads';
 import type { Panel } from './layout';
 
 const panel = (w: number, h: number): Panel => ({
-  id: 'P', x1: 0, x2: w, y1: 0, y2: h, lx: Math.min(w, h), ly: Math.max(w, h),
+  id: 'P',
+  x1: 0,
+  x2: w,
+  y1: 0,
+  y2: h,
+  lx: Math.min(w, h),
+  ly: Math.max(w, h),
   edges: [
     { side: 'south', carrier: { type: 'line', lineId: 's' }, from: 0, to: w },
     { side: 'north', carrier: { type: 'line', lineId: 'n' }, from: 0, to: w },
@@ -14,7 +20,8 @@ const panel = (w: number, h: number): Panel => ({
     { side: 'east', carrier: { type: 'line', lineId: 'e' }, from: 0, to: h },
   ],
 });
-const area = (p: [number, number][]) => p.slice(1).reduce((a, q, i) => a + ((q[1] + p[i][1]) / 2) * (q[0] - p[i][0]), 0);
+const area = (p: [number, number][]) =>
+  p.slice(1).reduce((a, q, i) => a + ((q[1] + p[i][1]) / 2) * (q[0] - p[i][0]), 0);
 
 describe('two-way slab loads on beams', () => {
   it('equivalent uniform loads for w 10 kPa, lx 4, ly 6: 13.33 and 17.04 (moment), 10.00 and 13.33 (shear) kN/m (derived, reference §6)', () => {
@@ -34,7 +41,8 @@ describe('two-way slab loads on beams', () => {
   });
   it('the triangle on a short beam gives the textbook equivalent for mid-span moment, w·lx/3 (derived)', () => {
     // mid-span moment of a simply supported beam under a symmetric triangle of peak q: q·L²/12 = w_eq·L²/8
-    const lx = 4, w = 10;
+    const lx = 4,
+      w = 10;
     const q = (w * lx) / 2;
     expect((q * lx * lx) / 12 / ((lx * lx) / 8)).toBeCloseTo(twoWayEquivalentLoads(w, lx, 6).shortBeamMomentKNPerM, 9);
   });

@@ -4,6 +4,7 @@
 // patterns can be formed later.
 import type { BeamLoad, LinearLoad } from './beam';
 import { memberTerms } from './beam';
+import { StructuralInputError } from './errors';
 import type { BeamLine, Layout, Panel } from './layout';
 
 /**
@@ -11,8 +12,23 @@ import type { BeamLine, Layout, Panel } from './layout';
  * short span lx and long span ly (m): for mid-span moment, short-span beam w·lx/3 and long-span
  * beam (w·lx/2)(1 − 1/(3β²)); for end shear w·lx/4 and (w·lx/2)(1 − 1/(2β)), β = ly/lx.
  * Source: the usual textbook equivalents of the 45° distribution (IS 456 cl. 24.5), as quoted.
+ * Throws StructuralInputError outside the accepted ranges.
  */
 export function twoWayEquivalentLoads(wKPa: number, lxM: number, lyM: number) {
+  const bad = (v: number, lo: number, hi: number) =>
+    !(typeof v === 'number' && Number.isFinite(v) && v >= lo && v <= hi);
+  const problems = [];
+  if (bad(wKPa, 0, 1000))
+    problems.push({ path: 'wKPa', field: 'wKPa', message: 'must be a number of kPa from 0 to 1000' });
+  if (bad(lxM, 0.1, 100))
+    problems.push({ path: 'lxM', field: 'lxM', message: 'must be a number of metres from 0.1 to 100' });
+  if (bad(lyM, 0.1, 100) || lyM < lxM)
+    problems.push({
+      path: 'lyM',
+      field: 'lyM',
+      message: 'must be a number of metres from lxM (the short span) to 100',
+    });
+  if (problems.length) throw new StructuralInputError(problems);
   const beta = lyM / lxM;
   return {
     shortBeamMomentKNPerM: (wKPa * lxM) / 3,
@@ -74,11 +90,26 @@ export function panelEdgeProfiles(p: Panel, oneWayAspect: number): { twoWay: boo
     const edgeIsShort = p.lx < p.ly - 1e-9 && Math.abs(len - p.lx) < 1e-9;
     if (!twoWay) {
       // one-way: the two long edges carry half the short span each
-      return edgeIsShort ? [] : [[e.from, h], [e.to, h]];
+      return edgeIsShort
+        ? []
+        : [
+            [e.from, h],
+            [e.to, h],
+          ];
     }
     // two-way, 45° lines from the corners: trapezoids on the long edges, triangles on the short
-    if (len > p.lx + 1e-9) return [[e.from, 0], [e.from + h, h], [e.to - h, h], [e.to, 0]];
-    return [[e.from, 0], [e.from + len / 2, len / 2], [e.to, 0]];
+    if (len > p.lx + 1e-9)
+      return [
+        [e.from, 0],
+        [e.from + h, h],
+        [e.to - h, h],
+        [e.to, 0],
+      ];
+    return [
+      [e.from, 0],
+      [e.from + len / 2, len / 2],
+      [e.to, 0],
+    ];
   });
   return { twoWay, profiles };
 }
@@ -105,7 +136,14 @@ function addProfileToLine(line: BeamLine, profile: Profile, k: number, out: Beam
       if (b - a <= 1e-9) continue;
       const wa = w0 + ((w1 - w0) * (a - s0)) / (s1 - s0);
       const wb = w0 + ((w1 - w0) * (b - s0)) / (s1 - s0);
-      out.push({ kind: 'linear', member: m.index, fromM: a - m.startS, toM: Math.min(b - m.startS, m.lengthM), startKNPerM: wa * k, endKNPerM: wb * k });
+      out.push({
+        kind: 'linear',
+        member: m.index,
+        fromM: a - m.startS,
+        toM: Math.min(b - m.startS, m.lengthM),
+        startKNPerM: wa * k,
+        endKNPerM: wb * k,
+      });
     }
   }
 }
@@ -160,7 +198,8 @@ export function mergeLinearLoads(loads: readonly BeamLoad[]): BeamLoad[] {
           wa += l.startKNPerM + slope * (a - l.fromM);
           wb += l.startKNPerM + slope * (b - l.fromM);
         }
-        if (wa !== 0 || wb !== 0) out.push({ kind: 'linear', member, fromM: a, toM: b, startKNPerM: wa, endKNPerM: wb });
+        if (wa !== 0 || wb !== 0)
+          out.push({ kind: 'linear', member, fromM: a, toM: b, startKNPerM: wa, endKNPerM: wb });
       }
       prev = b;
     }
@@ -191,8 +230,18 @@ export function slabShapes(layout: Layout, oneWayAspect: number): SlabShapes {
         const out = secShape.get(e.carrier.id);
         if (!sec || !out) return;
         const pseudo: BeamLine = {
-          id: sec.beam.id, gridLineId: '', label: sec.beam.id, runs: sec.runs, at: sec.at, nodes: [], widthMm: 0, specifiedDepthMm: null, wallThicknessMm: 0,
-          members: [{ index: 0, id: sec.beam.id, startS: sec.from, endS: sec.to, lengthM: sec.lengthM, kind: 'simple' }],
+          id: sec.beam.id,
+          gridLineId: '',
+          label: sec.beam.id,
+          runs: sec.runs,
+          at: sec.at,
+          nodes: [],
+          widthMm: 0,
+          specifiedDepthMm: null,
+          wallThicknessMm: 0,
+          members: [
+            { index: 0, id: sec.beam.id, startS: sec.from, endS: sec.to, lengthM: sec.lengthM, kind: 'simple' },
+          ],
         };
         addProfileToLine(pseudo, prof, 1, out);
       }
@@ -263,7 +312,9 @@ export function levelLoads(layout: Layout, shapes: SlabShapes, inp: LevelInput):
     const sh = shapes.secondaries.get(s.beam.id) as { shape: BeamLoad[]; reactions: [number, number] };
     const b = (s.beam.widthMm ?? inp.secondaryWidthMm.get(s.beam.id) ?? 230) / 1000;
     const d = (s.beam.depthMm ?? inp.secondaryDepthMm.get(s.beam.id) ?? 400) / 1000;
-    const own = b * Math.max(d - t, 0) * inp.unitWeightKNm3 + (inp.kind === 'floor' && s.beam.carriesWall ? inp.wallLoadKNPerM : 0);
+    const own =
+      b * Math.max(d - t, 0) * inp.unitWeightKNm3 +
+      (inp.kind === 'floor' && s.beam.carriesWall ? inp.wallLoadKNPerM : 0);
     const ownR = (own * s.lengthM) / 2;
     const deadReactions: [number, number] = [slabDead * sh.reactions[0] + ownR, slabDead * sh.reactions[1] + ownR];
     const liveReactions: [number, number] = [live * sh.reactions[0], live * sh.reactions[1]];

@@ -39,6 +39,11 @@ export interface DesignBasis {
   storeyHeightM: number;
   /** slab thickness chosen by the engineer, mm (derived when absent) */
   slabThicknessMm?: number;
+  /**
+   * EN 1992-1-1 αcc (§3.1.6(1)): the recommended value is 1.0 (the default); a national annex
+   * may set another value from 0.8 to 1.0. Used only by the EN 1992 family.
+   */
+  alphaCc?: number;
   /** beam width used for all beams unless a grid line says otherwise, mm */
   beamWidthMm: number;
   rates: UnitRates;

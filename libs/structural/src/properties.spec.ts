@@ -13,27 +13,66 @@ const beamArb = fc
     rightEnd: fc.constantFrom<'pin' | 'fixed'>('pin', 'fixed'),
     ei: fc.double({ min: 1e3, max: 1e6, noNaN: true }),
   })
-  .map((r) => continuousBeam({ spansM: r.spans, eiKNm2: r.ei, leftCantileverM: r.left, rightCantileverM: r.right, leftEnd: r.leftEnd, rightEnd: r.rightEnd }));
+  .map((r) =>
+    continuousBeam({
+      spansM: r.spans,
+      eiKNm2: r.ei,
+      leftCantileverM: r.left,
+      rightCantileverM: r.right,
+      leftEnd: r.leftEnd,
+      rightEnd: r.rightEnd,
+    }),
+  );
 
 const loadsArb = (m: BeamModel) =>
   fc.array(
     fc.oneof(
-      fc.record({ member: fc.nat(m.members.length - 1), f: fc.double({ min: 0, max: 1, noNaN: true }), p: fc.double({ min: -50, max: 200, noNaN: true }) }).map(
-        ({ member, f, p }): BeamLoad => ({ kind: 'point', member, atM: f * m.members[member].lengthM, forceKN: p }),
-      ),
-      fc.record({ member: fc.nat(m.members.length - 1), a: fc.double({ min: 0, max: 1, noNaN: true }), b: fc.double({ min: 0, max: 1, noNaN: true }), w1: fc.double({ min: 0, max: 40, noNaN: true }), w2: fc.double({ min: 0, max: 40, noNaN: true }) }).map(
-        ({ member, a, b, w1, w2 }): BeamLoad => {
+      fc
+        .record({
+          member: fc.nat(m.members.length - 1),
+          f: fc.double({ min: 0, max: 1, noNaN: true }),
+          p: fc.double({ min: -50, max: 200, noNaN: true }),
+        })
+        .map(({ member, f, p }): BeamLoad => ({
+          kind: 'point',
+          member,
+          atM: f * m.members[member].lengthM,
+          forceKN: p,
+        })),
+      fc
+        .record({
+          member: fc.nat(m.members.length - 1),
+          a: fc.double({ min: 0, max: 1, noNaN: true }),
+          b: fc.double({ min: 0, max: 1, noNaN: true }),
+          w1: fc.double({ min: 0, max: 40, noNaN: true }),
+          w2: fc.double({ min: 0, max: 40, noNaN: true }),
+        })
+        .map(({ member, a, b, w1, w2 }): BeamLoad => {
           const L = m.members[member].lengthM;
-          return { kind: 'linear', member, fromM: Math.min(a, b) * L, toM: Math.max(a, b) * L, startKNPerM: w1, endKNPerM: w2 };
-        },
-      ),
+          return {
+            kind: 'linear',
+            member,
+            fromM: Math.min(a, b) * L,
+            toM: Math.max(a, b) * L,
+            startKNPerM: w1,
+            endKNPerM: w2,
+          };
+        }),
     ),
     { minLength: 1, maxLength: 8 },
   );
 
 const withLoads = beamArb.chain((m) => loadsArb(m).map((loads) => ({ m, loads })));
-const applied = (loads: BeamLoad[]) => loads.reduce((a, l) => a + (l.kind === 'point' ? l.forceKN : ((l.startKNPerM + l.endKNPerM) / 2) * (l.toM - l.fromM)), 0);
-const scale = (loads: BeamLoad[]) => Math.max(1, ...loads.map((l) => (l.kind === 'point' ? Math.abs(l.forceKN) : Math.max(l.startKNPerM, l.endKNPerM) * 10)));
+const applied = (loads: BeamLoad[]) =>
+  loads.reduce(
+    (a, l) => a + (l.kind === 'point' ? l.forceKN : ((l.startKNPerM + l.endKNPerM) / 2) * (l.toM - l.fromM)),
+    0,
+  );
+const scale = (loads: BeamLoad[]) =>
+  Math.max(
+    1,
+    ...loads.map((l) => (l.kind === 'point' ? Math.abs(l.forceKN) : Math.max(l.startKNPerM, l.endKNPerM) * 10)),
+  );
 
 describe('beam analysis properties (fast-check)', () => {
   it('reactions balance the applied load, vertically and in moment about the first node', () => {
@@ -49,7 +88,8 @@ describe('beam analysis properties (fast-check)', () => {
           if (l.kind === 'point') return a + l.forceKN * (starts[l.member] + l.atM);
           const h = l.toM - l.fromM;
           const W = ((l.startKNPerM + l.endKNPerM) / 2) * h;
-          const mo = l.startKNPerM * h * (l.fromM + h / 2) + ((l.endKNPerM - l.startKNPerM) * h / 2) * (l.fromM + (2 * h) / 3);
+          const mo =
+            l.startKNPerM * h * (l.fromM + h / 2) + (((l.endKNPerM - l.startKNPerM) * h) / 2) * (l.fromM + (2 * h) / 3);
           return a + W * starts[l.member] + mo;
         }, 0);
         const reactMoment = r.reactions.reduce((a, x) => a + x.forceKN * x.xM + x.momentKNm, 0);
@@ -81,7 +121,14 @@ describe('beam analysis properties (fast-check)', () => {
           const L = m.members[l.member].lengthM;
           return l.kind === 'point'
             ? { ...l, member: n - 1 - l.member, atM: L - l.atM }
-            : { ...l, member: n - 1 - l.member, fromM: L - l.toM, toM: L - l.fromM, startKNPerM: l.endKNPerM, endKNPerM: l.startKNPerM };
+            : {
+                ...l,
+                member: n - 1 - l.member,
+                fromM: L - l.toM,
+                toM: L - l.fromM,
+                startKNPerM: l.endKNPerM,
+                endKNPerM: l.startKNPerM,
+              };
         });
         const a = analyseBeam(m, loads, { samplesPerMember: 2 });
         const b = analyseBeam(mm, ml, { samplesPerMember: 2 });
@@ -90,7 +137,9 @@ describe('beam analysis properties (fast-check)', () => {
           expect(Math.abs(r.forceKN - b.reactions[n - i].forceKN)).toBeLessThan(tol * 10);
           expect(Math.abs(r.momentKNm + b.reactions[n - i].momentKNm)).toBeLessThan(tol * 100);
         });
-        a.members.forEach((x, i) => expect(Math.abs(x.startMomentKNm - b.members[n - 1 - i].endMomentKNm)).toBeLessThan(tol * 100));
+        a.members.forEach((x, i) =>
+          expect(Math.abs(x.startMomentKNm - b.members[n - 1 - i].endMomentKNm)).toBeLessThan(tol * 100),
+        );
       }),
       { numRuns: 100 },
     );
@@ -105,12 +154,22 @@ describe('beam analysis properties (fast-check)', () => {
           const b = analyseBeam(m, l2, { samplesPerMember: 2 });
           const c = analyseBeam(m, [...l1, ...l2], { samplesPerMember: 2 });
           const tol = (scale(l1) + scale(l2)) * 1e-6;
-          c.reactions.forEach((r, i) => expect(Math.abs(r.forceKN - a.reactions[i].forceKN - b.reactions[i].forceKN)).toBeLessThan(tol * 10));
+          c.reactions.forEach((r, i) =>
+            expect(Math.abs(r.forceKN - a.reactions[i].forceKN - b.reactions[i].forceKN)).toBeLessThan(tol * 10),
+          );
           c.members.forEach((x, i) => {
-            expect(Math.abs(x.startMomentKNm - a.members[i].startMomentKNm - b.members[i].startMomentKNm)).toBeLessThan(tol * 100);
-            expect(Math.abs(x.endMomentKNm - a.members[i].endMomentKNm - b.members[i].endMomentKNm)).toBeLessThan(tol * 100);
+            expect(Math.abs(x.startMomentKNm - a.members[i].startMomentKNm - b.members[i].startMomentKNm)).toBeLessThan(
+              tol * 100,
+            );
+            expect(Math.abs(x.endMomentKNm - a.members[i].endMomentKNm - b.members[i].endMomentKNm)).toBeLessThan(
+              tol * 100,
+            );
           });
-          c.nodes.forEach((x, i) => expect(Math.abs(x.deflectionMm - a.nodes[i].deflectionMm - b.nodes[i].deflectionMm)).toBeLessThan(1e-6 * (1 + Math.abs(x.deflectionMm))));
+          c.nodes.forEach((x, i) =>
+            expect(Math.abs(x.deflectionMm - a.nodes[i].deflectionMm - b.nodes[i].deflectionMm)).toBeLessThan(
+              1e-6 * (1 + Math.abs(x.deflectionMm)),
+            ),
+          );
         },
       ),
       { numRuns: 100 },
@@ -126,7 +185,12 @@ describe('banded solver against a dense solve', () => {
     fc.assert(
       fc.property(withLoads, ({ m, loads }) => {
         const p = prepareBeam(m);
-        const t = m.members.map((mb, i) => memberTerms(mb.lengthM, loads.filter((l) => l.member === i)));
+        const t = m.members.map((mb, i) =>
+          memberTerms(
+            mb.lengthM,
+            loads.filter((l) => l.member === i),
+          ),
+        );
         const band = solveTerms(p, t);
         const { a, rhs, n } = assembleDense(m, t);
         solveDense(n, a, rhs);

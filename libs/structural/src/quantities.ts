@@ -65,7 +65,14 @@ export class QuantityTally {
         steelRatioSource: ratio[member].source,
       };
     });
-    const totals = rows.reduce((t, r) => ({ concreteM3: t.concreteM3 + r.concreteM3, steelKg: t.steelKg + r.steelKg, formworkM2: t.formworkM2 + r.formworkM2 }), { concreteM3: 0, steelKg: 0, formworkM2: 0 });
+    const totals = rows.reduce(
+      (t, r) => ({
+        concreteM3: t.concreteM3 + r.concreteM3,
+        steelKg: t.steelKg + r.steelKg,
+        formworkM2: t.formworkM2 + r.formworkM2,
+      }),
+      { concreteM3: 0, steelKg: 0, formworkM2: 0 },
+    );
     return { rows, totals, notes };
   }
 }

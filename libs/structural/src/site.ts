@@ -1,7 +1,15 @@
 // Footings against the site: where an isolated footing would cross a property line, the three
 // options the trade uses, each sized; where two isolated footings overlap or leave too small a
 // gap, a combined footing. Plan coordinates m, loads kN (service), pressures kPa.
-import { rectangularCombined, RectCombined, roundUp, strapFooting, StrapFooting, trapezoidalCombined, TrapezoidCombined } from './footings';
+import {
+  rectangularCombined,
+  RectCombined,
+  roundUp,
+  strapFooting,
+  StrapFooting,
+  trapezoidalCombined,
+  TrapezoidCombined,
+} from './footings';
 import type { Layout } from './layout';
 import type { PlotBoundary, Point } from './model';
 
@@ -26,7 +34,13 @@ export interface BoundaryOptions {
   interiorColumnId: string | null;
   spacingM: number | null;
   /** option 1: move the column inward along the cross wall until its own pad fits */
-  shift: { shiftM: number; newPosition: Point; crossLine: string | null; spanBeforeM: number | null; spanAfterM: number | null };
+  shift: {
+    shiftM: number;
+    newPosition: Point;
+    crossLine: string | null;
+    spanBeforeM: number | null;
+    spanAfterM: number | null;
+  };
   /** option 2: strap to the nearest interior column */
   strap: (StrapFooting & { factoredMomentKNm: number }) | null;
   /** option 3: combined footing with the interior column */
@@ -50,13 +64,15 @@ function inwardNormals(b: PlotBoundary): { a: Point; len: number; t: Point; n: P
   const v = b.vertices;
   let area = 0;
   for (let i = 0; i < v.length; i++) {
-    const p = v[i], q = v[(i + 1) % v.length];
+    const p = v[i],
+      q = v[(i + 1) % v.length];
     area += p.x * q.y - q.x * p.y;
   }
   const ccw = area > 0;
   return v.map((p, i) => {
     const q = v[(i + 1) % v.length];
-    const dx = q.x - p.x, dy = q.y - p.y;
+    const dx = q.x - p.x,
+      dy = q.y - p.y;
     const len = Math.hypot(dx, dy) || 1;
     const t = { x: dx / len, y: dy / len };
     const n = ccw ? { x: -t.y, y: t.x } : { x: t.y, y: -t.x };
@@ -64,11 +80,49 @@ function inwardNormals(b: PlotBoundary): { a: Point; len: number; t: Point; n: P
   });
 }
 
+export interface LineClearance {
+  columnId: string;
+  propertyLine: number;
+  /** distance from the column centre to the line, m, and how far the isolated pad reaches toward it, m */
+  distanceToLineM: number;
+  reachM: number;
+}
+
+/**
+ * For every column whose isolated pad faces a property line (its position along the line lies
+ * within the segment, give or take half a pad): the distance to the line and the pad's reach
+ * toward it, m. The pad crosses the line when the reach exceeds the distance.
+ */
+export function propertyLineClearances(boundary: PlotBoundary, sites: FootingSite[]): LineClearance[] {
+  const segs = inwardNormals(boundary);
+  const out: LineClearance[] = [];
+  for (const s of sites) {
+    for (const k of boundary.propertyLines) {
+      const g = segs[k];
+      if (!g) continue;
+      const rel = { x: s.x - g.a.x, y: s.y - g.a.y };
+      const along = rel.x * g.t.x + rel.y * g.t.y;
+      if (along < -s.sideM / 2 || along > g.len + s.sideM / 2) continue;
+      const d = rel.x * g.n.x + rel.y * g.n.y;
+      const reach = (s.sideM / 2) * (Math.abs(g.n.x) + Math.abs(g.n.y));
+      out.push({ columnId: s.columnId, propertyLine: k, distanceToLineM: d, reachM: reach });
+    }
+  }
+  return out;
+}
+
 /**
  * Options for every column whose isolated pad would cross a property line. loadFactor turns
  * service strap moments into factored ones.
  */
-export function boundaryOptions(boundary: PlotBoundary, layout: Layout, sites: FootingSite[], qaKPa: number, alpha: number, loadFactor: number): BoundaryOptions[] {
+export function boundaryOptions(
+  boundary: PlotBoundary,
+  layout: Layout,
+  sites: FootingSite[],
+  qaKPa: number,
+  alpha: number,
+  loadFactor: number,
+): BoundaryOptions[] {
   const segs = inwardNormals(boundary);
   const byId = new Map(sites.map((s) => [s.columnId, s]));
   const out: BoundaryOptions[] = [];
@@ -132,7 +186,12 @@ export function boundaryOptions(boundary: PlotBoundary, layout: Layout, sites: F
 }
 
 /** Pairs of isolated pads that overlap or leave less than minGapM between them, with a combined footing for each. */
-export function overlappingFootings(sites: FootingSite[], minGapM: number, qaKPa: number, alpha: number): OverlapCombined[] {
+export function overlappingFootings(
+  sites: FootingSite[],
+  minGapM: number,
+  qaKPa: number,
+  alpha: number,
+): OverlapCombined[] {
   const out: OverlapCombined[] = [];
   const ss = [...sites].sort((a, b) => a.x - b.x);
   const maxSide = ss.reduce((m, s) => Math.max(m, s.sideM), 0);
@@ -148,7 +207,15 @@ export function overlappingFootings(sites: FootingSite[], minGapM: number, qaKPa
       const halfL = Math.max(xbar + a.sideM / 2, s - xbar + b.sideM / 2);
       const lengthM = roundUp(2 * halfL, 0.1);
       const r = rectangularCombined(a.serviceKN, b.serviceKN, s, lengthM / 2 - xbar, qaKPa, alpha);
-      out.push({ columnIds: [a.columnId, b.columnId], gapM: gap, spacingM: s, lengthM, widthM: r.widthM, adoptedWidthM: r.adoptedWidthM, resultantFromFirstM: xbar });
+      out.push({
+        columnIds: [a.columnId, b.columnId],
+        gapM: gap,
+        spacingM: s,
+        lengthM,
+        widthM: r.widthM,
+        adoptedWidthM: r.adoptedWidthM,
+        resultantFromFirstM: xbar,
+      });
     }
   }
   return out;

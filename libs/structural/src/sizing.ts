@@ -1,7 +1,15 @@
 // Preliminary member sizes: slab thickness from span/depth, beam depth from span/depth and from
 // moment capacity (the larger governs), column sections per storey from axial load.
-import { beamDepthRule, columnCapacityKN, limitingMomentKNm, slabDepthRule, SourceKind, SupportCondition } from './codes';
+import {
+  beamDepthRule,
+  columnCapacityKN,
+  limitingMomentKNm,
+  slabDepthRule,
+  SourceKind,
+  SupportCondition,
+} from './codes';
 import { roundUp } from './footings';
+import { StructuralInputError } from './errors';
 import type { Layout, Panel } from './layout';
 import type { CodeFamily } from './model';
 
@@ -36,18 +44,39 @@ function neighbourCounts(all: Panel[]): Map<Panel, { x: number; y: number }> {
   const overlaps = (a1: number, a2: number, b1: number, b2: number) => Math.min(a2, b2) - Math.max(a1, b1) > 1e-6;
   const out = new Map<Panel, { x: number; y: number }>();
   for (const p of all) {
-    let x = 0, y = 0;
-    for (const xv of [p.x1, p.x2]) if ((vert.get(key(xv)) ?? []).some((q) => q !== p && overlaps(p.y1, p.y2, q.y1, q.y2) && (q.x2 <= p.x1 + 1e-6 || q.x1 >= p.x2 - 1e-6))) x++;
-    for (const yv of [p.y1, p.y2]) if ((horiz.get(key(yv)) ?? []).some((q) => q !== p && overlaps(p.x1, p.x2, q.x1, q.x2) && (q.y2 <= p.y1 + 1e-6 || q.y1 >= p.y2 - 1e-6))) y++;
+    let x = 0,
+      y = 0;
+    for (const xv of [p.x1, p.x2])
+      if (
+        (vert.get(key(xv)) ?? []).some(
+          (q) => q !== p && overlaps(p.y1, p.y2, q.y1, q.y2) && (q.x2 <= p.x1 + 1e-6 || q.x1 >= p.x2 - 1e-6),
+        )
+      )
+        x++;
+    for (const yv of [p.y1, p.y2])
+      if (
+        (horiz.get(key(yv)) ?? []).some(
+          (q) => q !== p && overlaps(p.x1, p.x2, q.x1, q.x2) && (q.y2 <= p.y1 + 1e-6 || q.y1 >= p.y2 - 1e-6),
+        )
+      )
+        y++;
     out.set(p, { x, y });
   }
   return out;
 }
 
 /**
- * Required slab thickness (mm) per panel; one-way when long/short ≥ oneWayAspect. Spans m, fy MPa.
+ * Required slab thickness (mm) per panel; one-way when long/short > oneWayAspect (the textbook
+ * rule "one-way when the long span exceeds twice the short one", reference-values §2). Spans m, fy MPa.
  */
-export function slabSizes(family: CodeFamily, layout: Layout, fy: number, oneWayAspect: number, coverMm: number, minMm: number): SlabSize[] {
+export function slabSizes(
+  family: CodeFamily,
+  layout: Layout,
+  fy: number,
+  oneWayAspect: number,
+  coverMm: number,
+  minMm: number,
+): SlabSize[] {
   const counts = neighbourCounts(layout.panels);
   return layout.panels.map((p) => {
     const oneWay = p.ly / p.lx > oneWayAspect;
@@ -79,10 +108,12 @@ export interface BeamSize {
   /** overall depth from span/depth, mm */
   fromSpanDepthMm: number;
   spanDepthSource: string;
+  spanDepthKind: SourceKind;
   /** design moment (largest magnitude of the envelope), kN·m, and the overall depth it needs, mm */
   designMomentKNm: number;
   fromMomentMm: number;
   momentSource: string;
+  momentKind: SourceKind;
   governs: 'span/depth' | 'moment';
   /** adopted overall depth, rounded up to 25 mm */
   adoptedDepthMm: number;
@@ -90,7 +121,10 @@ export interface BeamSize {
   providedDepthMm: number | null;
 }
 
-/** Overall beam depth (mm) for a span (m), width (mm), design moment (kN·m), strengths (MPa). */
+/**
+ * Overall beam depth (mm) for a span (m), width (mm), design moment (kN·m), strengths (MPa), with
+ * the source and source kind of each rule. Throws StructuralInputError outside the accepted ranges.
+ */
 export function beamDepth(
   family: CodeFamily,
   condition: SupportCondition,
@@ -100,18 +134,43 @@ export function beamDepth(
   fck: number,
   fy: number,
   coverMm: number,
-): Pick<BeamSize, 'fromSpanDepthMm' | 'spanDepthSource' | 'fromMomentMm' | 'momentSource' | 'governs' | 'adoptedDepthMm'> {
+  opts?: { alphaCc?: number },
+): Pick<
+  BeamSize,
+  | 'fromSpanDepthMm'
+  | 'spanDepthSource'
+  | 'spanDepthKind'
+  | 'fromMomentMm'
+  | 'momentSource'
+  | 'momentKind'
+  | 'governs'
+  | 'adoptedDepthMm'
+> {
+  if (!(Number.isFinite(designMomentKNm) && Math.abs(designMomentKNm) <= 1e5))
+    throw new StructuralInputError([
+      {
+        path: 'designMomentKNm',
+        field: 'designMomentKNm',
+        message: 'must be a number of kN·m up to 100 000 in magnitude',
+      },
+    ]);
+  if (!(Number.isFinite(coverMm) && coverMm >= 0 && coverMm <= 200))
+    throw new StructuralInputError([
+      { path: 'coverMm', field: 'coverMm', message: 'must be a number of mm from 0 to 200' },
+    ]);
   const rule = beamDepthRule(family, condition, spanM, fy);
   const fromSpan = rule.measure === 'overall' ? rule.requiredMm : rule.requiredMm + coverMm;
-  const unit = limitingMomentKNm(family, widthMm, 1, fck, fy); // kN·m per mm² of d²
+  const unit = limitingMomentKNm(family, widthMm, 1, fck, fy, opts); // kN·m per mm² of d²
   const d = Math.sqrt(Math.abs(designMomentKNm) / unit.value);
   const fromMoment = d + coverMm;
   const governs = fromMoment > fromSpan ? 'moment' : 'span/depth';
   return {
     fromSpanDepthMm: fromSpan,
     spanDepthSource: rule.source,
+    spanDepthKind: rule.kind,
     fromMomentMm: fromMoment,
     momentSource: unit.source,
+    momentKind: unit.kind,
     governs,
     adoptedDepthMm: roundUp(Math.max(fromSpan, fromMoment), 25),
   };
@@ -131,30 +190,77 @@ export interface ColumnStoreySize {
 }
 
 const sourceCache = new Map<string, string>();
+// capacity of square sections 25 mm apart, per family and material set (EN capacity is not
+// proportional to area: the minimum eccentricity depends on the side)
+const squareTables = new Map<string, Float64Array>();
+const SIDE_STEP = 25;
+const SIDE_MAX = 3000;
 
 /**
  * Column section for a factored axial load (kN), strengths MPa, steel ratio of the gross area,
  * minimum side and given section in mm: area (mm²) and square side (mm) needed, the given
- * section's capacity (kN) and its utilisation.
+ * section's capacity (kN) and its utilisation. Throws StructuralInputError outside the accepted ranges.
  */
-export function columnSize(family: CodeFamily, factoredKN: number, fck: number, fy: number, steelRatio: number, minSideMm: number, providedMm: [number, number]): ColumnStoreySize {
-  const perMm2 = columnCapacityKN(family, 1, 1, fck, fy, steelRatio);
-  const key = `${family}${steelRatio}`;
+export function columnSize(
+  family: CodeFamily,
+  factoredKN: number,
+  fck: number,
+  fy: number,
+  steelRatio: number,
+  minSideMm: number,
+  providedMm: [number, number],
+  opts?: { alphaCc?: number },
+): ColumnStoreySize {
+  const problems: { path: string; field: string; message: string }[] = [];
+  if (!(Number.isFinite(factoredKN) && factoredKN >= 0 && factoredKN <= 1e6))
+    problems.push({ path: 'factoredKN', field: 'factoredKN', message: 'must be a number of kN from 0 to 1 000 000' });
+  if (!(Number.isFinite(minSideMm) && minSideMm >= 0 && minSideMm <= SIDE_MAX))
+    problems.push({ path: 'minSideMm', field: 'minSideMm', message: `must be a number of mm from 0 to ${SIDE_MAX}` });
+  if (!Array.isArray(providedMm) || providedMm.length !== 2)
+    problems.push({ path: 'providedMm', field: 'providedMm', message: 'must be [width, depth] in mm' });
+  if (problems.length) throw new StructuralInputError(problems);
+  const key = `${family}|${fck}|${fy}|${steelRatio}|${opts?.alphaCc ?? ''}`;
+  const provided = columnCapacityKN(family, providedMm[0], providedMm[1], fck, fy, steelRatio, opts);
   let source = sourceCache.get(key);
   if (source === undefined) {
-    source = `${perMm2.source}, steel ${(steelRatio * 100).toFixed(1)} % of gross area assumed`;
+    const generic =
+      family === 'EN1992'
+        ? provided.source.replace(/e0 = max\(h\/30, 20 mm\) = [0-9.]+ mm/, 'e0 = max(h/30, 20 mm)')
+        : provided.source;
+    source = `${generic}, steel ${(steelRatio * 100).toFixed(1)} % of gross area assumed`;
     sourceCache.set(key, source);
   }
-  const requiredAreaMm2 = factoredKN / perMm2.value;
-  const side = Math.max(roundUp(Math.sqrt(requiredAreaMm2), 25), minSideMm);
-  const provided = columnCapacityKN(family, providedMm[0], providedMm[1], fck, fy, steelRatio).value;
+  let requiredAreaMm2: number;
+  let side: number;
+  if (family !== 'EN1992') {
+    const perMm2 = columnCapacityKN(family, 1, 1, fck, fy, steelRatio).value;
+    requiredAreaMm2 = factoredKN / perMm2;
+    side = Math.max(roundUp(Math.sqrt(requiredAreaMm2), SIDE_STEP), minSideMm);
+  } else {
+    let t = squareTables.get(key);
+    if (!t) {
+      t = new Float64Array(SIDE_MAX / SIDE_STEP + 1);
+      for (let k = 1; k < t.length; k++)
+        t[k] = columnCapacityKN(family, k * SIDE_STEP, k * SIDE_STEP, fck, fy, steelRatio, opts).value;
+      squareTables.set(key, t);
+    }
+    let k = 1;
+    while (k < t.length - 1 && t[k] < factoredKN) k++;
+    // side between the two tabulated squares, by linear interpolation of capacity
+    const s0 = (k - 1) * SIDE_STEP,
+      c0 = t[k - 1],
+      c1 = t[k];
+    const exact = c1 > c0 ? s0 + SIDE_STEP * Math.min(1, Math.max(0, (factoredKN - c0) / (c1 - c0))) : k * SIDE_STEP;
+    requiredAreaMm2 = exact * exact;
+    side = Math.max(k * SIDE_STEP, minSideMm);
+  }
   return {
     storey: 0,
     factoredKN,
     requiredAreaMm2,
     requiredSideMm: side,
-    providedCapacityKN: provided,
-    utilisation: factoredKN / provided,
+    providedCapacityKN: provided.value,
+    utilisation: factoredKN / provided.value,
     source,
   };
 }

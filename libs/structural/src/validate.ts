@@ -4,6 +4,22 @@ import { LIMIT_KEYS } from './codes';
 import type { Problem } from './model';
 
 type Obj = Record<string, unknown>;
+
+/**
+ * Physically sensible ranges; anything beyond is refused with the range. Loads in kPa, plan
+ * coordinates in m, counts of elements (a scheme beyond them is not a building the engine plans).
+ */
+export const SCHEME_LIMITS = {
+  loadKPa: 50,
+  coordM: 5000,
+  gridLines: 2000,
+  columns: 10000,
+  secondaryBeams: 10000,
+  stairs: 200,
+  vertices: 1000,
+} as const;
+const LIM = SCHEME_LIMITS;
+const XY = { min: -SCHEME_LIMITS.coordM, max: SCHEME_LIMITS.coordM };
 const isObj = (v: unknown): v is Obj => typeof v === 'object' && v !== null && !Array.isArray(v);
 
 interface NumRule {
@@ -11,6 +27,8 @@ interface NumRule {
   min?: number;
   /** strictly greater than */
   gt?: number;
+  /** at most */
+  max?: number;
   int?: boolean;
 }
 
@@ -29,7 +47,20 @@ class Collector {
     }
     if (rule.int && !Number.isInteger(v)) this.add(path, field, 'must be a whole number', elementId);
     if (rule.gt !== undefined && !(v > rule.gt)) this.add(path, field, `must be greater than ${rule.gt}`, elementId);
-    if (rule.min !== undefined && v < rule.min) this.add(path, field, `must be at least ${rule.min}`, elementId);
+    if (rule.min !== undefined && v < rule.min)
+      this.add(
+        path,
+        field,
+        `must be at least ${rule.min}${rule.max !== undefined ? ` (accepted: ${rule.min} to ${rule.max})` : ''}`,
+        elementId,
+      );
+    if (rule.max !== undefined && v > rule.max)
+      this.add(
+        path,
+        field,
+        `must be at most ${rule.max} (accepted: ${rule.min ?? rule.gt ?? '−'}${rule.gt !== undefined && rule.min === undefined ? ' exclusive' : ''} to ${rule.max})`,
+        elementId,
+      );
     return v;
   }
   str(o: Obj, base: string, field: string, elementId?: string): string | undefined {
@@ -40,10 +71,15 @@ class Collector {
     }
     return v;
   }
-  arr(o: Obj, field: string): unknown[] {
+  arr(o: Obj, field: string, max: number): unknown[] {
     const v = o[field];
     if (!Array.isArray(v)) {
       this.add(field, field, 'must be a list');
+      return [];
+    }
+    if (v.length > max) {
+      // the rest is not looked at: a scheme this large is refused as a whole
+      this.add(field, field, `at most ${max} entries (got ${v.length})`);
       return [];
     }
     return v;
@@ -76,26 +112,34 @@ export function validateScheme(input: unknown): Problem[] {
   const basis = input['basis'];
   if (!isObj(basis)) c.add('basis', 'basis', 'the design basis is missing');
   else {
-    if (!['IS456', 'ACI318', 'EN1992'].includes(basis['codeFamily'] as string)) c.add('basis.codeFamily', 'codeFamily', 'must be one of IS456, ACI318, EN1992');
-    c.num(basis, 'basis', 'concreteMPa', { min: 10 });
-    c.num(basis, 'basis', 'steelMPa', { min: 200 });
-    c.num(basis, 'basis', 'imposedKPa', { min: 0 });
-    c.num(basis, 'basis', 'roofImposedKPa', { min: 0, optional: true });
-    c.num(basis, 'basis', 'superimposedDeadKPa', { min: 0 });
-    c.num(basis, 'basis', 'wallLoadKNPerM', { min: 0 });
-    c.num(basis, 'basis', 'bearingPressureKPa', { gt: 0 });
-    c.num(basis, 'basis', 'foundingDepthM', { min: 0 });
-    c.num(basis, 'basis', 'storeys', { min: 1, int: true });
-    c.num(basis, 'basis', 'storeyHeightM', { gt: 0 });
-    c.num(basis, 'basis', 'slabThicknessMm', { gt: 0, optional: true });
-    c.num(basis, 'basis', 'beamWidthMm', { gt: 0 });
+    if (!['IS456', 'ACI318', 'EN1992'].includes(basis['codeFamily'] as string))
+      c.add('basis.codeFamily', 'codeFamily', 'must be one of IS456, ACI318, EN1992');
+    c.num(basis, 'basis', 'concreteMPa', { min: 10, max: 120 });
+    c.num(basis, 'basis', 'steelMPa', { min: 200, max: 700 });
+    if (basis['codeFamily'] === 'IS456' && typeof basis['steelMPa'] === 'number' && basis['steelMPa'] > 550)
+      c.add(
+        'basis.steelMPa',
+        'steelMPa',
+        'IS 456:2000 covers reinforcement grades up to Fe 550 (accepted: 200 to 550 for IS456)',
+      );
+    c.num(basis, 'basis', 'imposedKPa', { min: 0, max: LIM.loadKPa });
+    c.num(basis, 'basis', 'roofImposedKPa', { min: 0, max: LIM.loadKPa, optional: true });
+    c.num(basis, 'basis', 'superimposedDeadKPa', { min: 0, max: LIM.loadKPa });
+    c.num(basis, 'basis', 'wallLoadKNPerM', { min: 0, max: 200 });
+    c.num(basis, 'basis', 'bearingPressureKPa', { min: 10, max: 10000 });
+    c.num(basis, 'basis', 'foundingDepthM', { min: 0, max: 50 });
+    c.num(basis, 'basis', 'storeys', { min: 1, max: 200, int: true });
+    c.num(basis, 'basis', 'storeyHeightM', { min: 2, max: 20 });
+    c.num(basis, 'basis', 'slabThicknessMm', { min: 50, max: 1500, optional: true });
+    c.num(basis, 'basis', 'alphaCc', { min: 0.8, max: 1, optional: true });
+    c.num(basis, 'basis', 'beamWidthMm', { min: 100, max: 3000 });
     const rates = basis['rates'];
     if (!isObj(rates)) c.add('basis.rates', 'rates', 'unit rates are missing');
     else {
       c.str(rates, 'basis.rates', 'currency');
-      c.num(rates, 'basis.rates', 'concretePerM3', { min: 0 });
-      c.num(rates, 'basis.rates', 'steelPerKg', { min: 0 });
-      c.num(rates, 'basis.rates', 'formworkPerM2', { min: 0 });
+      c.num(rates, 'basis.rates', 'concretePerM3', { min: 0, max: 1e9 });
+      c.num(rates, 'basis.rates', 'steelPerKg', { min: 0, max: 1e9 });
+      c.num(rates, 'basis.rates', 'formworkPerM2', { min: 0, max: 1e9 });
     }
     const ov = basis['limitOverrides'];
     if (ov !== undefined) {
@@ -103,7 +147,8 @@ export function validateScheme(input: unknown): Problem[] {
       else
         for (const [k, v] of Object.entries(ov)) {
           if (!(LIMIT_KEYS as readonly string[]).includes(k)) c.add(`basis.limitOverrides.${k}`, k, 'unknown limit');
-          else if (typeof v !== 'number' || !Number.isFinite(v) || v < 0) c.add(`basis.limitOverrides.${k}`, k, 'must be a non-negative number');
+          else if (typeof v !== 'number' || !Number.isFinite(v) || v < 0 || v > 1e6)
+            c.add(`basis.limitOverrides.${k}`, k, "must be a number from 0 to 1000000 in the limit's unit");
         }
     }
   }
@@ -112,23 +157,25 @@ export function validateScheme(input: unknown): Problem[] {
   if (!isObj(boundary)) c.add('boundary', 'boundary', 'the plot boundary is missing');
   else {
     const vs = Array.isArray(boundary['vertices']) ? (boundary['vertices'] as unknown[]) : [];
+    if (vs.length > LIM.vertices) c.add('boundary.vertices', 'vertices', `at most ${LIM.vertices} vertices`);
     if (vs.length < 3) c.add('boundary.vertices', 'vertices', 'the boundary needs at least three vertices');
-    vs.forEach((v, i) => {
+    vs.slice(0, LIM.vertices).forEach((v, i) => {
       if (!isObj(v)) c.add(`boundary.vertices[${i}]`, 'vertices', 'must be a point {x, y}');
       else {
-        c.num(v, `boundary.vertices[${i}]`, 'x', {});
-        c.num(v, `boundary.vertices[${i}]`, 'y', {});
+        c.num(v, `boundary.vertices[${i}]`, 'x', { min: -LIM.coordM, max: LIM.coordM });
+        c.num(v, `boundary.vertices[${i}]`, 'y', { min: -LIM.coordM, max: LIM.coordM });
       }
     });
     const pl = boundary['propertyLines'];
     if (!Array.isArray(pl)) c.add('boundary.propertyLines', 'propertyLines', 'must be a list of segment indices');
     else
       pl.forEach((k, i) => {
-        if (!Number.isInteger(k) || (k as number) < 0 || (k as number) >= vs.length) c.add(`boundary.propertyLines[${i}]`, 'propertyLines', `segment index must be 0..${vs.length - 1}`);
+        if (!Number.isInteger(k) || (k as number) < 0 || (k as number) >= vs.length)
+          c.add(`boundary.propertyLines[${i}]`, 'propertyLines', `segment index must be 0..${vs.length - 1}`);
       });
   }
 
-  const grid = c.arr(input, 'grid');
+  const grid = c.arr(input, 'grid', LIM.gridLines);
   uniqueIds(c, grid, 'grid');
   grid.forEach((g, i) => {
     const base = `grid[${i}]`;
@@ -139,12 +186,12 @@ export function validateScheme(input: unknown): Problem[] {
     const hasX = g['x'] !== undefined;
     const hasY = g['y'] !== undefined;
     if (hasX === hasY) c.add(`${base}.x`, 'x', 'a grid line sets exactly one of x or y', id);
-    else c.num(g, base, hasX ? 'x' : 'y', {}, id);
-    c.num(g, base, 'overhangStartM', { min: 0, optional: true }, id);
-    c.num(g, base, 'overhangEndM', { min: 0, optional: true }, id);
-    c.num(g, base, 'wallThicknessMm', { min: 0, optional: true }, id);
-    c.num(g, base, 'beamWidthMm', { gt: 0, optional: true }, id);
-    c.num(g, base, 'beamDepthMm', { gt: 0, optional: true }, id);
+    else c.num(g, base, hasX ? 'x' : 'y', { min: -LIM.coordM, max: LIM.coordM }, id);
+    c.num(g, base, 'overhangStartM', { min: 0, max: 10, optional: true }, id);
+    c.num(g, base, 'overhangEndM', { min: 0, max: 10, optional: true }, id);
+    c.num(g, base, 'wallThicknessMm', { min: 0, max: 1000, optional: true }, id);
+    c.num(g, base, 'beamWidthMm', { min: 100, max: 3000, optional: true }, id);
+    c.num(g, base, 'beamDepthMm', { min: 100, max: 5000, optional: true }, id);
   });
 
   // two grid lines on the same coordinate would make a bay of zero width
@@ -161,7 +208,7 @@ export function validateScheme(input: unknown): Problem[] {
     else seenAt.set(key, id ?? `#${i}`);
   });
 
-  const cols = c.arr(input, 'columns');
+  const cols = c.arr(input, 'columns', LIM.columns);
   uniqueIds(c, cols, 'columns');
   const pos: { id: string; x: number; y: number; i: number }[] = [];
   cols.forEach((col, i) => {
@@ -170,11 +217,12 @@ export function validateScheme(input: unknown): Problem[] {
     const id = typeof col['id'] === 'string' ? col['id'] : undefined;
     c.str(col, base, 'id', id);
     c.str(col, base, 'label', id);
-    const x = c.num(col, base, 'x', {}, id);
-    const y = c.num(col, base, 'y', {}, id);
-    c.num(col, base, 'widthMm', { gt: 0 }, id);
-    c.num(col, base, 'depthMm', { gt: 0 }, id);
-    if (col['orientationDeg'] !== 0 && col['orientationDeg'] !== 90) c.add(`${base}.orientationDeg`, 'orientationDeg', 'must be 0 or 90', id);
+    const x = c.num(col, base, 'x', { min: -LIM.coordM, max: LIM.coordM }, id);
+    const y = c.num(col, base, 'y', { min: -LIM.coordM, max: LIM.coordM }, id);
+    c.num(col, base, 'widthMm', { min: 100, max: 5000 }, id);
+    c.num(col, base, 'depthMm', { min: 100, max: 5000 }, id);
+    if (col['orientationDeg'] !== 0 && col['orientationDeg'] !== 90)
+      c.add(`${base}.orientationDeg`, 'orientationDeg', 'must be 0 or 90', id);
     if (x !== undefined && y !== undefined && id) pos.push({ id, x, y, i });
   });
   pos.sort((a, b) => a.x - b.x);
@@ -183,38 +231,43 @@ export function validateScheme(input: unknown): Problem[] {
       if (Math.hypot(pos[j].x - pos[i].x, pos[j].y - pos[i].y) < 0.05)
         c.add(`columns[${pos[j].i}].x`, 'x', `stands on the same spot as column ${pos[i].id}`, pos[j].id);
 
-  const secs = c.arr(input, 'secondaryBeams');
+  const secs = c.arr(input, 'secondaryBeams', LIM.secondaryBeams);
   uniqueIds(c, secs, 'secondaryBeams');
   secs.forEach((s, i) => {
     const base = `secondaryBeams[${i}]`;
     if (!isObj(s)) return c.add(base, 'secondaryBeams', 'must be an object');
     const id = typeof s['id'] === 'string' ? s['id'] : undefined;
     c.str(s, base, 'id', id);
-    const a = s['start'], b = s['end'];
+    const a = s['start'],
+      b = s['end'];
     if (!isObj(a) || !isObj(b)) return c.add(`${base}.start`, 'start', 'start and end must be points {x, y}', id);
-    const ax = c.num(a, `${base}.start`, 'x', {}, id), ay = c.num(a, `${base}.start`, 'y', {}, id);
-    const bx = c.num(b, `${base}.end`, 'x', {}, id), by = c.num(b, `${base}.end`, 'y', {}, id);
+    const ax = c.num(a, `${base}.start`, 'x', XY, id),
+      ay = c.num(a, `${base}.start`, 'y', XY, id);
+    const bx = c.num(b, `${base}.end`, 'x', XY, id),
+      by = c.num(b, `${base}.end`, 'y', XY, id);
     if ([ax, ay, bx, by].every((v) => v !== undefined)) {
-      const dx = Math.abs((bx as number) - (ax as number)), dy = Math.abs((by as number) - (ay as number));
+      const dx = Math.abs((bx as number) - (ax as number)),
+        dy = Math.abs((by as number) - (ay as number));
       if (dx > 0.02 && dy > 0.02) c.add(`${base}.end`, 'end', 'a secondary beam must run parallel to x or to y', id);
       if (dx < 0.1 && dy < 0.1) c.add(`${base}.end`, 'end', 'a secondary beam must be longer than 0.1 m', id);
     }
-    c.num(s, base, 'widthMm', { gt: 0, optional: true }, id);
-    c.num(s, base, 'depthMm', { gt: 0, optional: true }, id);
+    c.num(s, base, 'widthMm', { min: 100, max: 3000, optional: true }, id);
+    c.num(s, base, 'depthMm', { min: 100, max: 5000, optional: true }, id);
   });
 
-  const stairs = c.arr(input, 'stairs');
+  const stairs = c.arr(input, 'stairs', LIM.stairs);
   uniqueIds(c, stairs, 'stairs');
   stairs.forEach((f, i) => {
     const base = `stairs[${i}]`;
     if (!isObj(f)) return c.add(base, 'stairs', 'must be an object');
     const id = typeof f['id'] === 'string' ? f['id'] : undefined;
     c.str(f, base, 'id', id);
-    c.num(f, base, 'riserMm', { gt: 0 }, id);
-    c.num(f, base, 'treadMm', { gt: 0 }, id);
-    c.num(f, base, 'risers', { min: 1, int: true }, id);
-    c.num(f, base, 'widthM', { gt: 0 }, id);
-    if (f['use'] !== 'residential' && f['use'] !== 'other') c.add(`${base}.use`, 'use', 'must be residential or other', id);
+    c.num(f, base, 'riserMm', { min: 50, max: 400 }, id);
+    c.num(f, base, 'treadMm', { min: 100, max: 1000 }, id);
+    c.num(f, base, 'risers', { min: 1, max: 100, int: true }, id);
+    c.num(f, base, 'widthM', { min: 0.5, max: 20 }, id);
+    if (f['use'] !== 'residential' && f['use'] !== 'other')
+      c.add(`${base}.use`, 'use', 'must be residential or other', id);
   });
   return c.problems;
 }

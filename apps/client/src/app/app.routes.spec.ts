@@ -3,7 +3,8 @@ import { HttpTestingController, provideHttpClientTesting } from '@angular/common
 import { TestBed } from '@angular/core/testing';
 import { Router, provideRouter, withComponentInputBinding } from '@angular/router';
 import { RouterTestingHarness } from '@angular/router/testing';
-import type { Me } from '@trabeate/contracts';
+import { meSchema, projectListSchema, type Me } from '@trabeate/contracts';
+import { reply, replyError } from '../testing/api-replies';
 import { routes } from './app.routes';
 import { grantedMe } from './core/auth/testing';
 
@@ -27,9 +28,8 @@ describe('app routes', () => {
     await new Promise((r) => setTimeout(r));
     const req = backend.match('/api/me');
     for (const r of req) {
-      if (me === 'anonymous')
-        r.flush({ error: { code: 'unauthenticated', message: 'x' } }, { status: 401, statusText: 'Unauthorized' });
-      else r.flush(me);
+      if (me === 'anonymous') replyError(r, 401, { code: 'unauthenticated', message: 'Sign in to use Trabeate.' });
+      else reply(r, meSchema, me);
     }
     await done;
     harness.detectChanges();
@@ -38,7 +38,11 @@ describe('app routes', () => {
   it('opens Projects for the bare address when signed in, and asks the server for the list', async () => {
     await open('/', grantedMe('engineer'));
     expect(TestBed.inject(Router).url).toBe('/projects');
-    backend.expectOne((r) => r.url === '/api/projects').flush({ items: [], total: 0, page: 1, pageSize: 25 });
+    reply(
+      backend.expectOne((r) => r.url === '/api/projects'),
+      projectListSchema,
+      { items: [], total: 0, page: 1, pageSize: 25 },
+    );
     await harness.fixture.whenStable();
     expect(shownText()).toContain('No projects to show yet');
   });
@@ -49,14 +53,22 @@ describe('app routes', () => {
     expect(shownText()).toContain('Sign in to Trabeate');
   });
 
-  it.each([
-    ['/drawings', 'The drawing register is on its way', 'purpose of issue'],
-    ['/fees', 'Fees and invoices are coming soon', 'adding up to 100 %'],
-  ])('%s shows a designed placeholder that says what is coming', async (url, heading, detail) => {
-    await open(url, grantedMe('principal'));
-    expect(shownText()).toContain(heading);
-    expect(shownText()).toContain('What is coming');
-    expect(shownText()).toContain(detail);
+  it.each([['/fees', 'Fees and invoices are coming soon', 'adding up to 100 %']])(
+    '%s shows a designed placeholder that says what is coming',
+    async (url, heading, detail) => {
+      await open(url, grantedMe('principal'));
+      expect(shownText()).toContain(heading);
+      expect(shownText()).toContain('What is coming');
+      expect(shownText()).toContain(detail);
+    },
+  );
+
+  it('/drawings opens the register of the first project the caller can see', async () => {
+    await open('/drawings', grantedMe('principal'));
+    backend.expectOne((r) => r.url === '/api/projects').flush({ items: [], total: 0, page: 1, pageSize: 100 });
+    await harness.fixture.whenStable();
+    harness.detectChanges();
+    expect(shownText()).toContain('No project to show drawings for');
   });
 
   it('/status is public: it loads without asking who is signed in and asks the server for its health', async () => {

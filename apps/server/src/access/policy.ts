@@ -9,10 +9,11 @@ import type { Role } from '@trabeate/contracts';
  * - signedIn: a person with access (any role).
  * - firm / principal: the firm's staff / the principal only.
  * - project:*: the project named by :projectId must be visible to the caller (else 404), and the
- *   caller's role must allow the action on it (else 403 saying why).
+ *   caller's role must allow the action on it (else 403 saying why). `internal` is the firm's own
+ *   work on a project (review threads, working files): clients see outcomes, not work in progress.
  */
 export type ProjectAction =
-  'read' | 'work' | 'manage' | 'finance' | 'pay' | 'acknowledge' | 'readSchemes' | 'editSchemes';
+  'read' | 'internal' | 'work' | 'manage' | 'finance' | 'pay' | 'acknowledge' | 'readSchemes' | 'editSchemes';
 export type Rule = 'public' | 'identified' | 'signedIn' | 'firm' | 'principal' | `project:${ProjectAction}`;
 
 export interface Caller {
@@ -22,6 +23,9 @@ export interface Caller {
   displayName: string;
   role: Role;
   clientOrganisationId: string | null;
+  /** Names loaded with the caller on each request (absent where a caller is built otherwise). */
+  firmName?: string;
+  clientOrganisationName?: string | null;
 }
 
 /** The facts about one project that visibility depends on. */
@@ -53,6 +57,10 @@ export function projectRefusal(role: Role, action: ProjectAction): string | null
   switch (action) {
     case 'read':
       return null;
+    case 'internal':
+      return role === 'client'
+        ? "Review notes and working files stay with the firm; you see each stage's progress here and receive drawings when they are issued."
+        : null;
     case 'work':
       return role === 'client' ? 'Client contacts can view this project but not change it.' : null;
     case 'manage':
@@ -86,11 +94,14 @@ export function firmRefusal(role: Role, rule: 'firm' | 'principal'): string | nu
   return role === 'client' ? "This part of Trabeate is for the firm's staff." : null;
 }
 
-export function abilities(role: Role): Record<'work' | 'manage' | 'seeFinance' | 'pay' | 'acknowledge', boolean> {
+export function abilities(
+  role: Role,
+): Record<'work' | 'manage' | 'seeFinance' | 'seeInternal' | 'pay' | 'acknowledge', boolean> {
   return {
     work: projectRefusal(role, 'work') === null,
     manage: projectRefusal(role, 'manage') === null,
     seeFinance: projectRefusal(role, 'finance') === null,
+    seeInternal: projectRefusal(role, 'internal') === null,
     pay: projectRefusal(role, 'pay') === null,
     acknowledge: projectRefusal(role, 'acknowledge') === null,
   };

@@ -1,6 +1,8 @@
 import type { RequestHandler, Router } from 'express';
 import type { Db } from '../db/db';
+import type { VisibleProject } from './request';
 import { HttpError, notFound } from '../core/errors';
+import { rejectNulCharacters } from '../core/validate';
 import { canSeeProject, firmRefusal, projectRefusal, type ProjectAction, type Rule } from './policy';
 
 export type Method = 'get' | 'post' | 'put' | 'patch' | 'delete';
@@ -33,7 +35,8 @@ export function mountRoutes(
   routes: RouteDecl[],
   deps: GuardDeps,
 ): Array<Pick<RouteDecl, 'method' | 'path' | 'rule'>> {
-  for (const r of routes) router[r.method](r.path, guard(r.rule, deps), ...r.handlers);
+  // NUL is refused before anything, the guard's own queries included, can pass it to PostgreSQL.
+  for (const r of routes) router[r.method](r.path, rejectNulCharacters, guard(r.rule, deps), ...r.handlers);
   return routes.map(({ method, path, rule }) => ({ method, path, rule }));
 }
 
@@ -82,17 +85,23 @@ export function guard(rule: Rule, { db, csrfValid }: GuardDeps): RequestHandler 
     const projectId = req.params['projectId'];
     const missing = notFound('No project with this id.');
     if (typeof projectId !== 'string' || !UUID.test(projectId)) throw missing;
-    const project = await db('projects')
-      .where({ 'projects.id': projectId, 'projects.firm_id': caller.firmId })
-      .first('projects.id', 'projects.firm_id', 'projects.client_organisation_id');
-    if (!project) throw missing;
-    const member = await db('project_members')
-      .where({ project_id: projectId, user_id: caller.userId })
-      .first('user_id');
+    // The project and the caller's membership in one query: this runs on every project request.
+    const found = await db('projects as p')
+      .where({ 'p.id': projectId, 'p.firm_id': caller.firmId })
+      .first(
+        'p.id',
+        'p.firm_id',
+        'p.client_organisation_id',
+        db.raw('exists (select 1 from project_members m where m.project_id = p.id and m.user_id = ?) as is_member', [
+          caller.userId,
+        ]),
+      );
+    if (!found) throw missing;
+    const { is_member: isMember, ...project } = found as VisibleProject & { is_member: boolean };
     const visible = canSeeProject(caller, {
       firmId: project.firm_id,
       clientOrganisationId: project.client_organisation_id,
-      callerIsMember: Boolean(member),
+      callerIsMember: isMember,
     });
     if (!visible) throw missing;
     const refusal = projectRefusal(caller.role, action);

@@ -1,4 +1,5 @@
 import type { Caller } from './policy';
+import type { CallerRow } from '../auth/caller.repository';
 
 /** The signed-in identity kept in the session (set at the sign-in callback). */
 export interface SessionAuth {
@@ -31,6 +32,8 @@ declare module 'express-session' {
   interface SessionData {
     auth?: SessionAuth;
     signIn?: PendingSignIn;
+    /** When the idle expiry was last pushed forward (ms since 1970); see refreshIdleExpiry. */
+    seenAt?: number;
   }
 }
 
@@ -40,6 +43,8 @@ declare module 'express-serve-static-core' {
     caller?: Caller;
     /** The project named by :projectId, loaded by the access guard once visibility is checked. */
     project?: VisibleProject;
+    /** The person the session names, read with the session (null: none active); see session.ts. */
+    preloadedCaller?: CallerRow | null;
     /** Why a session cookie came with no live session (for the 401 message). */
     sessionProblem?: 'expired';
   }

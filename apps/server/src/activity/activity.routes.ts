@@ -3,9 +3,11 @@ import { activityQuerySchema, type Activity } from '@trabeate/contracts';
 import type { Db } from '../db/db';
 import { validate } from '../core/validate';
 import { route, type RouteDecl } from '../access/registry';
+import { projectRefusal, type Caller } from '../access/policy';
 import { listActivity, type ActivityFilters, type ActivityRow } from './activity.repository';
 
 const params = z.object({ projectId: z.uuid() });
+const CLIENT_HIDDEN: readonly Activity['objectType'][] = ['deliverable', 'comment'];
 
 export const activityOf = (r: ActivityRow): Activity => ({
   id: r.id,
@@ -27,7 +29,9 @@ export function activityRoutes(db: Db): RouteDecl[] {
       validate({ params, query: activityQuerySchema }),
       async (req, res) => {
         const q = res.locals['query'] as ActivityFilters;
-        const { rows, total } = await listActivity(db, req.project!.id, q);
+        // Uploads and review notes are the firm's work in progress; clients see the stage moves.
+        const internal = projectRefusal((req.caller as Caller).role, 'internal') === null;
+        const { rows, total } = await listActivity(db, req.project!.id, q, internal ? [] : CLIENT_HIDDEN);
         res.json({ items: rows.map(activityOf), total, page: q.page, pageSize: q.pageSize });
       },
     ),

@@ -15,6 +15,7 @@ export interface AuthRouteDeps {
   oidc: OidcClient | undefined;
   publicUrl: string;
   absoluteHours: number;
+  /** Limits sign-in starts (only starts: the callback needs a start of its own). */
   rateLimit: RequestHandler;
   issueCsrfToken: (req: Request, res: Response, overwrite: boolean) => void;
   clearCsrfToken: (res: Response) => void;
@@ -85,7 +86,7 @@ export function authRoutes(d: AuthRouteDeps): RouteDecl[] {
       res.redirect(302, url.href);
     }),
 
-    route('get', '/auth/callback', 'public', d.rateLimit, async (req, res) => {
+    route('get', '/auth/callback', 'public', async (req, res) => {
       const pending = req.session?.signIn;
       const params = new URL(req.originalUrl, d.publicUrl).searchParams;
       // Whatever happens next, this sign-in attempt is used up: a replayed callback finds nothing.
@@ -195,12 +196,21 @@ export function authRoutes(d: AuthRouteDeps): RouteDecl[] {
         res.json(body);
         return;
       }
-      const [firm, org] = await Promise.all([
-        d.db('firms').where({ id: caller.firmId }).first('id', 'name'),
-        caller.clientOrganisationId
-          ? d.db('client_organisations').where({ id: caller.clientOrganisationId }).first('id', 'name')
-          : null,
-      ]);
+      // The names come with the caller (one query per request); look them up only if absent.
+      const [firm, org] =
+        caller.firmName !== undefined
+          ? [
+              { id: caller.firmId, name: caller.firmName },
+              caller.clientOrganisationId
+                ? { id: caller.clientOrganisationId, name: caller.clientOrganisationName ?? '' }
+                : null,
+            ]
+          : await Promise.all([
+              d.db('firms').where({ id: caller.firmId }).first('id', 'name'),
+              caller.clientOrganisationId
+                ? d.db('client_organisations').where({ id: caller.clientOrganisationId }).first('id', 'name')
+                : null,
+            ]);
       const body: Me = {
         access: 'granted',
         user: {

@@ -38,14 +38,23 @@ const configSchema = z
       .min(1)
       .max(24 * 60)
       .default(60),
+    // A request pushes the idle expiry forward (one write of the session row) only when the last
+    // push is older than this: reads then write nothing, and the idle limit ends up to this much early.
+    SESSION_TOUCH_SECONDS: z.coerce
+      .number()
+      .int()
+      .min(0)
+      .max(60 * 60)
+      .default(300),
     SESSION_ABSOLUTE_HOURS: z.coerce
       .number()
       .int()
       .min(1)
       .max(24 * 30)
       .default(12),
-    // Sign-in starts and callbacks allowed per client address in each 15-minute window.
-    SIGN_IN_RATE_LIMIT: z.coerce.number().int().min(1).default(30),
+    // Sign-in starts allowed per client address in each 15-minute window (returns from the
+    // provider are not counted). 300 leaves a large office behind one address well clear of it.
+    SIGN_IN_RATE_LIMIT: z.coerce.number().int().min(1).default(300),
     INVITATION_TTL_DAYS: z.coerce.number().int().min(1).max(90).default(14),
 
     // Files: S3-compatible object storage (locally the S3 fake on 127.0.0.1:4312), and the largest
@@ -130,6 +139,7 @@ export type AuthConfig = Pick<
   | 'OIDC_ALLOW_INSECURE_HTTP'
   | 'SESSION_SECRET'
   | 'SESSION_IDLE_MINUTES'
+  | 'SESSION_TOUCH_SECONDS'
   | 'SESSION_ABSOLUTE_HOURS'
   | 'SIGN_IN_RATE_LIMIT'
   | 'INVITATION_TTL_DAYS'

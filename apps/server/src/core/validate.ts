@@ -19,6 +19,11 @@ export function validate(schemas: Schemas): RequestHandler {
     for (const part of ['params', 'query', 'body'] as const) {
       const schema = schemas[part];
       if (!schema) continue;
+      const nulAt = nulPath(req[part], part);
+      if (nulAt) {
+        (fields[nulAt] ??= []).push('must not contain the NUL character (U+0000)');
+        continue;
+      }
       const result = schema.safeParse(req[part] ?? {});
       if (!result.success) {
         for (const issue of result.error.issues) {
@@ -41,3 +46,38 @@ export function validate(schemas: Schemas): RequestHandler {
     next();
   };
 }
+
+/**
+ * The path (as "part.a.0.b") of the first string or key holding U+0000, or null. PostgreSQL
+ * refuses NUL in text, so such input is the client's mistake and must not reach a query. Walks
+ * with its own stack: a deeply nested JSON body must not overflow the call stack.
+ */
+export function nulPath(value: unknown, part: string): string | null {
+  const stack: Array<[unknown, string]> = [[value, part]];
+  while (stack.length > 0) {
+    const [v, at] = stack.pop()!;
+    if (typeof v === 'string') {
+      if (v.includes('\u0000')) return at;
+    } else if (v !== null && typeof v === 'object') {
+      for (const [key, child] of Object.entries(v)) {
+        const path = `${at}.${key.replaceAll('\u0000', '\\0')}`;
+        if (key.includes('\u0000')) return path;
+        stack.push([child, path]);
+      }
+    }
+  }
+  return null;
+}
+
+/** 400 for a NUL character anywhere in the path parameters, query or body, naming where. */
+export const rejectNulCharacters: RequestHandler = (req, _res, next) => {
+  for (const part of ['params', 'query', 'body'] as const) {
+    const at = nulPath(req[part], part);
+    if (at) {
+      const message = 'must not contain the NUL character (U+0000)';
+      next(new HttpError(400, 'validation_failed', `Invalid ${at}: ${message}`, { [at]: [message] }));
+      return;
+    }
+  }
+  next();
+};

@@ -27,9 +27,9 @@ export function deliverableRoutes(db: Db, store: ObjectStore | undefined, maxByt
     ? deliverableUpload({
         store,
         maxBytes,
-        // A fresh folder per upload: a re-upload of the same name never lands on the old object.
-        keyFor: (req, f) =>
-          `projects/${req.project!.id}/stages/${String(req.params['stageKey'])}/${randomUUID()}/${f.safeName}`,
+        // Ids only: a fresh id per upload, so a re-upload never lands on the old object, and no
+        // name a person typed reaches storage. Older rows keep their stored key (reads use it).
+        keyFor: (req) => `projects/${req.project!.id}/stages/${keyOf(req)}/${randomUUID()}`,
       })
     : noStore;
 
@@ -37,7 +37,7 @@ export function deliverableRoutes(db: Db, store: ObjectStore | undefined, maxByt
     route(
       'get',
       '/projects/:projectId/stages/:stageKey/deliverables',
-      'project:read',
+      'project:internal',
       validate({ params: stageParams }),
       async (req, res) => {
         res.json((await listDeliverables(db, req.project!.id, keyOf(req))).map(deliverableOf));
@@ -69,7 +69,7 @@ export function deliverableRoutes(db: Db, store: ObjectStore | undefined, maxByt
     route(
       'get',
       '/projects/:projectId/deliverables/:deliverableId/download',
-      'project:read',
+      'project:internal',
       validate({ params: fileParams }),
       async (req, res) => {
         if (!store) throw new HttpError(503, 'service_unavailable', 'File storage is not configured on this server.');

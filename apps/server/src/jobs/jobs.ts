@@ -69,6 +69,11 @@ export interface Jobs {
    */
   every(name: string, cron: string, handler: () => Promise<void>): Promise<void>;
   readonly boss: PgBoss;
+  /**
+   * For the health check: resolves when this process's pg-boss is started and its queue table
+   * answers; rejects otherwise. Asks PostgreSQL every time (nothing is cached in the process).
+   */
+  probe(): Promise<void>;
 }
 
 /**
@@ -149,6 +154,11 @@ export function createJobs(opts: JobsOptions): Jobs {
       await boss.work(name, { pollingIntervalSeconds: opts.pollingIntervalSeconds ?? 2 }, async () => {
         await handler();
       });
+    },
+
+    async probe() {
+      if (!started) throw new Error('the job queue is not started in this process');
+      if (!(await boss.getQueue(MAIL_QUEUE))) throw new Error(`the queue ${MAIL_QUEUE} does not exist`);
     },
 
     async enqueueMail(request, { trx } = {}) {

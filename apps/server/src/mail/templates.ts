@@ -101,6 +101,65 @@ The link below is personal and works until {{expiresOn}}. If you did not expect 
 
 Accept the invitation: {{link}}`,
   },
+  'drawings-issued': {
+    data: z.object({
+      recipientName: z.string().max(200),
+      firmName: name,
+      projectName: name,
+      reference: name,
+      purpose: name,
+      note: z.string().max(4000).optional(),
+      items: z
+        .array(
+          z.object({
+            number: name,
+            title: name,
+            code: name,
+            suitability: name,
+            fileLink: link,
+          }),
+        )
+        .min(1),
+      sheetLink: link,
+      zipLink: link,
+      /** For outside recipients: when their signed links stop working. */
+      expiresOn: z.string().max(60).optional(),
+      /** The page to open and acknowledge receipt (client contacts); absent for outside recipients. */
+      link: link.optional(),
+    }),
+    subject: '{{projectName}}: drawings issued under {{reference}}',
+    html: `<p>Hello{{#if recipientName}} {{recipientName}}{{/if}},</p>
+<p>{{firmName}} has issued drawings of <strong>{{projectName}}</strong> under transmittal <strong>{{reference}}</strong> ({{purpose}}).</p>
+{{#if note}}<p style="margin:16px 0;padding:12px 16px;background:#f3f5f5;border-left:3px solid #016973;white-space:pre-line;">{{note}}</p>{{/if}}
+<ul>{{#each items}}<li><a href="{{fileLink}}">{{number}} revision {{code}}</a> ({{suitability}}): {{title}}</li>{{/each}}</ul>
+<p><a href="{{sheetLink}}">Transmittal sheet (PDF)</a> · <a href="{{zipLink}}">All files as one ZIP</a></p>
+{{#if expiresOn}}<p>These links are for you alone and work until {{expiresOn}}.</p>{{/if}}
+{{#if link}}<p>Please confirm that you have received them.</p>
+{{> button label="Open and acknowledge"}}{{/if}}`,
+    text: `Hello{{#if recipientName}} {{recipientName}}{{/if}},
+
+{{firmName}} has issued drawings of {{projectName}} under transmittal {{reference}} ({{purpose}}).
+{{#if note}}
+
+{{note}}
+{{/if}}
+
+{{#each items}}
+- {{number}} revision {{code}} ({{suitability}}): {{title}}
+  {{fileLink}}
+{{/each}}
+
+Transmittal sheet (PDF): {{sheetLink}}
+All files as one ZIP: {{zipLink}}
+{{#if expiresOn}}
+
+These links are for you alone and work until {{expiresOn}}.
+{{/if}}
+{{#if link}}
+
+Please confirm that you have received them: {{link}}
+{{/if}}`,
+  },
 } as const;
 
 export type MailTemplateName = keyof typeof mailTemplates;

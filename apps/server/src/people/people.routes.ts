@@ -1,6 +1,12 @@
 import type { Request } from 'express';
 import { z } from 'zod';
-import { invitationCreateSchema, personPatchSchema, type InvitationPreview } from '@trabeate/contracts';
+import {
+  clientOrganisationSchema,
+  invitationCreateSchema,
+  personPatchSchema,
+  personSchema,
+  type InvitationPreview,
+} from '@trabeate/contracts';
 import type { Db } from '../db/db';
 import { notFound } from '../core/errors';
 import { validate } from '../core/validate';
@@ -17,24 +23,27 @@ const callerOf = (req: Request): Caller => req.caller as Caller;
 
 export function peopleRoutes(
   db: Db,
-  opts: { publicUrl: string; invitationTtlDays: number; notices?: Notices },
+  opts: { publicUrl: string; invitationTtlDays: number; linkSecret: string; notices?: Notices },
 ): RouteDecl[] {
   return [
     route('get', '/people', 'principal', async (req, res) => {
-      res.json(await listPeople(db, callerOf(req).firmId));
+      res.json(personSchema.array().parse(await listPeople(db, callerOf(req).firmId)));
     }),
     route('get', '/client-organisations', 'principal', async (req, res) => {
       res.json(
-        await db('client_organisations')
-          .where({ firm_id: callerOf(req).firmId })
-          .orderBy('name')
-          .select('id', 'name'),
+        clientOrganisationSchema.array().parse(
+          await db('client_organisations')
+            .where({ firm_id: callerOf(req).firmId })
+            .orderBy('name')
+            .select('id', 'name'),
+        ),
       );
     }),
     route('post', '/invitations', 'principal', validate({ body: invitationCreateSchema }), async (req, res) => {
       const created = await invite(db, callerOf(req), req.body, {
         publicUrl: opts.publicUrl,
         ttlDays: opts.invitationTtlDays,
+        linkSecret: opts.linkSecret,
         notices: opts.notices,
       });
       req.log?.info({ personId: created.person.id, role: created.person.role }, 'invitation created');

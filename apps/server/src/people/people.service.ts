@@ -1,4 +1,4 @@
-import { createHash, randomBytes } from 'node:crypto';
+import { createHash, createHmac, randomUUID } from 'node:crypto';
 import type { InvitationCreated, Person, PersonPatch, Role } from '@trabeate/contracts';
 import { invitationCreateSchema } from '@trabeate/contracts';
 import type { z } from 'zod';
@@ -12,6 +12,16 @@ import type { Notices } from '../notices/notices';
 
 export const hashToken = (token: string): string => createHash('sha256').update(token).digest('hex');
 
+/**
+ * An invitation's link token, derived from its id with the server's secret. The database keeps only
+ * its hash, yet inviting the same address again can send the very same link: no second link, and
+ * the first one keeps working.
+ */
+export const invitationToken = (secret: string, invitationId: string): string =>
+  createHmac('sha256', secret).update(`invitation:${invitationId}`).digest('base64url');
+
+const ONE_PENDING = 'invitations_one_pending_per_address';
+
 const ROLE_WORDS: Record<Role, string> = {
   principal: 'a principal',
   engineer: 'an engineer',
@@ -24,129 +34,161 @@ const kindOf = (role: Role) =>
 /**
  * Invites a person by e-mail: creates (or re-opens) their record with the role, their project
  * memberships and an invitation whose link is returned once. Their first sign-in with that e-mail
- * binds the account.
+ * binds the account. An address has at most one pending invitation: inviting it again updates the
+ * person and resends that invitation's link, good for a fresh period.
  */
 export async function invite(
   db: Db,
   caller: Caller,
   input: z.output<typeof invitationCreateSchema>,
-  opts: { publicUrl: string; ttlDays: number; notices?: Notices },
+  opts: { publicUrl: string; ttlDays: number; linkSecret: string; notices?: Notices },
 ): Promise<InvitationCreated> {
-  const token = randomBytes(32).toString('base64url');
-  const url = `${opts.publicUrl.replace(/\/$/, '')}/invitations/${token}`;
   const expiresAt = new Date(Date.now() + opts.ttlDays * 86_400_000);
-  const userId = await db.transaction(async (trx) => {
-    if (input.clientOrganisationId) {
-      const org = await trx('client_organisations')
-        .where({ id: input.clientOrganisationId, firm_id: caller.firmId })
-        .first('id');
-      if (!org)
-        throw new HttpError(400, 'validation_failed', 'No client organisation with this id.', {
-          'body.clientOrganisationId': ['unknown client organisation'],
+  const { userId, url } = await db
+    .transaction(async (trx) => {
+      if (input.clientOrganisationId) {
+        const org = await trx('client_organisations')
+          .where({ id: input.clientOrganisationId, firm_id: caller.firmId })
+          .first('id');
+        if (!org)
+          throw new HttpError(400, 'validation_failed', 'No client organisation with this id.', {
+            'body.clientOrganisationId': ['unknown client organisation'],
+          });
+      }
+      const projectIds = [...new Set(input.projectIds)];
+      if (input.role === 'principal' && projectIds.length) {
+        throw new HttpError(400, 'validation_failed', 'The principal sees every project; leave projectIds empty.', {
+          'body.projectIds': ['must be empty for a principal'],
         });
-    }
-    const projectIds = [...new Set(input.projectIds)];
-    if (input.role === 'principal' && projectIds.length) {
-      throw new HttpError(400, 'validation_failed', 'The principal sees every project; leave projectIds empty.', {
-        'body.projectIds': ['must be empty for a principal'],
-      });
-    }
-    if (projectIds.length) {
-      const projects = await trx('projects')
-        .whereIn('id', projectIds)
+      }
+      if (projectIds.length) {
+        const projects = await trx('projects')
+          .whereIn('id', projectIds)
+          .where({ firm_id: caller.firmId })
+          .select('id', 'client_organisation_id');
+        const wrong = projectIds.filter((id) => {
+          const p = projects.find((x) => x.id === id);
+          return !p || (input.role === 'client' && p.client_organisation_id !== input.clientOrganisationId);
+        });
+        if (wrong.length) {
+          throw new HttpError(
+            400,
+            'validation_failed',
+            input.role === 'client'
+              ? "A client contact can join only their own organisation's projects."
+              : 'Some projects do not exist.',
+            { 'body.projectIds': wrong.map((id) => `not allowed: ${id}`) },
+          );
+        }
+      }
+      // FOR UPDATE cannot lock a row that does not exist yet: two invitations of a new address at once
+      // take turns on this lock instead, so the second re-opens the first rather than colliding with it.
+      await trx.raw('select pg_advisory_xact_lock(hashtextextended(?, 0))', [
+        `invitation:${caller.firmId}:${input.email.toLowerCase()}`,
+      ]);
+      const existing = await trx('users')
         .where({ firm_id: caller.firmId })
-        .select('id', 'client_organisation_id');
-      const wrong = projectIds.filter((id) => {
-        const p = projects.find((x) => x.id === id);
-        return !p || (input.role === 'client' && p.client_organisation_id !== input.clientOrganisationId);
-      });
-      if (wrong.length) {
-        throw new HttpError(
-          400,
-          'validation_failed',
-          input.role === 'client'
-            ? "A client contact can join only their own organisation's projects."
-            : 'Some projects do not exist.',
-          { 'body.projectIds': wrong.map((id) => `not allowed: ${id}`) },
+        .whereRaw('lower(email) = lower(?)', [input.email])
+        .forUpdate()
+        .first();
+      if (existing && !existing.disabled_at && existing.oidc_subject) {
+        throw new HttpError(409, 'conflict', `${input.email} already has access to Trabeate.`);
+      }
+      const row = {
+        email: input.email,
+        display_name: input.displayName,
+        firm_role: input.role === 'client' ? null : input.role,
+        client_organisation_id: input.role === 'client' ? input.clientOrganisationId : null,
+        disabled_at: null,
+        oidc_issuer: null,
+        oidc_subject: null,
+        updated_at: trx.fn.now(),
+      };
+      let id: string;
+      if (existing) {
+        id = existing.id;
+        await trx('users').where({ id }).update(row);
+        await trx('project_members').where({ user_id: id }).del();
+      } else {
+        [{ id }] = await trx('users')
+          .insert({ ...row, firm_id: caller.firmId })
+          .returning('id');
+      }
+      if (projectIds.length) {
+        await trx('project_members').insert(
+          projectIds.map((project_id) => ({ project_id, user_id: id, added_by: caller.userId })),
+        );
+        await insertActivity(
+          trx,
+          projectIds.map((projectId) => ({
+            firmId: caller.firmId,
+            projectId,
+            actorId: caller.userId,
+            action: 'membership.added',
+            objectType: 'membership' as const,
+            objectId: id,
+            summary: `${caller.displayName} invited ${input.displayName} to the project team`,
+          })),
         );
       }
-    }
-    // FOR UPDATE cannot lock a row that does not exist yet: two invitations of a new address at once
-    // take turns on this lock instead, so the second re-opens the first rather than colliding with it.
-    await trx.raw('select pg_advisory_xact_lock(hashtextextended(?, 0))', [
-      `invitation:${caller.firmId}:${input.email.toLowerCase()}`,
-    ]);
-    const existing = await trx('users')
-      .where({ firm_id: caller.firmId })
-      .whereRaw('lower(email) = lower(?)', [input.email])
-      .forUpdate()
-      .first();
-    if (existing && !existing.disabled_at && existing.oidc_subject) {
-      throw new HttpError(409, 'conflict', `${input.email} already has access to Trabeate.`);
-    }
-    const row = {
-      email: input.email,
-      display_name: input.displayName,
-      firm_role: input.role === 'client' ? null : input.role,
-      client_organisation_id: input.role === 'client' ? input.clientOrganisationId : null,
-      disabled_at: null,
-      oidc_issuer: null,
-      oidc_subject: null,
-      updated_at: trx.fn.now(),
-    };
-    let id: string;
-    if (existing) {
-      id = existing.id;
-      await trx('users').where({ id }).update(row);
-      await trx('project_members').where({ user_id: id }).del();
-      await trx('invitations').where({ user_id: id }).whereNull('accepted_at').del();
-    } else {
-      [{ id }] = await trx('users')
-        .insert({ ...row, firm_id: caller.firmId })
-        .returning('id');
-    }
-    if (projectIds.length) {
-      await trx('project_members').insert(
-        projectIds.map((project_id) => ({ project_id, user_id: id, added_by: caller.userId })),
-      );
-      await insertActivity(
-        trx,
-        projectIds.map((projectId) => ({
-          firmId: caller.firmId,
-          projectId,
-          actorId: caller.userId,
-          action: 'membership.added',
-          objectType: 'membership' as const,
-          objectId: id,
-          summary: `${caller.displayName} invited ${input.displayName} to the project team`,
-        })),
-      );
-    }
-    await trx('invitations').insert({
-      firm_id: caller.firmId,
-      user_id: id,
-      token_hash: hashToken(token),
-      invited_by: caller.userId,
-      expires_at: expiresAt,
+      const pending = await trx('invitations')
+        .where({ firm_id: caller.firmId })
+        .whereRaw('lower(email) = lower(?)', [input.email])
+        .whereNull('accepted_at')
+        .forUpdate()
+        .first('id', 'expires_at');
+      let invitationId: string;
+      if (pending && new Date(pending.expires_at).getTime() > Date.now()) {
+        // The live invitation stays; its link is sent again. The hash is rewritten only if the
+        // server's secret changed since (then the old link stops and the new one is the only one).
+        invitationId = pending.id;
+        await trx('invitations')
+          .where({ id: invitationId })
+          .update({
+            user_id: id,
+            invited_by: caller.userId,
+            expires_at: expiresAt,
+            token_hash: hashToken(invitationToken(opts.linkSecret, invitationId)),
+          });
+      } else {
+        // An expired link is not brought back to life: a new invitation takes its place.
+        if (pending) await trx('invitations').where({ id: pending.id }).del();
+        invitationId = randomUUID();
+        await trx('invitations').insert({
+          id: invitationId,
+          firm_id: caller.firmId,
+          user_id: id,
+          email: input.email,
+          token_hash: hashToken(invitationToken(opts.linkSecret, invitationId)),
+          invited_by: caller.userId,
+          expires_at: expiresAt,
+        });
+      }
+      const url = `${opts.publicUrl.replace(/\/$/, '')}/invitations/${invitationToken(opts.linkSecret, invitationId)}`;
+      if (opts.notices) {
+        const firm = await trx('firms').where({ id: caller.firmId }).first('name');
+        // Queued in this transaction: an invitation that fails to save sends no mail.
+        await opts.notices.send(trx, {
+          to: input.email,
+          template: 'invitation',
+          data: {
+            recipientName: input.displayName,
+            firmName: firm.name,
+            invitedBy: caller.displayName,
+            role: ROLE_WORDS[input.role],
+            link: url,
+            expiresOn: expiresAt.toISOString().slice(0, 10),
+          },
+        });
+      }
+      return { userId: id, url };
+    })
+    .catch((err: { code?: string; constraint?: string }) => {
+      // The advisory lock above makes this unreachable for invitations made here; the index is the backstop.
+      if (err.code === '23505' && err.constraint === ONE_PENDING)
+        throw new HttpError(409, 'conflict', `An invitation to ${input.email} is being sent just now; try again.`);
+      throw err;
     });
-    if (opts.notices) {
-      const firm = await trx('firms').where({ id: caller.firmId }).first('name');
-      // Queued in this transaction: an invitation that fails to save sends no mail.
-      await opts.notices.send(trx, {
-        to: input.email,
-        template: 'invitation',
-        data: {
-          recipientName: input.displayName,
-          firmName: firm.name,
-          invitedBy: caller.displayName,
-          role: ROLE_WORDS[input.role],
-          link: url,
-          expiresOn: expiresAt.toISOString().slice(0, 10),
-        },
-      });
-    }
-    return id;
-  });
   const [person] = await listPeople(db, caller.firmId, userId);
   return { person, invitation: { url, expiresAt: expiresAt.toISOString() } };
 }

@@ -107,6 +107,15 @@ export const SORT_COLUMNS: Record<ProjectListFilters['sort'], string> = {
   storeys: 'p.storeys',
 };
 
+/** The same sort, by the column names the page of rows carries. */
+const PAGE_SORT_COLUMNS: Record<ProjectListFilters['sort'], string> = {
+  reference: 'reference',
+  name: 'name',
+  client: 'org_name',
+  updatedAt: 'updated_at',
+  storeys: 'storeys',
+};
+
 export interface ListRow extends ProjectRow {
   current_key: string | null;
   current_state: string | null;
@@ -135,27 +144,36 @@ export async function listProjects(
         .orWhereILike('o.name', like),
     );
   }
-  const [{ n }] = await base.clone().clearSelect().count<{ n: string }[]>('* as n');
-  const rows: ListRow[] = await base
+  // One round trip: the page with the total beside each row (a window count over the filtered
+  // set), then each of its projects' stage summary in one pass over that project's six stages.
+  const page = base
     .clone()
-    .select(
-      db.raw(
-        `(select s.key from stages s where s.project_id = p.id and s.state <> 'approved' order by s.position limit 1) as current_key`,
-      ),
-      db.raw(
-        `(select s.state from stages s where s.project_id = p.id and s.state <> 'approved' order by s.position limit 1) as current_state`,
-      ),
-      db.raw(
-        `(select count(*)::int from stages s where s.project_id = p.id and s.state <> 'approved' and s.due_date < current_date) as late_stages`,
-      ),
-    )
+    .select(db.raw('count(*) over () as total_count'))
     .orderBy([
       { column: SORT_COLUMNS[f.sort], order: f.direction },
       { column: 'p.id', order: 'asc' },
     ])
     .limit(f.pageSize)
     .offset((f.page - 1) * f.pageSize);
-  return { rows, total: Number(n) };
+  const rows: Array<ListRow & { total_count: string }> = await db
+    .with('page', page)
+    .from('page')
+    .joinRaw(
+      `cross join lateral (
+         select (array_agg(s.key order by s.position))[1] as current_key,
+                (array_agg(s.state order by s.position))[1] as current_state,
+                (count(*) filter (where s.due_date < current_date))::int as late_stages
+         from stages s where s.project_id = page.id and s.state <> 'approved') st`,
+    )
+    .select('page.*', 'st.current_key', 'st.current_state', 'st.late_stages')
+    .orderBy([
+      { column: `page.${PAGE_SORT_COLUMNS[f.sort]}`, order: f.direction },
+      { column: 'page.id', order: 'asc' },
+    ]);
+  if (rows.length) return { rows, total: Number(rows[0].total_count) };
+  // Past the last page (or nothing matches): the count alone.
+  const [{ n }] = f.page > 1 ? await base.clone().clearSelect().count<{ n: string }[]>('* as n') : [{ n: '0' }];
+  return { rows: [], total: Number(n) };
 }
 
 /** The columns a project write sets, from the shared contract's field names. */

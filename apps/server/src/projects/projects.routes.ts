@@ -3,6 +3,7 @@ import { z } from 'zod';
 import {
   projectCreateSchema,
   projectListQuerySchema,
+  projectPageSchema,
   projectUpdateSchema,
   type ProjectDetail,
   type ProjectList,
@@ -38,7 +39,8 @@ export function projectRoutes(db: Db): RouteDecl[] {
       res.json(body satisfies ProjectDetail);
     }),
     route('get', '/projects/:projectId/full', 'project:read', validate({ params: projectParams }), async (req, res) => {
-      res.json(await projectPage(db, callerOf(req), req.project!.id));
+      // Shaped by the contract: a field the schema does not name (a comment body, say) never leaves.
+      res.json(projectPageSchema.parse(await projectPage(db, callerOf(req), req.project!.id)));
     }),
     route(
       'patch',

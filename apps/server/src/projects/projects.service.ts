@@ -51,19 +51,32 @@ export const listItemOf = (r: ListRow): ProjectListItem => ({
   lateStages: r.late_stages,
 });
 
+/**
+ * Two independent reads: side by side on the pool (a read request waits for the slower one, not
+ * both), one after the other inside a transaction, whose single connection runs one query at a time.
+ */
+async function together<A, B>(db: Db | Knex.Transaction, a: () => Promise<A>, b: () => Promise<B>): Promise<[A, B]> {
+  if ('isTransaction' in db && db.isTransaction) return [await a(), await b()];
+  return Promise.all([a(), b()]);
+}
+
 /** The short form of a project (facts, team, finance when the caller may see money, abilities). */
 export async function projectDetail(
   db: Db | Knex.Transaction,
   caller: Caller,
   id: string,
 ): Promise<ProjectDetail & { row: ProjectRow }> {
-  const row: ProjectRow = await getProject(db, caller.firmId, id);
-  const members = await db('project_members as m')
-    .join('users as u', 'u.id', 'm.user_id')
-    .where('m.project_id', id)
-    .whereNull('u.disabled_at')
-    .orderBy('u.display_name')
-    .select('u.id', 'u.display_name', 'u.firm_role');
+  const [row, members] = await together(
+    db,
+    () => getProject(db, caller.firmId, id),
+    (): Promise<Array<{ id: string; display_name: string; firm_role: 'principal' | 'engineer' | null }>> =>
+      db('project_members as m')
+        .join('users as u', 'u.id', 'm.user_id')
+        .where('m.project_id', id)
+        .whereNull('u.disabled_at')
+        .orderBy('u.display_name')
+        .select('u.id', 'u.display_name', 'u.firm_role'),
+  );
   const can = abilities(caller.role);
   return {
     row,
@@ -89,8 +102,11 @@ export async function projectDetail(
 
 /** Everything the project page shows, for this caller: the short form plus design basis and stages. */
 export async function projectPage(db: Db | Knex.Transaction, caller: Caller, id: string): Promise<ProjectPage> {
-  const { row, ...detail } = await projectDetail(db, caller, id);
-  const stages = await listStages(db, id);
+  const [{ row, ...detail }, stages] = await together(
+    db,
+    () => projectDetail(db, caller, id),
+    () => listStages(db, id),
+  );
   const basis = projectDesignBasisSchema.safeParse(row.design_basis);
   const archived = row.archived_at !== null;
   return {

@@ -4,6 +4,7 @@ import {
   commentCreateSchema,
   stageKeySchema,
   stagePatchSchema,
+  stageSchema,
   stageTransitionSchema,
   type StageKey,
 } from '@trabeate/contracts';
@@ -32,7 +33,9 @@ export function stageRoutes(db: Db, notices: Notices): RouteDecl[] {
       async (req, res) => {
         const id = req.project!.id;
         const isArchived = await archived(id);
-        res.json((await listStages(db, id)).map((s) => stageOf(s, callerOf(req), isArchived)));
+        res.json(
+          stageSchema.array().parse((await listStages(db, id)).map((s) => stageOf(s, callerOf(req), isArchived))),
+        );
       },
     ),
     route(
@@ -56,7 +59,7 @@ export function stageRoutes(db: Db, notices: Notices): RouteDecl[] {
     route(
       'get',
       '/projects/:projectId/stages/:stageKey/comments',
-      'project:read',
+      'project:internal',
       validate({ params: stageParams }),
       async (req, res) => {
         res.json((await listComments(db, req.project!.id, keyOf(req))).map(commentOf));

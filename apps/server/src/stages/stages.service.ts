@@ -10,7 +10,7 @@ import {
 } from '@trabeate/contracts';
 import type { Db } from '../db/db';
 import { HttpError, notFound } from '../core/errors';
-import type { Caller } from '../access/policy';
+import { projectRefusal, type Caller } from '../access/policy';
 import { insertActivity } from '../activity/activity.repository';
 import type { Notices } from '../notices/notices';
 import { lockProject, type ProjectContext } from '../projects/projects.repository';
@@ -36,8 +36,10 @@ export function stageOf(r: StageRow, caller: Caller, archived: boolean): Stage {
     late: r.late,
     submittedAt: r.submitted_at ? new Date(r.submitted_at).toISOString() : null,
     approvedAt: r.approved_at ? new Date(r.approved_at).toISOString() : null,
-    deliverableCount: r.deliverable_count,
-    commentCount: r.comment_count,
+    // Clients see progress, not how many files or review notes the firm's work holds.
+    ...(projectRefusal(caller.role, 'internal') === null
+      ? { deliverableCount: r.deliverable_count, commentCount: r.comment_count }
+      : { deliverableCount: null, commentCount: null }),
     allowedActions: allowedActions({ key: r.key, state: r.state, assigneeId: r.assignee_id }, caller, archived),
   };
 }

@@ -2,12 +2,14 @@ import path from 'node:path';
 
 // Names Windows refuses for a file, with or without an extension (CON.pdf is as bad as CON).
 const RESERVED = /^(con|prn|aux|nul|com[0-9¹²³]|lpt[0-9¹²³]|conin\$|conout\$)$/i;
-const MAX_LENGTH = 180;
+/** Most file systems allow 255 bytes per name; leave room for a browser's " (1)" on a second save. */
+const MAX_BYTES = 180;
 
 /**
  * A name that is safe to store, show and offer as a download, kept readable: no folders, no
  * control or bidirectional-override characters, no characters Windows forbids, no reserved
- * device names, no leading dots, at most 180 characters with the extension kept.
+ * device names, no leading dots, at most 180 bytes in UTF-8 (not characters: 90 CJK characters are
+ * already 270 bytes) with the extension kept, cut between whole characters.
  */
 export function safeFileName(original: string, fallback = 'file'): string {
   // Browsers send a bare name, but some old clients send a whole path with either separator.
@@ -26,9 +28,26 @@ export function safeFileName(original: string, fallback = 'file'): string {
   if (RESERVED.test(stem.split('.')[0])) stem = `_${stem}`;
   if (!stem) stem = fallback;
   const cleanExt = ext.length <= 16 ? ext.toLowerCase() : '';
-  const room = MAX_LENGTH - cleanExt.length;
-  if (stem.length > room) stem = Array.from(stem).slice(0, room).join('').trimEnd();
+  stem = cutToBytes(stem, MAX_BYTES - utf8Bytes(cleanExt)).trimEnd() || fallback;
   return `${stem}${cleanExt}`;
+}
+
+export const utf8Bytes = (s: string): number => Buffer.byteLength(s, 'utf8');
+
+const graphemes = new Intl.Segmenter(undefined, { granularity: 'grapheme' });
+
+/** The longest start of `text` that fits in `max` UTF-8 bytes, never splitting a character. */
+function cutToBytes(text: string, max: number): string {
+  if (utf8Bytes(text) <= max) return text;
+  let out = '';
+  let used = 0;
+  for (const { segment } of graphemes.segment(text)) {
+    const size = utf8Bytes(segment);
+    if (used + size > max) break;
+    out += segment;
+    used += size;
+  }
+  return out;
 }
 
 /** The lower-case extension without the dot ('' when there is none). */

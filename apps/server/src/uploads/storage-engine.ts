@@ -24,8 +24,11 @@ export interface StoredUpload {
 export interface DeliverableStorageOptions {
   store: ObjectStore;
   maxBytes: number;
-  /** The object key for a file; called once its name is cleaned and its content accepted. */
-  keyFor: (req: Request, file: { safeName: string; kind: DeliverableKind }) => string | Promise<string>;
+  /**
+   * The object key for a file, called once its content is accepted. Built from ids only: the
+   * person's file name never reaches storage (it lives in the database and in Content-Disposition).
+   */
+  keyFor: (req: Request, file: { kind: DeliverableKind }) => string | Promise<string>;
 }
 
 type MulterFile = Express.Multer.File;
@@ -85,7 +88,7 @@ async function storeFile(req: Request, file: MulterFile, opts: DeliverableStorag
     await iterator.return?.();
     throw rejection(verdict.reason, verdict.message);
   }
-  const key = await opts.keyFor(req, { safeName, kind: verdict.kind });
+  const key = await opts.keyFor(req, { kind: verdict.kind });
 
   // 2. Stream the head and the rest into storage, hashing and counting on the way.
   const hash = createHash('sha256');

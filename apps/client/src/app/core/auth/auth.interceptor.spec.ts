@@ -1,3 +1,4 @@
+import { replyError } from '../../../testing/api-replies';
 import { HttpClient, provideHttpClient, withInterceptors } from '@angular/common/http';
 import { HttpTestingController, provideHttpClientTesting } from '@angular/common/http/testing';
 import { Component } from '@angular/core';
@@ -41,12 +42,7 @@ describe('authInterceptor', () => {
 
   it('when a request answers 401, goes to the sign-in page with the current address to come back to', async () => {
     const result = firstValueFrom(http.get('/api/projects'));
-    backend
-      .expectOne('/api/projects')
-      .flush(
-        { error: { code: 'unauthenticated', message: 'Sign in first.' } },
-        { status: 401, statusText: 'Unauthorized' },
-      );
+    replyError(backend.expectOne('/api/projects'), 401, { code: 'unauthenticated', message: 'Sign in first.' });
     await expect(result).rejects.toMatchObject({ status: 401 });
     await new Promise((r) => setTimeout(r));
     const url = router.parseUrl(router.url);
@@ -57,12 +53,10 @@ describe('authInterceptor', () => {
 
   it('when the session expired, says so on the sign-in page', async () => {
     const result = firstValueFrom(http.get('/api/projects'));
-    backend
-      .expectOne('/api/projects')
-      .flush(
-        { error: { code: 'session_expired', message: 'Your session has ended.' } },
-        { status: 401, statusText: 'Unauthorized' },
-      );
+    replyError(backend.expectOne('/api/projects'), 401, {
+      code: 'session_expired',
+      message: 'Your session has ended.',
+    });
     await expect(result).rejects.toBeTruthy();
     await new Promise((r) => setTimeout(r));
     expect(router.parseUrl(router.url).queryParams).toEqual({
@@ -73,9 +67,7 @@ describe('authInterceptor', () => {
 
   it('does not leave the page for a 401 that the request expects (who am I, public pages)', async () => {
     const result = firstValueFrom(http.get('/api/me', { context: anonymousOk() }));
-    backend
-      .expectOne('/api/me')
-      .flush({ error: { code: 'unauthenticated', message: 'x' } }, { status: 401, statusText: 'Unauthorized' });
+    replyError(backend.expectOne('/api/me'), 401, { code: 'unauthenticated', message: 'x' });
     await expect(result).rejects.toMatchObject({ status: 401 });
     await new Promise((r) => setTimeout(r));
     expect(router.url).toBe('/projects/abc?tab=members');
@@ -83,12 +75,10 @@ describe('authInterceptor', () => {
 
   it('when a request answers 403, shows the server’s reason and hands the error to the caller', async () => {
     const result = firstValueFrom(http.delete('/api/people/1/access'));
-    backend
-      .expectOne('/api/people/1/access')
-      .flush(
-        { error: { code: 'forbidden', message: 'Only the principal can remove access.' } },
-        { status: 403, statusText: 'Forbidden' },
-      );
+    replyError(backend.expectOne('/api/people/1/access'), 403, {
+      code: 'forbidden',
+      message: 'Only the principal can remove access.',
+    });
     await expect(result).rejects.toMatchObject({ status: 403 });
     expect(shown).toEqual(['Only the principal can remove access.']);
     expect(router.url).toBe('/projects/abc?tab=members');
@@ -96,6 +86,7 @@ describe('authInterceptor', () => {
 
   it('for a 403 without our error shape, still says in plain words that the role does not allow it', async () => {
     const result = firstValueFrom(http.get('/api/fees'));
+    // Not the API's answer: a proxy or gateway that refused the request itself.
     backend.expectOne('/api/fees').flush('Forbidden', { status: 403, statusText: 'Forbidden' });
     await expect(result).rejects.toBeTruthy();
     expect(shown).toEqual([expect.stringContaining('Your role does not allow this')]);
@@ -103,9 +94,7 @@ describe('authInterceptor', () => {
 
   it('leaves other errors to the caller', async () => {
     const result = firstValueFrom(http.get('/api/projects'));
-    backend
-      .expectOne('/api/projects')
-      .flush({ error: { code: 'internal', message: 'x' } }, { status: 500, statusText: 'Error' });
+    replyError(backend.expectOne('/api/projects'), 500, { code: 'internal', message: 'x' });
     await expect(result).rejects.toMatchObject({ status: 500 });
     expect(shown).toEqual([]);
     expect(router.url).toBe('/projects/abc?tab=members');

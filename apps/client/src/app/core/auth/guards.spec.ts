@@ -1,9 +1,10 @@
+import { meSchema, type Me } from '@trabeate/contracts';
+import { reply, replyError } from '../../../testing/api-replies';
 import { provideHttpClient } from '@angular/common/http';
 import { HttpTestingController, provideHttpClientTesting } from '@angular/common/http/testing';
 import { Component } from '@angular/core';
 import { TestBed } from '@angular/core/testing';
 import { Router, provideRouter } from '@angular/router';
-import type { Me } from '@trabeate/contracts';
 import { noAccessGuard, roleGuard, signedInGuard, signedOutGuard } from './guards';
 import { grantedMe, noAccessMe } from './testing';
 
@@ -41,13 +42,10 @@ describe('route guards', () => {
     const done = router.navigateByUrl(url);
     await new Promise((r) => setTimeout(r));
     const req = backend.expectOne('/api/me');
-    if (me === 'anonymous')
-      req.flush(
-        { error: { code: 'unauthenticated', message: 'Sign in first.' } },
-        { status: 401, statusText: 'Unauthorized' },
-      );
+    if (me === 'anonymous') replyError(req, 401, { code: 'unauthenticated', message: 'Sign in first.' });
+    // Not the API's answer: the proxy in front of it.
     else if (me === 'down') req.flush('Bad gateway', { status: 502, statusText: 'Bad Gateway' });
-    else req.flush(me);
+    else reply(req, meSchema, me);
     await done;
     return router.url;
   }
@@ -73,7 +71,7 @@ describe('route guards', () => {
     async (role) => {
       const done = router.navigateByUrl('/people');
       await new Promise((r) => setTimeout(r));
-      backend.expectOne('/api/me').flush(grantedMe(role));
+      reply(backend.expectOne('/api/me'), meSchema, grantedMe(role));
       await done;
       // skipLocationChange: the address bar keeps /people while the explanation shows.
       expect(router.routerState.snapshot.url).toBe('/not-permitted');

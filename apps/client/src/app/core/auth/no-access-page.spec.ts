@@ -1,3 +1,5 @@
+import { meSchema, logoutResponseSchema } from '@trabeate/contracts';
+import { reply } from '../../../testing/api-replies';
 import { provideHttpClient } from '@angular/common/http';
 import { HttpTestingController, provideHttpClientTesting } from '@angular/common/http/testing';
 import { TestBed } from '@angular/core/testing';
@@ -21,7 +23,7 @@ describe('NoAccessPage', () => {
     });
     const backend = TestBed.inject(HttpTestingController);
     const loaded = TestBed.inject(Session).load();
-    backend.expectOne('/api/me').flush(noAccessMe);
+    reply(backend.expectOne('/api/me'), meSchema, noAccessMe);
     await loaded;
 
     const fixture = TestBed.createComponent(NoAccessPage);
@@ -34,7 +36,9 @@ describe('NoAccessPage', () => {
     expect(text).toContain('Wren Okafor');
 
     (el.querySelector('[data-testid="sign-out"]') as HTMLButtonElement).click();
-    backend.expectOne('/api/auth/logout').flush({ endSessionUrl: 'http://127.0.0.1:4320/session/end' });
+    reply(backend.expectOne('/api/auth/logout'), logoutResponseSchema, {
+      endSessionUrl: 'http://127.0.0.1:4320/session/end',
+    });
     await fixture.whenStable();
     await new Promise((r) => setTimeout(r));
     expect(went).toEqual(['http://127.0.0.1:4320/session/end']);

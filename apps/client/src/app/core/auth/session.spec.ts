@@ -1,3 +1,5 @@
+import { meSchema, logoutResponseSchema } from '@trabeate/contracts';
+import { reply, replyError } from '../../../testing/api-replies';
 import { provideHttpClient } from '@angular/common/http';
 import { HttpTestingController, provideHttpClientTesting } from '@angular/common/http/testing';
 import { TestBed } from '@angular/core/testing';
@@ -28,7 +30,7 @@ describe('Session', () => {
   it('reads /api/me once and exposes the role', async () => {
     const first = session.load();
     const second = session.load();
-    backend.expectOne('/api/me').flush(grantedMe('principal', 'Aster Pellow'));
+    reply(backend.expectOne('/api/me'), meSchema, grantedMe('principal', 'Aster Pellow'));
     await Promise.all([first, second]);
     expect(session.state().status).toBe('granted');
     expect(session.user()?.displayName).toBe('Aster Pellow');
@@ -38,12 +40,10 @@ describe('Session', () => {
 
   it('says the server is away when /api/me fails for another reason than 401', async () => {
     const done = session.load();
-    backend
-      .expectOne('/api/me')
-      .flush(
-        { error: { code: 'service_unavailable', message: 'The database is not answering.' } },
-        { status: 503, statusText: 'x' },
-      );
+    replyError(backend.expectOne('/api/me'), 503, {
+      code: 'service_unavailable',
+      message: 'The database is not answering.',
+    });
     await done;
     expect(session.state()).toEqual({ status: 'unreachable', message: 'The database is not answering.' });
   });
@@ -57,7 +57,7 @@ describe('Session', () => {
     const done = session.signOut();
     const req = backend.expectOne('/api/auth/logout');
     expect(req.request.method).toBe('POST');
-    req.flush({ endSessionUrl: 'http://127.0.0.1:4320/session/end?id_token_hint=x' });
+    reply(req, logoutResponseSchema, { endSessionUrl: 'http://127.0.0.1:4320/session/end?id_token_hint=x' });
     await done;
     expect(went).toEqual(['http://127.0.0.1:4320/session/end?id_token_hint=x']);
     expect(session.state().status).toBe('anonymous');
@@ -65,7 +65,7 @@ describe('Session', () => {
 
   it('goes home after signing out when the provider has no sign-out address', async () => {
     const done = session.signOut();
-    backend.expectOne('/api/auth/logout').flush({ endSessionUrl: null });
+    reply(backend.expectOne('/api/auth/logout'), logoutResponseSchema, { endSessionUrl: null });
     await done;
     expect(went).toEqual(['/']);
   });

@@ -1,9 +1,10 @@
+import { logoutResponseSchema, meSchema, outboxMessageSchema, type Me } from '@trabeate/contracts';
+import { reply, replyError } from '../../../testing/api-replies';
 import { BreakpointObserver, BreakpointState } from '@angular/cdk/layout';
 import { provideHttpClient } from '@angular/common/http';
 import { HttpTestingController, provideHttpClientTesting } from '@angular/common/http/testing';
 import { ComponentFixture, TestBed } from '@angular/core/testing';
 import { provideRouter } from '@angular/router';
-import type { Me } from '@trabeate/contracts';
 import { BehaviorSubject, map } from 'rxjs';
 import { PageLocation } from '../auth/page-location';
 import { Session } from '../auth/session';
@@ -36,12 +37,8 @@ describe('Shell', () => {
   async function start(me: Me | 'anonymous', outbox: 'absent' | 'present' = 'absent'): Promise<void> {
     const loaded = TestBed.inject(Session).load();
     const req = backend.expectOne('/api/me');
-    if (me === 'anonymous')
-      req.flush(
-        { error: { code: 'unauthenticated', message: 'Sign in first.' } },
-        { status: 401, statusText: 'Unauthorized' },
-      );
-    else req.flush(me);
+    if (me === 'anonymous') replyError(req, 401, { code: 'unauthenticated', message: 'Sign in first.' });
+    else reply(req, meSchema, me);
     await loaded;
     fixture = TestBed.createComponent(Shell);
     // Not whenStable yet: the outbox question is a pending task until it is answered.
@@ -49,9 +46,8 @@ describe('Shell', () => {
     TestBed.tick();
     // Only the principal asks whether the server keeps a development outbox.
     for (const probe of backend.match('/api/dev/outbox')) {
-      if (outbox === 'present') probe.flush([]);
-      else
-        probe.flush({ error: { code: 'not_found', message: 'Not found.' } }, { status: 404, statusText: 'Not Found' });
+      if (outbox === 'present') reply(probe, outboxMessageSchema.array(), []);
+      else replyError(probe, 404, { code: 'not_found', message: 'Not found.' });
     }
     await fixture.whenStable();
   }
@@ -101,7 +97,7 @@ describe('Shell', () => {
       await fixture.whenStable();
       expect(account?.getAttribute('aria-expanded')).toBe('true');
       (el().querySelector('[data-testid="sign-out"]') as HTMLButtonElement).click();
-      backend.expectOne('/api/auth/logout').flush({ endSessionUrl: null });
+      reply(backend.expectOne('/api/auth/logout'), logoutResponseSchema, { endSessionUrl: null });
       await new Promise((r) => setTimeout(r));
       expect(went).toEqual(['/']);
     });

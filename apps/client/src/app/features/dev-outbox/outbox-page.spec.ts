@@ -1,7 +1,8 @@
 import { provideHttpClient } from '@angular/common/http';
 import { HttpTestingController, provideHttpClientTesting } from '@angular/common/http/testing';
 import { ComponentFixture, TestBed } from '@angular/core/testing';
-import type { OutboxMessage } from '@trabeate/contracts';
+import { outboxMessageSchema, type OutboxMessage } from '@trabeate/contracts';
+import { reply, replyError } from '../../../testing/api-replies';
 import { OutboxPage, sealedHtml } from './outbox-page';
 
 const message = (n: number, receivedAt: string, html: string | null = `<p>Notice ${n}</p>`): OutboxMessage => ({
@@ -35,9 +36,10 @@ describe('OutboxPage', () => {
   });
 
   it('lists messages newest first with recipient, subject and time, and opens the newest', async () => {
-    backend
-      .expectOne('/api/dev/outbox')
-      .flush([message(1, '2026-03-02T08:00:00.000Z'), message(2, '2026-03-02T09:30:00.000Z')]);
+    reply(backend.expectOne('/api/dev/outbox'), outboxMessageSchema.array(), [
+      message(1, '2026-03-02T08:00:00.000Z'),
+      message(2, '2026-03-02T09:30:00.000Z'),
+    ]);
     await settle();
     const items = Array.from(el().querySelectorAll('[data-testid="outbox-item"]'));
     expect(items.map((i) => i.querySelector('.subject')?.textContent)).toEqual(['Notice 2', 'Notice 1']);
@@ -46,12 +48,10 @@ describe('OutboxPage', () => {
   });
 
   it('shows the chosen message’s HTML in an iframe that may run no scripts and load nothing', async () => {
-    backend
-      .expectOne('/api/dev/outbox')
-      .flush([
-        message(1, '2026-03-02T08:00:00.000Z', '<p>Hi</p><script>alert(1)</script>'),
-        message(2, '2026-03-02T09:30:00.000Z'),
-      ]);
+    reply(backend.expectOne('/api/dev/outbox'), outboxMessageSchema.array(), [
+      message(1, '2026-03-02T08:00:00.000Z', '<p>Hi</p><script>alert(1)</script>'),
+      message(2, '2026-03-02T09:30:00.000Z'),
+    ]);
     await settle();
     (el().querySelectorAll('[data-testid="outbox-item"]')[1] as HTMLButtonElement).click();
     await settle();
@@ -64,16 +64,16 @@ describe('OutboxPage', () => {
   });
 
   it('shows only the text when a message has no HTML part', async () => {
-    backend.expectOne('/api/dev/outbox').flush([message(1, '2026-03-02T08:00:00.000Z', null)]);
+    reply(backend.expectOne('/api/dev/outbox'), outboxMessageSchema.array(), [
+      message(1, '2026-03-02T08:00:00.000Z', null),
+    ]);
     await settle();
     expect(el().querySelector('[data-testid="outbox-html"]')).toBeNull();
     expect(el().querySelector('[data-testid="outbox-text"]')?.textContent).toBe('Plain notice 1');
   });
 
   it('says plainly when the server keeps no outbox (404)', async () => {
-    backend
-      .expectOne('/api/dev/outbox')
-      .flush({ error: { code: 'not_found', message: 'Not found.' } }, { status: 404, statusText: 'Not Found' });
+    replyError(backend.expectOne('/api/dev/outbox'), 404, { code: 'not_found', message: 'Not found.' });
     await settle();
     expect(el().querySelector('[data-testid="outbox-error"]')?.textContent).toContain(
       'does not keep a development outbox',
@@ -81,7 +81,7 @@ describe('OutboxPage', () => {
   });
 
   it('says so when no mail has been sent yet', async () => {
-    backend.expectOne('/api/dev/outbox').flush([]);
+    reply(backend.expectOne('/api/dev/outbox'), outboxMessageSchema.array(), []);
     await settle();
     expect(el().textContent).toContain('No mail yet');
   });

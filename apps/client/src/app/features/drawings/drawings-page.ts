@@ -1,31 +1,294 @@
-import { ChangeDetectionStrategy, Component } from '@angular/core';
+import { DatePipe } from '@angular/common';
+import { HttpParams, httpResource } from '@angular/common/http';
+import {
+  ChangeDetectionStrategy,
+  Component,
+  OnDestroy,
+  computed,
+  inject,
+  input,
+  linkedSignal,
+  signal,
+  viewChild,
+} from '@angular/core';
+import { FormBuilder, ReactiveFormsModule, Validators } from '@angular/forms';
+import { MatButton } from '@angular/material/button';
+import { MatOption } from '@angular/material/core';
+import { MatError, MatFormField, MatLabel, MatPrefix } from '@angular/material/form-field';
+import { MatIcon } from '@angular/material/icon';
+import { MatInput } from '@angular/material/input';
+import { MatPaginator, PageEvent } from '@angular/material/paginator';
+import { MatProgressBar } from '@angular/material/progress-bar';
+import { MatSelect } from '@angular/material/select';
+import { MatSort, MatSortHeader, Sort } from '@angular/material/sort';
+import {
+  MatCell,
+  MatCellDef,
+  MatColumnDef,
+  MatHeaderCell,
+  MatHeaderCellDef,
+  MatHeaderRow,
+  MatHeaderRowDef,
+  MatRow,
+  MatRowDef,
+  MatTable,
+} from '@angular/material/table';
+import { Router } from '@angular/router';
+import {
+  REVISION_STATES,
+  SHEET_SIZES,
+  STAGE_KEYS,
+  STAGE_TITLES,
+  drawingListSchema,
+  projectListSchema,
+  type DrawingList,
+  type DrawingListItem,
+  type DrawingListQuery,
+  type RevisionState,
+  type SheetSize,
+  type StageKey,
+} from '@trabeate/contracts';
+import { errorMessage } from '../../core/auth/api-error';
+import { Session } from '../../core/auth/session';
 import { EmptyState } from '../../shared/empty-state/empty-state';
+import { DrawingDetail } from './drawing-detail';
+import { DrawingsApi } from './drawings-api';
+import { REVISION_STATE_LABELS } from './drawing-labels';
+import { TransmittalsPanel } from './transmittals-panel';
 
+type SortKey = NonNullable<DrawingListQuery['sort']>;
+const SORTS: readonly SortKey[] = ['number', 'title', 'stage', 'revision', 'date'];
+const DEFAULT_PAGE_SIZE = 25;
+const SEARCH_DELAY_MS = 300;
+const positive = (v: string | undefined, fallback: number, max = Infinity) => {
+  const n = Number(v);
+  return Number.isInteger(n) && n >= 1 ? Math.min(n, max) : fallback;
+};
+
+/**
+ * The drawing register of one project: every drawing with its current revision, sorted, filtered
+ * and paged by the server; a drawing's history and actions beside it; transmittals below. Client
+ * contacts get the same page, and the server gives them only what was issued to them.
+ */
 @Component({
   selector: 'tb-drawings-page',
-  imports: [EmptyState],
-  template: `
-    <h1 class="page-title">Drawings</h1>
-    <tb-empty-state
-      icon="architecture"
-      heading="The drawing register is on its way"
-      lead="Soon every sheet the office produces will be listed here, with the revision the site actually holds."
-      [coming]="coming"
-    />
-  `,
-  styles: `
-    .page-title {
-      font: var(--mat-sys-headline-medium);
-      margin: 0 0 1rem;
-    }
-  `,
+  imports: [
+    DatePipe,
+    DrawingDetail,
+    EmptyState,
+    ReactiveFormsModule,
+    TransmittalsPanel,
+    MatButton,
+    MatError,
+    MatFormField,
+    MatLabel,
+    MatPrefix,
+    MatIcon,
+    MatInput,
+    MatOption,
+    MatPaginator,
+    MatProgressBar,
+    MatSelect,
+    MatSort,
+    MatSortHeader,
+    MatTable,
+    MatColumnDef,
+    MatHeaderCell,
+    MatHeaderCellDef,
+    MatCell,
+    MatCellDef,
+    MatHeaderRow,
+    MatHeaderRowDef,
+    MatRow,
+    MatRowDef,
+  ],
+  templateUrl: './drawings-page.html',
+  styleUrls: ['../../shared/page/page.scss', './drawings.scss'],
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
-export class DrawingsPage {
-  protected readonly coming = [
-    'Each drawing with its number, title, stage, sheet size and scale.',
-    'Revisions with a purpose of issue, who drew, checked and approved them, and their PDF.',
-    'Issued revisions locked for good; a new revision supersedes the old one.',
-    'Transmittals recording which revisions went to whom, when and why, with download records.',
-  ] as const;
+export class DrawingsPage implements OnDestroy {
+  private readonly router = inject(Router);
+  private readonly api = inject(DrawingsApi);
+  protected readonly session = inject(Session);
+
+  // Route-bound query parameters.
+  readonly project = input<string>();
+  readonly page = input<string>();
+  readonly pageSize = input<string>();
+  readonly sort = input<string>();
+  readonly direction = input<string>();
+  readonly q = input<string>();
+  readonly stage = input<string>();
+  readonly state = input<string>();
+  readonly suitability = input<string>();
+  readonly drawing = input<string>();
+  readonly transmittal = input<string>();
+
+  protected readonly isClient = computed(() => this.session.role() === 'client');
+  protected readonly projects = httpResource(
+    () => ({ url: '/api/projects', params: { pageSize: 100, sort: 'reference', direction: 'asc' } }),
+    { parse: (x) => projectListSchema.parse(x) },
+  );
+  /** The chosen project, or the first one the caller can see. */
+  protected readonly projectId = computed(() => {
+    if (this.project()) return this.project()!;
+    return this.projects.hasValue() ? (this.projects.value().items[0]?.id ?? null) : null;
+  });
+
+  protected readonly query = computed(() => ({
+    page: positive(this.page(), 1),
+    pageSize: positive(this.pageSize(), DEFAULT_PAGE_SIZE, 100),
+    sort: SORTS.includes(this.sort() as SortKey) ? (this.sort() as SortKey) : 'number',
+    direction: this.direction() === 'desc' ? ('desc' as const) : ('asc' as const),
+    q: (this.q() ?? '').trim().slice(0, 100),
+    stage: STAGE_KEYS.includes(this.stage() as StageKey) ? (this.stage() as StageKey) : '',
+    state: REVISION_STATES.includes(this.state() as RevisionState) ? (this.state() as RevisionState) : '',
+    suitability: /^(S[0-4]|A\d{1,2}|CR)$/i.test(this.suitability() ?? '') ? this.suitability()!.toUpperCase() : '',
+  }));
+
+  protected readonly list = httpResource<DrawingList>(
+    () => {
+      const id = this.projectId();
+      if (!id) return undefined;
+      const s = this.query();
+      let params = new HttpParams()
+        .set('page', s.page)
+        .set('pageSize', s.pageSize)
+        .set('sort', s.sort)
+        .set('direction', s.direction);
+      if (s.q) params = params.set('q', s.q);
+      if (s.stage) params = params.set('stageKey', s.stage);
+      if (s.state) params = params.set('state', s.state);
+      if (s.suitability) params = params.set('suitability', s.suitability);
+      return { url: `/api/projects/${encodeURIComponent(id)}/drawings`, params };
+    },
+    { parse: (x) => drawingListSchema.parse(x) },
+  );
+  protected readonly shown = linkedSignal<DrawingList | undefined, DrawingList | undefined>({
+    source: () => (this.list.hasValue() ? this.list.value() : undefined),
+    computation: (next, previous) => next ?? previous?.value,
+  });
+  protected readonly filtered = computed(() => {
+    const s = this.query();
+    return !!(s.q || s.stage || s.state || s.suitability);
+  });
+
+  protected readonly columns = ['number', 'title', 'stage', 'sheet', 'revision', 'state', 'suitability', 'date'];
+  protected readonly stages = STAGE_KEYS;
+  protected readonly stageTitles = STAGE_TITLES;
+  protected readonly states = REVISION_STATES;
+  protected readonly sheetSizes = SHEET_SIZES;
+  protected readonly creating = signal(false);
+  protected readonly busy = signal(false);
+  protected readonly createError = signal<string | null>(null);
+  private readonly transmittals = viewChild(TransmittalsPanel);
+
+  protected readonly form = inject(FormBuilder).nonNullable.group({
+    number: ['', [Validators.required, Validators.maxLength(60), Validators.pattern(/^[A-Za-z0-9][A-Za-z0-9._-]*$/)]],
+    title: ['', [Validators.required, Validators.maxLength(200)]],
+    stageKey: ['column_layout' as StageKey, Validators.required],
+    sheetSize: ['A1' as SheetSize, Validators.required],
+    scale: ['1:100', [Validators.required, Validators.pattern(/^(1:\d{1,5}|NTS|As shown)$/)]],
+  });
+
+  private searchTimer?: ReturnType<typeof setTimeout>;
+
+  protected stageTitle(d: DrawingListItem): string {
+    return STAGE_TITLES[d.stageKey];
+  }
+  protected stateLabel(s: RevisionState): string {
+    return REVISION_STATE_LABELS[s].label;
+  }
+  protected stateGlyph(s: RevisionState): string {
+    return REVISION_STATE_LABELS[s].glyph;
+  }
+  protected message(err: unknown): string {
+    return errorMessage(err);
+  }
+  protected exportUrl(kind: 'csv' | 'pdf'): string {
+    const s = this.query();
+    const params = new HttpParams({
+      fromObject: Object.fromEntries(
+        Object.entries({
+          sort: s.sort,
+          direction: s.direction,
+          q: s.q,
+          stageKey: s.stage,
+          state: s.state,
+          suitability: s.suitability,
+        }).filter(([, v]) => v),
+      ),
+    });
+    return `/api/projects/${encodeURIComponent(this.projectId() ?? '')}/drawings/export.${kind}?${params.toString()}`;
+  }
+
+  protected projectChosen(id: string): void {
+    this.go({ project: id, page: null, drawing: null, transmittal: null });
+  }
+  protected searchTyped(value: string): void {
+    clearTimeout(this.searchTimer);
+    this.searchTimer = setTimeout(() => this.go({ q: value.trim() || null, page: null }), SEARCH_DELAY_MS);
+  }
+  protected filterChosen(key: 'stage' | 'state' | 'suitability', value: string): void {
+    this.go({ [key]: value || null, page: null });
+  }
+  protected sorted(sort: Sort): void {
+    if (!sort.direction) this.go({ sort: null, direction: null, page: null });
+    else this.go({ sort: sort.active, direction: sort.direction, page: null });
+  }
+  protected paged(event: PageEvent): void {
+    this.go({
+      page: event.pageIndex === 0 ? null : event.pageIndex + 1,
+      pageSize: event.pageSize === DEFAULT_PAGE_SIZE ? null : event.pageSize,
+    });
+  }
+  protected open(d: DrawingListItem): void {
+    this.go({ drawing: d.id });
+  }
+  protected clearFilters(): void {
+    this.go({ q: null, stage: null, state: null, suitability: null, page: null });
+  }
+
+  protected async startCreating(): Promise<void> {
+    this.creating.set(true);
+    this.createError.set(null);
+    const id = this.projectId();
+    if (!id) return;
+    try {
+      this.form.controls.number.setValue((await this.api.nextNumber(id)).number);
+    } catch {
+      // The proposal is a convenience; the engineer can type the number.
+    }
+  }
+
+  protected async create(): Promise<void> {
+    const id = this.projectId();
+    if (!id || this.form.invalid || this.busy()) return;
+    this.busy.set(true);
+    this.createError.set(null);
+    try {
+      const d = await this.api.createDrawing(id, this.form.getRawValue());
+      this.creating.set(false);
+      this.form.reset();
+      this.list.reload();
+      this.go({ drawing: d.id });
+    } catch (err) {
+      this.createError.set(errorMessage(err));
+    } finally {
+      this.busy.set(false);
+    }
+  }
+
+  protected registerChanged(): void {
+    this.list.reload();
+    this.transmittals()?.reload();
+  }
+
+  ngOnDestroy(): void {
+    clearTimeout(this.searchTimer);
+  }
+
+  private go(queryParams: Record<string, string | number | null>): void {
+    void this.router.navigate([], { queryParams, queryParamsHandling: 'merge' });
+  }
 }

@@ -4,18 +4,16 @@ import { ComponentFixture, TestBed } from '@angular/core/testing';
 import { MAT_DIALOG_DATA, MatDialogRef } from '@angular/material/dialog';
 import { MatSelectHarness } from '@angular/material/select/testing';
 import { TestbedHarnessEnvironment } from '@angular/cdk/testing/testbed';
-import type { ProjectSummary } from '@trabeate/contracts';
-import { InviteDialog, type InviteDialogData } from './invite-dialog';
+import { invitationCreatedSchema } from '@trabeate/contracts';
+import { reply, replyError } from '../../../testing/api-replies';
+import { InviteDialog, type InviteDialogData, type InviteProjectChoice } from './invite-dialog';
 
 const ORG_A = { id: '00000000-0000-4000-8000-000000000101', name: 'Quillon Terrace Homes' };
-const project: ProjectSummary = {
+const project: InviteProjectChoice = {
   id: '00000000-0000-4000-8000-000000000301',
   reference: 'LP-2026-003',
   name: 'Wickham Lane townhouses',
   clientOrganisation: ORG_A,
-  siteAddress: '2 Wickham Lane',
-  buildingUse: 'Houses',
-  storeys: 3,
 };
 
 describe('InviteDialog', () => {
@@ -102,16 +100,11 @@ describe('InviteDialog', () => {
       role: 'engineer',
       projectIds: [],
     });
-    req.flush(
-      {
-        error: {
-          code: 'validation_failed',
-          message: 'Invalid body.email: already in use',
-          fields: { 'body.email': ['Someone at the firm already uses this e-mail address.'] },
-        },
-      },
-      { status: 400, statusText: 'Bad Request' },
-    );
+    replyError(req, 400, {
+      code: 'validation_failed',
+      message: 'Invalid body.email: already in use',
+      fields: { 'body.email': ['Someone at the firm already uses this e-mail address.'] },
+    });
     await fixture.whenStable();
     await new Promise((r) => setTimeout(r));
     await fixture.whenStable();
@@ -129,7 +122,7 @@ describe('InviteDialog', () => {
     await type('[data-testid="invite-email"]', 'ines@example.test');
     await type('[data-testid="invite-name"]', 'Ines Varrow');
     q<HTMLButtonElement>('[data-testid="invite-send"]')!.click();
-    const created = {
+    const created = invitationCreatedSchema.parse({
       person: {
         id: '00000000-0000-4000-8000-000000000209',
         email: 'ines@example.test',
@@ -145,8 +138,11 @@ describe('InviteDialog', () => {
         url: 'http://127.0.0.1:4310/invitations/tok_abcdefghijklmnopqrstuv',
         expiresAt: '2026-03-16T08:00:00.000Z',
       },
-    };
-    backend.expectOne('/api/invitations').flush(created, { status: 201, statusText: 'Created' });
+    });
+    reply(backend.expectOne('/api/invitations'), invitationCreatedSchema, created, {
+      status: 201,
+      statusText: 'Created',
+    });
     await new Promise((r) => setTimeout(r));
     await fixture.whenStable();
     expect(q('[data-testid="invitation-url"]')?.textContent).toBe(

@@ -17,15 +17,20 @@ import { MatError, MatFormField, MatHint, MatLabel } from '@angular/material/for
 import { MatIcon } from '@angular/material/icon';
 import { MatInput } from '@angular/material/input';
 import { MatSelect } from '@angular/material/select';
-import type { InvitationCreate, InvitationCreated, ProjectSummary, Role } from '@trabeate/contracts';
+import type { InvitationCreate, InvitationCreated, ProjectListItem, Role } from '@trabeate/contracts';
 import { firstValueFrom } from 'rxjs';
 import { errorMessage, fieldErrors } from '../../core/auth/api-error';
 import { ROLE_LABELS } from '../../core/auth/session';
 import { applyServerErrors, asYouType, fieldErrorText } from '../../shared/forms/field-errors';
 
+/** What the dialog needs of a project: the people page passes items of the paged project list. */
+export type InviteProjectChoice = Pick<ProjectListItem, 'id' | 'reference' | 'name' | 'clientOrganisation'>;
+
 export interface InviteDialogData {
   readonly organisations: readonly { id: string; name: string }[];
-  readonly projects: readonly ProjectSummary[];
+  readonly projects: readonly InviteProjectChoice[];
+  /** Projects beyond the page the people page loaded; they can be joined later from the project. */
+  readonly projectsLeftOut?: number;
 }
 
 const notBlank = (c: { value: string }) => (c.value && !c.value.trim() ? { whitespace: true } : null);
@@ -88,7 +93,7 @@ export class InviteDialog {
   }
 
   /** Projects a client contact may join are their own organisation's. */
-  protected projectChoices(): readonly ProjectSummary[] {
+  protected projectChoices(): readonly InviteProjectChoice[] {
     const { role, clientOrganisationId } = this.form.getRawValue();
     if (role !== 'client') return this.data.projects;
     return this.data.projects.filter((p) => p.clientOrganisation.id === clientOrganisationId);

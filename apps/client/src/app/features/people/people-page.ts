@@ -22,13 +22,16 @@ import {
   MatTable,
   MatTableDataSource,
 } from '@angular/material/table';
-import type { Person, ProjectSummary, Role } from '@trabeate/contracts';
+import type { Person, ProjectList, Role } from '@trabeate/contracts';
 import { firstValueFrom } from 'rxjs';
 import { errorMessage } from '../../core/auth/api-error';
 import { ROLE_LABELS, Session } from '../../core/auth/session';
 import { Notice } from '../../core/notice';
 import { ConfirmDialog, type ConfirmData } from '../../shared/confirm-dialog/confirm-dialog';
 import { InviteDialog, type InviteDialogData } from './invite-dialog';
+
+/** The most projects the invite dialog offers (the API's largest page). */
+export const INVITE_PROJECT_PAGE = 100;
 
 const STATUS_LABELS: Record<Person['status'], string> = {
   active: 'Active',
@@ -73,7 +76,11 @@ export class PeoplePage {
 
   protected readonly people = httpResource<Person[]>(() => '/api/people');
   private readonly organisations = httpResource<{ id: string; name: string }[]>(() => '/api/client-organisations');
-  private readonly projects = httpResource<ProjectSummary[]>(() => '/api/projects');
+  // The list is paged on the server: ask for one large page of active projects, in reference order.
+  private readonly projects = httpResource<ProjectList>(() => ({
+    url: '/api/projects',
+    params: { pageSize: INVITE_PROJECT_PAGE, sort: 'reference', direction: 'asc', status: 'active' },
+  }));
 
   protected readonly columns = ['displayName', 'role', 'organisation', 'status', 'projects', 'actions'];
   protected readonly roles = Object.entries(ROLE_LABELS) as [Role, string][];
@@ -121,9 +128,11 @@ export class PeoplePage {
   }
 
   protected async invite(): Promise<void> {
+    const page = this.projects.hasValue() ? this.projects.value() : null;
     const data: InviteDialogData = {
       organisations: this.organisations.hasValue() ? this.organisations.value() : [],
-      projects: this.projects.hasValue() ? this.projects.value() : [],
+      projects: page?.items ?? [],
+      projectsLeftOut: page ? Math.max(0, page.total - page.items.length) : 0,
     };
     const ref = this.dialog.open(InviteDialog, { data, autoFocus: 'first-tabbable', disableClose: true });
     const created = await firstValueFrom(ref.afterClosed());

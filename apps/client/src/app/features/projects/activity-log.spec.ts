@@ -2,7 +2,8 @@ import { provideHttpClient } from '@angular/common/http';
 import { HttpTestingController, TestRequest, provideHttpClientTesting } from '@angular/common/http/testing';
 import { ANIMATION_MODULE_TYPE } from '@angular/core';
 import { ComponentFixture, TestBed } from '@angular/core/testing';
-import type { Activity } from '@trabeate/contracts';
+import { activityListSchema, type Activity } from '@trabeate/contracts';
+import { reply } from '../../../testing/api-replies';
 import { ActivityLog } from './activity-log';
 
 const ID = '00000000-0000-4000-8000-000000000301';
@@ -62,7 +63,7 @@ describe('ActivityLog', () => {
   it('shows the newest entries first as the server sends them, one readable line each', async () => {
     const req = backend.expectOne((r) => r.url === URL);
     expect(params(req)).toEqual({ page: '1', pageSize: '20' });
-    req.flush({ items: [entry(2), entry(1)], total: 2, page: 1, pageSize: 20 });
+    reply(req, activityListSchema, { items: [entry(2), entry(1)], total: 2, page: 1, pageSize: 20 });
     await settle();
     expect(Array.from(el().querySelectorAll('[data-testid="activity-entry"] span')).map((s) => s.textContent)).toEqual([
       'Entry 2',
@@ -71,14 +72,22 @@ describe('ActivityLog', () => {
   });
 
   it('filters by kind and stage on the server, back to the first page', async () => {
-    backend.expectOne((r) => r.url === URL).flush({ items: [entry(1)], total: 45, page: 1, pageSize: 20 });
+    reply(
+      backend.expectOne((r) => r.url === URL),
+      activityListSchema,
+      { items: [entry(1)], total: 45, page: 1, pageSize: 20 },
+    );
     await settle();
     (el().querySelector('button.mat-mdc-paginator-navigation-next') as HTMLButtonElement).click();
     await settle();
     expect(params(backend.expectOne((r) => r.url === URL))).toEqual({ page: '2', pageSize: '20' });
 
     await pick('activity-type', 'Deliverables');
-    backend.expectOne((r) => r.url === URL).flush({ items: [], total: 0, page: 1, pageSize: 20 });
+    reply(
+      backend.expectOne((r) => r.url === URL),
+      activityListSchema,
+      { items: [], total: 0, page: 1, pageSize: 20 },
+    );
     await pick('activity-stage', 'Foundations');
     expect(params(backend.expectOne((r) => r.url === URL))).toEqual({
       page: '1',

@@ -2,7 +2,9 @@ import { provideHttpClient } from '@angular/common/http';
 import { HttpTestingController, provideHttpClientTesting } from '@angular/common/http/testing';
 import { ComponentFixture, TestBed } from '@angular/core/testing';
 import { Router, provideRouter } from '@angular/router';
-import type { ProjectPage } from '@trabeate/contracts';
+import { clientOrganisationSchema, projectPageSchema, type ProjectPage } from '@trabeate/contracts';
+import { reply, replyError } from '../../../testing/api-replies';
+import { aProjectPage } from '../../../testing/fixtures';
 import { ProjectFormPage } from './project-form-page';
 
 const ORG = { id: '00000000-0000-4000-8000-000000000101', name: 'Quillon Terrace Homes' };
@@ -36,8 +38,13 @@ describe('ProjectFormPage', () => {
     if (projectId) fixture.componentRef.setInput('projectId', projectId);
     fixture.detectChanges();
     TestBed.tick();
-    backend.expectOne('/api/client-organisations').flush([ORG]);
-    if (projectId) backend.expectOne(`/api/projects/${projectId}/full`).flush(project ?? {});
+    reply(backend.expectOne('/api/client-organisations'), clientOrganisationSchema.array(), [ORG]);
+    if (projectId)
+      reply(
+        backend.expectOne(`/api/projects/${projectId}/full`),
+        projectPageSchema,
+        aProjectPage({ ...project, id: projectId }),
+      );
     await settle();
   }
 
@@ -104,7 +111,10 @@ describe('ProjectFormPage', () => {
       currency: 'EUR',
       designBasis: { codeFamily: 'EN1992', concreteMPa: 30, steelMPa: 500, bearingPressureKPa: 150 },
     });
-    req.flush({ id: PROJECT_ID, reference: 'QTH-2026/04' });
+    reply(req, projectPageSchema, aProjectPage({ id: PROJECT_ID, reference: 'QTH-2026/04' }), {
+      status: 201,
+      statusText: 'Created',
+    });
     await settle();
     expect(navigate).toHaveBeenCalledWith(['/projects', PROJECT_ID]);
   });
@@ -113,19 +123,14 @@ describe('ProjectFormPage', () => {
     await open();
     await fillValid();
     (el().querySelector('[data-testid="save-project"]') as HTMLButtonElement).click();
-    backend.expectOne('/api/projects').flush(
-      {
-        error: {
-          code: 'validation_failed',
-          message: 'Invalid body.reference: already used',
-          fields: {
-            'body.reference': ['Reference QTH-2026/04 is already used by another project.'],
-            'body.designBasis.concreteMPa': ['Too high for this code family.'],
-          },
-        },
+    replyError(backend.expectOne('/api/projects'), 400, {
+      code: 'validation_failed',
+      message: 'Invalid body.reference: already used',
+      fields: {
+        'body.reference': ['Reference QTH-2026/04 is already used by another project.'],
+        'body.designBasis.concreteMPa': ['Too high for this code family.'],
       },
-      { status: 400, statusText: 'Bad Request' },
-    );
+    });
     await settle();
     expect(errorBeside('reference')).toBe('Reference QTH-2026/04 is already used by another project.');
     expect(errorBeside('concreteMPa')).toBe('Too high for this code family.');
@@ -169,7 +174,7 @@ describe('ProjectFormPage', () => {
       currency: 'GBP',
       designBasis: { codeFamily: 'IS456', steelMPa: 415 },
     });
-    req.flush({});
+    reply(req, projectPageSchema, aProjectPage({ ...project, id: PROJECT_ID, name: 'Block one, revised' }));
     await settle();
   });
 });

@@ -4,7 +4,17 @@ import { ANIMATION_MODULE_TYPE } from '@angular/core';
 import { TestBed } from '@angular/core/testing';
 import { provideRouter, withComponentInputBinding } from '@angular/router';
 import { RouterTestingHarness } from '@angular/router/testing';
-import type { ProjectPage as ProjectPageData, Stage, StageKey } from '@trabeate/contracts';
+import {
+  activityListSchema,
+  commentSchema,
+  deliverableSchema,
+  personSchema,
+  projectPageSchema,
+  type ProjectPage as ProjectPageData,
+  type Stage,
+  type StageKey,
+} from '@trabeate/contracts';
+import { reply, replyAll } from '../../../testing/api-replies';
 import { ProjectPage } from './project-page';
 import { STAGE_ORDER, STAGE_TITLES } from './project-labels';
 
@@ -59,7 +69,7 @@ function project(manage: boolean, archivedAt: string | null = null): ProjectPage
       stage('slab_panels'),
       stage('stairs'),
     ],
-    abilities: { work: manage, manage, seeFinance: manage, pay: false, acknowledge: false },
+    abilities: { work: manage, manage, seeFinance: manage, seeInternal: true, pay: false, acknowledge: false },
   };
 }
 
@@ -72,11 +82,13 @@ describe('ProjectPage', () => {
     harness.detectChanges();
   };
   const answerPanel = (key: StageKey) => {
-    backend.match(`/api/projects/${ID}/stages/${key}/deliverables`).forEach((r) => r.flush([]));
-    backend.match(`/api/projects/${ID}/stages/${key}/comments`).forEach((r) => r.flush([]));
-    backend
-      .match((r) => r.url === `/api/projects/${ID}/activity`)
-      .forEach((r) => r.flush({ items: [], total: 0, page: 1, pageSize: 20 }));
+    replyAll(backend.match(`/api/projects/${ID}/stages/${key}/deliverables`), deliverableSchema.array(), []);
+    replyAll(backend.match(`/api/projects/${ID}/stages/${key}/comments`), commentSchema.array(), []);
+    replyAll(
+      backend.match((r) => r.url === `/api/projects/${ID}/activity`),
+      activityListSchema,
+      { items: [], total: 0, page: 1, pageSize: 20 },
+    );
   };
 
   async function open(url: string, data: ProjectPageData): Promise<void> {
@@ -92,9 +104,9 @@ describe('ProjectPage', () => {
     harness = await RouterTestingHarness.create();
     void harness.navigateByUrl(url);
     await settle();
-    backend.expectOne(`/api/projects/${ID}/full`).flush(data);
+    reply(backend.expectOne(`/api/projects/${ID}/full`), projectPageSchema, data);
     await settle();
-    backend.match('/api/people').forEach((r) => r.flush([]));
+    replyAll(backend.match('/api/people'), personSchema.array(), []);
     await settle();
   }
 
@@ -145,9 +157,13 @@ describe('ProjectPage', () => {
     backend.expectNone(`/api/projects/${ID}/archive`);
     (document.querySelector('[data-testid="confirm"]') as HTMLButtonElement).click();
     await settle(50);
-    backend.expectOne(`/api/projects/${ID}/archive`).flush({});
+    reply(
+      backend.expectOne(`/api/projects/${ID}/archive`),
+      projectPageSchema,
+      project(true, '2026-03-02T08:00:00.000Z'),
+    );
     await settle();
-    backend.expectOne(`/api/projects/${ID}/full`).flush(project(true, '2026-03-02T08:00:00.000Z'));
+    reply(backend.expectOne(`/api/projects/${ID}/full`), projectPageSchema, project(true, '2026-03-02T08:00:00.000Z'));
     await settle();
     answerPanel('column_layout');
     await settle();
@@ -157,6 +173,6 @@ describe('ProjectPage', () => {
     await settle(50);
     (document.querySelector('[data-testid="confirm"]') as HTMLButtonElement).click();
     await settle(50);
-    backend.expectOne(`/api/projects/${ID}/restore`).flush({});
+    reply(backend.expectOne(`/api/projects/${ID}/restore`), projectPageSchema, project(true));
   });
 });

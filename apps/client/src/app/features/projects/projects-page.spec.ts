@@ -3,7 +3,14 @@ import { HttpTestingController, TestRequest, provideHttpClientTesting } from '@a
 import { TestBed } from '@angular/core/testing';
 import { Router, provideRouter, withComponentInputBinding } from '@angular/router';
 import { RouterTestingHarness } from '@angular/router/testing';
-import type { ProjectList, ProjectListItem } from '@trabeate/contracts';
+import {
+  clientOrganisationSchema,
+  meSchema,
+  projectListSchema,
+  type ProjectList,
+  type ProjectListItem,
+} from '@trabeate/contracts';
+import { reply, replyError } from '../../../testing/api-replies';
 import { Session } from '../../core/auth/session';
 import { grantedMe } from '../../core/auth/testing';
 import { ProjectsPage } from './projects-page';
@@ -54,12 +61,13 @@ describe('ProjectsPage', () => {
     });
     backend = TestBed.inject(HttpTestingController);
     const loaded = TestBed.inject(Session).load();
-    backend.expectOne('/api/me').flush(grantedMe(role));
+    reply(backend.expectOne('/api/me'), meSchema, grantedMe(role));
     await loaded;
     harness = await RouterTestingHarness.create();
     void harness.navigateByUrl(url);
     await settle();
-    if (role === 'principal') backend.expectOne('/api/client-organisations').flush([ORG]);
+    if (role === 'principal')
+      reply(backend.expectOne('/api/client-organisations'), clientOrganisationSchema.array(), [ORG]);
   }
 
   afterEach(() => backend.verify());
@@ -68,7 +76,7 @@ describe('ProjectsPage', () => {
     await open('/projects');
     const req = listRequest();
     expect(params(req)).toEqual({ page: '1', pageSize: '25', sort: 'reference', direction: 'desc', status: 'active' });
-    req.flush(page([item(1), item(2, { lateStages: 2 })]));
+    reply(req, projectListSchema, page([item(1), item(2, { lateStages: 2 })]));
     await settle();
     const rows = el().querySelectorAll('[data-testid="projects-table"] tr.mat-mdc-row');
     expect(rows.length).toBe(2);
@@ -93,7 +101,7 @@ describe('ProjectsPage', () => {
 
   it('sorting by a column puts the sort in the address, back on page 1, and asks the server again', async () => {
     await open('/projects?page=2');
-    listRequest().flush(page([item(1)], 30, 2));
+    reply(listRequest(), projectListSchema, page([item(1)], 30, 2));
     await settle();
     const clientHeader = Array.from(el().querySelectorAll<HTMLElement>('th .mat-sort-header-container')).find((h) =>
       h.textContent?.includes('Client'),
@@ -106,7 +114,9 @@ describe('ProjectsPage', () => {
 
   it('paging moves to the next page with the server and keeps the sort', async () => {
     await open('/projects?sort=updatedAt&direction=desc');
-    listRequest().flush(
+    reply(
+      listRequest(),
+      projectListSchema,
       page(
         Array.from({ length: 25 }, (_, i) => item(i + 1)),
         60,
@@ -120,7 +130,7 @@ describe('ProjectsPage', () => {
 
   it('searching waits for a pause in typing, then asks once for what was typed', async () => {
     await open('/projects');
-    listRequest().flush(page([item(1)]));
+    reply(listRequest(), projectListSchema, page([item(1)]));
     const input = el().querySelector('[data-testid="project-search"]') as HTMLInputElement;
     for (const text of ['f', 'fe', 'fer']) {
       input.value = text;
@@ -135,24 +145,21 @@ describe('ProjectsPage', () => {
 
   it('says so when no project matches the filters, and offers to clear them', async () => {
     await open('/projects?q=zzz');
-    listRequest().flush(page([], 0));
+    reply(listRequest(), projectListSchema, page([], 0));
     await settle();
     expect(el().textContent).toContain('No projects match');
   });
 
   it('shows the server’s reason when the list cannot be loaded', async () => {
     await open('/projects');
-    listRequest().flush(
-      { error: { code: 'internal', message: 'The database is away.' } },
-      { status: 500, statusText: 'Error' },
-    );
+    replyError(listRequest(), 500, { code: 'internal', message: 'The database is away.' });
     await settle();
     expect(el().querySelector('[data-testid="projects-error"]')?.textContent).toContain('The database is away.');
   });
 
   it('offers “New project” and the client filter to the principal only', async () => {
     await open('/projects', 'engineer');
-    listRequest().flush(page([item(1)]));
+    reply(listRequest(), projectListSchema, page([item(1)]));
     await settle();
     expect(el().querySelector('[data-testid="new-project"]')).toBeNull();
     expect(el().querySelector('[data-testid="client-filter"]')).toBeNull();

@@ -10,26 +10,34 @@ export type HealthView =
   | { readonly kind: 'ready'; readonly health: Health }
   | { readonly kind: 'error'; readonly message: string };
 
+const DEPENDENCIES = ['database', 'jobQueue', 'objectStorage', 'mailRelay'] as const;
+
 /**
  * Checks the answer against the Health shape. The zod schema stays on the server side of the
- * bundle (the client imports only the type), so this is a small hand-written guard.
+ * bundle (the client imports only the type), so this is a small hand-written guard; its spec
+ * holds it to the schema in libs/contracts.
  */
 export function parseHealth(raw: unknown): Health {
   const fail = (): never => {
     throw new TypeError('The health answer does not have the expected shape.');
   };
-  if (typeof raw !== 'object' || raw === null) fail();
-  const h = raw as Record<string, unknown>;
-  const db = h['database'] as Record<string, unknown> | null | undefined;
-  if (h['status'] !== 'ok' && h['status'] !== 'degraded') fail();
-  if (typeof h['version'] !== 'string') fail();
-  if (typeof h['uptimeSeconds'] !== 'number' || h['uptimeSeconds'] < 0) fail();
-  if (typeof db !== 'object' || db === null) fail();
-  const database = db as Record<string, unknown>;
-  if (database['status'] !== 'up' && database['status'] !== 'down') fail();
-  const latency = database['latencyMs'];
-  if (latency !== null && (typeof latency !== 'number' || latency < 0)) fail();
-  if (database['message'] !== undefined && typeof database['message'] !== 'string') fail();
+  const isObject = (v: unknown): v is Record<string, unknown> => typeof v === 'object' && v !== null;
+  if (!isObject(raw)) return fail();
+  if (!['ok', 'degraded', 'down'].includes(raw['status'] as string)) fail();
+  if (typeof raw['version'] !== 'string') fail();
+  if (typeof raw['uptimeSeconds'] !== 'number' || raw['uptimeSeconds'] < 0) fail();
+  const deps = raw['dependencies'];
+  if (!isObject(deps)) return fail();
+  for (const name of DEPENDENCIES) {
+    const d = deps[name];
+    if (!isObject(d)) return fail();
+    if (!['up', 'down', 'not_configured'].includes(d['status'] as string)) fail();
+    const latency = d['latencyMs'];
+    if (latency !== null && (typeof latency !== 'number' || latency < 0)) fail();
+    if (typeof d['essential'] !== 'boolean') fail();
+    const message = d['message'];
+    if (message !== undefined && (typeof message !== 'string' || message.length > 200)) fail();
+  }
   return raw as Health;
 }
 
@@ -58,7 +66,7 @@ export class HealthService {
     if (r.hasValue()) return { kind: 'ready', health: r.value() };
     if (r.isLoading()) return { kind: 'loading' };
     const error = r.error();
-    // A server whose database is down may answer 503 with a full health body: show that body,
+    // A server whose database or job queue is down answers 503 with a full health body: show it,
     // it tells the user more than "unreachable".
     if (error instanceof HttpErrorResponse) {
       const body = tryParse(error.error);

@@ -2,7 +2,8 @@ import { HttpClient, HttpEventType, provideHttpClient } from '@angular/common/ht
 import { HttpTestingController, provideHttpClientTesting } from '@angular/common/http/testing';
 import { ANIMATION_MODULE_TYPE, inject } from '@angular/core';
 import { ComponentFixture, TestBed } from '@angular/core/testing';
-import type { Deliverable } from '@trabeate/contracts';
+import { deliverableSchema, type Deliverable, type ErrorCode } from '@trabeate/contracts';
+import { reply, replyError } from '../../../../testing/api-replies';
 import { UPLOAD_HTTP } from '../projects-api';
 import { DeliverablesPanel, groupByFileName } from './deliverables-panel';
 
@@ -68,7 +69,7 @@ describe('DeliverablesPanel', () => {
     fixture.componentRef.setInput('canUpload', true);
     fixture.detectChanges();
     TestBed.tick();
-    backend.expectOne(URL).flush(existing);
+    reply(backend.expectOne(URL), deliverableSchema.array(), existing);
     await settle();
   }
 
@@ -105,11 +106,11 @@ describe('DeliverablesPanel', () => {
     await settle();
     expect(el().querySelector('[data-testid="upload-progress"]')?.textContent).toContain('100 %');
 
-    req.flush(version('column-layout.pdf', 1));
+    reply(req, deliverableSchema, version('column-layout.pdf', 1), { status: 201, statusText: 'Created' });
     await settle();
     expect(el().querySelector('[data-testid="upload-progress"]')).toBeNull();
     // The list is read again so the new version shows.
-    backend.expectOne(URL).flush([version('column-layout.pdf', 1)]);
+    reply(backend.expectOne(URL), deliverableSchema.array(), [version('column-layout.pdf', 1)]);
     await settle();
     expect(el().querySelectorAll('[data-testid="deliverable-version"]').length).toBe(1);
   });
@@ -118,11 +119,11 @@ describe('DeliverablesPanel', () => {
     [413, 'payload_too_large', 'The file is larger than the 200 MB limit.'],
     [415, 'unsupported_media_type', 'Programs and scripts are not accepted as deliverables.'],
     [422, 'validation_failed', 'column-layout.pdf is not a PDF file.'],
-  ])('says why the server refused the file (%i)', async (status, code, message) => {
+  ] as const)('says why the server refused the file (%i)', async (status, code: ErrorCode, message) => {
     await open();
     fixture.componentInstance.upload(pdf());
     await settle();
-    backend.expectOne(URL).flush({ error: { code, message } }, { status, statusText: 'Refused' });
+    replyError(backend.expectOne(URL), status, { code, message });
     await settle();
     expect(el().querySelector('[data-testid="upload-error"]')?.textContent).toContain(message);
     expect(el().querySelector('[data-testid="upload-progress"]')).toBeNull();
@@ -132,6 +133,7 @@ describe('DeliverablesPanel', () => {
     await open();
     fixture.componentInstance.upload(pdf());
     await settle();
+    // Not the API's answer: a proxy in front of it refused the body.
     backend.expectOne(URL).flush('<html>Request Entity Too Large</html>', { status: 413, statusText: 'Too Large' });
     await settle();
     expect(el().querySelector('[data-testid="upload-error"]')?.textContent).toContain(

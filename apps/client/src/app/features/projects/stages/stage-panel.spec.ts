@@ -2,7 +2,9 @@ import { HttpClient, provideHttpClient } from '@angular/common/http';
 import { HttpTestingController, provideHttpClientTesting } from '@angular/common/http/testing';
 import { ANIMATION_MODULE_TYPE, inject } from '@angular/core';
 import { ComponentFixture, TestBed } from '@angular/core/testing';
-import type { ProjectPage, Stage } from '@trabeate/contracts';
+import { commentSchema, deliverableSchema, stageSchema, type ProjectPage, type Stage } from '@trabeate/contracts';
+import { reply, replyError } from '../../../../testing/api-replies';
+import { aProjectPage } from '../../../../testing/fixtures';
 import { UPLOAD_HTTP } from '../projects-api';
 import { StagePanel } from './stage-panel';
 
@@ -28,8 +30,8 @@ function stage(extra: Partial<Stage> = {}): Stage {
   };
 }
 
-function project(manage: boolean, work = true): ProjectPage {
-  return {
+function project(manage: boolean, work = true, seeInternal = true): ProjectPage {
+  return aProjectPage({
     id: PROJECT_ID,
     reference: 'QTH-1',
     name: 'Block one',
@@ -47,8 +49,8 @@ function project(manage: boolean, work = true): ProjectPage {
       { id: '00000000-0000-4000-8000-000000000203', displayName: 'Maud Ferrier', role: 'client' },
     ],
     stages: [],
-    abilities: { work, manage, seeFinance: manage, pay: false, acknowledge: false },
-  };
+    abilities: { work, manage, seeFinance: manage, seeInternal, pay: false, acknowledge: false },
+  });
 }
 
 describe('StagePanel', () => {
@@ -64,7 +66,7 @@ describe('StagePanel', () => {
     TestBed.tick();
   };
 
-  async function open(s: Stage, manage: boolean): Promise<void> {
+  async function open(s: Stage, manage: boolean, as: ProjectPage = project(manage)): Promise<void> {
     TestBed.configureTestingModule({
       imports: [StagePanel],
       providers: [
@@ -76,16 +78,37 @@ describe('StagePanel', () => {
     });
     backend = TestBed.inject(HttpTestingController);
     fixture = TestBed.createComponent(StagePanel);
-    fixture.componentRef.setInput('project', project(manage));
+    fixture.componentRef.setInput('project', as);
     fixture.componentRef.setInput('stage', s);
     changed = 0;
     fixture.componentInstance.changed.subscribe(() => changed++);
     fixture.detectChanges();
     TestBed.tick();
-    backend.expectOne(`${BASE}/deliverables`).flush([]);
-    backend.expectOne(`${BASE}/comments`).flush([]);
+    if (as.abilities.seeInternal) {
+      reply(backend.expectOne(`${BASE}/deliverables`), deliverableSchema.array(), []);
+      reply(backend.expectOne(`${BASE}/comments`), commentSchema.array(), []);
+    }
     await settle();
   }
+
+  it("shows a client contact the stage's progress without asking for, or showing, the firm's files and thread", async () => {
+    await open(
+      stage({
+        state: 'under_review',
+        submittedAt: '2026-03-02T08:00:00.000Z',
+        deliverableCount: null,
+        commentCount: null,
+      }),
+      false,
+      project(false, false, false),
+    );
+    backend.expectNone(`${BASE}/deliverables`);
+    backend.expectNone(`${BASE}/comments`);
+    expect(el().querySelector('[data-testid="stage-state"]')?.textContent).toBe('Under review');
+    expect(el().querySelector('tb-deliverables-panel')).toBeNull();
+    expect(el().querySelector('tb-stage-comments')).toBeNull();
+    expect(el().querySelector('[data-testid="outcome-note"]')?.textContent).toContain('drawings reach you once');
+  });
 
   afterEach(() => {
     document.querySelectorAll('.cdk-overlay-container').forEach((n) => n.remove());
@@ -107,9 +130,9 @@ describe('StagePanel', () => {
     (el().querySelector('[data-testid="action-submit"]') as HTMLButtonElement).click();
     const req = backend.expectOne(`${BASE}/transitions`);
     expect(req.request.body).toEqual({ action: 'submit' });
-    req.flush(stage({ state: 'under_review' }));
+    reply(req, stageSchema, stage({ state: 'under_review' }));
     await settle();
-    backend.expectOne(`${BASE}/comments`).flush([]);
+    reply(backend.expectOne(`${BASE}/comments`), commentSchema.array(), []);
     expect(changed).toBe(1);
   });
 
@@ -140,9 +163,9 @@ describe('StagePanel', () => {
       action: 'return',
       comment: 'Column C4 clashes with the stair core; move it to grid D.',
     });
-    req.flush(stage({ state: 'returned' }));
+    reply(req, stageSchema, stage({ state: 'returned' }));
     await settle(50);
-    backend.expectOne(`${BASE}/comments`).flush([]);
+    reply(backend.expectOne(`${BASE}/comments`), commentSchema.array(), []);
   });
 
   it('reopening asks for a reason and sends it as the reason', async () => {
@@ -163,12 +186,10 @@ describe('StagePanel', () => {
   it('shows the server’s reason when a transition is refused (409), and refreshes the stage', async () => {
     await open(stage({ allowedActions: ['submit'] }), false);
     (el().querySelector('[data-testid="action-submit"]') as HTMLButtonElement).click();
-    backend
-      .expectOne(`${BASE}/transitions`)
-      .flush(
-        { error: { code: 'conflict', message: 'Upload at least one deliverable before submitting.' } },
-        { status: 409, statusText: 'Conflict' },
-      );
+    replyError(backend.expectOne(`${BASE}/transitions`), 409, {
+      code: 'conflict',
+      message: 'Upload at least one deliverable before submitting.',
+    });
     await settle();
     expect(el().querySelector('[data-testid="action-error"]')?.textContent).toContain(
       'Upload at least one deliverable before submitting.',
@@ -191,8 +212,8 @@ describe('StagePanel', () => {
     expect(fixture.componentInstance['staff']().map((m: { displayName: string }) => m.displayName)).toEqual([
       'Cato Brennagh',
     ]);
-    req.flush(stage());
+    reply(req, stageSchema, stage());
     await settle();
-    backend.expectOne(`${BASE}/comments`).flush([]);
+    reply(backend.expectOne(`${BASE}/comments`), commentSchema.array(), []);
   });
 });

@@ -73,6 +73,8 @@ export class StagePanel {
   protected readonly actions = computed(() => ACTION_ORDER.filter((a) => this.stage().allowedActions.includes(a)));
   protected readonly manage = computed(() => this.project().abilities.manage);
   protected readonly work = computed(() => this.project().abilities.work);
+  /** Working files and the review thread are the firm's; a client contact sees neither. */
+  protected readonly seeInternal = computed(() => this.project().abilities.seeInternal);
   /**
    * Who can carry a stage: the firm's engineers (the server adds one to the project team when
    * assigned). Without the firm's list, the engineers already on the project.
