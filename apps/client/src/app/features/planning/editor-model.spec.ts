@@ -8,11 +8,15 @@ import {
   editorKey,
   moveColumnTo,
   moveSelection,
+  parseSpacings,
   redo,
   select,
+  setGridSpacings,
   snap,
+  spacingsOf,
   startEditing,
   undo,
+  updateColumn,
 } from './editor-model';
 
 // The engine's invented demo with column B3 left out: grid A–D at x 0.2, 4.4, 8.6, 12.8 m and
@@ -112,5 +116,44 @@ describe('plan editor model', () => {
     s = editorKey(s, { key: 'Delete' }, 0.05)!;
     expect(col(s, 'B1')).toBeUndefined();
     expect(editorKey(s, { key: 'q' }, 0.05)).toBeNull();
+  });
+
+  it('changes a column by typed coordinates, section and orientation as one undo step each', () => {
+    let s = updateColumn(start(), 'C2', { x: 8.1234, y: 4.0 });
+    expect([col(s, 'C2')?.x, col(s, 'C2')?.y]).toEqual([8.123, 4.0]);
+    s = updateColumn(s, 'C2', { widthMm: 300, depthMm: 600, orientationDeg: 90 });
+    expect(col(s, 'C2')).toMatchObject({ widthMm: 300, depthMm: 600, orientationDeg: 90 });
+    expect(s.past).toHaveLength(2);
+    expect(updateColumn(s, 'C2', { widthMm: 300 })).toBe(s);
+    expect(col(undo(s), 'C2')?.depthMm).not.toBe(600);
+  });
+
+  it('reads a typed spacing list in metres and says what is wrong with a bad one', () => {
+    expect(parseSpacings(' 4.2 4.2  3.6 ')).toEqual({ spacings: [4.2, 4.2, 3.6] });
+    expect(parseSpacings('4.2;5')).toEqual({ spacings: [4.2, 5] });
+    expect(parseSpacings('')).toMatchObject({ error: expect.stringContaining('at least one') });
+    expect(parseSpacings('4,2')).toMatchObject({ error: expect.stringContaining('“4,2”') });
+    expect(parseSpacings('4.2 abc')).toMatchObject({ error: expect.stringContaining('“abc”') });
+    expect(parseSpacings('0.2')).toMatchObject({ error: expect.stringContaining('0.5–30 m') });
+  });
+
+  it('rebuilds one axis of the grid from spacings, lettered or numbered, keeping each line’s settings', () => {
+    const s0 = start();
+    expect(spacingsOf(s0.doc, 'x')).toEqual([4.2, 4.2, 4.2]);
+    const s = setGridSpacings(s0, 'x', [4.2, 4.2, 3.6, 3.0]);
+    const xs = s.doc.grid.filter((g) => g.x !== undefined);
+    expect(xs.map((g) => [g.label, g.x])).toEqual([
+      ['A', 0.2],
+      ['B', 4.4],
+      ['C', 8.6],
+      ['D', 12.2],
+      ['E', 15.2],
+    ]);
+    // the numbered lines are untouched, the overhang set on line 5 included
+    expect(s.doc.grid.filter((g) => g.y !== undefined)).toEqual(s0.doc.grid.filter((g) => g.y !== undefined));
+    expect(s.past).toHaveLength(1);
+    expect(setGridSpacings(s0, 'x', [4.2, 4.2, 4.2])).toBe(s0);
+    const fewer = setGridSpacings(s0, 'y', [6]);
+    expect(fewer.doc.grid.filter((g) => g.y !== undefined).map((g) => g.label)).toEqual(['1', '2']);
   });
 });

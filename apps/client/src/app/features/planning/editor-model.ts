@@ -196,3 +196,80 @@ export function editorKey(s: EditorState, e: KeyInput, stepM: number): EditorSta
       return null;
   }
 }
+
+/** The parts of a column the inspector may change by typing. */
+export type ColumnPatch = Partial<Pick<Column, 'x' | 'y' | 'widthMm' | 'depthMm' | 'orientationDeg'>>;
+
+/** Changes one column's position, section or orientation as one undo step. */
+export function updateColumn(s: EditorState, id: string, patch: ColumnPatch): EditorState {
+  const c = s.doc.columns.find((x) => x.id === id);
+  if (!c) return s;
+  const next: Column = {
+    ...c,
+    ...patch,
+    ...(patch.x !== undefined ? { x: mm(patch.x) } : {}),
+    ...(patch.y !== undefined ? { y: mm(patch.y) } : {}),
+  };
+  const same = (Object.keys(next) as (keyof Column)[]).every((k) => next[k] === c[k]);
+  if (same) return s;
+  return commit(s, { ...s.doc, columns: s.doc.columns.map((x) => (x.id === id ? next : x)) });
+}
+
+/**
+ * Reads a spacing list as typed, e.g. `4.2 4.2 3.6` (spaces or semicolons between). A comma is
+ * refused rather than guessed at: `4,2` could be one spacing or two. Each spacing must lie
+ * between 0.5 m and 30 m.
+ */
+export function parseSpacings(text: string): { spacings: number[] } | { error: string } {
+  const parts = text
+    .trim()
+    .split(/[\s;]+/)
+    .filter(Boolean);
+  if (!parts.length) return { error: 'Type at least one spacing in metres, e.g. 4.2 4.2 3.6.' };
+  const spacings: number[] = [];
+  for (const p of parts) {
+    const v = Number(p);
+    if (!/^\d+(\.\d+)?$/.test(p) || !Number.isFinite(v))
+      return { error: `“${p}” is not a number of metres (use a point for decimals).` };
+    if (v < 0.5 || v > 30) return { error: `${p} m is outside 0.5–30 m.` };
+    spacings.push(v);
+  }
+  return { spacings };
+}
+
+/** The spacings between consecutive grid lines on one axis, in plan order. */
+export function spacingsOf(doc: SchemeDocument, axis: 'x' | 'y'): number[] {
+  const at = doc.grid
+    .filter((g) => g[axis] !== undefined)
+    .map((g) => g[axis] as number)
+    .sort((a, b) => a - b);
+  return at.slice(1).map((v, i) => mm(v - at[i]));
+}
+
+const letters = (i: number): string =>
+  i < 26 ? String.fromCharCode(65 + i) : letters(Math.floor(i / 26) - 1) + String.fromCharCode(65 + (i % 26));
+
+/**
+ * Rebuilds the grid lines of one axis from spacings, from the first line's position (0 when
+ * there is none). Lines at x are lettered A, B, …; lines at y numbered 1, 2, …, as the trade
+ * labels grids. Each kept line keeps its own settings (overhangs, walls, beam sizes). Columns
+ * stay where they are: moving them is the engineer's decision.
+ */
+export function setGridSpacings(s: EditorState, axis: 'x' | 'y', spacings: readonly number[]): EditorState {
+  const old = s.doc.grid.filter((g) => g[axis] !== undefined).sort((a, b) => (a[axis] as number) - (b[axis] as number));
+  const other = s.doc.grid.filter((g) => g[axis] === undefined);
+  const origin = old.length ? (old[0][axis] as number) : 0;
+  const positions = [origin];
+  for (const d of spacings) positions.push(mm(positions[positions.length - 1] + d));
+  const otherIds = new Set(other.map((g) => g.id));
+  const lines = positions.map((v, i) => {
+    const label = axis === 'x' ? letters(i) : String(i + 1);
+    const { x: _x, y: _y, ...keep } = old[i] ?? { id: label, label };
+    const id = old[i]?.id ?? (otherIds.has(label) ? `${axis}-${label}` : label);
+    return { ...keep, id, label, [axis]: v };
+  });
+  const before = spacingsOf(s.doc, axis);
+  if (before.length === spacings.length && before.every((d, i) => d === mm(spacings[i])) && old.length) return s;
+  const grid = axis === 'x' ? [...lines, ...other] : [...other, ...lines];
+  return commit(s, { ...s.doc, grid });
+}
