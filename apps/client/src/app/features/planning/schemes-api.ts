@@ -1,6 +1,13 @@
 import { HttpClient } from '@angular/common/http';
 import { Injectable, inject } from '@angular/core';
-import { schemeDetailSchema, type SchemeCreate, type SchemeDetail, type SchemeDocument } from '@trabeate/contracts';
+import {
+  schemeDetailSchema,
+  schemeVersionSchema,
+  type SchemeCreate,
+  type SchemeDetail,
+  type SchemeDocument,
+  type SchemeVersion,
+} from '@trabeate/contracts';
 import { firstValueFrom, map } from 'rxjs';
 
 const enc = encodeURIComponent;
@@ -34,5 +41,19 @@ export class SchemesApi {
 
   save(projectId: string, schemeId: string, baseVersion: number, document: SchemeDocument): Promise<SchemeDetail> {
     return this.detail(this.http.put(`${schemeUrl(projectId, schemeId)}/document`, { baseVersion, document }));
+  }
+
+  /** One earlier save in full, to open in the editor. */
+  version(projectId: string, schemeId: string, version: number): Promise<SchemeVersion> {
+    return firstValueFrom(
+      this.http
+        .get(`${schemeUrl(projectId, schemeId)}/versions/${version}`)
+        .pipe(map((body) => schemeVersionSchema.parse(body))),
+    );
+  }
+
+  /** Makes an earlier save the newest one again (a new save that says where it came from). */
+  restoreVersion(projectId: string, schemeId: string, version: number): Promise<SchemeDetail> {
+    return this.detail(this.http.post(`${schemeUrl(projectId, schemeId)}/versions/${version}/restore`, {}));
   }
 }
