@@ -1,7 +1,8 @@
 import path from 'node:path';
 import type { Locator, Page } from 'playwright-core';
 import { DEMO } from '../../seeds/demo-data';
-import { DEMO_SCHEMES } from '../../seeds/demo-schemes';
+import { demoScheme } from '@trabeate/structural';
+import { DEMO_SCHEMES, turnedHalf } from '../../seeds/demo-schemes';
 import { DEMO_PASSWORD } from '../../seeds/identity';
 import { openBrowser, SCREENSHOTS } from '../support/browser';
 import { testEnv } from '../support/env';
@@ -54,6 +55,21 @@ describe('planning a scheme, in Chromium', () => {
     await shot(page, '2-scheme-b');
   });
 
+  it('adds a column where the left-out one stood, by typed coordinates, and the span warning clears', async () => {
+    const page = engineer.page;
+    await testId(page, 'add-column').click();
+    await testId(page, 'inspector').waitFor({ timeout: 10_000 });
+    // where the seeded scheme B leaves its column out: C3 of the full scheme, as the seed lays it out
+    const gap = turnedHalf(demoScheme()).columns.find((c) => c.id === 'C3')!;
+    await testId(page, 'col-x').fill(String(gap.x));
+    await testId(page, 'col-x').blur();
+    await testId(page, 'col-y').fill(String(gap.y));
+    await testId(page, 'col-y').blur();
+    await testId(page, 'marker-beam.span').waitFor({ state: 'detached', timeout: 30_000 });
+    await expect(testId(page, 'save-state').textContent()).resolves.toContain('Unsaved changes');
+    await shot(page, '3-column-added');
+  });
+
   it('compares the two demo schemes and reads what drives the cost difference', async () => {
     const page = engineer.page;
     await page.goto(`${base}/projects/${DEMO.projects.kestrel.id}/schemes`);
@@ -65,7 +81,7 @@ describe('planning a scheme, in Chromium', () => {
     const text = (await summary.textContent()) ?? '';
     expect(text).toMatch(/1 column (fewer|more) than/);
     expect(text).toMatch(/costs [\d,]+ EUR (more|less)/);
-    await shot(page, '3-compare');
+    await shot(page, '4-compare');
     expect(engineer.outside).toEqual([]);
     expect(engineer.consoleErrors).toEqual([]);
   });
