@@ -1,6 +1,7 @@
 import type { Knex } from 'knex';
 import { DEMO } from './demo-data';
 import { seedIdentityAccounts } from './identity';
+import { seedDemoSchemes } from './demo-schemes';
 import { seedDemoDrawings } from './demo-drawings';
 import { seedDemoFees } from './demo-fees';
 
@@ -21,6 +22,7 @@ export async function seedDemo(db: Knex, opts: { fees?: boolean } = {}): Promise
   await seedDemoDrawings(db);
   await seedIdentityAccounts(db);
   if (opts.fees ?? true) await seedDemoFees(db);
+  await seedDemoSchemes(db);
   return !existing;
 }
 

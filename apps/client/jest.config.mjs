@@ -17,6 +17,9 @@ export default {
   setupFilesAfterEnv: ['<rootDir>/src/test-setup.ts'],
   moduleNameMapper: {
     '^@trabeate/(.*)$': '<rootDir>/../../libs/$1/src/index.ts',
+    // Workers need import.meta, which Jest's CommonJS cannot run: the planning page's engine
+    // worker is answered in the same thread instead (the protocol module is tested directly).
+    '^\\./plan-worker-factory$': '<rootDir>/src/app/features/planning/plan-worker-factory.in-thread.ts',
   },
   cacheDirectory: '<rootDir>/../../tmp/jest-client',
 };

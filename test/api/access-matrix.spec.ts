@@ -1,8 +1,11 @@
 import { randomUUID } from 'node:crypto';
 import request from 'supertest';
 import type TestAgent from 'supertest/lib/agent';
-import { projectDetailSchema } from '@trabeate/contracts';
+import { projectDetailSchema, schemeSchema } from '@trabeate/contracts';
 import { DEMO } from '../../seeds/demo';
+import { DEMO_SCHEMES } from '../../seeds/demo-schemes';
+import { demoScheme } from '@trabeate/structural';
+import { insertNewScheme } from '../../apps/server/src/schemes/schemes.service';
 import { hashToken } from '../../apps/server/src/people/people.service';
 import { testApp, type TestApp } from '../support/app';
 import { startFakeSmtp, startFakeStripe, tinyPdf } from '../support/fakes';
@@ -73,6 +76,15 @@ const feeAgreementBody = () => ({
   stageShares: SHARES,
 });
 const onInvoice = (id: string, tail = '') => `/projects/${KESTREL}/invoices/${id}${tail}`;
+// Schemes of Kestrel Yard that only one row each changes.
+const SPARE_SCHEME = {
+  rename: randomUUID(),
+  archive: randomUUID(),
+  restore: randomUUID(),
+  save: randomUUID(),
+  back: randomUUID(),
+};
+const SCHEMES = `/projects/${KESTREL}/schemes`;
 
 interface Entry {
   expect: Expected;
@@ -84,6 +96,17 @@ interface Entry {
   /** Sent as a multipart file in the field "file". */
   attach?: (caller: CallerName) => { data: Buffer; name: string };
 }
+
+// Schemes: the firm's staff on the project read them, its engineers change them, clients neither.
+const schemeRead: Expected = {
+  anonymous: 401,
+  principal: 200,
+  assignedEngineer: 200,
+  unassignedEngineer: 404,
+  projectClient: 403,
+  otherClient: 404,
+};
+const schemeEdit = (ok: number): Expected => ({ ...schemeRead, principal: 403, assignedEngineer: ok });
 
 // Visible to the principal, the assigned engineer and the project's client; hidden from the others.
 const onProject = (principal: number, engineer: number, client: number): Expected => ({
@@ -260,6 +283,47 @@ const MATRIX: Record<string, Entry> = {
   'GET /projects/:projectId/invoices/:invoiceId/pdf': {
     path: onInvoice(INV.issued, '/pdf'),
     expect: onProject(200, 403, 200),
+  'GET /projects/:projectId/schemes': { path: SCHEMES, expect: schemeRead },
+  'POST /projects/:projectId/schemes': {
+    path: SCHEMES,
+    body: (c) => ({ name: `Matrix ${c}` }),
+    expect: schemeEdit(201),
+  },
+  'GET /projects/:projectId/schemes/:schemeId': { path: `${SCHEMES}/${DEMO_SCHEMES.full.id}`, expect: schemeRead },
+  'PATCH /projects/:projectId/schemes/:schemeId': {
+    path: `${SCHEMES}/${SPARE_SCHEME.rename}`,
+    body: (c) => ({ name: `Renamed by ${c}` }),
+    expect: schemeEdit(200),
+  },
+  'POST /projects/:projectId/schemes/:schemeId/duplicate': {
+    path: `${SCHEMES}/${DEMO_SCHEMES.full.id}/duplicate`,
+    body: () => ({}),
+    expect: schemeEdit(201),
+  },
+  'POST /projects/:projectId/schemes/:schemeId/archive': {
+    path: `${SCHEMES}/${SPARE_SCHEME.archive}/archive`,
+    expect: schemeEdit(200),
+  },
+  'POST /projects/:projectId/schemes/:schemeId/restore': {
+    path: `${SCHEMES}/${SPARE_SCHEME.restore}/restore`,
+    expect: schemeEdit(200),
+  },
+  'PUT /projects/:projectId/schemes/:schemeId/document': {
+    path: `${SCHEMES}/${SPARE_SCHEME.save}/document`,
+    body: () => ({ baseVersion: 1, document: demoScheme() }),
+    expect: schemeEdit(200),
+  },
+  'GET /projects/:projectId/schemes/:schemeId/versions': {
+    path: `${SCHEMES}/${DEMO_SCHEMES.full.id}/versions`,
+    expect: schemeRead,
+  },
+  'GET /projects/:projectId/schemes/:schemeId/versions/:version': {
+    path: `${SCHEMES}/${DEMO_SCHEMES.full.id}/versions/1`,
+    expect: schemeRead,
+  },
+  'POST /projects/:projectId/schemes/:schemeId/versions/:version/restore': {
+    path: `${SCHEMES}/${SPARE_SCHEME.back}/versions/1/restore`,
+    expect: schemeEdit(201),
   },
   'GET /projects/:projectId': {
     path: `/projects/${KESTREL}`,
@@ -550,6 +614,18 @@ describe('authorization matrix: every API route against every kind of caller', (
       token_hash: hashToken(INVITE_TOKEN),
       expires_at: new Date(Date.now() + 86_400_000),
     });
+    for (const id of Object.values(SPARE_SCHEME)) {
+      await t.db.transaction((trx) =>
+        insertNewScheme(trx, {
+          id,
+          firmId: DEMO.firm.id,
+          projectId: KESTREL,
+          name: `Matrix scheme ${id.slice(0, 8)}`,
+          authorId: DEMO.users.engineerA.id,
+          document: () => schemeSchema.parse(demoScheme()),
+        }),
+      );
+    }
     await seedRegisterForMatrix(t.db, t.store, {
       firmId: DEMO.firm.id,
       projectId: KESTREL,

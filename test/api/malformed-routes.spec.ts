@@ -3,8 +3,9 @@ import request from 'supertest';
 import type TestAgent from 'supertest/lib/agent';
 import { DEMO } from '../../seeds/demo';
 import type { FakeSmtp } from '../../scripts/fakes/smtp';
+import { FAKE_STRIPE_KEYS, type FakeStripe } from '../../scripts/fakes/stripe';
 import { testApp, type TestApp } from '../support/app';
-import { startFakeSmtp, tinyPdf } from '../support/fakes';
+import { startFakeSmtp, startFakeStripe, tinyPdf } from '../support/fakes';
 import { signIn, xsrfToken } from '../support/identity';
 
 // Each test sends one malformed input to every route; each sign-in runs argon2 at the provider.
@@ -139,6 +140,7 @@ function allParams(value: string): Record<string, string> {
 describe('malformed input sent to every route never makes the API answer 5xx', () => {
   let t: TestApp;
   let smtp: FakeSmtp;
+  let stripe: FakeStripe;
   let principal: TestAgent;
   let leaving: TestAgent;
 
@@ -152,10 +154,18 @@ describe('malformed input sent to every route never makes the API answer 5xx', (
 
   beforeAll(async () => {
     smtp = await startFakeSmtp({ httpPort: 0 });
+    // Card payments set up, so the webhook route is swept past its "not set up" answer too.
+    stripe = await startFakeStripe();
     t = await testApp({
       seed: true,
       identity: true,
-      config: { DEV_OUTBOX_URL: `http://127.0.0.1:${smtp.httpPort}` },
+      config: {
+        DEV_OUTBOX_URL: `http://127.0.0.1:${smtp.httpPort}`,
+        STRIPE_SECRET_KEY: FAKE_STRIPE_KEYS.secretKey,
+        STRIPE_WEBHOOK_SECRET: FAKE_STRIPE_KEYS.webhookSecret,
+        STRIPE_API_HOST: '127.0.0.1',
+        STRIPE_API_PORT: stripe.port,
+      },
     });
     for (const [id, reference] of [
       [PROJECT, 'SQ-SWEEP'],
@@ -194,6 +204,7 @@ describe('malformed input sent to every route never makes the API answer 5xx', (
   afterAll(async () => {
     await t?.close();
     await smtp?.stop();
+    await stripe?.stop();
   });
 
   it('sweeps a non-empty list of routes, multipart upload among them', () => {

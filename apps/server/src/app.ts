@@ -31,6 +31,7 @@ import { feeRoutes } from './fees/fees.routes';
 import { invoiceRoutes } from './invoices/invoices.routes';
 import { paymentRoutes, STRIPE_WEBHOOK_PATH } from './payments/payments.routes';
 import { createPayments, type Payments } from './payments/stripe-client';
+import { schemeRoutes } from './schemes/schemes.routes';
 import { storageUnavailableHandler, type ObjectStore } from './storage';
 
 export interface AppDeps {
@@ -173,6 +174,7 @@ export function createApp({ config, db, logger, version = '0.1.0', store, jobs, 
     ...stageRoutes(db, notices),
     ...deliverableRoutes(db, store, config.UPLOAD_MAX_BYTES ?? 1024 * 1024 * 1024),
     ...activityRoutes(db),
+    ...schemeRoutes(db),
     ...drawingRoutes(db, store, config.UPLOAD_MAX_BYTES ?? 1024 * 1024 * 1024),
     ...transmittalRoutes({
       db,

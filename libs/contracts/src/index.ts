@@ -4,6 +4,7 @@ export * from './health';
 export * from './auth';
 export * from './scheme';
 export * from './projects';
+export * from './schemes';
 export * from './errors';
 export * from './drawings';
 export * from './fees';

@@ -52,3 +52,4 @@ export type { SchemeResult, BeamLineResult, ColumnLoads, ColumnSizes, LevelKind 
 export { compareSchemes, compareResults } from './compare';
 export type { SchemeComparison } from './compare';
 export { demoScheme, demoSchemeVariant } from './demo';
+export { ENGINE_VERSION } from './version';

@@ -62,6 +62,26 @@ export const routes: Routes = [
     loadComponent: () => import('./features/drawings/numbering-settings-page').then((m) => m.NumberingSettingsPage),
   },
   {
+    // Schemes are the firm's working files: clients are steered away here, and refused by the server.
+    path: 'projects/:projectId/schemes',
+    title: 'Schemes · Trabeate',
+    canActivate: [signedInGuard, roleGuard('principal', 'engineer')],
+    loadComponent: () => import('./features/planning/schemes-page').then((m) => m.SchemesPage),
+  },
+  {
+    // Before `:schemeId`, so "compare" is not read as a scheme id.
+    path: 'projects/:projectId/schemes/compare',
+    title: 'Compare schemes · Trabeate',
+    canActivate: [signedInGuard, roleGuard('principal', 'engineer')],
+    loadComponent: () => import('./features/planning/compare-page').then((m) => m.ComparePage),
+  },
+  {
+    path: 'projects/:projectId/schemes/:schemeId',
+    title: 'Planning · Trabeate',
+    canActivate: [signedInGuard, roleGuard('principal', 'engineer')],
+    loadComponent: () => import('./features/planning/planning-page').then((m) => m.PlanningPage),
+  },
+  {
     path: 'drawings',
     title: 'Drawings · Trabeate',
     canActivate: [signedInGuard],

@@ -34,9 +34,45 @@ describe('access policy', () => {
   });
 
   it.each([
-    ['principal', { read: true, work: true, manage: true, finance: true, pay: false, acknowledge: false }],
-    ['engineer', { read: true, work: true, manage: false, finance: false, pay: false, acknowledge: false }],
-    ['client', { read: true, work: false, manage: false, finance: true, pay: true, acknowledge: true }],
+    [
+      'principal',
+      {
+        read: true,
+        work: true,
+        manage: true,
+        finance: true,
+        pay: false,
+        acknowledge: false,
+        readSchemes: true,
+        editSchemes: false,
+      },
+    ],
+    [
+      'engineer',
+      {
+        read: true,
+        work: true,
+        manage: false,
+        finance: false,
+        pay: false,
+        acknowledge: false,
+        readSchemes: true,
+        editSchemes: true,
+      },
+    ],
+    [
+      'client',
+      {
+        read: true,
+        work: false,
+        manage: false,
+        finance: true,
+        pay: true,
+        acknowledge: true,
+        readSchemes: false,
+        editSchemes: false,
+      },
+    ],
   ] as const)('allows a %s exactly these project actions', (role, allowed) => {
     for (const [action, ok] of Object.entries(allowed)) {
       const refusal = projectRefusal(role, action as keyof typeof allowed);

@@ -12,7 +12,8 @@ import type { Role } from '@trabeate/contracts';
  *   caller's role must allow the action on it (else 403 saying why). `internal` is the firm's own
  *   work on a project (review threads, working files): clients see outcomes, not work in progress.
  */
-export type ProjectAction = 'read' | 'internal' | 'work' | 'manage' | 'finance' | 'pay' | 'acknowledge';
+export type ProjectAction =
+  'read' | 'internal' | 'work' | 'manage' | 'finance' | 'pay' | 'acknowledge' | 'readSchemes' | 'editSchemes';
 export type Rule = 'public' | 'identified' | 'signedIn' | 'firm' | 'principal' | `project:${ProjectAction}`;
 
 export interface Caller {
@@ -72,6 +73,18 @@ export function projectRefusal(role: Role, action: ProjectAction): string | null
       return role === 'client' ? null : "Invoices are paid by the client's contacts, not by the firm.";
     case 'acknowledge':
       return role === 'client' ? null : "Transmittals are acknowledged by the client's contacts, not by the firm.";
+    // Schemes are the firm's working files: the principal and the engineers read them, the
+    // project's engineers change them.
+    case 'readSchemes':
+      return role === 'client'
+        ? "Structural schemes are the firm's working files; issued drawings are shared instead."
+        : null;
+    case 'editSchemes':
+      return role === 'engineer'
+        ? null
+        : role === 'client'
+          ? "Structural schemes are the firm's working files; issued drawings are shared instead."
+          : "Schemes are laid out by the project's engineers; the principal reads and reviews them.";
   }
 }
 

@@ -21,7 +21,7 @@ import { Router, RouterLink } from '@angular/router';
 import type { Person, ProjectPage as ProjectPageData, Stage, StageKey } from '@trabeate/contracts';
 import { firstValueFrom } from 'rxjs';
 import { errorMessage } from '../../core/auth/api-error';
-import { ROLE_LABELS } from '../../core/auth/session';
+import { ROLE_LABELS, Session } from '../../core/auth/session';
 import { Notice } from '../../core/notice';
 import { ConfirmDialog, ConfirmData } from '../../shared/confirm-dialog/confirm-dialog';
 import { ActivityLog } from './activity-log';
@@ -60,7 +60,13 @@ export class ProjectPage {
   private readonly api = inject(ProjectsApi);
   private readonly dialog = inject(MatDialog);
   private readonly notice = inject(Notice);
+  private readonly session = inject(Session);
   private readonly router = inject(Router);
+  /** Schemes are the firm's working files: the link shows for its staff only. */
+  protected readonly firmStaff = computed(() => {
+    const role = this.session.role();
+    return role === 'principal' || role === 'engineer';
+  });
 
   /** Route-bound `:projectId`. */
   readonly projectId = input.required<string>();

@@ -1,0 +1,59 @@
+import type { SchemeDocument } from '@trabeate/contracts';
+import {
+  analyseScheme,
+  compareSchemes,
+  type Scheme,
+  type SchemeComparison,
+  type SchemeResult,
+} from '@trabeate/structural';
+
+// The messages between the planning page and the engine's Web Worker. The work itself lives
+// here, in a plain module, so it is tested directly; plan.worker.ts only wires it to the worker.
+
+/** Analyse this document; `seq` increases with every edit so late answers can be told apart. */
+export interface AnalyseRequest {
+  kind: 'analyse';
+  seq: number;
+  document: SchemeDocument;
+}
+
+/** Compare two schemes side by side (a first, b second). */
+export interface CompareRequest {
+  kind: 'compare';
+  seq: number;
+  a: SchemeDocument;
+  b: SchemeDocument;
+}
+
+export type PlanRequest = AnalyseRequest | CompareRequest;
+
+export type PlanReply =
+  | { kind: 'result'; seq: number; result: SchemeResult }
+  | { kind: 'comparison'; seq: number; comparison: SchemeComparison }
+  | { kind: 'failed'; seq: number; message: string };
+
+/** Answers one request. Never throws: an engine fault comes back as a `failed` reply. */
+export function handlePlanRequest(request: PlanRequest): PlanReply {
+  try {
+    if (request.kind === 'compare')
+      return {
+        kind: 'comparison',
+        seq: request.seq,
+        comparison: compareSchemes(request.a as Scheme, request.b as Scheme),
+      };
+    return { kind: 'result', seq: request.seq, result: analyseScheme(request.document as Scheme) };
+  } catch (err) {
+    return {
+      kind: 'failed',
+      seq: request.seq,
+      message: err instanceof Error ? err.message : 'The engine stopped on this scheme.',
+    };
+  }
+}
+
+/** What the page needs of a worker (the real one, or the in-thread stand-in under Jest). */
+export interface PlanWorkerPort {
+  post(request: PlanRequest): void;
+  onReply: ((reply: PlanReply) => void) | null;
+  terminate(): void;
+}

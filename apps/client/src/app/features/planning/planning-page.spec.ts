@@ -1,0 +1,351 @@
+import { provideHttpClient } from '@angular/common/http';
+import { HttpTestingController, provideHttpClientTesting } from '@angular/common/http/testing';
+import { ANIMATION_MODULE_TYPE } from '@angular/core';
+import { TestBed } from '@angular/core/testing';
+import { provideRouter, withComponentInputBinding } from '@angular/router';
+import { RouterTestingHarness } from '@angular/router/testing';
+import { TestbedHarnessEnvironment } from '@angular/cdk/testing/testbed';
+import { MatSelectHarness } from '@angular/material/select/testing';
+import {
+  schemeConflictSchema,
+  schemeDetailSchema,
+  schemeVersionListSchema,
+  type SchemeDetail,
+} from '@trabeate/contracts';
+import { demoSchemeVariant } from '@trabeate/structural';
+import { planGeometry } from './plan-geometry';
+import { PlanningPage } from './planning-page';
+
+const PROJECT = '00000000-0000-4000-8000-000000000301';
+const SCHEME = '00000000-0000-4000-8000-000000000402';
+const URL = `/api/projects/${PROJECT}/schemes/${SCHEME}`;
+
+// Parsed by the contract, so a reply the API could never send fails here.
+const detail = (id = SCHEME, version = 3): SchemeDetail =>
+  schemeDetailSchema.parse({
+    id,
+    projectId: PROJECT,
+    name: 'Tamarind Row without B3',
+    archivedAt: null,
+    createdAt: '2026-11-30T09:00:00.000Z',
+    canEdit: true,
+    current: {
+      version,
+      savedAt: '2026-12-01T10:00:00.000Z',
+      savedBy: { id: '00000000-0000-4000-8000-000000000202', displayName: 'Cato Brennagh' },
+      restoredFrom: null,
+      schemaVersion: 1,
+      checks: { engineVersion: '0.1.0', ok: true, errors: 3, warnings: 12 },
+    },
+    document: { ...demoSchemeVariant(), id, name: 'Tamarind Row without B3' },
+  });
+
+// The first test compiles the page's templates, which takes seconds on a busy shared machine.
+jest.setTimeout(30_000);
+
+describe('PlanningPage', () => {
+  let harness: RouterTestingHarness;
+  let backend: HttpTestingController;
+  const el = () => harness.routeNativeElement as HTMLElement;
+  const all = (sel: string) => Array.from(el().querySelectorAll<HTMLElement>(sel));
+  const settle = async (ms = 0) => {
+    await new Promise((r) => setTimeout(r, ms));
+    harness.detectChanges();
+  };
+
+  async function open(answer: (req: ReturnType<HttpTestingController['expectOne']>) => void): Promise<void> {
+    TestBed.configureTestingModule({
+      providers: [
+        provideRouter(
+          [{ path: 'projects/:projectId/schemes/:schemeId', component: PlanningPage }],
+          withComponentInputBinding(),
+        ),
+        provideHttpClient(),
+        provideHttpClientTesting(),
+        { provide: ANIMATION_MODULE_TYPE, useValue: 'NoopAnimations' },
+      ],
+    });
+    backend = TestBed.inject(HttpTestingController);
+    harness = await RouterTestingHarness.create();
+    void harness.navigateByUrl(`/projects/${PROJECT}/schemes/${SCHEME}`);
+    await settle();
+    answer(backend.expectOne(URL));
+    await settle();
+    // the engine's answer arrives on a later task, as from a worker
+    await settle(10);
+  }
+
+  afterEach(() => document.querySelectorAll('.cdk-overlay-container').forEach((n) => n.remove()));
+
+  it('shows the caution on the planning screen itself, before and after the checks arrive', async () => {
+    await open((req) => req.flush(detail()));
+    const caution = el().querySelector('[data-testid="caution"]')?.textContent ?? '';
+    expect(caution).toContain('Preliminary');
+    expect(caution).toMatch(/local regulations apply/);
+    expect(caution).toMatch(/licensed structural engineer/);
+  });
+
+  it('draws the plan: grid lines labelled letters one way and numbers the other, columns, property lines', async () => {
+    await open((req) => req.flush(detail()));
+    const labels = all('[data-testid="grid-label"] text').map((t) => t.textContent?.trim());
+    expect(labels).toEqual(['A', 'B', 'C', 'D', '1', '2', '3', '4', '5']);
+    expect(all('[data-column]')).toHaveLength(19);
+    expect(all('[data-column="B3"]')).toHaveLength(0);
+    expect(all('[data-testid="property-line"]')).toHaveLength(2);
+  });
+
+  it("lists the engine's failed checks with a marker on the plan, and explains the one chosen", async () => {
+    await open((req) => req.flush(detail()));
+    const checks = all('[data-testid="check"]');
+    const span = checks.find((c) => c.textContent?.includes('continuous span 8.4 m'));
+    expect(span).toBeDefined();
+    expect(all('[data-testid="marker-beam.span"]')).toHaveLength(1);
+    // no marker hides another: the span and the column spacing under it share a spot on the plan
+    const spots = all('.marker').map((m) => m.getAttribute('transform'));
+    expect(new Set(spots).size).toBe(spots.length);
+
+    span!.click();
+    await settle();
+    const explained = el().querySelector('[data-testid="check-explained"]')?.textContent ?? '';
+    expect(explained).toContain('Beam span against the limit for its support condition');
+    // 8 m for continuous beams: common practice (libs/structural codes.ts, beamSpanContinuousMaxM)
+    expect(el().querySelector('[data-testid="check-numbers"]')?.textContent).toContain(
+      '8.4 m against a limit of at most 8 m',
+    );
+    expect(el().querySelector('[data-testid="check-source"]')?.textContent).toContain('(common practice)');
+    // the span the check names is drawn highlighted on the plan
+    expect(all('[data-beam].hl').map((b) => b.getAttribute('data-beam'))).toEqual(['B-3/A-C']);
+  });
+
+  it('chooses a check from its marker on the plan as well, by click or keyboard', async () => {
+    await open((req) => req.flush(detail()));
+    const marker = el().querySelector<SVGGElement>('[data-testid="marker-beam.span"]')!;
+    marker.dispatchEvent(new KeyboardEvent('keydown', { key: 'Enter' }));
+    await settle();
+    expect(el().querySelector('.check.chosen')?.textContent).toContain('continuous span 8.4 m');
+    expect(marker.getAttribute('aria-label')).toMatch(/^worth a look: /);
+  });
+
+  it('filters the list by severity and by rule', async () => {
+    await open((req) => req.flush(detail()));
+    const loader = TestbedHarnessEnvironment.loader(harness.fixture);
+    const [severity, rule] = await loader.getAllHarnesses(MatSelectHarness);
+    await severity.open();
+    await severity.clickOptions({ text: 'Must fix' });
+    await settle();
+    const errors = all('[data-testid="check"]');
+    expect(errors.length).toBeGreaterThan(0);
+    expect(errors.every((c) => c.classList.contains('error'))).toBe(true);
+
+    await severity.open();
+    await severity.clickOptions({ text: 'All' });
+    await rule.open();
+    await rule.clickOptions({ text: 'Footing crossing a property line' });
+    await settle();
+    const footings = all('[data-testid="check"]');
+    expect(footings.length).toBeGreaterThan(3);
+    expect(footings.every((c) => c.textContent?.includes('would cross property line'))).toBe(true);
+  });
+
+  it('says why when the scheme cannot be loaded, with a way to try again', async () => {
+    await open((req) =>
+      req.flush(
+        { error: { code: 'not_found', message: 'No scheme with this id in this project.' } },
+        { status: 404, statusText: 'Not Found' },
+      ),
+    );
+    expect(el().querySelector('[data-testid="scheme-error"]')?.textContent).toContain(
+      'No scheme with this id in this project.',
+    );
+    expect(el().querySelector('[data-testid="caution"]')).not.toBeNull();
+  });
+
+  // --- the editor ---------------------------------------------------------------------------
+
+  const box = () => planGeometry(detail().document).box;
+  /** jsdom has no screen matrix, so the plan reads client units as view units (1 m each) */
+  const client = (x: number, y: number) => ({ clientX: x - box().minX, clientY: box().minY + box().height - y });
+  const pointer = (target: Element, type: string, x: number, y: number, extra: PointerEventInit = {}) =>
+    target.dispatchEvent(new PointerEvent(type, { bubbles: true, pointerId: 1, button: 0, ...client(x, y), ...extra }));
+  const column = (id: string) => el().querySelector<SVGRectElement>(`[data-column="${id}"]`)!;
+  const svg = () => el().querySelector('[data-testid="plan"]')!;
+  const text = (id: string) => el().querySelector(`[data-testid="${id}"]`)?.textContent ?? '';
+  const button = (id: string) => el().querySelector<HTMLButtonElement>(`[data-testid="${id}"]`)!;
+  const type = async (id: string, value: string) => {
+    const input = el().querySelector<HTMLInputElement>(`[data-testid="${id}"]`)!;
+    input.value = value;
+    input.dispatchEvent(new Event('input'));
+    input.dispatchEvent(new Event('change'));
+    await settle(10);
+  };
+  const spanWarning = () => all('[data-testid="check"]').some((c) => c.textContent?.includes('continuous span 8.4 m'));
+
+  it('drags a column, snapping to the grid line it comes near, and the engine checks the moved plan', async () => {
+    await open((req) => req.flush(detail()));
+    const before = all('[data-testid="check"]').map((c) => c.textContent);
+    // C2 stands at (8.6, 4.2); dropped at (8.52, 6.1) it snaps across to grid C (8.6) and keeps y 6.1
+    pointer(column('C2'), 'pointerdown', 8.6, 4.2);
+    pointer(svg(), 'pointermove', 8.52, 6.1);
+    await settle();
+    expect(text('snap-note')).toContain('C2 at x 8.60 m, y 6.10 m, on grid C');
+    pointer(svg(), 'pointerup', 8.52, 6.1);
+    await settle(10);
+    const c2 = column('C2');
+    const w = 0.23; // the demo's columns are 230 × 500 mm turned 90°: 0.5 m across x on the plan
+    expect(Number(c2.getAttribute('y')) + Number(c2.getAttribute('height')) / 2).toBeCloseTo(
+      box().minY + box().height - 6.1,
+      6,
+    );
+    expect(Number(c2.getAttribute('x')) + Number(c2.getAttribute('width')) / 2).toBeCloseTo(8.6 - box().minX, 6);
+    expect(w).toBeLessThan(Number(c2.getAttribute('width')));
+    expect(text('save-state')).toContain('Unsaved changes');
+    const checks = () => all('[data-testid="check"]').map((c) => c.textContent);
+    // the engine answers on a later task, as from a worker; on a busy machine that may take a while
+    const same = () => JSON.stringify(checks()) === JSON.stringify(before);
+    for (let i = 0; i < 50 && same(); i++) await settle(20);
+    expect(checks()).not.toEqual(before);
+    expect(checks().some((c) => c?.includes('C2 and C3 on line C are 2.1 m apart'))).toBe(true);
+    expect(button('undo').disabled).toBe(false);
+    button('undo').click();
+    await settle(10);
+    // C2 is back on grid 2, and once the engine answers the checks are those of the plan as loaded
+    expect(Number(column('C2').getAttribute('y')) + Number(column('C2').getAttribute('height')) / 2).toBeCloseTo(
+      box().minY + box().height - 4.2,
+      6,
+    );
+    for (let i = 0; i < 50 && !same(); i++) await settle(20);
+    expect(checks()).toEqual(before);
+  });
+
+  it('adds a column, places it at B3 by typed coordinates, and the span warning clears', async () => {
+    await open((req) => req.flush(detail()));
+    expect(spanWarning()).toBe(true);
+    button('add-column').click();
+    await settle(10);
+    expect(all('[data-column]')).toHaveLength(20);
+    expect(el().querySelector('[data-testid="inspector"] legend')?.textContent).toMatch(/Column K\d+/);
+    await type('col-x', '4.4');
+    await type('col-y', '8.2');
+    for (let i = 0; i < 50 && spanWarning(); i++) await settle(20);
+    expect(spanWarning()).toBe(false);
+    expect(text('check-summary')).toMatch(/rules passed/);
+    // dimensions to its neighbours along its row and line: B2 is 4 m below (grid 2 at y 4.2)
+    expect(all('[data-testid="dimension"]').map((d) => d.textContent?.trim())).toContain('4.00 m');
+    await type('col-width', '50');
+    expect(text('inspector')).toContain('from 100 to 3000');
+  });
+
+  it('works from the keyboard: a picked column moves by the step, Delete removes it, Ctrl+Z brings it back', async () => {
+    await open((req) => req.flush(detail()));
+    pointer(column('A1'), 'pointerdown', 0.2, 0.2);
+    pointer(svg(), 'pointerup', 0.2, 0.2);
+    await settle();
+    expect(text('chosen-columns')).toContain('A1');
+    const editor = el().querySelector<HTMLElement>('[data-testid="plan-editor"]')!;
+    const key = async (init: KeyboardEventInit) => {
+      editor.dispatchEvent(new KeyboardEvent('keydown', { bubbles: true, cancelable: true, ...init }));
+      await settle(10);
+    };
+    await key({ key: 'ArrowRight' });
+    expect(el().querySelector<HTMLInputElement>('[data-testid="col-x"]')!.value).toBe('0.25');
+    await key({ key: 'Tab' });
+    expect(text('chosen-columns')).toContain('B1');
+    await key({ key: 'Delete' });
+    expect(column('B1')).toBeNull();
+    await key({ key: 'z', ctrlKey: true });
+    expect(column('B1')).not.toBeNull();
+    // with nothing chosen, Tab is left to the browser so the keyboard can leave the plan
+    await key({ key: 'Escape' });
+    const tab = new KeyboardEvent('keydown', { key: 'Tab', bubbles: true, cancelable: true });
+    editor.dispatchEvent(tab);
+    expect(tab.defaultPrevented).toBe(false);
+  });
+
+  it('rebuilds the lettered grid from a typed spacing list, and says what is wrong with a bad list', async () => {
+    await open((req) => req.flush(detail()));
+    await type('spacing-x', '4.2 4.2 3.6 3');
+    expect(all('[data-testid="grid-label"] text').map((t) => t.textContent?.trim())).toEqual([
+      'A',
+      'B',
+      'C',
+      'D',
+      'E',
+      '1',
+      '2',
+      '3',
+      '4',
+      '5',
+    ]);
+    await type('spacing-y', '4 x');
+    expect(text('spacing-error')).toContain('“x” is not a number of metres');
+  });
+
+  it('saves on top of the version it started from, and on a conflict saves the edits as a new scheme', async () => {
+    await open((req) => req.flush(detail()));
+    button('add-column').click();
+    await settle(10);
+    button('save').click();
+    await settle();
+    const put = backend.expectOne({ method: 'PUT', url: `${URL}/document` });
+    expect(put.request.body.baseVersion).toBe(3);
+    expect(put.request.body.document.columns).toHaveLength(20);
+    put.flush(
+      schemeConflictSchema.parse({
+        error: { code: 'conflict', message: 'Ilse Varro saved version 4 of this scheme after version 3.' },
+        current: { ...detail().current, version: 4 },
+      }),
+      { status: 409, statusText: 'Conflict' },
+    );
+    await settle(10);
+    expect(text('save-conflict')).toContain('Ilse Varro saved version 4');
+    expect(text('conflict-reload')).toContain('Load version 4');
+    button('conflict-copy').click();
+    await settle();
+    const COPY = '00000000-0000-4000-8000-000000000499';
+    backend.expectOne({ method: 'POST', url: `${URL}/duplicate` }).flush(detail(COPY, 1));
+    await settle();
+    const copyPut = backend.expectOne({ method: 'PUT', url: `/api/projects/${PROJECT}/schemes/${COPY}/document` });
+    expect(copyPut.request.body).toMatchObject({ baseVersion: 1 });
+    expect(copyPut.request.body.document.columns).toHaveLength(20);
+    copyPut.flush(detail(COPY, 2));
+    await settle(10);
+    // the page now shows the copy
+    backend.expectOne(`/api/projects/${PROJECT}/schemes/${COPY}`).flush(detail(COPY, 2));
+    await settle(10);
+    expect(text('scheme-lead')).toContain('Version 2');
+  });
+
+  it('lists the saves and makes an earlier one the newest again', async () => {
+    await open((req) => req.flush(detail()));
+    button('history-toggle').click();
+    await settle();
+    const at = (v: number) => ({ ...detail().current, version: v, restoredFrom: null });
+    backend
+      .expectOne(`${URL}/versions?pageSize=50`)
+      .flush(schemeVersionListSchema.parse({ items: [at(3), at(2), at(1)], total: 3, page: 1, pageSize: 50 }));
+    await settle();
+    const rows = all('[data-testid="version"]');
+    expect(rows.map((r) => r.querySelector('.v')?.textContent)).toEqual(['Version 3', 'Version 2', 'Version 1']);
+    expect(rows[0].textContent).toContain('Cato Brennagh, 1 Dec 2026');
+    // the current version cannot be made newest; the others can
+    expect(rows[0].querySelector('[data-testid="version-restore"]')).toBeNull();
+    rows[2].querySelector<HTMLButtonElement>('[data-testid="version-restore"]')!.click();
+    await settle();
+    backend.expectOne({ method: 'POST', url: `${URL}/versions/1/restore` }).flush({ ...detail(SCHEME, 4) });
+    await settle();
+    backend
+      .expectOne(URL)
+      .flush({ ...detail(SCHEME, 4), current: { ...detail().current, version: 4, restoredFrom: 1 } });
+    backend.expectOne(`${URL}/versions?pageSize=50`).flush(
+      schemeVersionListSchema.parse({
+        items: [{ ...at(4), restoredFrom: 1 }, at(3), at(2), at(1)],
+        total: 4,
+        page: 1,
+        pageSize: 50,
+      }),
+    );
+    await settle(10);
+    expect(text('scheme-lead')).toContain('Version 4');
+    expect(all('[data-testid="version"]')[0].textContent).toContain('brought back version 1');
+  });
+});

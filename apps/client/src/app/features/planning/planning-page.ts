@@ -1,0 +1,384 @@
+import { DatePipe } from '@angular/common';
+import { HttpErrorResponse, httpResource } from '@angular/common/http';
+import { ChangeDetectionStrategy, Component, DestroyRef, computed, effect, inject, input, signal } from '@angular/core';
+import { MatButton } from '@angular/material/button';
+import { MatOption } from '@angular/material/core';
+import { MatFormField, MatLabel } from '@angular/material/form-field';
+import { MatIcon } from '@angular/material/icon';
+import { MatProgressSpinner } from '@angular/material/progress-spinner';
+import { MatSelect } from '@angular/material/select';
+import { MatInput } from '@angular/material/input';
+import { Router, RouterLink } from '@angular/router';
+import {
+  schemeConflictSchema,
+  schemeDetailSchema,
+  schemeVersionListSchema,
+  type CheckSeverity,
+  type SchemeCheck,
+  type SchemeConflict,
+  type SchemeDetail,
+} from '@trabeate/contracts';
+import { CAUTION, type SchemeResult } from '@trabeate/structural';
+import { errorMessage } from '../../core/auth/api-error';
+import { SEVERITY_LABELS, SOURCE_KIND_LABELS, numbersOf, ruleLabel } from './check-labels';
+import {
+  addColumn,
+  editorKey,
+  moveColumnTo,
+  moveSelection,
+  parseSpacings,
+  select,
+  setGridSpacings,
+  spacingsOf,
+  startEditing,
+  undo,
+  redo,
+  deleteSelection,
+  updateColumn,
+  type ColumnPatch,
+  type EditorState,
+} from './editor-model';
+import type { PlanWorkerPort } from './plan-protocol';
+import { createPlanWorker } from './plan-worker-factory';
+import { PlanView, type ColumnDrop, type ColumnPick } from './plan-view';
+import { SchemesApi, schemeUrl } from './schemes-api';
+
+type SeverityFilter = CheckSeverity | 'all';
+
+/** keyboard step for moving the selection, m (Shift moves ten) */
+export const KEY_STEP_M = 0.05;
+
+/**
+ * One scheme on its plan, with the engine's checks beside it, and the plan editor. The engine runs
+ * in a Web Worker on every edit; the server runs it again on save and its stored results remain
+ * the record.
+ */
+@Component({
+  selector: 'tb-planning-page',
+  imports: [
+    DatePipe,
+    MatButton,
+    MatFormField,
+    MatIcon,
+    MatInput,
+    MatLabel,
+    MatOption,
+    MatProgressSpinner,
+    MatSelect,
+    PlanView,
+    RouterLink,
+  ],
+  templateUrl: './planning-page.html',
+  styleUrls: ['../../shared/page/page.scss', './planning-page.scss'],
+  changeDetection: ChangeDetectionStrategy.OnPush,
+})
+export class PlanningPage {
+  /** Route-bound `:projectId` and `:schemeId`. */
+  readonly projectId = input.required<string>();
+  readonly schemeId = input.required<string>();
+
+  protected readonly caution = CAUTION;
+  protected readonly keyStep = KEY_STEP_M;
+  protected readonly severityLabels = SEVERITY_LABELS;
+  protected readonly sourceKindLabels = SOURCE_KIND_LABELS;
+  protected readonly ruleLabel = ruleLabel;
+  protected readonly numbersOf = numbersOf;
+
+  protected readonly scheme = httpResource(() => schemeUrl(this.projectId(), this.schemeId()), {
+    parse: (body) => schemeDetailSchema.parse(body),
+  });
+  protected readonly detail = computed(() => (this.scheme.hasValue() ? this.scheme.value() : undefined));
+
+  private readonly api = inject(SchemesApi);
+  private readonly router = inject(Router);
+  /** the editor's state: the document as edited, the selection and undo history */
+  protected readonly editor = signal<EditorState | null>(null);
+  protected readonly doc = computed(() => this.editor()?.doc ?? this.detail()?.document);
+  /** the version this editing session started from (and saves on top of) */
+  protected readonly baseVersion = signal(0);
+  /** the document as last saved or loaded, to tell whether there is anything to save */
+  private readonly savedDoc = signal<unknown>(null);
+  protected readonly dirty = computed(() => !!this.editor() && this.editor()!.doc !== this.savedDoc());
+  protected readonly canEdit = computed(() => !!this.detail()?.canEdit && !this.detail()?.archivedAt);
+  protected readonly saving = signal(false);
+  protected readonly saveError = signal<string | null>(null);
+  protected readonly conflict = signal<SchemeConflict | null>(null);
+  /** the earlier save shown in the editor, when one was opened from the history */
+  protected readonly openedVersion = signal<number | null>(null);
+  protected readonly historyOpen = signal(false);
+  protected readonly historyBusy = signal(false);
+  protected readonly history = httpResource(
+    () => (this.historyOpen() ? `${schemeUrl(this.projectId(), this.schemeId())}/versions?pageSize=50` : undefined),
+    { parse: (body) => schemeVersionListSchema.parse(body) },
+  );
+
+  protected readonly selectedColumn = computed(() => {
+    const e = this.editor();
+    if (!e || e.selection.length !== 1) return null;
+    return e.doc.columns.find((c) => c.id === e.selection[0]) ?? null;
+  });
+  protected readonly spacingText = computed(() => {
+    const d = this.doc();
+    return d ? { x: spacingsOf(d, 'x').join(' '), y: spacingsOf(d, 'y').join(' ') } : { x: '', y: '' };
+  });
+  protected readonly spacingError = signal<{ x: string | null; y: string | null }>({ x: null, y: null });
+  protected readonly fieldError = signal<string | null>(null);
+
+  private readonly worker: PlanWorkerPort = createPlanWorker();
+  private seq = 0;
+  protected readonly result = signal<SchemeResult | null>(null);
+  protected readonly engineFault = signal<string | null>(null);
+  protected readonly checking = signal(false);
+
+  protected readonly severity = signal<SeverityFilter>('all');
+  protected readonly rule = signal<string>('all');
+  /** index into `failed` of the chosen check */
+  protected readonly selected = signal<number | null>(null);
+
+  /** failed checks as the engine lists them (errors first) */
+  protected readonly failed = computed<SchemeCheck[]>(() =>
+    (this.result()?.checks ?? []).filter((c) => c.status === 'fail'),
+  );
+  protected readonly rules = computed(() => [...new Set(this.failed().map((c) => c.ruleId))].sort());
+  protected readonly shown = computed(() =>
+    this.failed()
+      .map((check, index) => ({ check, index }))
+      .filter(
+        ({ check }) =>
+          (this.severity() === 'all' || check.severity === this.severity()) &&
+          (this.rule() === 'all' || check.ruleId === this.rule()),
+      ),
+  );
+  protected readonly counts = computed(() => {
+    const c = { error: 0, warning: 0, info: 0 };
+    for (const x of this.failed()) c[x.severity]++;
+    return c;
+  });
+  protected readonly chosen = computed(() => {
+    const i = this.selected();
+    return i === null ? null : (this.failed()[i] ?? null);
+  });
+
+  constructor() {
+    this.worker.onReply = (reply) => {
+      if (reply.seq !== this.seq) return; // an answer to an older edit
+      this.checking.set(false);
+      if (reply.kind === 'result') {
+        this.engineFault.set(null);
+        this.result.set(reply.result);
+      } else if (reply.kind === 'failed') this.engineFault.set(reply.message);
+    };
+    // a loaded (or reloaded, or restored) scheme starts a fresh editing session
+    effect(() => {
+      const d = this.detail();
+      if (d) this.begin(d);
+    });
+    // the engine re-runs on every edit; answers to older edits are dropped by their seq
+    effect(() => {
+      const doc = this.doc();
+      if (!doc) return;
+      this.selected.set(null);
+      this.checking.set(true);
+      this.worker.post({ kind: 'analyse', seq: ++this.seq, document: doc });
+    });
+    inject(DestroyRef).onDestroy(() => this.worker.terminate());
+  }
+
+  protected choose(index: number): void {
+    this.selected.set(this.selected() === index ? null : index);
+  }
+
+  protected setSeverity(v: SeverityFilter): void {
+    this.severity.set(v);
+    this.selected.set(null);
+  }
+
+  protected setRule(v: string): void {
+    this.rule.set(v);
+    this.selected.set(null);
+  }
+
+  private begin(d: SchemeDetail): void {
+    const state = startEditing(d.document);
+    this.editor.set(state);
+    this.savedDoc.set(state.doc);
+    this.baseVersion.set(d.current.version);
+    this.openedVersion.set(null);
+    this.conflict.set(null);
+    this.saveError.set(null);
+  }
+
+  private apply(next: EditorState | null): boolean {
+    const e = this.editor();
+    if (!next || !e || !this.canEdit()) return false;
+    if (next !== e) this.editor.set(next);
+    return true;
+  }
+
+  protected pick(p: ColumnPick): void {
+    const e = this.editor();
+    if (e) this.editor.set(select(e, p.id, p.extend));
+  }
+
+  /** a drag ended: the grabbed column moves to the drop point; a selection it belongs to moves with it */
+  protected dropped(d: ColumnDrop): void {
+    const e = this.editor();
+    if (!e) return;
+    const c = e.doc.columns.find((x) => x.id === d.id);
+    if (!c) return;
+    if (e.selection.includes(d.id) && e.selection.length > 1) this.apply(moveSelection(e, d.x - c.x, d.y - c.y));
+    else this.apply(moveColumnTo(select(e, d.id), d.id, d));
+  }
+
+  protected key(ev: KeyboardEvent): void {
+    const e = this.editor();
+    if (!e || !this.canEdit()) return;
+    // Tab cycles through the columns only while one is chosen: Escape clears the choice, so Tab
+    // then leaves the plan as usual (the plan never traps the keyboard).
+    if (ev.key === 'Tab' && !e.selection.length) return;
+    if (this.apply(editorKey(e, ev, KEY_STEP_M))) ev.preventDefault();
+  }
+
+  protected addAtCentre(): void {
+    const e = this.editor();
+    if (!e) return;
+    const from = e.doc.columns.find((c) => c.id === e.selection[e.selection.length - 1]);
+    const xs = e.doc.grid.filter((g) => g.x !== undefined).map((g) => g.x as number);
+    const ys = e.doc.grid.filter((g) => g.y !== undefined).map((g) => g.y as number);
+    const mid = (v: number[]) => (v.length ? (Math.min(...v) + Math.max(...v)) / 2 : 0);
+    this.apply(addColumn(e, from ? { x: from.x + 1, y: from.y } : { x: mid(xs), y: mid(ys) }));
+  }
+
+  protected deleteChosen(): void {
+    const e = this.editor();
+    if (e) this.apply(deleteSelection(e));
+  }
+
+  protected undo(): void {
+    const e = this.editor();
+    if (e) this.apply(undo(e));
+  }
+
+  protected redo(): void {
+    const e = this.editor();
+    if (e) this.apply(redo(e));
+  }
+
+  /** a typed value for the chosen column; a value that is not a number is refused with a message */
+  protected setField(id: string, field: keyof ColumnPatch, text: string): void {
+    const e = this.editor();
+    if (!e) return;
+    const v = Number(text);
+    const positive = field === 'widthMm' || field === 'depthMm';
+    if (text.trim() === '' || !Number.isFinite(v) || (positive && (v < 100 || v > 3000))) {
+      this.fieldError.set(
+        positive
+          ? 'A section side is a number of millimetres from 100 to 3000.'
+          : 'A coordinate is a number of metres.',
+      );
+      return;
+    }
+    this.fieldError.set(null);
+    this.apply(updateColumn(e, id, { [field]: v }));
+  }
+
+  protected setOrientation(id: string, deg: 0 | 90): void {
+    const e = this.editor();
+    if (e) this.apply(updateColumn(e, id, { orientationDeg: deg }));
+  }
+
+  /** checks the spacing list as it is typed; the grid changes when the list is applied */
+  protected checkSpacings(axis: 'x' | 'y', text: string): void {
+    const r = parseSpacings(text);
+    this.spacingError.update((s) => ({ ...s, [axis]: 'error' in r ? r.error : null }));
+  }
+
+  protected applySpacings(axis: 'x' | 'y', text: string): void {
+    const e = this.editor();
+    const r = parseSpacings(text);
+    if (!e) return;
+    if ('error' in r) {
+      this.spacingError.update((s) => ({ ...s, [axis]: r.error }));
+      return;
+    }
+    this.apply(setGridSpacings(e, axis, r.spacings));
+  }
+
+  protected async save(): Promise<void> {
+    const e = this.editor();
+    if (!e || this.saving()) return;
+    this.saving.set(true);
+    this.saveError.set(null);
+    try {
+      const saved = await this.api.save(this.projectId(), this.schemeId(), this.baseVersion(), e.doc);
+      this.baseVersion.set(saved.current.version);
+      this.savedDoc.set(e.doc);
+      this.openedVersion.set(null);
+      this.conflict.set(null);
+      if (this.historyOpen()) this.history.reload();
+    } catch (err) {
+      const c =
+        err instanceof HttpErrorResponse && err.status === 409 ? schemeConflictSchema.safeParse(err.error) : null;
+      if (c?.success) this.conflict.set(c.data);
+      else this.saveError.set(errorMessage(err, 'The scheme could not be saved.'));
+    } finally {
+      this.saving.set(false);
+    }
+  }
+
+  /** the conflict's first way out: drop these edits and load the newer save */
+  protected reload(): void {
+    this.conflict.set(null);
+    this.scheme.reload();
+  }
+
+  /** the conflict's second way out: keep both, these edits going into a new scheme */
+  protected async saveAsCopy(): Promise<void> {
+    const e = this.editor();
+    if (!e || this.saving()) return;
+    this.saving.set(true);
+    try {
+      const copy = await this.api.duplicate(this.projectId(), this.schemeId());
+      await this.api.save(this.projectId(), copy.id, copy.current.version, e.doc);
+      this.conflict.set(null);
+      await this.router.navigate(['/projects', this.projectId(), 'schemes', copy.id]);
+    } catch (err) {
+      this.saveError.set(errorMessage(err, 'The copy could not be saved.'));
+    } finally {
+      this.saving.set(false);
+    }
+  }
+
+  /** shows an earlier save in the editor; saving it makes it the newest version */
+  protected async openVersion(version: number): Promise<void> {
+    this.historyBusy.set(true);
+    try {
+      const v = await this.api.version(this.projectId(), this.schemeId(), version);
+      const e = this.editor();
+      if (!e) return;
+      this.editor.set({ ...e, doc: v.document, selection: [], past: [...e.past, e.doc], future: [] });
+      this.openedVersion.set(version);
+    } catch (err) {
+      this.saveError.set(errorMessage(err, 'That version could not be opened.'));
+    } finally {
+      this.historyBusy.set(false);
+    }
+  }
+
+  protected async restoreVersion(version: number): Promise<void> {
+    this.historyBusy.set(true);
+    try {
+      await this.api.restoreVersion(this.projectId(), this.schemeId(), version);
+      this.scheme.reload();
+      this.history.reload();
+    } catch (err) {
+      this.saveError.set(errorMessage(err, 'That version could not be restored.'));
+    } finally {
+      this.historyBusy.set(false);
+    }
+  }
+
+  protected loadError(err: unknown): string {
+    return errorMessage(err, 'The scheme could not be loaded.');
+  }
+}

@@ -1,0 +1,117 @@
+import type { Knex } from 'knex';
+import { schemeSchema, type SchemeDocument } from '@trabeate/contracts';
+import { demoScheme, demoSchemeVariant, type Scheme } from '@trabeate/structural';
+import { insertNewScheme } from '../apps/server/src/schemes/schemes.service';
+import { DEMO } from './demo-data';
+
+// Kestrel Yard's two schemes: the engine's invented demo building, turned to sit on Kestrel
+// Yard's plot (neighbours on the north and east) and priced in the project's currency. Scheme A
+// has the full grid; scheme B leaves out one interior column, so two beam lines span two bays.
+
+export const DEMO_SCHEMES = {
+  full: { id: '0b8c2d1e-0000-4000-8000-000000000401', name: 'Scheme A: full grid' },
+  fewer: { id: '0b8c2d1e-0000-4000-8000-000000000402', name: 'Scheme B: one column fewer (C3 left out)' },
+} as const;
+
+// Invented unit rates in euros, of a plausible order for the demo only.
+const RATES = { currency: 'EUR', concretePerM3: 145, steelPerKg: 1.35, formworkPerM2: 32 };
+
+/**
+ * Turns a scheme half a turn about the centre of its plot, so property lines on the south and
+ * west become the north and east, and relabels the grid so letters still run west to east and
+ * numbers south to north.
+ */
+export function turnedHalf(s: Scheme): Scheme {
+  const xs = s.boundary.vertices.map((v) => v.x);
+  const ys = s.boundary.vertices.map((v) => v.y);
+  const cx = Math.min(...xs) + Math.max(...xs);
+  const cy = Math.min(...ys) + Math.max(...ys);
+  const round = (v: number) => Math.round(v * 1000) / 1000;
+  const p = (q: { x: number; y: number }) => ({ x: round(cx - q.x), y: round(cy - q.y) });
+  const n = s.boundary.vertices.length;
+  // vertex i goes to where vertex i was turned; segments keep their index
+  const vertices = s.boundary.vertices.map(p);
+  const alongX = s.grid.filter((g) => g.x !== undefined).sort((a, b) => (b.x as number) - (a.x as number));
+  const alongY = s.grid.filter((g) => g.y !== undefined).sort((a, b) => (b.y as number) - (a.y as number));
+  const xLabel = new Map(
+    alongX.map((g, i) => [
+      g.id,
+      s.grid
+        .filter((h) => h.x !== undefined)
+        .map((h) => h.label)
+        .sort()[i],
+    ]),
+  );
+  const yLabel = new Map(
+    alongY.map((g, i) => [
+      g.id,
+      s.grid
+        .filter((h) => h.y !== undefined)
+        .map((h) => h.label)
+        .sort((a, b) => Number(a) - Number(b))[i],
+    ]),
+  );
+  const label = (id: string) => (xLabel.get(id) ?? yLabel.get(id)) as string;
+  const grid = s.grid.map((g) => {
+    const { overhangStartM, overhangEndM, ...rest } = g;
+    return {
+      ...rest,
+      id: label(g.id),
+      label: label(g.id),
+      ...(g.x !== undefined ? { x: round(cx - g.x) } : { y: round(cy - (g.y as number)) }),
+      // the line now runs the other way: what overhung its end overhangs its start
+      ...(overhangEndM !== undefined ? { overhangStartM: overhangEndM } : {}),
+      ...(overhangStartM !== undefined ? { overhangEndM: overhangStartM } : {}),
+    };
+  });
+  const xAt = new Map(grid.filter((g) => g.x !== undefined).map((g) => [g.x as number, g.label]));
+  const yAt = new Map(grid.filter((g) => g.y !== undefined).map((g) => [g.y as number, g.label]));
+  const columns = s.columns.map((c) => {
+    const at = p(c);
+    const name = `${xAt.get(at.x) ?? ''}${yAt.get(at.y) ?? ''}` || c.label;
+    return { ...c, ...at, id: name, label: name };
+  });
+  return {
+    ...s,
+    boundary: { vertices, propertyLines: s.boundary.propertyLines.map((k) => k % n) },
+    grid,
+    columns,
+    secondaryBeams: s.secondaryBeams.map((b) => ({ ...b, start: p(b.end), end: p(b.start) })),
+  };
+}
+
+/** The two demo schemes as stored documents: the project's basis, storey height and currency. */
+export function kestrelSchemes(basis: { codeFamily: string; concreteMPa: number; bearingPressureKPa: number }) {
+  const dress = (s: Scheme): SchemeDocument =>
+    schemeSchema.parse({
+      ...turnedHalf(s),
+      basis: { ...s.basis, ...basis, storeyHeightM: 3.1, rates: RATES },
+    });
+  return { full: dress(demoScheme()), fewer: dress(demoSchemeVariant()) };
+}
+
+/** Adds Kestrel Yard's two schemes once (by their fixed ids); safe to run again. */
+export async function seedDemoSchemes(db: Knex): Promise<void> {
+  const project = await db('projects').where({ id: DEMO.projects.kestrel.id }).first('design_basis');
+  if (!project) return;
+  const basis = project.design_basis as { codeFamily: string; concreteMPa: number; bearingPressureKPa: number };
+  const docs = kestrelSchemes({
+    codeFamily: basis.codeFamily,
+    concreteMPa: basis.concreteMPa,
+    bearingPressureKPa: basis.bearingPressureKPa,
+  });
+  for (const key of ['full', 'fewer'] as const) {
+    const fixed = DEMO_SCHEMES[key];
+    if (await db('schemes').where({ id: fixed.id }).first('id')) continue;
+    await db.transaction(async (trx) => {
+      await insertNewScheme(trx, {
+        id: fixed.id,
+        firmId: DEMO.firm.id,
+        projectId: DEMO.projects.kestrel.id,
+        name: fixed.name,
+        authorId: DEMO.users.engineerA.id,
+        document: () => docs[key],
+      });
+    });
+  }
+}

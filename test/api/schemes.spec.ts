@@ -1,0 +1,241 @@
+import type TestAgent from 'supertest/lib/agent';
+import {
+  schemeConflictSchema,
+  schemeDetailSchema,
+  schemeListSchema,
+  schemeVersionListSchema,
+  schemeVersionSchema,
+  type SchemeDetail,
+} from '@trabeate/contracts';
+import { ENGINE_VERSION } from '@trabeate/structural';
+import { DEMO } from '../../seeds/demo';
+import { DEMO_SCHEMES } from '../../seeds/demo-schemes';
+import { testApp, type TestApp } from '../support/app';
+import { send, signedInAs } from '../support/agents';
+
+jest.setTimeout(60_000);
+
+const KESTREL = DEMO.projects.kestrel.id;
+const base = `/api/projects/${KESTREL}/schemes`;
+
+describe('schemes: create, duplicate, rename, archive, save, history and restore', () => {
+  let t: TestApp;
+  let engineer: TestAgent;
+  let principal: TestAgent;
+  let client: TestAgent;
+
+  beforeAll(async () => {
+    t = await testApp({ seed: true, identity: true });
+    engineer = await signedInAs(t, DEMO.users.engineerA.email);
+    principal = await signedInAs(t, DEMO.users.principal.email);
+    client = await signedInAs(t, DEMO.users.fenwickContact.email);
+  });
+  afterAll(() => t.close());
+
+  const create = async (name: string): Promise<SchemeDetail> => {
+    const res = await send(engineer, 'post', base, { name });
+    expect(res.status).toBe(201);
+    return schemeDetailSchema.parse(res.body);
+  };
+
+  it("gives the demo project its two schemes, with the engine's results stored for each", async () => {
+    const res = await principal.get(`${base}?sort=name&direction=asc`);
+    expect(res.status).toBe(200);
+    const list = schemeListSchema.parse(res.body);
+    expect(list.items.map((s) => [s.id, s.name, s.columns])).toEqual([
+      [DEMO_SCHEMES.full.id, DEMO_SCHEMES.full.name, 20],
+      [DEMO_SCHEMES.fewer.id, DEMO_SCHEMES.fewer.name, 19],
+    ]);
+    // the principal reads but does not edit
+    expect(list.canEdit).toBe(false);
+    const fewer = schemeVersionSchema.parse((await principal.get(`${base}/${DEMO_SCHEMES.fewer.id}/versions/1`)).body);
+    expect(fewer.checks.engineVersion).toBe(ENGINE_VERSION);
+    // One column fewer leaves a beam line spanning two bays: the span check the scheme is there to show.
+    expect(fewer.results.checks).toContainEqual(expect.objectContaining({ ruleId: 'beam.span', status: 'fail' }));
+    const full = schemeVersionSchema.parse((await principal.get(`${base}/${DEMO_SCHEMES.full.id}/versions/1`)).body);
+    expect(full.results.checks.filter((c) => c.ruleId === 'beam.span')).toEqual([]);
+  });
+
+  it("creates a scheme from the project's design basis, with version 1 and its results stored", async () => {
+    const scheme = await create('Flat-slab study');
+    expect(scheme).toMatchObject({ name: 'Flat-slab study', canEdit: true, archivedAt: null });
+    expect(scheme.current).toMatchObject({
+      version: 1,
+      restoredFrom: null,
+      savedBy: { id: DEMO.users.engineerA.id },
+      checks: { engineVersion: ENGINE_VERSION, ok: true },
+    });
+    // Kestrel Yard's basis (seeds/demo.ts): EN 1992, 30 MPa, 180 kPa; 7 storeys of 3.1 m; EUR
+    expect(scheme.document.basis).toMatchObject({
+      codeFamily: 'EN1992',
+      concreteMPa: 30,
+      bearingPressureKPa: 180,
+      storeys: 7,
+      storeyHeightM: 3.1,
+      rates: { currency: 'EUR' },
+    });
+    expect(scheme.document).toMatchObject({ id: scheme.id, name: 'Flat-slab study', columns: [] });
+    const row = await t.db('scheme_versions').where({ scheme_id: scheme.id, version: 1 }).first();
+    expect(row).toMatchObject({
+      schema_version: 1,
+      engine_version: ENGINE_VERSION,
+      author_id: DEMO.users.engineerA.id,
+    });
+    expect(row.results.caution).toMatch(/licensed structural engineer/);
+  });
+
+  it('saves the next version when nothing newer exists, and stores what the engine found in it', async () => {
+    const source = schemeDetailSchema.parse((await engineer.get(`${base}/${DEMO_SCHEMES.full.id}`)).body);
+    const copy = schemeDetailSchema.parse(
+      (await send(engineer, 'post', `${base}/${DEMO_SCHEMES.full.id}/duplicate`, {})).body,
+    );
+    expect(copy.name).toBe(`${DEMO_SCHEMES.full.name} (copy)`);
+    expect(copy.current.version).toBe(1);
+    expect(copy.document.columns).toEqual(source.document.columns);
+
+    // Leave out C3, as the demo's second scheme does: the span warning must appear in the stored results.
+    const document = { ...copy.document, columns: copy.document.columns.filter((c) => c.id !== 'C3') };
+    const res = await send(engineer, 'put', `${base}/${copy.id}/document`, { baseVersion: 1, document });
+    expect(res.status).toBe(200);
+    const saved = schemeDetailSchema.parse(res.body);
+    expect(saved.current).toMatchObject({ version: 2, checks: { engineVersion: ENGINE_VERSION } });
+    expect(saved.current.checks.warnings).toBeGreaterThan(copy.current.checks.warnings);
+    const stored = await t.db('scheme_versions').where({ scheme_id: copy.id, version: 2 }).first();
+    expect(stored.document.columns).toHaveLength(19);
+    expect(stored.results.checks).toContainEqual(expect.objectContaining({ ruleId: 'beam.span', status: 'fail' }));
+    expect(await t.db('schemes').where({ id: copy.id }).first('current_version')).toEqual({ current_version: 2 });
+  });
+
+  it('refuses a save over a newer version with 409 and the version that is current, storing nothing', async () => {
+    const scheme = await create('Conflict study');
+    const first = await send(engineer, 'put', `${base}/${scheme.id}/document`, {
+      baseVersion: 1,
+      document: { ...scheme.document, stairs: [] },
+    });
+    expect(first.status).toBe(200);
+    // A second editor that also started from version 1
+    const late = await send(engineer, 'put', `${base}/${scheme.id}/document`, {
+      baseVersion: 1,
+      document: scheme.document,
+    });
+    expect(late.status).toBe(409);
+    const conflict = schemeConflictSchema.parse(late.body);
+    expect(conflict.current).toMatchObject({ version: 2, savedBy: { id: DEMO.users.engineerA.id } });
+    expect(conflict.error.message).toMatch(/version 2/);
+    expect(await t.db('scheme_versions').where({ scheme_id: scheme.id }).count('* as n')).toEqual([{ n: '2' }]);
+  });
+
+  it('lets only one of two saves from the same version through when they arrive together', async () => {
+    const scheme = await create('Race study');
+    const body = { baseVersion: 1, document: scheme.document };
+    const answers = await Promise.all([
+      send(engineer, 'put', `${base}/${scheme.id}/document`, body),
+      send(engineer, 'put', `${base}/${scheme.id}/document`, body),
+      send(engineer, 'put', `${base}/${scheme.id}/document`, body),
+    ]);
+    expect(answers.map((r) => r.status).sort()).toEqual([200, 409, 409]);
+    const versions = await t.db('scheme_versions').where({ scheme_id: scheme.id }).orderBy('version').pluck('version');
+    expect(versions).toEqual([1, 2]);
+  });
+
+  it('refuses a document that is not a scheme, naming the field, and one newer than the server reads', async () => {
+    const scheme = await create('Bad input study');
+    const bad = await send(engineer, 'put', `${base}/${scheme.id}/document`, {
+      baseVersion: 1,
+      document: { ...scheme.document, columns: [{ id: 'X1', label: 'X1', x: 1, y: 1, widthMm: -300 }] },
+    });
+    expect(bad.status).toBe(400);
+    expect(Object.keys(bad.body.error.fields)).toContain('body.document.columns.0.widthMm');
+    const newer = await send(engineer, 'put', `${base}/${scheme.id}/document`, {
+      baseVersion: 1,
+      document: { ...scheme.document, schemaVersion: 2 },
+    });
+    expect(newer.status).toBe(400);
+    expect(newer.body.error.message).toMatch(/version 2, newer than this server reads/);
+    expect(await t.db('scheme_versions').where({ scheme_id: scheme.id }).count('* as n')).toEqual([{ n: '1' }]);
+  });
+
+  it('keeps every save with who and when, opens an earlier one, and restores it as a new save', async () => {
+    const scheme = await create('History study');
+    const withStair = scheme.document;
+    const v2 = { ...withStair, stairs: [] };
+    expect(
+      (await send(engineer, 'put', `${base}/${scheme.id}/document`, { baseVersion: 1, document: v2 })).status,
+    ).toBe(200);
+    const history = schemeVersionListSchema.parse((await principal.get(`${base}/${scheme.id}/versions`)).body);
+    expect(history.total).toBe(2);
+    expect(history.items.map((v) => [v.version, v.savedBy?.displayName])).toEqual([
+      [2, DEMO.users.engineerA.name],
+      [1, DEMO.users.engineerA.name],
+    ]);
+    const one = schemeVersionSchema.parse((await principal.get(`${base}/${scheme.id}/versions/1`)).body);
+    expect(one.document.boundary).toEqual(withStair.boundary);
+
+    const restored = await send(engineer, 'post', `${base}/${scheme.id}/versions/1/restore`);
+    expect(restored.status).toBe(201);
+    const detail = schemeDetailSchema.parse(restored.body);
+    expect(detail.current).toMatchObject({ version: 3, restoredFrom: 1 });
+    expect(detail.document).toEqual({ ...withStair, name: 'History study' });
+    expect((await principal.get(`${base}/${scheme.id}/versions/9`)).status).toBe(404);
+  });
+
+  it('renames and archives; an archived scheme leaves the active list and refuses saves until restored', async () => {
+    const scheme = await create('Rename study');
+    const renamed = await send(engineer, 'patch', `${base}/${scheme.id}`, { name: 'Transfer-beam study' });
+    expect(renamed.status).toBe(200);
+    expect(schemeDetailSchema.parse(renamed.body)).toMatchObject({
+      name: 'Transfer-beam study',
+      document: { name: 'Transfer-beam study' },
+      current: { version: 1 },
+    });
+    expect((await send(engineer, 'patch', `${base}/${scheme.id}`, { name: '  ' })).status).toBe(400);
+
+    expect((await send(engineer, 'post', `${base}/${scheme.id}/archive`)).body.archivedAt).toEqual(expect.any(String));
+    const active = schemeListSchema.parse((await engineer.get(base)).body);
+    expect(active.items.map((s) => s.id)).not.toContain(scheme.id);
+    const archived = schemeListSchema.parse((await engineer.get(`${base}?status=archived`)).body);
+    expect(archived.items.map((s) => s.id)).toEqual([scheme.id]);
+    const refused = await send(engineer, 'put', `${base}/${scheme.id}/document`, {
+      baseVersion: 1,
+      document: scheme.document,
+    });
+    expect(refused.status).toBe(409);
+    expect(refused.body.error.message).toMatch(/archived/);
+    expect((await send(engineer, 'post', `${base}/${scheme.id}/restore`)).body.archivedAt).toBeNull();
+  });
+
+  it('pages and sorts the list on the server', async () => {
+    const page = schemeListSchema.parse((await engineer.get(`${base}?pageSize=2&page=1&sort=name&direction=asc`)).body);
+    expect(page.items).toHaveLength(2);
+    expect(page.total).toBeGreaterThan(2);
+    const names = page.items.map((s) => s.name.toLowerCase());
+    expect(names).toEqual([...names].sort());
+    const next = schemeListSchema.parse((await engineer.get(`${base}?pageSize=2&page=2&sort=name&direction=asc`)).body);
+    expect(next.items[0].name.toLowerCase() >= names[1]).toBe(true);
+  });
+
+  it("refuses every change in an archived project, and the principal's and a client's edits with the reason", async () => {
+    const byPrincipal = await send(principal, 'post', base, { name: 'Principal study' });
+    expect(byPrincipal.status).toBe(403);
+    expect(byPrincipal.body.error.message).toMatch(/project's engineers/);
+    const byClient = await client.get(base);
+    expect(byClient.status).toBe(403);
+    expect(byClient.body.error.message).toMatch(/firm's working files/);
+
+    await t.db('projects').where({ id: KESTREL }).update({ archived_at: new Date() });
+    try {
+      const res = await send(engineer, 'post', base, { name: 'Too late' });
+      expect(res.status).toBe(409);
+      expect(res.body.error.message).toMatch(/archived/);
+      expect((await engineer.get(base)).status).toBe(200);
+    } finally {
+      await t.db('projects').where({ id: KESTREL }).update({ archived_at: null });
+    }
+  });
+
+  it('answers 404 for a scheme of another project, as for one that does not exist', async () => {
+    const scheme = await create('Elsewhere study');
+    const other = `/api/projects/${DEMO.projects.alder.id}/schemes/${scheme.id}`;
+    expect((await principal.get(other)).status).toBe(404);
+  });
+});

@@ -1,0 +1,88 @@
+import path from 'node:path';
+import type { Locator, Page } from 'playwright-core';
+import { DEMO } from '../../seeds/demo-data';
+import { demoScheme } from '@trabeate/structural';
+import { DEMO_SCHEMES, turnedHalf } from '../../seeds/demo-schemes';
+import { DEMO_PASSWORD } from '../../seeds/identity';
+import { openBrowser, SCREENSHOTS } from '../support/browser';
+import { testEnv } from '../support/env';
+
+// An engineer opens the demo project's schemes and the one with a column left out: the engine
+// runs in the page's Web Worker and the span warning appears on the plan and in the list.
+
+type Browser = Awaited<ReturnType<typeof openBrowser>>;
+
+describe('planning a scheme, in Chromium', () => {
+  const base = testEnv('E2E_BASE_URL');
+  let engineer: Browser;
+  const testId = (page: Page, id: string): Locator => page.locator(`[data-testid="${id}"]`);
+  const shot = (page: Page, name: string) =>
+    page.screenshot({ path: path.join(SCREENSHOTS, `planning-${name}.png`), fullPage: true });
+
+  beforeAll(async () => {
+    engineer = await openBrowser();
+  });
+  afterAll(async () => {
+    await engineer?.close();
+  });
+
+  it('the engineer finds the two demo schemes from the project page', async () => {
+    const page = engineer.page;
+    await page.goto(`${base}/projects/${DEMO.projects.kestrel.id}`);
+    await testId(page, 'sign-in').click({ timeout: 20_000 });
+    await page.locator('input#email').waitFor({ state: 'visible', timeout: 20_000 });
+    await page.fill('input#email', DEMO.users.engineerA.email);
+    await page.fill('input#password', DEMO_PASSWORD);
+    await page.getByRole('button', { name: 'Sign in' }).click();
+    await testId(page, 'open-schemes').click({ timeout: 20_000 });
+    await testId(page, 'scheme-link').first().waitFor({ timeout: 20_000 });
+    const names = await testId(page, 'scheme-link').allTextContents();
+    expect(names.map((n) => n.trim()).sort()).toEqual([DEMO_SCHEMES.full.name, DEMO_SCHEMES.fewer.name].sort());
+    await shot(page, '1-schemes');
+  });
+
+  it('opens the scheme with one column fewer and sees the span warning on the plan, explained', async () => {
+    const page = engineer.page;
+    await page.getByRole('link', { name: DEMO_SCHEMES.fewer.name }).click();
+    await expect(testId(page, 'caution').textContent()).resolves.toMatch(/licensed structural engineer/);
+    // computed in the browser's worker, not sent by the server
+    const marker = testId(page, 'marker-beam.span');
+    await marker.waitFor({ timeout: 30_000 });
+    await marker.click();
+    await expect(testId(page, 'check-numbers').textContent()).resolves.toContain('at most 8 m');
+    await expect(testId(page, 'check-source').textContent()).resolves.toContain('common practice');
+    await expect(page.locator('[data-beam].hl').count()).resolves.toBeGreaterThan(0);
+    await shot(page, '2-scheme-b');
+  });
+
+  it('adds a column where the left-out one stood, by typed coordinates, and the span warning clears', async () => {
+    const page = engineer.page;
+    await testId(page, 'add-column').click();
+    await testId(page, 'inspector').waitFor({ timeout: 10_000 });
+    // where the seeded scheme B leaves its column out: C3 of the full scheme, as the seed lays it out
+    const gap = turnedHalf(demoScheme()).columns.find((c) => c.id === 'C3')!;
+    await testId(page, 'col-x').fill(String(gap.x));
+    await testId(page, 'col-x').blur();
+    await testId(page, 'col-y').fill(String(gap.y));
+    await testId(page, 'col-y').blur();
+    await testId(page, 'marker-beam.span').waitFor({ state: 'detached', timeout: 30_000 });
+    await expect(testId(page, 'save-state').textContent()).resolves.toContain('Unsaved changes');
+    await shot(page, '3-column-added');
+  });
+
+  it('compares the two demo schemes and reads what drives the cost difference', async () => {
+    const page = engineer.page;
+    await page.goto(`${base}/projects/${DEMO.projects.kestrel.id}/schemes`);
+    await testId(page, 'pick').first().waitFor({ timeout: 20_000 });
+    for (const pick of await testId(page, 'pick').all()) await pick.click();
+    await testId(page, 'compare-link').click();
+    const summary = testId(page, 'compare-summary');
+    await summary.waitFor({ timeout: 30_000 });
+    const text = (await summary.textContent()) ?? '';
+    expect(text).toMatch(/1 column (fewer|more) than/);
+    expect(text).toMatch(/costs [\d,]+ EUR (more|less)/);
+    await shot(page, '4-compare');
+    expect(engineer.outside).toEqual([]);
+    expect(engineer.consoleErrors).toEqual([]);
+  });
+});
