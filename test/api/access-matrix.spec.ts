@@ -283,6 +283,7 @@ const MATRIX: Record<string, Entry> = {
   'GET /projects/:projectId/invoices/:invoiceId/pdf': {
     path: onInvoice(INV.issued, '/pdf'),
     expect: onProject(200, 403, 200),
+  },
   'GET /projects/:projectId/schemes': { path: SCHEMES, expect: schemeRead },
   'POST /projects/:projectId/schemes': {
     path: SCHEMES,
