@@ -11,6 +11,8 @@ import type { Db } from '../db/db';
 import type { Caller } from '../access/policy';
 import { HttpError, notFound } from '../core/errors';
 import { lockProject } from '../projects/projects.repository';
+import { insertActivity } from '../activity/activity.repository';
+import { formatMoney } from '../invoices/money';
 import { applyRate, lineTax, splitFee, totalsOf } from '../invoices/money';
 import {
   getAgreement,
@@ -120,6 +122,7 @@ export async function writeAgreement(
         'body.billingContactId': ["not a contact of this project's client"],
       });
     }
+    const before = await getAgreement(trx, projectId, true);
     await upsertAgreement(trx, {
       project_id: projectId,
       firm_id: caller.firmId,
@@ -136,6 +139,20 @@ export async function writeAgreement(
     });
     // Drafts follow the agreement's currency (they have no number yet, so nothing is rewritten).
     await trx('invoices').where({ project_id: projectId, state: 'draft' }).update({ currency: input.currency });
+    const terms =
+      input.basis === 'lump_sum'
+        ? `lump sum ${formatMoney(input.lumpSumMinor ?? 0, input.currency)}`
+        : `${((input.percentageBp ?? 0) / 100).toFixed(2)} % of ${formatMoney(input.constructionCostMinor ?? 0, input.currency)}`;
+    await insertActivity(trx, {
+      firmId: caller.firmId,
+      projectId,
+      actorId: caller.userId,
+      action: before ? 'fee_agreement.changed' : 'fee_agreement.set',
+      objectType: 'fee_agreement',
+      objectId: projectId,
+      summary: `Fee agreement ${before ? 'changed' : 'set'}: ${terms}`,
+      details: { basis: input.basis, currency: input.currency },
+    });
   });
   return readAgreement(db, projectId);
 }
@@ -153,7 +170,18 @@ export async function addVariation(
     if ((await currentFee(trx, a)) + input.amountMinor < 0) {
       throw new HttpError(409, 'conflict', 'A variation cannot take the fee below zero.');
     }
-    await insertVariation(trx, { projectId, ...input, recordedBy: caller.userId });
+    const variationId = await insertVariation(trx, { projectId, ...input, recordedBy: caller.userId });
+    const amount = formatMoney(Math.abs(input.amountMinor), a.currency.trim());
+    await insertActivity(trx, {
+      firmId: caller.firmId,
+      projectId,
+      actorId: caller.userId,
+      action: 'fee_agreement.variation',
+      objectType: 'fee_agreement',
+      objectId: variationId,
+      summary: `Fee variation ${input.amountMinor < 0 ? '−' : '+'}${amount}: ${input.reason}`,
+      details: { amountMinor: input.amountMinor, effectiveOn: input.effectiveOn },
+    });
   });
   return readAgreement(db, projectId);
 }

@@ -18,6 +18,7 @@ import type { Notices } from '../notices/notices';
 import type { ObjectStore } from '../storage';
 import { lockProject } from '../projects/projects.repository';
 import { getAgreement } from '../fees/fees.repository';
+import { insertActivity } from '../activity/activity.repository';
 import { formatMoney, lineTax, totalsOf } from './money';
 import { longDate, renderInvoicePdf } from './invoice-pdf';
 import {
@@ -296,6 +297,16 @@ export async function issueInvoice(deps: InvoiceDeps, caller: Caller, projectId:
     });
     const key = await storePdf(store, id, pdf);
     await trx('invoices').where({ id }).update({ pdf_object_key: key });
+    await insertActivity(trx, {
+      firmId: caller.firmId,
+      projectId,
+      actorId: caller.userId,
+      action: 'invoice.issued',
+      objectType: 'invoice',
+      objectId: id,
+      summary: `Invoice ${number} issued for ${formatMoney(Number(draft.total_minor), currency)}, due ${longDate(dueOn)}`,
+      details: { number, totalMinor: Number(draft.total_minor), dueOn },
+    });
     await notices.send(trx, {
       to: a.contact_email,
       template: 'invoice-issued',
@@ -337,6 +348,17 @@ export async function voidInvoice(
     await trx('invoices')
       .where({ id })
       .update({ state: 'void', void_reason: reason, voided_at: trx.fn.now(), updated_at: trx.fn.now() });
+    const { number } = await trx('invoices').where({ id }).first('number');
+    await insertActivity(trx, {
+      firmId: caller.firmId,
+      projectId,
+      actorId: caller.userId,
+      action: 'invoice.voided',
+      objectType: 'invoice',
+      objectId: id,
+      summary: `${number ? `Invoice ${number}` : 'A draft invoice'} voided: ${reason}`,
+      details: { number: number ?? null },
+    });
   });
   return readInvoice(db, caller, projectId, id);
 }
@@ -444,6 +466,16 @@ export async function createCreditNote(
       .where({ id: cid })
       .update({ pdf_object_key: await storePdf(store, cid, pdf) });
     await settleState(trx, caller.firmId, projectId, id);
+    await insertActivity(trx, {
+      firmId: caller.firmId,
+      projectId,
+      actorId: caller.userId,
+      action: 'invoice.credited',
+      objectType: 'invoice',
+      objectId: cid,
+      summary: `Credit note ${number} for ${formatMoney(totals.totalMinor, summary.currency)} against invoice ${original.number}: ${input.reason}`,
+      details: { number, creditsInvoiceId: id, totalMinor: totals.totalMinor },
+    });
     return cid as string;
   });
   return readInvoice(db, caller, projectId, creditId);
@@ -507,6 +539,16 @@ export async function recordPayment(
       method: 'bank_transfer',
       ...input,
       recordedBy: caller.userId,
+    });
+    await insertActivity(trx, {
+      firmId: caller.firmId,
+      projectId,
+      actorId: caller.userId,
+      action: 'payment.recorded',
+      objectType: 'payment',
+      objectId: id,
+      summary: `${formatMoney(input.amountMinor, summary.currency)} received by bank transfer on invoice ${summary.number}`,
+      details: { amountMinor: input.amountMinor, receivedOn: input.receivedOn, reference: input.reference },
     });
   });
   return readInvoice(db, caller, projectId, id);

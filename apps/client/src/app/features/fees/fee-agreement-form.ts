@@ -18,13 +18,26 @@ import {
 import { errorMessage } from '../../core/auth/api-error';
 import { asYouType } from '../../shared/forms/field-errors';
 import { FeesApi, agreementUrl } from './fees-api';
-import { formatMinor, parseMajor } from './money';
+import { formatDay, formatMinor, parseMajor } from './money';
 
 /** A share typed as a percentage with up to two decimals ("12.5"), kept as basis points. */
 const toBp = (v: string): number | null => {
   const m = /^\s*(\d{1,3})(?:\.(\d{1,2}))?\s*$/.exec(v ?? '');
   return m ? Number(m[1]) * 100 + Number((m[2] ?? '').padEnd(2, '0')) : null;
 };
+/** A change of fee: "-1500" or "+2500.50", in the agreement's currency, never zero. */
+const SIGNED = /^\s*([-+\u2212])?\s*(.+)$/;
+export function parseSignedMajor(text: string, currency: string): number | null {
+  const m = SIGNED.exec(text ?? '');
+  if (!m) return null;
+  const minor = parseMajor(m[2], currency);
+  if (minor === null || minor === 0) return null;
+  return m[1] === '-' || m[1] === '−' ? -minor : minor;
+}
+const ISO_DAY = /^\d{4}-\d{2}-\d{2}$/;
+const isoDay = (c: AbstractControl) =>
+  ISO_DAY.test(c.value ?? '') && !Number.isNaN(Date.parse(`${c.value}T00:00:00Z`)) ? null : { day: true };
+
 const pct = (bp: number) => (bp / 100).toFixed(bp % 100 === 0 ? 0 : 2);
 
 const shareValid = (c: AbstractControl) => {
@@ -125,6 +138,62 @@ export class FeeAgreementForm {
   protected readonly saveError = signal<string | null>(null);
   protected readonly saved = signal(false);
 
+  /** A variation: the change of fee (signed), why, and from when. */
+  protected readonly variation = new FormGroup({
+    amount: new FormControl('', { nonNullable: true, validators: [Validators.required] }),
+    reason: new FormControl('', {
+      nonNullable: true,
+      validators: [Validators.required, Validators.minLength(3), Validators.maxLength(2000)],
+    }),
+    effectiveOn: new FormControl('', { nonNullable: true, validators: [Validators.required, isoDay] }),
+  });
+  private readonly variationValue = toSignal(this.variation.valueChanges, {
+    initialValue: this.variation.getRawValue(),
+  });
+  /** What the typed change means, in words, or why it is not a change yet: shown as you type. */
+  protected readonly variationPreview = computed(() => {
+    const text = this.variationValue().amount ?? '';
+    if (!text.trim() || !this.agreement.hasValue()) return null;
+    const a = this.agreement.value();
+    const minor = parseSignedMajor(text, a.currency);
+    if (minor === null)
+      return { ok: false, text: 'Enter the change, for example -1500 to reduce the fee or 2500.50 to add to it.' };
+    const after = a.currentFeeMinor + minor;
+    if (after < 0) return { ok: false, text: 'A variation cannot take the fee below zero.' };
+    return {
+      ok: true,
+      text: `${minor < 0 ? 'Reduces' : 'Adds to'} the fee by ${formatMinor(Math.abs(minor), a.currency)}; the fee becomes ${formatMinor(after, a.currency)}.`,
+    };
+  });
+  protected readonly formatDay = formatDay;
+  protected readonly addingVariation = signal(false);
+  protected readonly variationError = signal<string | null>(null);
+  protected readonly variationAdded = signal(false);
+
+  protected async addVariation(): Promise<void> {
+    this.variation.markAllAsTouched();
+    const preview = this.variationPreview();
+    if (this.variation.invalid || !preview?.ok || this.addingVariation() || !this.agreement.hasValue()) return;
+    const v = this.variation.getRawValue();
+    this.addingVariation.set(true);
+    this.variationError.set(null);
+    this.variationAdded.set(false);
+    try {
+      const a = await this.api.addVariation(this.projectId(), {
+        amountMinor: parseSignedMajor(v.amount, this.agreement.value().currency)!,
+        reason: v.reason.trim(),
+        effectiveOn: v.effectiveOn,
+      });
+      this.agreement.set(a);
+      this.variation.reset();
+      this.variationAdded.set(true);
+    } catch (err) {
+      this.variationError.set(errorMessage(err));
+    } finally {
+      this.addingVariation.set(false);
+    }
+  }
+
   constructor() {
     effect(() => {
       if (this.agreement.hasValue()) this.fill(this.agreement.value());
@@ -153,6 +222,10 @@ export class FeeAgreementForm {
 
   protected money(minor: number, currency: string): string {
     return formatMinor(minor, currency);
+  }
+  /** A change of fee with its sign in words' place: "+ €2,500.00", "− €1,500.00". */
+  protected change(minor: number, currency: string): string {
+    return `${minor < 0 ? '−' : '+'} ${formatMinor(Math.abs(minor), currency)}`;
   }
 
   protected amountError(): string | null {

@@ -10,6 +10,7 @@ import {
   type CreditNoteCreate,
   type FeeAgreement,
   type FeeAgreementWrite,
+  type FeeVariationCreate,
   type Invoice,
   type InvoiceDraftWrite,
   type PaymentCreate,
@@ -35,6 +36,11 @@ export class FeesApi {
 
   saveAgreement(projectId: string, body: FeeAgreementWrite): Promise<FeeAgreement> {
     return this.call('put', agreementUrl(projectId), body, (v) => feeAgreementSchema.parse(v));
+  }
+  addVariation(projectId: string, body: FeeVariationCreate): Promise<FeeAgreement> {
+    return this.call('post', `/api/projects/${enc(projectId)}/fee-variations`, body, (v) =>
+      feeAgreementSchema.parse(v),
+    );
   }
   createDraft(projectId: string, body: InvoiceDraftWrite): Promise<Invoice> {
     return this.call('post', `/api/projects/${enc(projectId)}/invoices`, body, (v) => invoiceSchema.parse(v));

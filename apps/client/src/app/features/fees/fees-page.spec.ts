@@ -1,11 +1,20 @@
 import { provideHttpClient } from '@angular/common/http';
 import { HttpTestingController, TestRequest, provideHttpClientTesting } from '@angular/common/http/testing';
 import { TestBed } from '@angular/core/testing';
+import {
+  checkoutStartSchema,
+  clientOrganisationSchema,
+  invoiceListSchema,
+  meSchema,
+  projectListSchema,
+  receivablesSchema,
+} from '@trabeate/contracts';
 import { provideRouter, withComponentInputBinding } from '@angular/router';
 import { RouterTestingHarness } from '@angular/router/testing';
 import { PageLocation } from '../../core/auth/page-location';
 import { Session } from '../../core/auth/session';
 import { grantedMe } from '../../core/auth/testing';
+import { reply, replyError } from '../../../testing/api-replies';
 import { FeesPage } from './fees-page';
 import { CLIENT_ORG, PROJECT, invoiceList, receivables, summary } from './fees-fixtures';
 
@@ -37,16 +46,20 @@ describe('FeesPage', () => {
     });
     backend = TestBed.inject(HttpTestingController);
     const loaded = TestBed.inject(Session).load();
-    backend.expectOne('/api/me').flush(grantedMe(role));
+    reply(backend.expectOne('/api/me'), meSchema, grantedMe(role));
     await loaded;
     harness = await RouterTestingHarness.create();
     void harness.navigateByUrl(url);
     await settle();
   }
   const principalSideRequests = () => {
-    backend.expectOne('/api/receivables').flush(receivables());
-    backend.expectOne('/api/client-organisations').flush([CLIENT_ORG]);
-    backend.expectOne((r) => r.url === '/api/projects').flush({ items: [], total: 0, page: 1, pageSize: 100 });
+    reply(backend.expectOne('/api/receivables'), receivablesSchema, receivables());
+    reply(backend.expectOne('/api/client-organisations'), clientOrganisationSchema.array(), [CLIENT_ORG]);
+    reply(
+      backend.expectOne((r) => r.url === '/api/projects'),
+      projectListSchema,
+      { items: [], total: 0, page: 1, pageSize: 100 },
+    );
   };
 
   afterEach(() => backend.verify());
@@ -55,7 +68,9 @@ describe('FeesPage', () => {
     await open('/fees', 'principal');
     const req = backend.expectOne((r) => r.url === '/api/invoices');
     expect(params(req)).toEqual({ page: '1', pageSize: '25', sort: 'issuedOn', direction: 'desc' });
-    req.flush(
+    reply(
+      req,
+      invoiceListSchema,
       invoiceList([
         summary(1),
         summary(2, { overdue: true, dueOn: '2026-10-01', paidMinor: 20_050, dueMinor: 99_950, state: 'part_paid' }),
@@ -90,7 +105,7 @@ describe('FeesPage', () => {
       clientId: CLIENT_ORG.id,
       q: 'mill',
     });
-    req.flush(invoiceList([], 0));
+    reply(req, invoiceListSchema, invoiceList([], 0));
     principalSideRequests();
     await settle();
     expect(el().textContent).toContain('No invoices match');
@@ -98,7 +113,8 @@ describe('FeesPage', () => {
 
   it('shows an error, not a half-drawn table, when the answer does not match the contract', async () => {
     await open('/fees', 'principal');
-    // An amount in major units (a float) is something the API never sends.
+    // An amount in major units (a float) is something the API never sends: deliberately not the
+    // API's shape, so it stays a raw flush instead of going through the contract schema.
     backend
       .expectOne((r) => r.url === '/api/invoices')
       .flush({ items: [{ ...summary(1), totalMinor: 1200.5 }], total: 1, page: 1, pageSize: 25 });
@@ -110,9 +126,11 @@ describe('FeesPage', () => {
 
   it("lets a client pay what is owed: the server's payment page address is opened", async () => {
     await open('/fees', 'client');
-    backend
-      .expectOne((r) => r.url === '/api/invoices')
-      .flush(invoiceList([summary(3), summary(4, { state: 'paid', paidMinor: 120_000, dueMinor: 0 })]));
+    reply(
+      backend.expectOne((r) => r.url === '/api/invoices'),
+      invoiceListSchema,
+      invoiceList([summary(3), summary(4, { state: 'paid', paidMinor: 120_000, dueMinor: 0 })]),
+    );
     await settle();
     const pay = el().querySelectorAll<HTMLButtonElement>('[data-testid="pay"]');
     expect(pay.length).toBe(1);
@@ -120,7 +138,7 @@ describe('FeesPage', () => {
     pay[0].click();
     const req = backend.expectOne(`/api/projects/${PROJECT.id}/invoices/${summary(3).id}/checkout`);
     expect(req.request.method).toBe('POST');
-    req.flush({ url: 'http://127.0.0.1:4315/checkout/cs_test_a1', sessionId: 'cs_test_a1' });
+    reply(req, checkoutStartSchema, { url: 'http://127.0.0.1:4315/checkout/cs_test_a1', sessionId: 'cs_test_a1' });
     await settle();
     expect(assigned).toEqual(['http://127.0.0.1:4315/checkout/cs_test_a1']);
     expect(sessionStorage.getItem(`trabeate.checkout.${summary(3).id}`)).toBe('cs_test_a1');
@@ -128,17 +146,18 @@ describe('FeesPage', () => {
 
   it('tells the client why Pay did not open, beside the invoice', async () => {
     await open('/fees', 'client');
-    backend.expectOne((r) => r.url === '/api/invoices').flush(invoiceList([summary(5)]));
+    reply(
+      backend.expectOne((r) => r.url === '/api/invoices'),
+      invoiceListSchema,
+      invoiceList([summary(5)]),
+    );
     await settle();
     el().querySelector<HTMLButtonElement>('[data-testid="pay"]')!.click();
-    backend.expectOne(`/api/projects/${PROJECT.id}/invoices/${summary(5).id}/checkout`).flush(
-      {
-        error: {
-          code: 'service_unavailable',
-          message: 'The card processor is not answering; try again in a minute.',
-        },
-      },
-      { status: 503, statusText: 'Service Unavailable' },
+    replyError(
+      backend.expectOne(`/api/projects/${PROJECT.id}/invoices/${summary(5).id}/checkout`),
+      503,
+      { code: 'service_unavailable', message: 'The card processor is not answering; try again in a minute.' },
+      'Service Unavailable',
     );
     await settle();
     expect(el().querySelector('[role="alert"]')?.textContent).toContain('card processor is not answering');

@@ -3,6 +3,8 @@ import { HttpTestingController, provideHttpClientTesting } from '@angular/common
 import { TestBed } from '@angular/core/testing';
 import { provideRouter, withComponentInputBinding } from '@angular/router';
 import { RouterTestingHarness } from '@angular/router/testing';
+import { checkoutOutcomeSchema } from '@trabeate/contracts';
+import { reply } from '../../../testing/api-replies';
 import { PaymentReturnPage } from './payment-return-page';
 import { PROJECT, invoice, outcome, summary } from './fees-fixtures';
 
@@ -37,7 +39,9 @@ describe('PaymentReturnPage', () => {
 
   it('asks the server to confirm the payment and shows the invoice paid', async () => {
     await open(`/fees/return?project=${PROJECT.id}&invoice=${inv.id}&session=cs_test_ok`);
-    backend.expectOne(reconcileUrl('cs_test_ok')).flush(
+    reply(
+      backend.expectOne(reconcileUrl('cs_test_ok')),
+      checkoutOutcomeSchema,
       outcome({
         outcome: 'paid',
         message: 'Paid: €1,200.00 by card. A receipt is on its way by e-mail.',
@@ -54,7 +58,9 @@ describe('PaymentReturnPage', () => {
   it('shows why a card was declined, after coming back without a session in the address', async () => {
     sessionStorage.setItem(`trabeate.checkout.${inv.id}`, 'cs_test_remembered');
     await open(`/fees/return?project=${PROJECT.id}&invoice=${inv.id}&cancelled=1`);
-    backend.expectOne(reconcileUrl('cs_test_remembered')).flush(
+    reply(
+      backend.expectOne(reconcileUrl('cs_test_remembered')),
+      checkoutOutcomeSchema,
       outcome({
         outcome: 'declined',
         message: 'The card was declined, so nothing was charged: Your card was declined. (card_declined)',
