@@ -80,16 +80,6 @@ describe('app routes', () => {
     expect(shownText()).toContain('No project to show drawings for');
   });
 
-  it.each([['/drawings', 'The drawing register is on its way', 'purpose of issue']])(
-    '%s shows a designed placeholder that says what is coming',
-    async (url, heading, detail) => {
-      await open(url, grantedMe('principal'));
-      expect(shownText()).toContain(heading);
-      expect(shownText()).toContain('What is coming');
-      expect(shownText()).toContain(detail);
-    },
-  );
-
   it('/status is public: it loads without asking who is signed in and asks the server for its health', async () => {
     await harness.navigateByUrl('/status');
     harness.detectChanges();
