@@ -17,6 +17,8 @@ export interface CaughtMessage {
   subject: string;
   text: string;
   html: string | null;
+  /** What was attached, by name, type and size (the bytes stay out of the outbox). */
+  attachments: Array<{ filename: string | null; contentType: string; size: number }>;
 }
 
 export interface FakeSmtpOptions {
@@ -75,6 +77,11 @@ export async function startFakeSmtp(opts: FakeSmtpOptions = {}): Promise<FakeSmt
             subject: parsed.subject ?? '',
             text: parsed.text ?? '',
             html: typeof parsed.html === 'string' ? parsed.html : null,
+            attachments: parsed.attachments.map((a) => ({
+              filename: a.filename ?? null,
+              contentType: a.contentType,
+              size: a.size,
+            })),
           };
           if (directory) writeFileSync(path.join(directory, `${msg.id}.json`), JSON.stringify(msg, null, 2));
           messages.push(msg);

@@ -140,7 +140,13 @@ describe('transmittals: issuing approved revisions, the sheet, e-mails, signed l
     expect(toClient.text).toContain('S-101 revision P01 (S2): Ground floor column layout');
     expect(toClient.text).toContain(`/drawings?project=${kestrel}&transmittal=${issued.id}`);
     expect(toClient.text).not.toContain('/api/shared/');
+    // The transmittal sheet itself is attached to every recipient's e-mail.
+    expect(toClient.attachments).toEqual([
+      { filename: `${issued.reference}.pdf`, contentType: 'application/pdf', size: expect.any(Number) },
+    ]);
+    expect(toClient.attachments[0].size).toBeGreaterThan(1000);
     const toContractor = await smtp.waitFor((m) => m.to.includes(CONTRACTOR));
+    expect(toContractor.attachments.map((a) => a.filename)).toEqual([`${issued.reference}.pdf`]);
     expect(toContractor.text).toContain('/api/shared/transmittals/');
     expect(toContractor.text).toContain('work until');
     expect(toContractor.text).not.toContain('acknowledge');

@@ -335,6 +335,10 @@ export async function issueTransmittal(
             expiresOn: outside ? formatInstant(expires) : undefined,
             link: outside ? undefined : inApp(`/drawings?project=${projectId}&transmittal=${id}`),
           },
+          // The sheet travels with the notice, so the record of what was sent stays with the recipient.
+          attachments: [
+            { filename: `${reference}.pdf`, contentType: 'application/pdf', contentBase64: sheet.toString('base64') },
+          ],
         });
       }
     });
