@@ -67,6 +67,8 @@ async function main(): Promise<number> {
     ? new Cluster({ name: `pg-test-${process.pid}`, port: ports.postgres, fast: true })
     : undefined;
   const services: Service[] = [];
+  // The e2e API's session secret; browser tests get it too, to build signed links (an expired one, say).
+  const e2eSessionSecret = randomBytes(32).toString('hex');
   if (cluster) {
     services.push(postgresService(cluster, { runDir: RUN_DIR }));
     services.push(databaseStep(cluster, 'trabeate_template', { seed: false }));
@@ -75,7 +77,7 @@ async function main(): Promise<number> {
   if (needs('client')) services.push(clientBuildStep(process.env.CI === 'true'));
   if (needs('api') && cluster) {
     // The e2e API signs in against the real local provider, on the same seeded database.
-    const signIn = localSignIn(cluster.url('trabeate_e2e'), ports, randomBytes(32).toString('hex'));
+    const signIn = localSignIn(cluster.url('trabeate_e2e'), ports, e2eSessionSecret);
     // The e2e API keeps files and mail in the local fakes (temporary folders, removed on stop).
     services.push(s3Service({ port: ports.s3 }));
     services.push(smtpService({ port: ports.smtp, httpPort: ports.smtpHttp }));
@@ -132,6 +134,7 @@ async function main(): Promise<number> {
     env.E2E_IDENTITY_URL = `http://127.0.0.1:${ports.identity}`;
     // Lets a browser test give a new invitee an account at the local provider, as seeds/identity.ts does.
     if (cluster) env.E2E_DATABASE_URL = cluster.url('trabeate_e2e');
+    env.E2E_SESSION_SECRET = e2eSessionSecret;
   }
   const jestArgs = [
     'jest',
