@@ -4,6 +4,8 @@
 // command dies, and the next start stops anything a crashed run still left (pid files in tmp/run).
 import path from 'node:path';
 import { createObjectStore, objectStoreConfigFrom, storageConfigSchema } from '../apps/server/src/storage';
+import { createDb } from '../apps/server/src/db/db';
+import { storeMissingInvoicePdfs } from '../apps/server/src/invoices/invoices.service';
 import { storeDemoDrawingFiles } from '../seeds/demo-drawings';
 import { CLIENT_DIST } from './lib/client-build';
 import { fakeServicesEnv, s3Service, smtpService, stripeService } from './lib/fake-services';
@@ -112,13 +114,20 @@ async function main(): Promise<void> {
 
 void main();
 
-/** The demo register's PDFs live in S3, which is up only now; missing ones are put there. */
+/**
+ * The demo register's PDFs and the demo invoices' PDFs live in S3, which is up only now; missing
+ * ones are put there.
+ */
 async function storeDemoFiles(env: Record<string, string>): Promise<void> {
   const store = createObjectStore(objectStoreConfigFrom(storageConfigSchema.parse(env)));
+  const db = createDb(env.DATABASE_URL, 2);
   try {
     const stored = await storeDemoDrawingFiles(store);
     if (stored) log('start', `demo drawing files stored in S3: ${stored}`);
+    const invoices = await storeMissingInvoicePdfs(db, store);
+    if (invoices) log('start', `demo invoice PDFs stored in S3: ${invoices}`);
   } finally {
     store.close();
+    await db.destroy();
   }
 }

@@ -2,6 +2,11 @@ import { invoiceListSchema, projectListSchema, receivablesSchema } from '@trabea
 import { DEMO, seedDemo } from '../../seeds/demo';
 import { testApp, type TestApp } from '../support/app';
 import { signedInAs } from '../support/agents';
+import { storeMissingInvoicePdfs } from '../../apps/server/src/invoices/invoices.service';
+
+// pdf-parse 1.1.1's index runs a debug self-test when required directly; its library file does not.
+// eslint-disable-next-line @typescript-eslint/no-require-imports
+const pdfParse = require('pdf-parse/lib/pdf-parse.js') as (b: Buffer) => Promise<{ text: string }>;
 
 jest.setTimeout(60_000);
 
@@ -45,6 +50,30 @@ describe('the demo fees', () => {
     expect(mine.items.some((i) => i.state === 'draft')).toBe(false);
     const odile = await signedInAs(t, DEMO.users.fenwickContact.email);
     expect(invoiceListSchema.parse((await odile.get('/api/invoices')).body).total).toBe(0);
+  });
+
+  it('gives every issued demo invoice its PDF once file storage is up, and the client can open it', async () => {
+    const rafe = await signedInAs(t, DEMO.users.harbourlightContact.email);
+    const mine = invoiceListSchema.parse((await rafe.get('/api/invoices')).body);
+    const first = mine.items[0];
+    const pdfUrl = `/api/projects/${first.project.id}/invoices/${first.id}/pdf`;
+    // Seeded rows are written straight into the database, so they start without a file.
+    expect((await rafe.get(pdfUrl)).status).toBe(404);
+    expect(await storeMissingInvoicePdfs(t.db, t.store)).toBe(4);
+    expect(await storeMissingInvoicePdfs(t.db, t.store)).toBe(0);
+    for (const inv of mine.items) {
+      const res = await rafe
+        .get(`/api/projects/${inv.project.id}/invoices/${inv.id}/pdf`)
+        .buffer(true)
+        .parse((r, cb) => {
+          const chunks: Buffer[] = [];
+          r.on('data', (c: Buffer) => chunks.push(c));
+          r.on('end', () => cb(null, Buffer.concat(chunks)));
+        });
+      expect(res.status).toBe(200);
+      const { text } = await pdfParse(res.body as Buffer);
+      expect(text).toContain(inv.number!);
+    }
   });
 
   it('changes nothing when the seed runs again', async () => {

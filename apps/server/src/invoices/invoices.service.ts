@@ -30,6 +30,7 @@ import {
   nextNumber,
   paymentsOf,
   type InvoiceRow,
+  type LineRow,
 } from './invoices.repository';
 
 type Q = Db | Knex.Transaction;
@@ -223,7 +224,87 @@ async function storePdf(store: ObjectStore | undefined, invoiceId: string, pdf: 
   return key;
 }
 
-async function sheetFacts(trx: Knex.Transaction, projectId: string) {
+type SheetDraft = {
+  total_minor: unknown;
+  subtotal_minor: unknown;
+  tax_minor: unknown;
+  currency: string;
+  tax_label: string;
+};
+
+/** The invoice's PDF from its stored lines and totals (one layout for issue and for the demo's files). */
+async function invoicePdf(
+  trx: Q,
+  projectId: string,
+  inv: { number: string; issuedOn: string; dueOn: string; draft: SheetDraft; lines: LineRow[]; contactName: string },
+): Promise<Buffer> {
+  const facts = await sheetFacts(trx, projectId);
+  const { draft } = inv;
+  return renderInvoicePdf({
+    kind: 'invoice',
+    number: inv.number,
+    issuedOn: inv.issuedOn,
+    dueOn: inv.dueOn,
+    currency: draft.currency.trim(),
+    firm: { name: facts.firm_name },
+    client: { name: facts.client_name, address: facts.client_address, contactName: inv.contactName },
+    project: { reference: facts.reference, name: facts.name },
+    lines: inv.lines.map((l) => ({
+      description: l.description,
+      stageKey: l.stage_key,
+      netMinor: Number(l.net_minor),
+      taxRateBp: l.tax_rate_bp,
+      taxMinor: Number(l.tax_minor),
+    })),
+    taxLabel: draft.tax_label,
+    subtotalMinor: Number(draft.subtotal_minor),
+    taxMinor: Number(draft.tax_minor),
+    totalMinor: Number(draft.total_minor),
+    paymentReference: inv.number,
+  });
+}
+
+/**
+ * Stores a PDF for every issued invoice that has none (rows written straight into the database,
+ * such as the demo's); answers how many were stored.
+ */
+export async function storeMissingInvoicePdfs(db: Db, store: ObjectStore): Promise<number> {
+  const rows = await db('invoices')
+    .where({ series: 'invoice' })
+    .whereNotNull('number')
+    .whereNull('pdf_object_key')
+    .select(
+      'id',
+      'project_id',
+      'number',
+      'issued_on',
+      'due_on',
+      'currency',
+      'tax_label',
+      'total_minor',
+      'subtotal_minor',
+      'tax_minor',
+    );
+  let stored = 0;
+  for (const r of rows) {
+    const a = await getAgreement(db, r.project_id);
+    const iso = (d: unknown) => (d instanceof Date ? d.toISOString().slice(0, 10) : String(d));
+    const pdf = await invoicePdf(db, r.project_id, {
+      number: r.number,
+      issuedOn: iso(r.issued_on),
+      dueOn: iso(r.due_on),
+      draft: r,
+      lines: await linesOf(db, r.id),
+      contactName: a?.contact_name ?? '',
+    });
+    const key = await storePdf(store, r.id, pdf);
+    await db('invoices').where({ id: r.id }).update({ pdf_object_key: key });
+    stored++;
+  }
+  return stored;
+}
+
+async function sheetFacts(trx: Q, projectId: string) {
   return trx('projects as p')
     .join('client_organisations as o', 'o.id', 'p.client_organisation_id')
     .join('firms as f', 'f.id', 'p.firm_id')
@@ -271,30 +352,16 @@ export async function issueInvoice(deps: InvoiceDeps, caller: Caller, projectId:
       due_on: dueOn,
       updated_at: trx.fn.now(),
     });
-    const facts = await sheetFacts(trx, projectId);
-    const currency = draft.currency.trim();
-    const pdf = await renderInvoicePdf({
-      kind: 'invoice',
+    const pdf = await invoicePdf(trx, projectId, {
       number,
       issuedOn: iso,
       dueOn,
-      currency,
-      firm: { name: facts.firm_name },
-      client: { name: facts.client_name, address: facts.client_address, contactName: a.contact_name },
-      project: { reference: facts.reference, name: facts.name },
-      lines: lines.map((l) => ({
-        description: l.description,
-        stageKey: l.stage_key,
-        netMinor: Number(l.net_minor),
-        taxRateBp: l.tax_rate_bp,
-        taxMinor: Number(l.tax_minor),
-      })),
-      taxLabel: draft.tax_label,
-      subtotalMinor: Number(draft.subtotal_minor),
-      taxMinor: Number(draft.tax_minor),
-      totalMinor: Number(draft.total_minor),
-      paymentReference: number,
+      draft,
+      lines,
+      contactName: a.contact_name,
     });
+    const currency = draft.currency.trim();
+    const facts = await sheetFacts(trx, projectId);
     const key = await storePdf(store, id, pdf);
     await trx('invoices').where({ id }).update({ pdf_object_key: key });
     await insertActivity(trx, {
