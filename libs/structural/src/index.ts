@@ -44,7 +44,7 @@ export type { IsolatedFooting, RectCombined, TrapezoidCombined, StrapFooting } f
 export type { BoundaryOptions, OverlapCombined } from './site';
 export { beamDepth, columnSize } from './sizing';
 export type { BeamSize, ColumnStoreySize, SlabSize } from './sizing';
-export { RULES, CheckList, splitChecks } from './checks';
+export { RULES, CheckList, splitChecks, stairChecks } from './checks';
 export type { Check, PassedRule, Severity } from './checks';
 export type { Quantities, QuantityRow, Cost, CostRow, MemberType } from './quantities';
 export { analyseScheme } from './analyse';

@@ -1,5 +1,5 @@
 import { schemeSchema, type SchemeDocument } from '@trabeate/contracts';
-import { demoScheme, demoSchemeVariant } from '@trabeate/structural';
+import { analyseScheme, beamLineDiagram, demoScheme, demoSchemeVariant } from '@trabeate/structural';
 import { handlePlanRequest, type PlanReply } from './plan-protocol';
 import { createPlanWorker } from './plan-worker-factory.in-thread';
 
@@ -48,5 +48,35 @@ describe('the engine worker protocol, comparing', () => {
     if (reply.kind !== 'comparison') return;
     expect(reply.seq).toBe(4);
     expect(reply.comparison.differences.find((d) => d.item === 'columns')).toMatchObject({ a: 20, b: 19, delta: -1 });
+  });
+});
+
+describe('the engine worker protocol, beam-line diagrams', () => {
+  it("answers a diagram request with the line's sampled envelope, as the engine gives it for that document", async () => {
+    const d = doc(demoScheme());
+    const line = analyseScheme(demoScheme()).beamLines.find((l) => l.level === 'floor') as { lineId: string };
+    const port = createPlanWorker();
+    const replies: PlanReply[] = [];
+    port.onReply = (r) => replies.push(r);
+    port.post({ kind: 'diagram', seq: 9, document: d, lineId: line.lineId, level: 'floor' });
+    await new Promise((r) => setTimeout(r, 0));
+    expect(replies).toHaveLength(1);
+    const reply = replies[0];
+    expect(reply).toMatchObject({ kind: 'diagram', seq: 9 });
+    if (reply.kind !== 'diagram') return;
+    // crossed the (stand-in) worker boundary as plain data, equal to a direct call
+    expect(reply.diagram).toEqual(JSON.parse(JSON.stringify(beamLineDiagram(demoScheme(), line.lineId, 'floor'))));
+    expect(reply.diagram.stations.length).toBeGreaterThan(10);
+  });
+
+  it('answers a diagram request for a line the document lacks with a failed reply naming it', () => {
+    const reply = handlePlanRequest({
+      kind: 'diagram',
+      seq: 5,
+      document: doc(demoScheme()),
+      lineId: 'L-Q',
+      level: 'roof',
+    });
+    expect(reply).toEqual({ kind: 'failed', seq: 5, message: expect.stringContaining('L-Q') });
   });
 });

@@ -1,7 +1,10 @@
 import type { SchemeDocument } from '@trabeate/contracts';
 import {
   analyseScheme,
+  beamLineDiagram,
   compareSchemes,
+  type BeamLineDiagram,
+  type LevelKind,
   type Scheme,
   type SchemeComparison,
   type SchemeResult,
@@ -25,11 +28,25 @@ export interface CompareRequest {
   b: SchemeDocument;
 }
 
-export type PlanRequest = AnalyseRequest | CompareRequest;
+/**
+ * The moment and shear envelope of one beam line on one level, sampled for drawing. Computed here
+ * rather than on the page: it rebuilds the scheme's loads, which on a large scheme takes longer
+ * than a frame.
+ */
+export interface DiagramRequest {
+  kind: 'diagram';
+  seq: number;
+  document: SchemeDocument;
+  lineId: string;
+  level: LevelKind;
+}
+
+export type PlanRequest = AnalyseRequest | CompareRequest | DiagramRequest;
 
 export type PlanReply =
   | { kind: 'result'; seq: number; result: SchemeResult }
   | { kind: 'comparison'; seq: number; comparison: SchemeComparison }
+  | { kind: 'diagram'; seq: number; diagram: BeamLineDiagram }
   | { kind: 'failed'; seq: number; message: string };
 
 /** Answers one request. Never throws: an engine fault comes back as a `failed` reply. */
@@ -40,6 +57,12 @@ export function handlePlanRequest(request: PlanRequest): PlanReply {
         kind: 'comparison',
         seq: request.seq,
         comparison: compareSchemes(request.a as Scheme, request.b as Scheme),
+      };
+    if (request.kind === 'diagram')
+      return {
+        kind: 'diagram',
+        seq: request.seq,
+        diagram: beamLineDiagram(request.document as Scheme, request.lineId, request.level),
       };
     return { kind: 'result', seq: request.seq, result: analyseScheme(request.document as Scheme) };
   } catch (err) {

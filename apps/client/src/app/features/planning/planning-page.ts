@@ -41,6 +41,7 @@ import {
 import type { PlanWorkerPort } from './plan-protocol';
 import { createPlanWorker } from './plan-worker-factory';
 import { PlanView, type ColumnDrop, type ColumnPick } from './plan-view';
+import { ResultsPanel } from './results-panel';
 import { SchemesApi, schemeUrl } from './schemes-api';
 
 type SeverityFilter = CheckSeverity | 'all';
@@ -66,6 +67,7 @@ export const KEY_STEP_M = 0.05;
     MatProgressSpinner,
     MatSelect,
     PlanView,
+    ResultsPanel,
     RouterLink,
   ],
   templateUrl: './planning-page.html',
