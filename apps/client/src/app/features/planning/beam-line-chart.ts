@@ -10,8 +10,8 @@ export function fig(v: number): string {
 }
 
 const W = 640;
-const H = 230;
-const M = { left: 64, right: 16, top: 22, bottom: 52 };
+const H = 250;
+const M = { left: 64, right: 44, top: 22, bottom: 66 };
 
 let nextId = 0;
 
@@ -49,7 +49,7 @@ let nextId = 0;
             {{ s.label }}
           </text>
           @if (s.reaction) {
-            <text class="reaction" [attr.x]="s.x" [attr.y]="h - m.bottom + 38" text-anchor="middle">
+            <text class="reaction" [attr.x]="s.x" [attr.y]="h - m.bottom + 37" text-anchor="middle">
               {{ s.reaction }}
             </text>
           }
@@ -57,7 +57,7 @@ let nextId = 0;
         @for (p of g.peaks; track $index) {
           <text class="peak" [attr.x]="p.x" [attr.y]="p.y" text-anchor="middle">{{ p.label }}</text>
         }
-        <text class="axis-label" [attr.x]="(m.left + w - m.right) / 2" [attr.y]="h - 2" text-anchor="middle">
+        <text class="axis-label" [attr.x]="(m.left + w - m.right) / 2" [attr.y]="h - 6" text-anchor="middle">
           Distance along line {{ diagram().label }} (m)
         </text>
         <text

@@ -70,6 +70,8 @@ describe('ResultsPanel', () => {
     open(demoDoc(), result);
     const target = result.beamLines.find((b) => b.level === 'roof' && b.label === 'B');
     if (!target) throw new Error('no roof line B');
+    one('[data-testid="results-view-lines"]').click();
+    await settle();
     pick('beam-line-select', `roof|${target.lineId}`);
     await settle();
     await drawn();
@@ -120,6 +122,9 @@ describe('ResultsPanel', () => {
   it('redraws when the document changes and shows what the engine refuses as an error', async () => {
     const result = analyseScheme(demoScheme());
     open(demoDoc(), result);
+    expect(one('[data-testid="results-choose"]')).toBeTruthy();
+    one('[data-testid="results-view-lines"]').click();
+    await settle();
     await drawn();
     expect(one('[data-testid="moment-chart"]')).toBeTruthy();
     // a line that the edited document no longer has: the engine's refusal is shown, not a stale drawing

@@ -69,7 +69,11 @@ export class ResultsPanel {
   protected readonly severityLabels = SEVERITY_LABELS;
   protected readonly ruleLabel = ruleLabel;
   protected readonly numbersOf = numbersOf;
-  protected readonly view = signal<ResultsView>('lines');
+  /**
+   * the view shown; none until the engineer picks one, so that the diagrams (a second engine run
+   * per edit) are only computed once someone looks at them
+   */
+  protected readonly view = signal<ResultsView | null>(null);
 
   // ---- beam lines ----
 
