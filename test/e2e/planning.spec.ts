@@ -1,7 +1,9 @@
 import path from 'node:path';
 import type { Locator, Page } from 'playwright-core';
 import { DEMO } from '../../seeds/demo-data';
-import { demoScheme } from '@trabeate/structural';
+import { schemeDetailSchema } from '@trabeate/contracts';
+import { beamLineDiagram, demoScheme, type LevelKind, type Scheme } from '@trabeate/structural';
+import { addColumn, startEditing, updateColumn } from '../../apps/client/src/app/features/planning/editor-model';
 import { DEMO_SCHEMES, turnedHalf } from '../../seeds/demo-schemes';
 import { DEMO_PASSWORD } from '../../seeds/identity';
 import { openBrowser, SCREENSHOTS } from '../support/browser';
@@ -44,7 +46,10 @@ describe('planning a scheme, in Chromium', () => {
   it('opens the scheme with one column fewer and sees the span warning on the plan, explained', async () => {
     const page = engineer.page;
     await page.getByRole('link', { name: DEMO_SCHEMES.fewer.name }).click();
-    await expect(testId(page, 'caution').textContent()).resolves.toMatch(/licensed structural engineer/);
+    // the planning page's own caution (the app's footer carries one too)
+    await expect(page.locator('aside[data-testid="caution"]').textContent()).resolves.toMatch(
+      /licensed structural engineer/,
+    );
     // computed in the browser's worker, not sent by the server
     const marker = testId(page, 'marker-beam.span');
     await marker.waitFor({ timeout: 30_000 });
@@ -68,6 +73,41 @@ describe('planning a scheme, in Chromium', () => {
     await testId(page, 'marker-beam.span').waitFor({ state: 'detached', timeout: 30_000 });
     await expect(testId(page, 'save-state').textContent()).resolves.toContain('Unsaved changes');
     await shot(page, '3-column-added');
+  });
+
+  it('opens the results, picks a beam line and reads its moment and shear diagrams', async () => {
+    const page = engineer.page;
+    await testId(page, 'results-view-lines').click({ timeout: 30_000 });
+    const select = testId(page, 'beam-line-select');
+    await select.waitFor({ timeout: 30_000 });
+    const keys = await select
+      .locator('option')
+      .evaluateAll((options) => options.map((o) => (o as HTMLOptionElement).value));
+    const key = keys[1]; // a line other than the one shown first
+    await select.selectOption(key);
+    const diagrams = page.locator(`.diagrams[data-line="${key}"]`);
+    await diagrams.waitFor({ timeout: 30_000 });
+    for (const p of ['moment-upper', 'moment-lower', 'shear-upper', 'shear-lower'])
+      await expect(testId(page, p).getAttribute('d')).resolves.toMatch(/^M[\d.]+ [\d.]+ L/);
+    // the same document the page holds: the stored scheme B with the column added as the editor adds it
+    const url = `/api/projects/${DEMO.projects.kestrel.id}/schemes/${DEMO_SCHEMES.fewer.id}`;
+    const stored = schemeDetailSchema.parse(await page.evaluate(async (u) => (await fetch(u)).json(), url)).document;
+    const xs = stored.grid.filter((g) => g.x !== undefined).map((g) => g.x as number);
+    const ys = stored.grid.filter((g) => g.y !== undefined).map((g) => g.y as number);
+    const mid = (v: number[]) => (Math.min(...v) + Math.max(...v)) / 2;
+    let edit = addColumn(startEditing(stored), { x: mid(xs), y: mid(ys) });
+    const added = edit.selection[0];
+    const gap = turnedHalf(demoScheme()).columns.find((c) => c.id === 'C3')!;
+    edit = updateColumn(updateColumn(edit, added, { x: gap.x }), added, { y: gap.y });
+    const [level, lineId] = key.split('|');
+    const d = beamLineDiagram(edit.doc as Scheme, lineId, level as LevelKind);
+    const sagging = Math.max(...d.members.map((m) => m.maxMomentKNm));
+    await expect(testId(page, 'moment-peaks').textContent()).resolves.toContain(
+      `Largest sagging ${sagging.toFixed(1)} kN·m`,
+    );
+    await expect(testId(page, 'results-caution').textContent()).resolves.toMatch(/licensed structural engineer/);
+    await diagrams.scrollIntoViewIfNeeded();
+    await shot(page, '3b-beam-line');
   });
 
   it('compares the two demo schemes and reads what drives the cost difference', async () => {
