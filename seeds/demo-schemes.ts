@@ -80,6 +80,17 @@ export function turnedHalf(s: Scheme): Scheme {
   };
 }
 
+/**
+ * Scheme A's one recorded footing choice: D4 stands 0.2 m from the east property line, so its own
+ * pad would cross it. The reason is invented for the demo.
+ */
+export const DEMO_FOOTING_CHOICE: SchemeDocument['footingChoices'][number] = {
+  columnId: 'D4',
+  option: 'strap',
+  reason:
+    'Strap to C4: the survey of the neighbouring wall footing is not in yet, and a strap keeps the east pad clear of the line without moving D4 or shortening the bay.',
+};
+
 /** The two demo schemes as stored documents: the project's basis, storey height and currency. */
 export function kestrelSchemes(basis: { codeFamily: string; concreteMPa: number; bearingPressureKPa: number }) {
   const dress = (s: Scheme): SchemeDocument =>
@@ -87,7 +98,8 @@ export function kestrelSchemes(basis: { codeFamily: string; concreteMPa: number;
       ...turnedHalf(s),
       basis: { ...s.basis, ...basis, storeyHeightM: 3.1, rates: RATES },
     });
-  return { full: dress(demoScheme()), fewer: dress(demoSchemeVariant()) };
+  const full = dress(demoScheme());
+  return { full: { ...full, footingChoices: [DEMO_FOOTING_CHOICE] }, fewer: dress(demoSchemeVariant()) };
 }
 
 /** Adds Kestrel Yard's two schemes once (by their fixed ids); safe to run again. */

@@ -1,5 +1,6 @@
 import type TestAgent from 'supertest/lib/agent';
 import {
+  SCHEME_SCHEMA_VERSION,
   schemeConflictSchema,
   schemeDetailSchema,
   schemeListSchema,
@@ -9,7 +10,7 @@ import {
 } from '@trabeate/contracts';
 import { ENGINE_VERSION } from '@trabeate/structural';
 import { DEMO } from '../../seeds/demo';
-import { DEMO_SCHEMES } from '../../seeds/demo-schemes';
+import { DEMO_FOOTING_CHOICE, DEMO_SCHEMES } from '../../seeds/demo-schemes';
 import { testApp, type TestApp } from '../support/app';
 import { send, signedInAs } from '../support/agents';
 
@@ -77,7 +78,7 @@ describe('schemes: create, duplicate, rename, archive, save, history and restore
     expect(scheme.document).toMatchObject({ id: scheme.id, name: 'Flat-slab study', columns: [] });
     const row = await t.db('scheme_versions').where({ scheme_id: scheme.id, version: 1 }).first();
     expect(row).toMatchObject({
-      schema_version: 1,
+      schema_version: SCHEME_SCHEMA_VERSION,
       engine_version: ENGINE_VERSION,
       author_id: DEMO.users.engineerA.id,
     });
@@ -148,11 +149,66 @@ describe('schemes: create, duplicate, rename, archive, save, history and restore
     expect(Object.keys(bad.body.error.fields)).toContain('body.document.columns.0.widthMm');
     const newer = await send(engineer, 'put', `${base}/${scheme.id}/document`, {
       baseVersion: 1,
-      document: { ...scheme.document, schemaVersion: 2 },
+      document: { ...scheme.document, schemaVersion: 3 },
     });
     expect(newer.status).toBe(400);
-    expect(newer.body.error.message).toMatch(/version 2, newer than this server reads/);
+    expect(newer.body.error.message).toMatch(/version 3, newer than this server reads/);
     expect(await t.db('scheme_versions').where({ scheme_id: scheme.id }).count('* as n')).toEqual([{ n: '1' }]);
+  });
+
+  it('keeps footing choices through a save, reads an older stored save upgraded, and names a blank reason', async () => {
+    const demo = schemeDetailSchema.parse((await engineer.get(`${base}/${DEMO_SCHEMES.full.id}`)).body);
+    expect(demo.document.schemaVersion).toBe(2);
+    expect(demo.document.footingChoices).toEqual([DEMO_FOOTING_CHOICE]);
+
+    const scheme = schemeDetailSchema.parse(
+      (await send(engineer, 'post', `${base}/${DEMO_SCHEMES.full.id}/duplicate`, { name: 'Footing study' })).body,
+    );
+    const choices = [
+      { columnId: 'D4', option: 'combinedRectangular', reason: 'One pad under D4 and C4 is simpler to set out.' },
+      { columnId: 'D5', option: 'shift', reason: 'Moving D5 in by 0.75 m suits the stair well.' },
+    ];
+    const saved = await send(engineer, 'put', `${base}/${scheme.id}/document`, {
+      baseVersion: 1,
+      document: { ...scheme.document, footingChoices: choices },
+    });
+    expect(saved.status).toBe(200);
+    const back = schemeDetailSchema.parse((await engineer.get(`${base}/${scheme.id}`)).body);
+    expect(back.document.footingChoices).toEqual(choices);
+    expect(back.current.schemaVersion).toBe(2);
+    // the record does not change the engine's results: a chosen shift is not a moved column
+    const [v1, v2] = await t
+      .db('scheme_versions')
+      .where({ scheme_id: scheme.id })
+      .orderBy('version')
+      .select('results', 'schema_version');
+    expect(v2.results.footings).toEqual(v1.results.footings);
+    expect(v2.schema_version).toBe(2);
+
+    // A save stored under version 1 (before footing choices existed) is read back as version 2.
+    const { footingChoices: _c, ...older } = { ...scheme.document, schemaVersion: 1 };
+    await t
+      .db('scheme_versions')
+      .where({ scheme_id: scheme.id, version: 1 })
+      .update({
+        document: JSON.stringify(older),
+        schema_version: 1,
+      });
+    const upgraded = schemeVersionSchema.parse((await engineer.get(`${base}/${scheme.id}/versions/1`)).body);
+    expect(upgraded.document).toMatchObject({ schemaVersion: 2, footingChoices: [] });
+    expect(upgraded.document.columns).toEqual(scheme.document.columns);
+    // and a version 1 document sent by an older client is saved upgraded
+    const fromOlder = await send(engineer, 'put', `${base}/${scheme.id}/document`, { baseVersion: 2, document: older });
+    expect(fromOlder.status).toBe(200);
+    expect(schemeDetailSchema.parse(fromOlder.body).document.footingChoices).toEqual([]);
+
+    const blank = await send(engineer, 'put', `${base}/${scheme.id}/document`, {
+      baseVersion: 3,
+      document: { ...scheme.document, footingChoices: [{ columnId: 'D4', option: 'strap', reason: '  ' }] },
+    });
+    expect(blank.status).toBe(400);
+    expect(Object.keys(blank.body.error.fields)).toEqual(['body.document.footingChoices.0.reason']);
+    expect(await t.db('scheme_versions').where({ scheme_id: scheme.id }).count('* as n')).toEqual([{ n: '3' }]);
   });
 
   it('keeps every save with who and when, opens an earlier one, and restores it as a new save', async () => {

@@ -33,6 +33,19 @@ describe('scheme contract', () => {
     const s = demoScheme() as unknown as Record<string, any>;
     s['boundary'].propertyLines = [7];
     expect(schemeSchema.safeParse(s).success).toBe(false);
-    expect(schemeSchema.safeParse({ ...demoScheme(), schemaVersion: 2 }).success).toBe(false);
+    expect(schemeSchema.safeParse({ ...demoScheme(), schemaVersion: 3 }).success).toBe(false);
+    expect(schemeSchema.safeParse({ ...demoScheme(), schemaVersion: 1 }).success).toBe(false);
+  });
+  it('reads a document without footing choices as having none, and refuses two choices for one column or a blank reason', () => {
+    const { footingChoices: _none, ...bare } = demoScheme();
+    expect(schemeSchema.parse(bare).footingChoices).toEqual([]);
+    const one = { columnId: 'A1', option: 'strap', reason: 'Strap keeps the edge pad inside the plot.' };
+    expect(schemeSchema.safeParse({ ...demoScheme(), footingChoices: [one] }).success).toBe(true);
+    const twice = schemeSchema.safeParse({ ...demoScheme(), footingChoices: [one, { ...one, option: 'shift' }] });
+    expect(twice.error?.issues[0].path).toEqual(['footingChoices']);
+    const blank = schemeSchema.safeParse({ ...demoScheme(), footingChoices: [{ ...one, reason: '   ' }] });
+    expect(blank.error?.issues[0].path).toEqual(['footingChoices', 0, 'reason']);
+    const unknown = schemeSchema.safeParse({ ...demoScheme(), footingChoices: [{ ...one, option: 'raft' }] });
+    expect(unknown.error?.issues[0].path).toEqual(['footingChoices', 0, 'option']);
   });
 });

@@ -95,11 +95,30 @@ export const stairFlightSchema = z.object({
   use: z.enum(['residential', 'other']),
 });
 
+/** The footing options the engine sizes where a column's own pad would cross a property line or overlap another. */
+export const footingOptionSchema = z.enum([
+  'shift',
+  'strap',
+  'combinedRectangular',
+  'combinedTrapezoidal',
+  'combinedOverlap',
+  'isolated',
+]);
+export type FootingOption = z.infer<typeof footingOptionSchema>;
+
+/** The engineer's choice for one column, with the reason in their words (one entry per column at most). */
+export const footingChoiceSchema = z.object({
+  columnId: z.string().min(1),
+  option: footingOptionSchema,
+  reason: z.string().trim().min(1).max(2000),
+});
+export type FootingChoice = z.infer<typeof footingChoiceSchema>;
+
 const uniqueIds = (list: readonly { id: string }[]) => new Set(list.map((e) => e.id)).size === list.length;
 
 export const schemeSchema = z
   .object({
-    schemaVersion: z.literal(1),
+    schemaVersion: z.literal(2),
     id: z.string().min(1),
     name: z.string().min(1).max(200),
     basis: designBasisSchema,
@@ -108,11 +127,17 @@ export const schemeSchema = z
     columns: z.array(columnSchema),
     secondaryBeams: z.array(secondaryBeamSchema),
     stairs: z.array(stairFlightSchema),
+    footingChoices: z.array(footingChoiceSchema).default([]),
   })
   .superRefine((s, ctx) => {
     for (const key of ['grid', 'columns', 'secondaryBeams', 'stairs'] as const) {
       if (!uniqueIds(s[key])) ctx.addIssue({ code: 'custom', message: `ids in ${key} must be unique`, path: [key] });
     }
+    const chosen = s.footingChoices.map((c) => c.columnId);
+    if (new Set(chosen).size !== chosen.length)
+      ctx.addIssue({ code: 'custom', message: 'one footing choice per column at most', path: ['footingChoices'] });
   });
 
 export type SchemeDocument = z.infer<typeof schemeSchema>;
+/** A document as sent: footingChoices may be left out (it defaults to none). */
+export type SchemeDocumentInput = z.input<typeof schemeSchema>;

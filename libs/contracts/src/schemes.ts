@@ -10,7 +10,7 @@ const personRef = z.object({ id, displayName: z.string() });
 const schemeName = z.string().trim().min(1, 'give the scheme a name').max(200);
 
 /** The newest scheme document version this build reads and writes. */
-export const SCHEME_SCHEMA_VERSION = 1;
+export const SCHEME_SCHEMA_VERSION = 2;
 
 /** POST /api/projects/:projectId/schemes — a new scheme from the project's design basis. */
 export const schemeCreateSchema = z.object({ name: schemeName });

@@ -41,7 +41,7 @@ export function demoScheme(): Scheme {
       });
     }
   return {
-    schemaVersion: 1,
+    schemaVersion: 2,
     id: 'tamarind-row-s1',
     name: 'Tamarind Row, scheme 1: full grid',
     basis: {
@@ -72,6 +72,7 @@ export function demoScheme(): Scheme {
     columns,
     secondaryBeams: [{ id: 'SB1', start: { x: 4.4, y: 6.2 }, end: { x: 8.6, y: 6.2 } }],
     stairs: [{ id: 'ST1', riserMm: 170, treadMm: 260, risers: 9, widthM: 1.1, use: 'residential' }],
+    footingChoices: [],
   };
 }
 

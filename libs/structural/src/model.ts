@@ -116,8 +116,16 @@ export interface StairFlight {
   use: 'residential' | 'other';
 }
 
+/** The footing option the engineer chose for a column at a property line, and why. */
+export interface FootingChoice {
+  columnId: string;
+  option: 'shift' | 'strap' | 'combinedRectangular' | 'combinedTrapezoidal' | 'combinedOverlap' | 'isolated';
+  reason: string;
+}
+
 export interface Scheme {
-  schemaVersion: 1;
+  /** 2 added footingChoices; version 1 documents are still read */
+  schemaVersion: 1 | 2;
   id: string;
   name: string;
   basis: DesignBasis;
@@ -126,6 +134,11 @@ export interface Scheme {
   columns: Column[];
   secondaryBeams: SecondaryBeam[];
   stairs: StairFlight[];
+  /**
+   * The engineer's recorded footing choices. A record only: the engine's results do not depend
+   * on them (a chosen shift is a separate edit that moves the column).
+   */
+  footingChoices?: FootingChoice[];
 }
 
 /** A problem with the input: names the element and the field; never thrown. */

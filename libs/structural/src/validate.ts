@@ -105,7 +105,8 @@ export function validateScheme(input: unknown): Problem[] {
     c.add('', 'scheme', 'a scheme must be an object');
     return c.problems;
   }
-  if (input['schemaVersion'] !== 1) c.add('schemaVersion', 'schemaVersion', 'unsupported schema version (expected 1)');
+  if (input['schemaVersion'] !== 1 && input['schemaVersion'] !== 2)
+    c.add('schemaVersion', 'schemaVersion', 'unsupported schema version (expected 1 or 2)');
   c.str(input, '', 'id');
   c.str(input, '', 'name');
 

@@ -1,6 +1,6 @@
 import { demoScheme } from '@trabeate/structural';
 import { HttpError } from '../core/errors';
-import { readDocument, upgradeDocument, type DocumentUpgrade } from './scheme-document';
+import { readDocument, storedDocument, upgradeDocument, type DocumentUpgrade } from './scheme-document';
 
 describe('scheme documents on the way into storage', () => {
   // An imagined history of three document versions, to exercise the path itself.
@@ -49,6 +49,24 @@ describe('scheme documents on the way into storage', () => {
     } catch (e) {
       expect(e).toBeInstanceOf(HttpError);
       expect(Object.keys((e as HttpError).fields ?? {})).toContain('body.document.grid.0.x');
+    }
+  });
+
+  it('reads a version 1 document as version 2 with no footing choices recorded', () => {
+    const { footingChoices: _none, ...v1 } = { ...demoScheme(), schemaVersion: 1 };
+    const upgraded = storedDocument(v1);
+    expect(upgraded.schemaVersion).toBe(2);
+    expect(upgraded.footingChoices).toEqual([]);
+    expect(upgraded.columns).toEqual(demoScheme().columns);
+  });
+
+  it('names the reason of a footing choice left blank', () => {
+    const doc = { ...demoScheme(), footingChoices: [{ columnId: 'A1', option: 'strap', reason: ' ' }] };
+    try {
+      readDocument(doc);
+      throw new Error('accepted a choice without a reason');
+    } catch (e) {
+      expect(Object.keys((e as HttpError).fields ?? {})).toEqual(['body.document.footingChoices.0.reason']);
     }
   });
 });

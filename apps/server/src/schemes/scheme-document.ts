@@ -15,11 +15,13 @@ import { HttpError } from '../core/errors';
 export type DocumentUpgrade = (doc: Record<string, unknown>) => Record<string, unknown>;
 
 /**
- * Upgrades keyed by the version they start from. Version 1 is the first stored version, so the
- * path is empty today; a change to the document's shape adds its step here and raises
- * SCHEME_SCHEMA_VERSION in the contracts.
+ * Upgrades keyed by the version they start from. A change to the document's shape adds its step
+ * here and raises SCHEME_SCHEMA_VERSION in the contracts.
+ * 1 → 2: footing choices at property lines (none recorded in a version 1 document).
  */
-export const UPGRADES: Readonly<Record<number, DocumentUpgrade>> = {};
+export const UPGRADES: Readonly<Record<number, DocumentUpgrade>> = {
+  1: (d) => ({ ...d, footingChoices: Array.isArray(d['footingChoices']) ? d['footingChoices'] : [] }),
+};
 
 /**
  * Brings a raw document up to `latest` through `upgrades`, one version at a time. Refuses a
@@ -137,5 +139,6 @@ export function startingDocument(
     columns: [],
     secondaryBeams: [],
     stairs: [],
+    footingChoices: [],
   });
 }

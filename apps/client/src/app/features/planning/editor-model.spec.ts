@@ -3,6 +3,7 @@ import { demoSchemeVariant } from '@trabeate/structural';
 import {
   HISTORY_LIMIT,
   addColumn,
+  clearFootingChoice,
   cycle,
   deleteSelection,
   editorKey,
@@ -11,6 +12,7 @@ import {
   parseSpacings,
   redo,
   select,
+  setFootingChoice,
   setGridSpacings,
   snap,
   spacingsOf,
@@ -155,5 +157,39 @@ describe('plan editor model', () => {
     expect(setGridSpacings(s0, 'x', [4.2, 4.2, 4.2])).toBe(s0);
     const fewer = setGridSpacings(s0, 'y', [6]);
     expect(fewer.doc.grid.filter((g) => g.y !== undefined).map((g) => g.label)).toEqual(['1', '2']);
+  });
+
+  it('records a footing choice with its trimmed reason, changes it and clears it, each as one undo step', () => {
+    const a = start();
+    const set = setFootingChoice(a, { columnId: 'A1', option: 'strap', reason: '  Strap keeps A1 where it is.  ' });
+    expect(set.doc.footingChoices).toEqual([
+      { columnId: 'A1', option: 'strap', reason: 'Strap keeps A1 where it is.' },
+    ]);
+    expect(set.past).toHaveLength(1);
+    // the column is not moved by the record
+    expect(set.doc.columns).toBe(a.doc.columns);
+
+    const changed = setFootingChoice(set, { columnId: 'A1', option: 'shift', reason: 'Shift is cheaper here.' });
+    expect(changed.doc.footingChoices).toEqual([{ columnId: 'A1', option: 'shift', reason: 'Shift is cheaper here.' }]);
+    expect(changed.past).toHaveLength(2);
+    // choosing the same again is no step at all
+    expect(setFootingChoice(changed, { columnId: 'A1', option: 'shift', reason: 'Shift is cheaper here. ' })).toBe(
+      changed,
+    );
+
+    const other = setFootingChoice(changed, { columnId: 'D1', option: 'combinedRectangular', reason: 'One pad.' });
+    expect(other.doc.footingChoices.map((c) => c.columnId)).toEqual(['A1', 'D1']);
+
+    const cleared = clearFootingChoice(other, 'A1');
+    expect(cleared.doc.footingChoices.map((c) => c.columnId)).toEqual(['D1']);
+    expect(clearFootingChoice(cleared, 'A1')).toBe(cleared);
+
+    const back = undo(undo(cleared));
+    expect(back.doc.footingChoices).toEqual([{ columnId: 'A1', option: 'shift', reason: 'Shift is cheaper here.' }]);
+    expect(undo(back).doc.footingChoices).toEqual([
+      { columnId: 'A1', option: 'strap', reason: 'Strap keeps A1 where it is.' },
+    ]);
+    const again = redo(redo(back));
+    expect(again.doc).toBe(cleared.doc);
   });
 });

@@ -273,3 +273,26 @@ export function setGridSpacings(s: EditorState, axis: 'x' | 'y', spacings: reado
   const grid = axis === 'x' ? [...lines, ...other] : [...other, ...lines];
   return commit(s, { ...s.doc, grid });
 }
+
+export type FootingChoice = SchemeDocument['footingChoices'][number];
+
+/**
+ * Records (or changes) the footing option chosen for one column, with its reason, as one undo
+ * step. The reason is kept as typed, trimmed; the column stays where it is whatever the option
+ * (moving a column inward is an edit of its own).
+ */
+export function setFootingChoice(s: EditorState, choice: FootingChoice): EditorState {
+  const next: FootingChoice = { columnId: choice.columnId, option: choice.option, reason: choice.reason.trim() };
+  const list = s.doc.footingChoices ?? [];
+  const old = list.find((c) => c.columnId === next.columnId);
+  if (old && old.option === next.option && old.reason === next.reason) return s;
+  const footingChoices = old ? list.map((c) => (c.columnId === next.columnId ? next : c)) : [...list, next];
+  return commit(s, { ...s.doc, footingChoices });
+}
+
+/** Removes the recorded footing choice of a column as one undo step (nothing to remove: no step). */
+export function clearFootingChoice(s: EditorState, columnId: string): EditorState {
+  const list = s.doc.footingChoices ?? [];
+  if (!list.some((c) => c.columnId === columnId)) return s;
+  return commit(s, { ...s.doc, footingChoices: list.filter((c) => c.columnId !== columnId) });
+}

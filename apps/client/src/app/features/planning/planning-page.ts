@@ -21,13 +21,17 @@ import {
 import { CAUTION, type SchemeResult } from '@trabeate/structural';
 import { errorMessage } from '../../core/auth/api-error';
 import { SEVERITY_LABELS, SOURCE_KIND_LABELS, numbersOf, ruleLabel } from './check-labels';
+import { FootingOptions } from './footing-options';
+import type { FootingChoice } from './footing-options-model';
 import {
   addColumn,
+  clearFootingChoice,
   editorKey,
   moveColumnTo,
   moveSelection,
   parseSpacings,
   select,
+  setFootingChoice,
   setGridSpacings,
   spacingsOf,
   startEditing,
@@ -58,6 +62,7 @@ export const KEY_STEP_M = 0.05;
   selector: 'tb-planning-page',
   imports: [
     DatePipe,
+    FootingOptions,
     MatButton,
     MatFormField,
     MatIcon,
@@ -119,6 +124,13 @@ export class PlanningPage {
     if (!e || e.selection.length !== 1) return null;
     return e.doc.columns.find((c) => c.id === e.selection[0]) ?? null;
   });
+  /** the column whose footing options are open (from the inspector), or null */
+  protected readonly footingFocus = signal<{ columnId: string } | null>(null);
+  /** columns with footing options: their own pad crosses a property line or meets another */
+  protected readonly footingColumns = computed(() => {
+    const f = this.result()?.footings;
+    return new Set([...(f?.boundary ?? []).map((o) => o.columnId), ...(f?.combined ?? []).flatMap((o) => o.columnIds)]);
+  });
   protected readonly spacingText = computed(() => {
     const d = this.doc();
     return d ? { x: spacingsOf(d, 'x').join(' '), y: spacingsOf(d, 'y').join(' ') } : { x: '', y: '' };
@@ -128,6 +140,9 @@ export class PlanningPage {
 
   private readonly worker: PlanWorkerPort = createPlanWorker();
   private seq = 0;
+  /** the edit (seq) whose checks are on screen; bench:editor reads it to time drop → checks */
+  protected readonly checkedSeq = signal(0);
+  protected readonly postedSeq = signal(0);
   protected readonly result = signal<SchemeResult | null>(null);
   protected readonly engineFault = signal<string | null>(null);
   protected readonly checking = signal(false);
@@ -165,6 +180,7 @@ export class PlanningPage {
     this.worker.onReply = (reply) => {
       if (reply.seq !== this.seq) return; // an answer to an older edit
       this.checking.set(false);
+      this.checkedSeq.set(reply.seq);
       if (reply.kind === 'result') {
         this.engineFault.set(null);
         this.result.set(reply.result);
@@ -182,6 +198,7 @@ export class PlanningPage {
       this.selected.set(null);
       this.checking.set(true);
       this.worker.post({ kind: 'analyse', seq: ++this.seq, document: doc });
+      this.postedSeq.set(this.seq);
     });
     inject(DestroyRef).onDestroy(() => this.worker.terminate());
   }
@@ -282,6 +299,24 @@ export class PlanningPage {
     }
     this.fieldError.set(null);
     this.apply(updateColumn(e, id, { [field]: v }));
+  }
+
+  /** opens the footing options of a column (from the inspector) and brings them into view */
+  protected showFootings(columnId: string): void {
+    this.footingFocus.set({ columnId }); // a new object, so asking again reopens it
+    queueMicrotask(() =>
+      document.querySelector('[data-testid="footing-site-detail"]')?.scrollIntoView?.({ block: 'nearest' }),
+    );
+  }
+
+  protected recordFooting(choice: FootingChoice): void {
+    const e = this.editor();
+    if (e) this.apply(setFootingChoice(e, choice));
+  }
+
+  protected clearFooting(columnId: string): void {
+    const e = this.editor();
+    if (e) this.apply(clearFootingChoice(e, columnId));
   }
 
   protected setOrientation(id: string, deg: 0 | 90): void {
