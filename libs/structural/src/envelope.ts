@@ -37,6 +37,7 @@ import {
 } from './beam';
 import { CAUTION, Combination } from './codes';
 import { StructuralInputError } from './errors';
+import type { SpanKind } from './layout';
 import type { Problem } from './model';
 
 // three points per member: the largest deflection lies near mid-span, or at a free end
@@ -57,6 +58,13 @@ export interface MemberEnvelope {
   /** service (D + L, all spans) deflection, mm downward, and where */
   serviceDeflectionMm: number;
   serviceDeflectionAtM: number;
+}
+
+/** What a scheme's beam line knows of a member, carried into its envelope (m). */
+export interface MemberMeta {
+  id: string;
+  lengthM: number;
+  kind: SpanKind;
 }
 
 export interface BeamEnvelope {
@@ -214,6 +222,23 @@ function pieceCubic(loads: readonly BeamLoad[], ra: number, x0: number, h: numbe
   out[o + 3] = c3;
 }
 
+/**
+ * Sorts the first n numbers of a ascending, in place: insertion sort, stable, so the order is the
+ * one a comparator sort (a − b) gives. A member has a handful of breakpoints, and this runs for
+ * every member of every line on every level, where a comparator sort costs a call per comparison.
+ */
+function sortSmall(a: number[] | Float64Array, n: number): void {
+  for (let i = 1; i < n; i++) {
+    const v = a[i];
+    let j = i - 1;
+    while (j >= 0 && a[j] > v) {
+      a[j + 1] = a[j];
+      j--;
+    }
+    a[j + 1] = v;
+  }
+}
+
 /** Reduces loads (kN, kN/m, member coordinates in m) on a prepared beam to a LoadPart. */
 export function loadPart(p: PreparedBeam, loads: readonly BeamLoad[] | BeamLoad[][]): LoadPart {
   const model = p.model;
@@ -242,7 +267,7 @@ export function loadPart(p: PreparedBeam, loads: readonly BeamLoad[] | BeamLoad[
       if (l.kind === 'point') xs.push(l.atM);
       else xs.push(l.fromM, l.toM);
     }
-    xs.sort((a, b) => a - b);
+    sortSmall(xs, xs.length);
     const u: number[] = [];
     const tol = 1e-12 * L;
     for (const x of xs) if (x >= 0 && x <= L && (u.length === 0 || x - u[u.length - 1] > tol)) u.push(x);
@@ -317,39 +342,54 @@ type Parts = readonly (readonly [LoadPart, number])[];
 
 function combineParts(deadParts: Parts, liveParts: Parts, lengths: Float64Array): Combined {
   const nm = lengths.length;
-  const all = [...deadParts, ...liveParts];
-  const sum = (parts: Parts, pick: (p: LoadPart) => Float64Array, n: number) => {
+  const nd = deadParts.length;
+  const nAll = nd + liveParts.length;
+  const partAt = (k: number) => (k < nd ? deadParts[k][0] : liveParts[k - nd][0]);
+  const sum = (parts: Parts, field: 'terms' | 'v0' | 'defl', n: number) => {
     const out = new Float64Array(n);
     for (const [part, f] of parts) {
       if (f === 0) continue;
-      const a = pick(part);
+      const a = part[field];
       for (let q = 0; q < n; q++) out[q] += f * a[q];
     }
     return out;
   };
-  // common breakpoints: the union of every part's, per member
+  // common breakpoints: the union of every part's, per member (at most the sum of their counts)
+  let cap = 2 * nm;
+  for (let k = 0; k < nAll; k++) cap += partAt(k).off[nm];
   const off = new Int32Array(nm + 1);
-  const merged: number[] = [];
+  const bp = new Float64Array(cap);
+  const xs = new Float64Array(cap);
+  let nb = 0;
   for (let i = 0; i < nm; i++) {
-    off[i] = merged.length;
+    off[i] = nb;
     const L = lengths[i];
     const tol = 1e-12 * L;
     let plain = true;
-    for (const [part] of all) if (part.off[i + 1] - part.off[i] !== 2) plain = false;
+    for (let k = 0; k < nAll; k++) {
+      const pt = partAt(k);
+      if (pt.off[i + 1] - pt.off[i] !== 2) plain = false;
+    }
     if (plain) {
-      merged.push(0, L);
+      bp[nb++] = 0;
+      bp[nb++] = L;
       continue;
     }
-    const xs: number[] = [];
-    for (const [part] of all) for (let q = part.off[i]; q < part.off[i + 1]; q++) xs.push(part.bp[q]);
-    xs.sort((a, b) => a - b);
-    const start = merged.length;
-    for (const x of xs) if (merged.length === start || x - merged[merged.length - 1] > tol) merged.push(x);
-    merged[merged.length - 1] = L;
+    let nx = 0;
+    for (let k = 0; k < nAll; k++) {
+      const pt = partAt(k);
+      for (let q = pt.off[i]; q < pt.off[i + 1]; q++) xs[nx++] = pt.bp[q];
+    }
+    sortSmall(xs, nx);
+    const start = nb;
+    for (let q = 0; q < nx; q++) {
+      const x = xs[q];
+      if (nb === start || x - bp[nb - 1] > tol) bp[nb++] = x;
+    }
+    bp[nb - 1] = L;
   }
-  off[nm] = merged.length;
-  const bp = Float64Array.from(merged);
-  const nPieces = merged.length - nm;
+  off[nm] = nb;
+  const nPieces = nb - nm;
   const onGrid = (parts: Parts) => {
     const out = new Float64Array(4 * nPieces);
     for (const [part, f] of parts) {
@@ -379,12 +419,12 @@ function combineParts(deadParts: Parts, liveParts: Parts, lengths: Float64Array)
     return out;
   };
   return {
-    TD: sum(deadParts, (p) => p.terms, 4 * nm),
-    TL: sum(liveParts, (p) => p.terms, 4 * nm),
-    v0D: sum(deadParts, (p) => p.v0, 2 * nm),
-    v0L: sum(liveParts, (p) => p.v0, 2 * nm),
-    deflD: sum(deadParts, (p) => p.defl, 3 * nm),
-    deflL: sum(liveParts, (p) => p.defl, 3 * nm),
+    TD: sum(deadParts, 'terms', 4 * nm),
+    TL: sum(liveParts, 'terms', 4 * nm),
+    v0D: sum(deadParts, 'v0', 2 * nm),
+    v0L: sum(liveParts, 'v0', 2 * nm),
+    deflD: sum(deadParts, 'defl', 3 * nm),
+    deflL: sum(liveParts, 'defl', 3 * nm),
     off,
     bp,
     cD: onGrid(deadParts),
@@ -774,7 +814,8 @@ export function envelopeBeam(
 
 /**
  * The envelope from load parts: dead = Σ factor × part, imposed likewise (parts from loadPart).
- * Units as envelopeBeam. The caller has validated the loads.
+ * Units as envelopeBeam. The caller has validated the loads. With meta, each member's envelope
+ * also carries its id, length and kind (meta[i] for member i), in that order before the results.
  */
 export function envelopeParts(
   p: PreparedBeam,
@@ -782,6 +823,7 @@ export function envelopeParts(
   liveParts: Parts,
   combos: readonly Combination[],
   cache?: ArrangementCache,
+  meta?: readonly MemberMeta[],
 ): BeamEnvelope {
   const model = p.model;
   const nm = model.members.length;
@@ -1093,17 +1135,39 @@ export function envelopeParts(
   };
   const env: MemberEnvelope[] = [];
   for (let i = 0; i < nm; i++) {
-    env.push({
-      maxMomentKNm: acc[i * 7],
-      maxMomentAtM: acc[i * 7 + 1],
-      maxPattern: scanLabel(acc[i * 7 + 2]),
-      minMomentKNm: acc[i * 7 + 3],
-      minMomentAtM: acc[i * 7 + 4],
-      minPattern: scanLabel(acc[i * 7 + 5]),
-      maxShearKN: acc[i * 7 + 6],
-      serviceDeflectionMm: 0,
-      serviceDeflectionAtM: 0,
-    });
+    const o = i * 7;
+    const maxPattern = scanLabel(acc[o + 2]);
+    const minPattern = scanLabel(acc[o + 5]);
+    const m = meta ? meta[i] : undefined;
+    // a scheme's line names its members here, so that its results need no second copy of each
+    env.push(
+      m
+        ? ({
+            id: m.id,
+            lengthM: m.lengthM,
+            kind: m.kind,
+            maxMomentKNm: acc[o],
+            maxMomentAtM: acc[o + 1],
+            maxPattern,
+            minMomentKNm: acc[o + 3],
+            minMomentAtM: acc[o + 4],
+            minPattern,
+            maxShearKN: acc[o + 6],
+            serviceDeflectionMm: 0,
+            serviceDeflectionAtM: 0,
+          } satisfies MemberEnvelope & MemberMeta)
+        : {
+            maxMomentKNm: acc[o],
+            maxMomentAtM: acc[o + 1],
+            maxPattern,
+            minMomentKNm: acc[o + 3],
+            minMomentAtM: acc[o + 4],
+            minPattern,
+            maxShearKN: acc[o + 6],
+            serviceDeflectionMm: 0,
+            serviceDeflectionAtM: 0,
+          },
+    );
   }
   // service deflection: chord between the end deflections, plus each member's own loads and end
   // moments on a simple span
