@@ -1140,34 +1140,34 @@ export function envelopeParts(
     const minPattern = scanLabel(acc[o + 5]);
     const m = meta ? meta[i] : undefined;
     // a scheme's line names its members here, so that its results need no second copy of each
-    env.push(
-      m
-        ? ({
-            id: m.id,
-            lengthM: m.lengthM,
-            kind: m.kind,
-            maxMomentKNm: acc[o],
-            maxMomentAtM: acc[o + 1],
-            maxPattern,
-            minMomentKNm: acc[o + 3],
-            minMomentAtM: acc[o + 4],
-            minPattern,
-            maxShearKN: acc[o + 6],
-            serviceDeflectionMm: 0,
-            serviceDeflectionAtM: 0,
-          } satisfies MemberEnvelope & MemberMeta)
-        : {
-            maxMomentKNm: acc[o],
-            maxMomentAtM: acc[o + 1],
-            maxPattern,
-            minMomentKNm: acc[o + 3],
-            minMomentAtM: acc[o + 4],
-            minPattern,
-            maxShearKN: acc[o + 6],
-            serviceDeflectionMm: 0,
-            serviceDeflectionAtM: 0,
-          },
-    );
+    if (m) {
+      const named: MemberEnvelope & MemberMeta = {
+        id: m.id,
+        lengthM: m.lengthM,
+        kind: m.kind,
+        maxMomentKNm: acc[o],
+        maxMomentAtM: acc[o + 1],
+        maxPattern,
+        minMomentKNm: acc[o + 3],
+        minMomentAtM: acc[o + 4],
+        minPattern,
+        maxShearKN: acc[o + 6],
+        serviceDeflectionMm: 0,
+        serviceDeflectionAtM: 0,
+      };
+      env.push(named);
+    } else
+      env.push({
+        maxMomentKNm: acc[o],
+        maxMomentAtM: acc[o + 1],
+        maxPattern,
+        minMomentKNm: acc[o + 3],
+        minMomentAtM: acc[o + 4],
+        minPattern,
+        maxShearKN: acc[o + 6],
+        serviceDeflectionMm: 0,
+        serviceDeflectionAtM: 0,
+      });
   }
   // service deflection: chord between the end deflections, plus each member's own loads and end
   // moments on a simple span
