@@ -434,17 +434,23 @@ function combineParts(deadParts: Parts, liveParts: Parts, lengths: Float64Array)
 
 // ---- exact extremes within one member ----
 
-// results of memberExtremes, kept outside to keep the innermost loop allocation-free
-let exMax = 0,
-  exMaxAt = 0,
-  exMin = 0,
-  exMinAt = 0;
+// Inputs and results of memberExtremes in typed arrays, to keep the innermost loop
+// allocation-free: a double stored in a module variable, or passed to a function V8 does not
+// inline, is boxed (a heap number per store or call), and these run hundreds of thousands of
+// times for a large scheme. In: L, fd, fl, ml, mr. Out: max, its x, min, its x.
+const EXI = new Float64Array(5);
+const EX = new Float64Array(4);
 
 /**
  * Largest and smallest of M(x) = fd·M0D(x) + fl·M0L(x) + ml + (mr − ml)·x/L over member i, kN·m:
  * at the breakpoints and where the derivative (the shear) of each piece's cubic vanishes.
  */
-function memberExtremes(c: Combined, i: number, L: number, fd: number, fl: number, ml: number, mr: number): void {
+function memberExtremes(c: Combined, i: number): void {
+  const L = EXI[0],
+    fd = EXI[1],
+    fl = EXI[2],
+    ml = EXI[3],
+    mr = EXI[4];
   const { bp, cD, cL } = c;
   const s = (mr - ml) / L;
   const g0 = c.off[i];
@@ -517,10 +523,10 @@ function memberExtremes(c: Combined, i: number, L: number, fd: number, fl: numbe
       }
     }
   }
-  exMax = mx;
-  exMaxAt = mxAt;
-  exMin = mn;
-  exMinAt = mnAt;
+  EX[0] = mx;
+  EX[1] = mxAt;
+  EX[2] = mn;
+  EX[3] = mnAt;
 }
 
 // ---- the arrangement corrections (three-moment form) ----
@@ -878,25 +884,37 @@ export function envelopeParts(
   const maxR = new Float64Array(nm + 1).fill(-Infinity);
   const uT = unitT;
 
-  // member i under combination factors cd (dead) and gc (imposed), with imposed load on it or
-  // not and imposed-load end moments per unit of the cached solutions eml, emr (scaled by
-  // gc × scale): extremes into acc, tagged with its combination and arrangement
-  const member = (i: number, cd: number, gc: number, on: boolean, eml: number, emr: number, id: number) => {
+  // The numbers member and reaction take, in a typed array for the reason given at EXI:
+  // combination factors cd (dead) and gc (imposed) in MA[0], MA[1]; imposed-load end moments per
+  // unit of the cached solutions (scaled by gc × scale) in MA[2], MA[3] for a member, and in
+  // MA[2]…MA[5] for the members left and right of a node.
+  const MA = new Float64Array(6);
+  // member i with imposed load on it or not: extremes into acc, tagged with its combination and arrangement
+  const member = (i: number, on: boolean, id: number) => {
+    const cd = MA[0],
+      gc = MA[1],
+      eml = MA[2],
+      emr = MA[3];
     const L = lengths[i];
     const gu = gc * scale;
     const ml = cd * sD[2 * i] + gu * eml;
     const mr = cd * sD[2 * i + 1] + gu * emr;
     const gl = on ? gc : 0;
-    memberExtremes(C, i, L, cd, gl, ml, mr);
+    EXI[0] = L;
+    EXI[1] = cd;
+    EXI[2] = gl;
+    EXI[3] = ml;
+    EXI[4] = mr;
+    memberExtremes(C, i);
     const o = i * 7;
-    if (exMax > acc[o]) {
-      acc[o] = exMax;
-      acc[o + 1] = exMaxAt;
+    if (EX[0] > acc[o]) {
+      acc[o] = EX[0];
+      acc[o + 1] = EX[1];
       acc[o + 2] = id;
     }
-    if (exMin < acc[o + 3]) {
-      acc[o + 3] = exMin;
-      acc[o + 4] = exMinAt;
+    if (EX[2] < acc[o + 3]) {
+      acc[o + 3] = EX[2];
+      acc[o + 4] = EX[3];
       acc[o + 5] = id;
     }
     const dv = (mr - ml) / L;
@@ -906,18 +924,14 @@ export function envelopeParts(
     if (v > acc[o + 6]) acc[o + 6] = v;
   };
   // reaction at node n from the two members beside it (imposed end moments per unit, as above)
-  const reaction = (
-    n: number,
-    cd: number,
-    gc: number,
-    onL: boolean,
-    lml: number,
-    lmr: number,
-    onR: boolean,
-    rml: number,
-    rmr: number,
-  ) => {
+  const reaction = (n: number, onL: boolean, onR: boolean) => {
     if (free[n]) return;
+    const cd = MA[0],
+      gc = MA[1],
+      lml = MA[2],
+      lmr = MA[3],
+      rml = MA[4],
+      rmr = MA[5];
     const gu = gc * scale;
     let r = 0;
     if (n > 0) {
@@ -943,30 +957,33 @@ export function envelopeParts(
       // dead load alone
       const id = ci * nPat + PAT_NONE;
       patternsTried++;
-      for (let i = 0; i < nm; i++) member(i, cd, 0, false, 0, 0, id);
+      MA[0] = cd;
+      MA[1] = 0;
+      MA[2] = MA[3] = 0;
+      for (let i = 0; i < nm; i++) member(i, false, id);
       for (let n = 0; n <= nm; n++) if (!free[n] && cd * rD[n] > maxR[n]) maxR[n] = cd * rD[n];
       continue;
     }
     patternsTried += nPat - 1;
     const gl = cmb.live;
+    MA[0] = cd;
+    MA[1] = gl;
     const base = (pat: number, em: Float64Array) => {
       const id = ci * nPat + pat;
       const arr = patterns[pat];
-      for (let i = 0; i < nm; i++) member(i, cd, gl, loadedIn(arr, i), em[2 * i], em[2 * i + 1], id);
+      for (let i = 0; i < nm; i++) {
+        MA[2] = em[2 * i];
+        MA[3] = em[2 * i + 1];
+        member(i, loadedIn(arr, i), id);
+      }
       for (let n = 0; n <= nm; n++) {
         const onL = n > 0 && loadedIn(arr, n - 1),
           onR = n < nm && loadedIn(arr, n);
-        reaction(
-          n,
-          cd,
-          gl,
-          onL,
-          n > 0 ? em[2 * n - 2] : 0,
-          n > 0 ? em[2 * n - 1] : 0,
-          onR,
-          n < nm ? em[2 * n] : 0,
-          n < nm ? em[2 * n + 1] : 0,
-        );
+        MA[2] = n > 0 ? em[2 * n - 2] : 0;
+        MA[3] = n > 0 ? em[2 * n - 1] : 0;
+        MA[4] = n < nm ? em[2 * n] : 0;
+        MA[5] = n < nm ? em[2 * n + 1] : 0;
+        reaction(n, onL, onR);
       }
     };
     base(PAT_ALL, sol.emAll);
@@ -974,14 +991,14 @@ export function envelopeParts(
       base(PAT_ODD, sol.emAlt[0]);
       base(PAT_EVEN, sol.emAlt[1]);
     }
-    if (sol.right && sol.left) adjacentByExtremes(ci, cd, gl, sol, sol.right, sol.left);
-    else adjacentDirect(ci, cd, gl);
+    if (sol.right && sol.left) adjacentByExtremes(ci, sol, sol.right, sol.left);
+    else adjacentDirect(ci);
   }
 
   // The adjacent-span arrangements through the running extremes (see the note at the top).
   // Slot 2j + p of a sweep holds, for node j and support parity p, the extreme corrections; the
   // mirrored (left-side) sweep is indexed by nm − j and names its supports as nm − k.
-  function adjacentByExtremes(ci: number, cd: number, gl: number, s: ArrangementSolutions, R: Sweep, Lf: Sweep): void {
+  function adjacentByExtremes(ci: number, s: ArrangementSolutions, R: Sweep, Lf: Sweep): void {
     const sup = model.supports;
     const idOf = (k: number) => ci * nPat + patIndexAt[k];
     const span = (i: number) => sup[i] !== 'free' && sup[i + 1] !== 'free';
@@ -997,7 +1014,9 @@ export function envelopeParts(
           if (k < 0 || (e === 1 && k === R.maxK[slot])) continue;
           const v = e === 0 ? R.maxV[slot] : R.minV[slot];
           const em = s.emAlt[k & 1];
-          member(i, cd, gl, adjacentLoads(k, i), em[2 * i] + v, em[2 * i + 1] + v * R.rho[i], idOf(k));
+          MA[2] = em[2 * i] + v;
+          MA[3] = em[2 * i + 1] + v * R.rho[i];
+          member(i, adjacentLoads(k, i), idOf(k));
         }
         // arrangements at supports k ≥ i + 1, from the mirrored sweep at node i + 1
         const ms = 2 * (nm - (i + 1)) + p;
@@ -1007,7 +1026,9 @@ export function envelopeParts(
           const v = e === 0 ? Lf.maxV[ms] : Lf.minV[ms];
           const k = nm - km;
           const em = s.emAlt[(k - 1) & 1];
-          member(i, cd, gl, adjacentLoads(k, i), em[2 * i] + v * li, em[2 * i + 1] + v, idOf(k));
+          MA[2] = em[2 * i] + v * li;
+          MA[3] = em[2 * i + 1] + v;
+          member(i, adjacentLoads(k, i), idOf(k));
         }
       }
     }
@@ -1025,17 +1046,11 @@ export function envelopeParts(
           eR = s.emAlt[k & 1];
         const cR = sR ? R.c[k] : 0;
         const cL = sL ? Lf.c[nm - k] : 0;
-        reaction(
-          n,
-          cd,
-          gl,
-          n > 0,
-          n > 0 ? eL[2 * n - 2] + cL * lamL : 0,
-          n > 0 ? eL[2 * n - 1] + cL : 0,
-          n < nm,
-          n < nm ? eR[2 * n] + cR : 0,
-          n < nm ? eR[2 * n + 1] + cR * R.rho[n] : 0,
-        );
+        MA[2] = n > 0 ? eL[2 * n - 2] + cL * lamL : 0;
+        MA[3] = n > 0 ? eL[2 * n - 1] + cL : 0;
+        MA[4] = n < nm ? eR[2 * n] + cR : 0;
+        MA[5] = n < nm ? eR[2 * n + 1] + cR * R.rho[n] : 0;
+        reaction(n, n > 0, n < nm);
       }
       for (let p = 0; p < 2; p++) {
         for (let e = 0; e < 2; e++) {
@@ -1047,17 +1062,11 @@ export function envelopeParts(
               const v = e === 0 ? R.maxV[slot] : R.minV[slot];
               const em = s.emAlt[k & 1];
               const atN = sL ? v * R.rho[n - 1] : 0;
-              reaction(
-                n,
-                cd,
-                gl,
-                adjacentLoads(k, n - 1),
-                em[2 * n - 2] + (sL ? v : 0),
-                em[2 * n - 1] + atN,
-                n < nm && adjacentLoads(k, n),
-                n < nm ? em[2 * n] + (sR ? atN : 0) : 0,
-                n < nm ? em[2 * n + 1] + (sR ? atN * R.rho[n] : 0) : 0,
-              );
+              MA[2] = em[2 * n - 2] + (sL ? v : 0);
+              MA[3] = em[2 * n - 1] + atN;
+              MA[4] = n < nm ? em[2 * n] + (sR ? atN : 0) : 0;
+              MA[5] = n < nm ? em[2 * n + 1] + (sR ? atN * R.rho[n] : 0) : 0;
+              reaction(n, adjacentLoads(k, n - 1), n < nm && adjacentLoads(k, n));
             }
           }
           // supports k ≥ n + 1: values at node n + 1
@@ -1069,17 +1078,11 @@ export function envelopeParts(
               const k = nm - km;
               const em = s.emAlt[(k - 1) & 1];
               const atN = sR ? v * lamR : 0;
-              reaction(
-                n,
-                cd,
-                gl,
-                n > 0 && adjacentLoads(k, n - 1),
-                n > 0 ? em[2 * n - 2] + (sL ? atN * lamL : 0) : 0,
-                n > 0 ? em[2 * n - 1] + (sL ? atN : 0) : 0,
-                adjacentLoads(k, n),
-                em[2 * n] + atN,
-                em[2 * n + 1] + (sR ? v : 0),
-              );
+              MA[2] = n > 0 ? em[2 * n - 2] + (sL ? atN * lamL : 0) : 0;
+              MA[3] = n > 0 ? em[2 * n - 1] + (sL ? atN : 0) : 0;
+              MA[4] = em[2 * n] + atN;
+              MA[5] = em[2 * n + 1] + (sR ? v : 0);
+              reaction(n, n > 0 && adjacentLoads(k, n - 1), adjacentLoads(k, n));
             }
           }
         }
@@ -1089,7 +1092,7 @@ export function envelopeParts(
 
   // Beams of other shapes (free nodes inside, fixed supports inside): every adjacent arrangement
   // solved and evaluated over every member; exact, but the cost grows with the square of spans.
-  function adjacentDirect(ci: number, cd: number, gl: number): void {
+  function adjacentDirect(ci: number): void {
     const T = new Float64Array(4 * nm);
     const u = new Float64Array(2 * (nm + 1));
     const em = new Float64Array(2 * nm);
@@ -1102,21 +1105,19 @@ export function envelopeParts(
       }
       solvePacked(p, T, rhs, u, em);
       const id = ci * nPat + pi;
-      for (let i = 0; i < nm; i++) member(i, cd, gl, loadedIn(arr, i), em[2 * i], em[2 * i + 1], id);
+      for (let i = 0; i < nm; i++) {
+        MA[2] = em[2 * i];
+        MA[3] = em[2 * i + 1];
+        member(i, loadedIn(arr, i), id);
+      }
       for (let n = 0; n <= nm; n++) {
         const onL = n > 0 && loadedIn(arr, n - 1),
           onR = n < nm && loadedIn(arr, n);
-        reaction(
-          n,
-          cd,
-          gl,
-          onL,
-          n > 0 ? em[2 * n - 2] : 0,
-          n > 0 ? em[2 * n - 1] : 0,
-          onR,
-          n < nm ? em[2 * n] : 0,
-          n < nm ? em[2 * n + 1] : 0,
-        );
+        MA[2] = n > 0 ? em[2 * n - 2] : 0;
+        MA[3] = n > 0 ? em[2 * n - 1] : 0;
+        MA[4] = n < nm ? em[2 * n] : 0;
+        MA[5] = n < nm ? em[2 * n + 1] : 0;
+        reaction(n, onL, onR);
       }
     }
   }
