@@ -42,26 +42,23 @@ function neighbourCounts(all: Panel[]): Map<Panel, { x: number; y: number }> {
     push(horiz, key(p.y2), p);
   }
   const overlaps = (a1: number, a2: number, b1: number, b2: number) => Math.min(a2, b2) - Math.max(a1, b1) > 1e-6;
+  // a neighbour across the line at v: on that line, beside p along it, and on the other side of p
+  const acrossX = (p: Panel, v: number) => {
+    const list = vert.get(key(v));
+    if (list)
+      for (const q of list)
+        if (q !== p && overlaps(p.y1, p.y2, q.y1, q.y2) && (q.x2 <= p.x1 + 1e-6 || q.x1 >= p.x2 - 1e-6)) return 1;
+    return 0;
+  };
+  const acrossY = (p: Panel, v: number) => {
+    const list = horiz.get(key(v));
+    if (list)
+      for (const q of list)
+        if (q !== p && overlaps(p.x1, p.x2, q.x1, q.x2) && (q.y2 <= p.y1 + 1e-6 || q.y1 >= p.y2 - 1e-6)) return 1;
+    return 0;
+  };
   const out = new Map<Panel, { x: number; y: number }>();
-  for (const p of all) {
-    let x = 0,
-      y = 0;
-    for (const xv of [p.x1, p.x2])
-      if (
-        (vert.get(key(xv)) ?? []).some(
-          (q) => q !== p && overlaps(p.y1, p.y2, q.y1, q.y2) && (q.x2 <= p.x1 + 1e-6 || q.x1 >= p.x2 - 1e-6),
-        )
-      )
-        x++;
-    for (const yv of [p.y1, p.y2])
-      if (
-        (horiz.get(key(yv)) ?? []).some(
-          (q) => q !== p && overlaps(p.x1, p.x2, q.x1, q.x2) && (q.y2 <= p.y1 + 1e-6 || q.y1 >= p.y2 - 1e-6),
-        )
-      )
-        y++;
-    out.set(p, { x, y });
-  }
+  for (const p of all) out.set(p, { x: acrossX(p, p.x1) + acrossX(p, p.x2), y: acrossY(p, p.y1) + acrossY(p, p.y2) });
   return out;
 }
 
