@@ -1,5 +1,5 @@
-import { demoScheme, demoSchemeVariant, Scheme } from '@trabeate/structural';
-import { schemeSchema, SchemeDocument } from './scheme';
+import { demoScheme, demoSchemeVariant, LIMIT_KEYS, Scheme, SCHEME_LIMITS, validateScheme } from '@trabeate/structural';
+import { SCHEME_DOCUMENT_LIMITS, schemeSchema, SchemeDocument } from './scheme';
 
 // The contract and the engine describe the same document: a parsed scheme is an engine scheme.
 const asEngine = (d: SchemeDocument): Scheme => d;
@@ -47,5 +47,72 @@ describe('scheme contract', () => {
     expect(blank.error?.issues[0].path).toEqual(['footingChoices', 0, 'reason']);
     const unknown = schemeSchema.safeParse({ ...demoScheme(), footingChoices: [{ ...one, option: 'raft' }] });
     expect(unknown.error?.issues[0].path).toEqual(['footingChoices', 0, 'option']);
+  });
+
+  describe('carries the engine’s bounds', () => {
+    // [path, the largest value the engine accepts, a value beyond it]; the numbers are the
+    // engine's (validateScheme), and each case checks that the engine and the schema agree
+    const cases: [(string | number)[], number, number][] = [
+      [['basis', 'imposedKPa'], 50, 50.5],
+      [['basis', 'roofImposedKPa'], 50, 51],
+      [['basis', 'superimposedDeadKPa'], 50, 51],
+      [['basis', 'wallLoadKNPerM'], 200, 201],
+      [['basis', 'bearingPressureKPa'], 10000, 1e12],
+      [['basis', 'foundingDepthM'], 50, 51],
+      [['basis', 'storeyHeightM'], 20, 21],
+      [['basis', 'slabThicknessMm'], 1500, 1501],
+      [['basis', 'beamWidthMm'], 3000, 3001],
+      [['basis', 'rates', 'steelPerKg'], 1e9, 2e9],
+      [['basis', 'limitOverrides', LIMIT_KEYS[0]], 1e6, 2e6],
+      [['boundary', 'vertices', 1, 'x'], 5000, 5001],
+      [['boundary', 'vertices', 1, 'y'], -5000, -5001],
+      [['grid', 0, 'x'], 5000, 5001],
+      [['grid', 5, 'overhangEndM'], 10, 11],
+      [['grid', 0, 'wallThicknessMm'], 1000, 1001],
+      [['grid', 0, 'beamDepthMm'], 5000, 5001],
+      [['columns', 0, 'y'], 5000, 5001],
+      [['columns', 0, 'widthMm'], 5000, 5001],
+      [['secondaryBeams', 0, 'start', 'x'], 5000, 5001],
+      [['secondaryBeams', 0, 'depthMm'], 5000, 5001],
+      [['stairs', 0, 'riserMm'], 400, 401],
+      [['stairs', 0, 'treadMm'], 1000, 1001],
+      [['stairs', 0, 'risers'], 100, 101],
+      [['stairs', 0, 'widthM'], 20, 21],
+    ];
+    const withValue = (path: (string | number)[], v: number): Record<string, unknown> => {
+      const s = demoScheme() as unknown as Record<string, any>;
+      let o = s;
+      for (const k of path.slice(0, -1)) o = o[k] ??= {};
+      o[path[path.length - 1]] = v;
+      return s;
+    };
+    // the engine names a place as basis.rates.steelPerKg or grid[5].overhangEndM
+    const enginePath = (path: (string | number)[]) =>
+      path.map((k, i) => (typeof k === 'number' ? `[${k}]` : i === 0 ? k : `.${k}`)).join('');
+    it.each(cases)('%j: the engine’s largest value is accepted, one beyond is refused there', (path, max, beyond) => {
+      const at = enginePath(path);
+      const ok = withValue(path, max);
+      expect(
+        (schemeSchema.safeParse(ok).error?.issues ?? []).filter((i) => enginePath(i.path as never) === at),
+      ).toEqual([]);
+      expect(validateScheme(ok).filter((p) => p.path === at)).toEqual([]);
+      const bad = withValue(path, beyond);
+      expect(schemeSchema.safeParse(bad).error?.issues.map((i) => i.path)).toContainEqual(path);
+      expect(validateScheme(bad).map((p) => p.path)).toContain(at);
+    });
+    it('has the engine’s limits on loads, coordinates and counts', () => {
+      expect(SCHEME_DOCUMENT_LIMITS).toEqual(SCHEME_LIMITS);
+    });
+    it('refuses more columns than the engine plans, naming the list', () => {
+      const s = demoScheme();
+      const over = Array.from({ length: SCHEME_LIMITS.columns + 1 }, (_, i) => ({
+        ...s.columns[0],
+        id: `K${i}`,
+        x: i * 0.1,
+      }));
+      const r = schemeSchema.safeParse({ ...s, columns: over });
+      expect(r.error?.issues.map((i) => i.path)).toContainEqual(['columns']);
+      expect(validateScheme({ ...s, columns: over }).map((p) => p.path)).toContain('columns');
+    });
   });
 });

@@ -8,41 +8,58 @@ import { z } from 'zod';
 const positive = z.number().positive();
 const nonNegative = z.number().nonnegative();
 
+/**
+ * The engine's bounds (SCHEME_LIMITS and the ranges in @trabeate/structural's validateScheme),
+ * repeated here because contracts import nothing from the engine; scheme.spec.ts checks that
+ * both refuse the same values. Beyond them a scheme is not a building the engine plans.
+ */
+export const SCHEME_DOCUMENT_LIMITS = {
+  loadKPa: 50,
+  coordM: 5000,
+  gridLines: 2000,
+  columns: 10000,
+  secondaryBeams: 10000,
+  stairs: 200,
+  vertices: 1000,
+} as const;
+const LIM = SCHEME_DOCUMENT_LIMITS;
+const coord = z.number().min(-LIM.coordM).max(LIM.coordM);
+
 export const codeFamilySchema = z.enum(['IS456', 'ACI318', 'EN1992']);
 export type CodeFamilyValue = z.infer<typeof codeFamilySchema>;
 
 export const unitRatesSchema = z.object({
   currency: z.string().min(1).max(8),
-  concretePerM3: nonNegative,
-  steelPerKg: nonNegative,
-  formworkPerM2: nonNegative,
+  concretePerM3: nonNegative.max(1e9),
+  steelPerKg: nonNegative.max(1e9),
+  formworkPerM2: nonNegative.max(1e9),
 });
 
 export const designBasisSchema = z.object({
   codeFamily: codeFamilySchema,
   concreteMPa: z.number().min(10).max(120),
   steelMPa: z.number().min(200).max(700),
-  imposedKPa: nonNegative,
-  roofImposedKPa: nonNegative.optional(),
-  superimposedDeadKPa: nonNegative,
-  wallLoadKNPerM: nonNegative,
-  bearingPressureKPa: positive,
-  foundingDepthM: nonNegative,
+  imposedKPa: nonNegative.max(LIM.loadKPa),
+  roofImposedKPa: nonNegative.max(LIM.loadKPa).optional(),
+  superimposedDeadKPa: nonNegative.max(LIM.loadKPa),
+  wallLoadKNPerM: nonNegative.max(200),
+  bearingPressureKPa: positive.max(10000),
+  foundingDepthM: nonNegative.max(50),
   storeys: z.number().int().min(1).max(200),
-  storeyHeightM: positive,
-  slabThicknessMm: positive.optional(),
+  storeyHeightM: positive.max(20),
+  slabThicknessMm: positive.max(1500).optional(),
   /** EN 1992-1-1 §3.1.6(1) αcc; recommended 1.0 (the engine's default), a national annex may choose 0.8 to 1.0 */
   alphaCc: z.number().min(0.8).max(1).optional(),
-  beamWidthMm: positive,
+  beamWidthMm: positive.max(3000),
   rates: unitRatesSchema,
-  limitOverrides: z.record(z.string(), nonNegative).optional(),
+  limitOverrides: z.record(z.string(), nonNegative.max(1e6)).optional(),
 });
 
-export const pointSchema = z.object({ x: z.number(), y: z.number() });
+export const pointSchema = z.object({ x: coord, y: coord });
 
 export const plotBoundarySchema = z
   .object({
-    vertices: z.array(pointSchema).min(3),
+    vertices: z.array(pointSchema).min(3).max(LIM.vertices),
     propertyLines: z.array(z.number().int().nonnegative()),
   })
   .refine((b) => b.propertyLines.every((k) => k < b.vertices.length), {
@@ -54,13 +71,13 @@ export const gridLineSchema = z
   .object({
     id: z.string().min(1),
     label: z.string().min(1),
-    x: z.number().optional(),
-    y: z.number().optional(),
-    overhangStartM: nonNegative.optional(),
-    overhangEndM: nonNegative.optional(),
-    wallThicknessMm: nonNegative.optional(),
-    beamWidthMm: positive.optional(),
-    beamDepthMm: positive.optional(),
+    x: coord.optional(),
+    y: coord.optional(),
+    overhangStartM: nonNegative.max(10).optional(),
+    overhangEndM: nonNegative.max(10).optional(),
+    wallThicknessMm: nonNegative.max(1000).optional(),
+    beamWidthMm: positive.max(3000).optional(),
+    beamDepthMm: positive.max(5000).optional(),
   })
   .refine((g) => (g.x === undefined) !== (g.y === undefined), {
     message: 'a grid line sets exactly one of x or y',
@@ -70,10 +87,10 @@ export const gridLineSchema = z
 export const columnSchema = z.object({
   id: z.string().min(1),
   label: z.string().min(1),
-  x: z.number(),
-  y: z.number(),
-  widthMm: positive,
-  depthMm: positive,
+  x: coord,
+  y: coord,
+  widthMm: positive.max(5000),
+  depthMm: positive.max(5000),
   orientationDeg: z.union([z.literal(0), z.literal(90)]),
 });
 
@@ -81,17 +98,17 @@ export const secondaryBeamSchema = z.object({
   id: z.string().min(1),
   start: pointSchema,
   end: pointSchema,
-  widthMm: positive.optional(),
-  depthMm: positive.optional(),
+  widthMm: positive.max(3000).optional(),
+  depthMm: positive.max(5000).optional(),
   carriesWall: z.boolean().optional(),
 });
 
 export const stairFlightSchema = z.object({
   id: z.string().min(1),
-  riserMm: positive,
-  treadMm: positive,
-  risers: z.number().int().min(1),
-  widthM: positive,
+  riserMm: positive.max(400),
+  treadMm: positive.max(1000),
+  risers: z.number().int().min(1).max(100),
+  widthM: positive.max(20),
   use: z.enum(['residential', 'other']),
 });
 
@@ -123,10 +140,10 @@ export const schemeSchema = z
     name: z.string().min(1).max(200),
     basis: designBasisSchema,
     boundary: plotBoundarySchema,
-    grid: z.array(gridLineSchema),
-    columns: z.array(columnSchema),
-    secondaryBeams: z.array(secondaryBeamSchema),
-    stairs: z.array(stairFlightSchema),
+    grid: z.array(gridLineSchema).max(LIM.gridLines),
+    columns: z.array(columnSchema).max(LIM.columns),
+    secondaryBeams: z.array(secondaryBeamSchema).max(LIM.secondaryBeams),
+    stairs: z.array(stairFlightSchema).max(LIM.stairs),
     footingChoices: z.array(footingChoiceSchema).default([]),
   })
   .superRefine((s, ctx) => {

@@ -39,7 +39,7 @@ import {
   OverlapCombined,
   propertyLineClearances,
 } from './site';
-import { beamDepth, BeamSize, columnSize, slabSizes, SlabSize } from './sizing';
+import { beamDepth, BeamSize, columnSizer, slabSizes, SlabSize } from './sizing';
 import { validateScheme } from './validate';
 import { StructuralInputError } from './errors';
 
@@ -558,10 +558,13 @@ function analyseLevels(
   // column reactions per level kind: dead, live
   const colR: ColumnReactions = new Map();
   const addR = (id: string, kind: LevelKind, d: number, lv: number) => {
-    const e = colR.get(id) ?? { floor: [0, 0], roof: [0, 0] };
+    let e = colR.get(id);
+    if (!e) {
+      e = { floor: [0, 0], roof: [0, 0] };
+      colR.set(id, e);
+    }
     e[kind][0] += d;
     e[kind][1] += lv;
-    colR.set(id, e);
   };
   const designMoment = new Map<string, number>();
   // largest moment magnitude per member of each line over the level kinds, by member index
@@ -587,7 +590,7 @@ function analyseLevels(
         continue;
       }
       const parts = lineParts(p, shapeParts.get(l.id) as LoadPart, lv, l.id);
-      const env = envelopeParts(p, parts.dead, parts.live, combos, arrangementCache);
+      const env = envelopeParts(p, parts.dead, parts.live, combos, arrangementCache, l.members);
       l.nodes.forEach((n, i) => {
         if (n.columnId) addR(n.columnId, k.kind, env.deadReactionsKN[i], env.liveReactionsKN[i]);
       });
@@ -607,20 +610,8 @@ function analyseLevels(
         level: k.kind,
         widthMm: l.widthMm,
         depthForSelfWeightMm: lineDepth.get(l.id) as number,
-        members: env.members.map((e, i) => ({
-          id: l.members[i].id,
-          lengthM: l.members[i].lengthM,
-          kind: l.members[i].kind,
-          maxMomentKNm: e.maxMomentKNm,
-          maxMomentAtM: e.maxMomentAtM,
-          maxPattern: e.maxPattern,
-          minMomentKNm: e.minMomentKNm,
-          minMomentAtM: e.minMomentAtM,
-          minPattern: e.minPattern,
-          maxShearKN: e.maxShearKN,
-          serviceDeflectionMm: e.serviceDeflectionMm,
-          serviceDeflectionAtM: e.serviceDeflectionAtM,
-        })),
+        // envelopeParts named each member from l.members
+        members: env.members as BeamLineResult['members'],
         reactions: l.nodes.map((n, i) => ({
           s: n.s,
           columnId: n.columnId,
@@ -980,6 +971,7 @@ function columnPhase(
       requiredSideMm: [],
       utilisation: [],
     };
+    const sizeFor = columnSizer(family, fck, fy, steel, minSide, provided, { alphaCc: b.alphaCc });
     for (let s = 1; s <= N; s++) {
       const floorsAbove = N - s; // floor levels s..N-1
       const dead = floorsAbove * r.floor[0] + r.roof[0] + (N - s + 1) * sw;
@@ -989,7 +981,7 @@ function columnPhase(
       row.liveKN.push(live);
       row.factoredKN.push(pu);
       row.tributaryKN.push(floorsAbove * tribFloor + tribRoof + (N - s + 1) * sw);
-      const size = columnSize(family, pu, fck, fy, steel, minSide, provided, { alphaCc: b.alphaCc });
+      const size = sizeFor(pu);
       sizes.providedCapacityKN = size.providedCapacityKN;
       sizes.source = size.source;
       sizes.requiredAreaMm2.push(size.requiredAreaMm2);

@@ -125,7 +125,7 @@ export function beamLineDiagram(
   const combos = setup.combos;
   // the envelope exactly as analyseScheme computes it for this line and level
   const parts = lineParts(p, shape, lv, line.id);
-  const env = envelopeParts(p, parts.dead, parts.live, combos);
+  const env = envelopeParts(p, parts.dead, parts.live, combos, undefined, line.members);
 
   // the same loads as lists, for solving arrangement by arrangement
   const slabShare = setup.shapes.lines.get(line.id) ?? [];

@@ -37,6 +37,7 @@ import {
 } from './beam';
 import { CAUTION, Combination } from './codes';
 import { StructuralInputError } from './errors';
+import type { SpanKind } from './layout';
 import type { Problem } from './model';
 
 // three points per member: the largest deflection lies near mid-span, or at a free end
@@ -57,6 +58,13 @@ export interface MemberEnvelope {
   /** service (D + L, all spans) deflection, mm downward, and where */
   serviceDeflectionMm: number;
   serviceDeflectionAtM: number;
+}
+
+/** What a scheme's beam line knows of a member, carried into its envelope (m). */
+export interface MemberMeta {
+  id: string;
+  lengthM: number;
+  kind: SpanKind;
 }
 
 export interface BeamEnvelope {
@@ -214,6 +222,23 @@ function pieceCubic(loads: readonly BeamLoad[], ra: number, x0: number, h: numbe
   out[o + 3] = c3;
 }
 
+/**
+ * Sorts the first n numbers of a ascending, in place: insertion sort, stable, so the order is the
+ * one a comparator sort (a − b) gives. A member has a handful of breakpoints, and this runs for
+ * every member of every line on every level, where a comparator sort costs a call per comparison.
+ */
+function sortSmall(a: number[] | Float64Array, n: number): void {
+  for (let i = 1; i < n; i++) {
+    const v = a[i];
+    let j = i - 1;
+    while (j >= 0 && a[j] > v) {
+      a[j + 1] = a[j];
+      j--;
+    }
+    a[j + 1] = v;
+  }
+}
+
 /** Reduces loads (kN, kN/m, member coordinates in m) on a prepared beam to a LoadPart. */
 export function loadPart(p: PreparedBeam, loads: readonly BeamLoad[] | BeamLoad[][]): LoadPart {
   const model = p.model;
@@ -242,7 +267,7 @@ export function loadPart(p: PreparedBeam, loads: readonly BeamLoad[] | BeamLoad[
       if (l.kind === 'point') xs.push(l.atM);
       else xs.push(l.fromM, l.toM);
     }
-    xs.sort((a, b) => a - b);
+    sortSmall(xs, xs.length);
     const u: number[] = [];
     const tol = 1e-12 * L;
     for (const x of xs) if (x >= 0 && x <= L && (u.length === 0 || x - u[u.length - 1] > tol)) u.push(x);
@@ -317,39 +342,54 @@ type Parts = readonly (readonly [LoadPart, number])[];
 
 function combineParts(deadParts: Parts, liveParts: Parts, lengths: Float64Array): Combined {
   const nm = lengths.length;
-  const all = [...deadParts, ...liveParts];
-  const sum = (parts: Parts, pick: (p: LoadPart) => Float64Array, n: number) => {
+  const nd = deadParts.length;
+  const nAll = nd + liveParts.length;
+  const partAt = (k: number) => (k < nd ? deadParts[k][0] : liveParts[k - nd][0]);
+  const sum = (parts: Parts, field: 'terms' | 'v0' | 'defl', n: number) => {
     const out = new Float64Array(n);
     for (const [part, f] of parts) {
       if (f === 0) continue;
-      const a = pick(part);
+      const a = part[field];
       for (let q = 0; q < n; q++) out[q] += f * a[q];
     }
     return out;
   };
-  // common breakpoints: the union of every part's, per member
+  // common breakpoints: the union of every part's, per member (at most the sum of their counts)
+  let cap = 2 * nm;
+  for (let k = 0; k < nAll; k++) cap += partAt(k).off[nm];
   const off = new Int32Array(nm + 1);
-  const merged: number[] = [];
+  const bp = new Float64Array(cap);
+  const xs = new Float64Array(cap);
+  let nb = 0;
   for (let i = 0; i < nm; i++) {
-    off[i] = merged.length;
+    off[i] = nb;
     const L = lengths[i];
     const tol = 1e-12 * L;
     let plain = true;
-    for (const [part] of all) if (part.off[i + 1] - part.off[i] !== 2) plain = false;
+    for (let k = 0; k < nAll; k++) {
+      const pt = partAt(k);
+      if (pt.off[i + 1] - pt.off[i] !== 2) plain = false;
+    }
     if (plain) {
-      merged.push(0, L);
+      bp[nb++] = 0;
+      bp[nb++] = L;
       continue;
     }
-    const xs: number[] = [];
-    for (const [part] of all) for (let q = part.off[i]; q < part.off[i + 1]; q++) xs.push(part.bp[q]);
-    xs.sort((a, b) => a - b);
-    const start = merged.length;
-    for (const x of xs) if (merged.length === start || x - merged[merged.length - 1] > tol) merged.push(x);
-    merged[merged.length - 1] = L;
+    let nx = 0;
+    for (let k = 0; k < nAll; k++) {
+      const pt = partAt(k);
+      for (let q = pt.off[i]; q < pt.off[i + 1]; q++) xs[nx++] = pt.bp[q];
+    }
+    sortSmall(xs, nx);
+    const start = nb;
+    for (let q = 0; q < nx; q++) {
+      const x = xs[q];
+      if (nb === start || x - bp[nb - 1] > tol) bp[nb++] = x;
+    }
+    bp[nb - 1] = L;
   }
-  off[nm] = merged.length;
-  const bp = Float64Array.from(merged);
-  const nPieces = merged.length - nm;
+  off[nm] = nb;
+  const nPieces = nb - nm;
   const onGrid = (parts: Parts) => {
     const out = new Float64Array(4 * nPieces);
     for (const [part, f] of parts) {
@@ -379,12 +419,12 @@ function combineParts(deadParts: Parts, liveParts: Parts, lengths: Float64Array)
     return out;
   };
   return {
-    TD: sum(deadParts, (p) => p.terms, 4 * nm),
-    TL: sum(liveParts, (p) => p.terms, 4 * nm),
-    v0D: sum(deadParts, (p) => p.v0, 2 * nm),
-    v0L: sum(liveParts, (p) => p.v0, 2 * nm),
-    deflD: sum(deadParts, (p) => p.defl, 3 * nm),
-    deflL: sum(liveParts, (p) => p.defl, 3 * nm),
+    TD: sum(deadParts, 'terms', 4 * nm),
+    TL: sum(liveParts, 'terms', 4 * nm),
+    v0D: sum(deadParts, 'v0', 2 * nm),
+    v0L: sum(liveParts, 'v0', 2 * nm),
+    deflD: sum(deadParts, 'defl', 3 * nm),
+    deflL: sum(liveParts, 'defl', 3 * nm),
     off,
     bp,
     cD: onGrid(deadParts),
@@ -394,17 +434,23 @@ function combineParts(deadParts: Parts, liveParts: Parts, lengths: Float64Array)
 
 // ---- exact extremes within one member ----
 
-// results of memberExtremes, kept outside to keep the innermost loop allocation-free
-let exMax = 0,
-  exMaxAt = 0,
-  exMin = 0,
-  exMinAt = 0;
+// Inputs and results of memberExtremes in typed arrays, to keep the innermost loop
+// allocation-free: a double stored in a module variable, or passed to a function V8 does not
+// inline, is boxed (a heap number per store or call), and these run hundreds of thousands of
+// times for a large scheme. In: L, fd, fl, ml, mr. Out: max, its x, min, its x.
+const EXI = new Float64Array(5);
+const EX = new Float64Array(4);
 
 /**
  * Largest and smallest of M(x) = fd·M0D(x) + fl·M0L(x) + ml + (mr − ml)·x/L over member i, kN·m:
  * at the breakpoints and where the derivative (the shear) of each piece's cubic vanishes.
  */
-function memberExtremes(c: Combined, i: number, L: number, fd: number, fl: number, ml: number, mr: number): void {
+function memberExtremes(c: Combined, i: number): void {
+  const L = EXI[0],
+    fd = EXI[1],
+    fl = EXI[2],
+    ml = EXI[3],
+    mr = EXI[4];
   const { bp, cD, cL } = c;
   const s = (mr - ml) / L;
   const g0 = c.off[i];
@@ -477,10 +523,10 @@ function memberExtremes(c: Combined, i: number, L: number, fd: number, fl: numbe
       }
     }
   }
-  exMax = mx;
-  exMaxAt = mxAt;
-  exMin = mn;
-  exMinAt = mnAt;
+  EX[0] = mx;
+  EX[1] = mxAt;
+  EX[2] = mn;
+  EX[3] = mnAt;
 }
 
 // ---- the arrangement corrections (three-moment form) ----
@@ -774,7 +820,8 @@ export function envelopeBeam(
 
 /**
  * The envelope from load parts: dead = Σ factor × part, imposed likewise (parts from loadPart).
- * Units as envelopeBeam. The caller has validated the loads.
+ * Units as envelopeBeam. The caller has validated the loads. With meta, each member's envelope
+ * also carries its id, length and kind (meta[i] for member i), in that order before the results.
  */
 export function envelopeParts(
   p: PreparedBeam,
@@ -782,6 +829,7 @@ export function envelopeParts(
   liveParts: Parts,
   combos: readonly Combination[],
   cache?: ArrangementCache,
+  meta?: readonly MemberMeta[],
 ): BeamEnvelope {
   const model = p.model;
   const nm = model.members.length;
@@ -836,25 +884,37 @@ export function envelopeParts(
   const maxR = new Float64Array(nm + 1).fill(-Infinity);
   const uT = unitT;
 
-  // member i under combination factors cd (dead) and gc (imposed), with imposed load on it or
-  // not and imposed-load end moments per unit of the cached solutions eml, emr (scaled by
-  // gc × scale): extremes into acc, tagged with its combination and arrangement
-  const member = (i: number, cd: number, gc: number, on: boolean, eml: number, emr: number, id: number) => {
+  // The numbers member and reaction take, in a typed array for the reason given at EXI:
+  // combination factors cd (dead) and gc (imposed) in MA[0], MA[1]; imposed-load end moments per
+  // unit of the cached solutions (scaled by gc × scale) in MA[2], MA[3] for a member, and in
+  // MA[2]…MA[5] for the members left and right of a node.
+  const MA = new Float64Array(6);
+  // member i with imposed load on it or not: extremes into acc, tagged with its combination and arrangement
+  const member = (i: number, on: boolean, id: number) => {
+    const cd = MA[0],
+      gc = MA[1],
+      eml = MA[2],
+      emr = MA[3];
     const L = lengths[i];
     const gu = gc * scale;
     const ml = cd * sD[2 * i] + gu * eml;
     const mr = cd * sD[2 * i + 1] + gu * emr;
     const gl = on ? gc : 0;
-    memberExtremes(C, i, L, cd, gl, ml, mr);
+    EXI[0] = L;
+    EXI[1] = cd;
+    EXI[2] = gl;
+    EXI[3] = ml;
+    EXI[4] = mr;
+    memberExtremes(C, i);
     const o = i * 7;
-    if (exMax > acc[o]) {
-      acc[o] = exMax;
-      acc[o + 1] = exMaxAt;
+    if (EX[0] > acc[o]) {
+      acc[o] = EX[0];
+      acc[o + 1] = EX[1];
       acc[o + 2] = id;
     }
-    if (exMin < acc[o + 3]) {
-      acc[o + 3] = exMin;
-      acc[o + 4] = exMinAt;
+    if (EX[2] < acc[o + 3]) {
+      acc[o + 3] = EX[2];
+      acc[o + 4] = EX[3];
       acc[o + 5] = id;
     }
     const dv = (mr - ml) / L;
@@ -864,18 +924,14 @@ export function envelopeParts(
     if (v > acc[o + 6]) acc[o + 6] = v;
   };
   // reaction at node n from the two members beside it (imposed end moments per unit, as above)
-  const reaction = (
-    n: number,
-    cd: number,
-    gc: number,
-    onL: boolean,
-    lml: number,
-    lmr: number,
-    onR: boolean,
-    rml: number,
-    rmr: number,
-  ) => {
+  const reaction = (n: number, onL: boolean, onR: boolean) => {
     if (free[n]) return;
+    const cd = MA[0],
+      gc = MA[1],
+      lml = MA[2],
+      lmr = MA[3],
+      rml = MA[4],
+      rmr = MA[5];
     const gu = gc * scale;
     let r = 0;
     if (n > 0) {
@@ -901,30 +957,33 @@ export function envelopeParts(
       // dead load alone
       const id = ci * nPat + PAT_NONE;
       patternsTried++;
-      for (let i = 0; i < nm; i++) member(i, cd, 0, false, 0, 0, id);
+      MA[0] = cd;
+      MA[1] = 0;
+      MA[2] = MA[3] = 0;
+      for (let i = 0; i < nm; i++) member(i, false, id);
       for (let n = 0; n <= nm; n++) if (!free[n] && cd * rD[n] > maxR[n]) maxR[n] = cd * rD[n];
       continue;
     }
     patternsTried += nPat - 1;
     const gl = cmb.live;
+    MA[0] = cd;
+    MA[1] = gl;
     const base = (pat: number, em: Float64Array) => {
       const id = ci * nPat + pat;
       const arr = patterns[pat];
-      for (let i = 0; i < nm; i++) member(i, cd, gl, loadedIn(arr, i), em[2 * i], em[2 * i + 1], id);
+      for (let i = 0; i < nm; i++) {
+        MA[2] = em[2 * i];
+        MA[3] = em[2 * i + 1];
+        member(i, loadedIn(arr, i), id);
+      }
       for (let n = 0; n <= nm; n++) {
         const onL = n > 0 && loadedIn(arr, n - 1),
           onR = n < nm && loadedIn(arr, n);
-        reaction(
-          n,
-          cd,
-          gl,
-          onL,
-          n > 0 ? em[2 * n - 2] : 0,
-          n > 0 ? em[2 * n - 1] : 0,
-          onR,
-          n < nm ? em[2 * n] : 0,
-          n < nm ? em[2 * n + 1] : 0,
-        );
+        MA[2] = n > 0 ? em[2 * n - 2] : 0;
+        MA[3] = n > 0 ? em[2 * n - 1] : 0;
+        MA[4] = n < nm ? em[2 * n] : 0;
+        MA[5] = n < nm ? em[2 * n + 1] : 0;
+        reaction(n, onL, onR);
       }
     };
     base(PAT_ALL, sol.emAll);
@@ -932,14 +991,14 @@ export function envelopeParts(
       base(PAT_ODD, sol.emAlt[0]);
       base(PAT_EVEN, sol.emAlt[1]);
     }
-    if (sol.right && sol.left) adjacentByExtremes(ci, cd, gl, sol, sol.right, sol.left);
-    else adjacentDirect(ci, cd, gl);
+    if (sol.right && sol.left) adjacentByExtremes(ci, sol, sol.right, sol.left);
+    else adjacentDirect(ci);
   }
 
   // The adjacent-span arrangements through the running extremes (see the note at the top).
   // Slot 2j + p of a sweep holds, for node j and support parity p, the extreme corrections; the
   // mirrored (left-side) sweep is indexed by nm − j and names its supports as nm − k.
-  function adjacentByExtremes(ci: number, cd: number, gl: number, s: ArrangementSolutions, R: Sweep, Lf: Sweep): void {
+  function adjacentByExtremes(ci: number, s: ArrangementSolutions, R: Sweep, Lf: Sweep): void {
     const sup = model.supports;
     const idOf = (k: number) => ci * nPat + patIndexAt[k];
     const span = (i: number) => sup[i] !== 'free' && sup[i + 1] !== 'free';
@@ -955,7 +1014,9 @@ export function envelopeParts(
           if (k < 0 || (e === 1 && k === R.maxK[slot])) continue;
           const v = e === 0 ? R.maxV[slot] : R.minV[slot];
           const em = s.emAlt[k & 1];
-          member(i, cd, gl, adjacentLoads(k, i), em[2 * i] + v, em[2 * i + 1] + v * R.rho[i], idOf(k));
+          MA[2] = em[2 * i] + v;
+          MA[3] = em[2 * i + 1] + v * R.rho[i];
+          member(i, adjacentLoads(k, i), idOf(k));
         }
         // arrangements at supports k ≥ i + 1, from the mirrored sweep at node i + 1
         const ms = 2 * (nm - (i + 1)) + p;
@@ -965,7 +1026,9 @@ export function envelopeParts(
           const v = e === 0 ? Lf.maxV[ms] : Lf.minV[ms];
           const k = nm - km;
           const em = s.emAlt[(k - 1) & 1];
-          member(i, cd, gl, adjacentLoads(k, i), em[2 * i] + v * li, em[2 * i + 1] + v, idOf(k));
+          MA[2] = em[2 * i] + v * li;
+          MA[3] = em[2 * i + 1] + v;
+          member(i, adjacentLoads(k, i), idOf(k));
         }
       }
     }
@@ -983,17 +1046,11 @@ export function envelopeParts(
           eR = s.emAlt[k & 1];
         const cR = sR ? R.c[k] : 0;
         const cL = sL ? Lf.c[nm - k] : 0;
-        reaction(
-          n,
-          cd,
-          gl,
-          n > 0,
-          n > 0 ? eL[2 * n - 2] + cL * lamL : 0,
-          n > 0 ? eL[2 * n - 1] + cL : 0,
-          n < nm,
-          n < nm ? eR[2 * n] + cR : 0,
-          n < nm ? eR[2 * n + 1] + cR * R.rho[n] : 0,
-        );
+        MA[2] = n > 0 ? eL[2 * n - 2] + cL * lamL : 0;
+        MA[3] = n > 0 ? eL[2 * n - 1] + cL : 0;
+        MA[4] = n < nm ? eR[2 * n] + cR : 0;
+        MA[5] = n < nm ? eR[2 * n + 1] + cR * R.rho[n] : 0;
+        reaction(n, n > 0, n < nm);
       }
       for (let p = 0; p < 2; p++) {
         for (let e = 0; e < 2; e++) {
@@ -1005,17 +1062,11 @@ export function envelopeParts(
               const v = e === 0 ? R.maxV[slot] : R.minV[slot];
               const em = s.emAlt[k & 1];
               const atN = sL ? v * R.rho[n - 1] : 0;
-              reaction(
-                n,
-                cd,
-                gl,
-                adjacentLoads(k, n - 1),
-                em[2 * n - 2] + (sL ? v : 0),
-                em[2 * n - 1] + atN,
-                n < nm && adjacentLoads(k, n),
-                n < nm ? em[2 * n] + (sR ? atN : 0) : 0,
-                n < nm ? em[2 * n + 1] + (sR ? atN * R.rho[n] : 0) : 0,
-              );
+              MA[2] = em[2 * n - 2] + (sL ? v : 0);
+              MA[3] = em[2 * n - 1] + atN;
+              MA[4] = n < nm ? em[2 * n] + (sR ? atN : 0) : 0;
+              MA[5] = n < nm ? em[2 * n + 1] + (sR ? atN * R.rho[n] : 0) : 0;
+              reaction(n, adjacentLoads(k, n - 1), n < nm && adjacentLoads(k, n));
             }
           }
           // supports k ≥ n + 1: values at node n + 1
@@ -1027,17 +1078,11 @@ export function envelopeParts(
               const k = nm - km;
               const em = s.emAlt[(k - 1) & 1];
               const atN = sR ? v * lamR : 0;
-              reaction(
-                n,
-                cd,
-                gl,
-                n > 0 && adjacentLoads(k, n - 1),
-                n > 0 ? em[2 * n - 2] + (sL ? atN * lamL : 0) : 0,
-                n > 0 ? em[2 * n - 1] + (sL ? atN : 0) : 0,
-                adjacentLoads(k, n),
-                em[2 * n] + atN,
-                em[2 * n + 1] + (sR ? v : 0),
-              );
+              MA[2] = n > 0 ? em[2 * n - 2] + (sL ? atN * lamL : 0) : 0;
+              MA[3] = n > 0 ? em[2 * n - 1] + (sL ? atN : 0) : 0;
+              MA[4] = em[2 * n] + atN;
+              MA[5] = em[2 * n + 1] + (sR ? v : 0);
+              reaction(n, n > 0 && adjacentLoads(k, n - 1), adjacentLoads(k, n));
             }
           }
         }
@@ -1047,7 +1092,7 @@ export function envelopeParts(
 
   // Beams of other shapes (free nodes inside, fixed supports inside): every adjacent arrangement
   // solved and evaluated over every member; exact, but the cost grows with the square of spans.
-  function adjacentDirect(ci: number, cd: number, gl: number): void {
+  function adjacentDirect(ci: number): void {
     const T = new Float64Array(4 * nm);
     const u = new Float64Array(2 * (nm + 1));
     const em = new Float64Array(2 * nm);
@@ -1060,21 +1105,19 @@ export function envelopeParts(
       }
       solvePacked(p, T, rhs, u, em);
       const id = ci * nPat + pi;
-      for (let i = 0; i < nm; i++) member(i, cd, gl, loadedIn(arr, i), em[2 * i], em[2 * i + 1], id);
+      for (let i = 0; i < nm; i++) {
+        MA[2] = em[2 * i];
+        MA[3] = em[2 * i + 1];
+        member(i, loadedIn(arr, i), id);
+      }
       for (let n = 0; n <= nm; n++) {
         const onL = n > 0 && loadedIn(arr, n - 1),
           onR = n < nm && loadedIn(arr, n);
-        reaction(
-          n,
-          cd,
-          gl,
-          onL,
-          n > 0 ? em[2 * n - 2] : 0,
-          n > 0 ? em[2 * n - 1] : 0,
-          onR,
-          n < nm ? em[2 * n] : 0,
-          n < nm ? em[2 * n + 1] : 0,
-        );
+        MA[2] = n > 0 ? em[2 * n - 2] : 0;
+        MA[3] = n > 0 ? em[2 * n - 1] : 0;
+        MA[4] = n < nm ? em[2 * n] : 0;
+        MA[5] = n < nm ? em[2 * n + 1] : 0;
+        reaction(n, onL, onR);
       }
     }
   }
@@ -1093,17 +1136,39 @@ export function envelopeParts(
   };
   const env: MemberEnvelope[] = [];
   for (let i = 0; i < nm; i++) {
-    env.push({
-      maxMomentKNm: acc[i * 7],
-      maxMomentAtM: acc[i * 7 + 1],
-      maxPattern: scanLabel(acc[i * 7 + 2]),
-      minMomentKNm: acc[i * 7 + 3],
-      minMomentAtM: acc[i * 7 + 4],
-      minPattern: scanLabel(acc[i * 7 + 5]),
-      maxShearKN: acc[i * 7 + 6],
-      serviceDeflectionMm: 0,
-      serviceDeflectionAtM: 0,
-    });
+    const o = i * 7;
+    const maxPattern = scanLabel(acc[o + 2]);
+    const minPattern = scanLabel(acc[o + 5]);
+    const m = meta ? meta[i] : undefined;
+    // a scheme's line names its members here, so that its results need no second copy of each
+    if (m) {
+      const named: MemberEnvelope & MemberMeta = {
+        id: m.id,
+        lengthM: m.lengthM,
+        kind: m.kind,
+        maxMomentKNm: acc[o],
+        maxMomentAtM: acc[o + 1],
+        maxPattern,
+        minMomentKNm: acc[o + 3],
+        minMomentAtM: acc[o + 4],
+        minPattern,
+        maxShearKN: acc[o + 6],
+        serviceDeflectionMm: 0,
+        serviceDeflectionAtM: 0,
+      };
+      env.push(named);
+    } else
+      env.push({
+        maxMomentKNm: acc[o],
+        maxMomentAtM: acc[o + 1],
+        maxPattern,
+        minMomentKNm: acc[o + 3],
+        minMomentAtM: acc[o + 4],
+        minPattern,
+        maxShearKN: acc[o + 6],
+        serviceDeflectionMm: 0,
+        serviceDeflectionAtM: 0,
+      });
   }
   // service deflection: chord between the end deflections, plus each member's own loads and end
   // moments on a simple span

@@ -99,9 +99,20 @@ export function deriveLayout(scheme: Scheme): Layout {
   const xLines = sortedLabels(scheme.grid, 'x');
   const yLines = sortedLabels(scheme.grid, 'y');
   // label of the crossing grid line at a position, for readable span ids
+  // (the lines are sorted by coordinate: start the scan a little before the first that can be
+  // near s, found by bisection, and stop a little after the last; the first near one is the answer)
   const crossLabel = (runs: 'x' | 'y', s: number): string => {
     const cross = runs === 'x' ? xLines : yLines;
-    for (const g of cross) if (near((runs === 'x' ? g.x : g.y) as number, s)) return g.label;
+    const at = (g: GridLine) => (runs === 'x' ? g.x : g.y) as number;
+    let lo = 0;
+    let hi = cross.length;
+    while (lo < hi) {
+      const mid = (lo + hi) >> 1;
+      if (at(cross[mid]) < s - 2 * ON_LINE_TOL_M) lo = mid + 1;
+      else hi = mid;
+    }
+    for (let i = lo; i < cross.length && at(cross[i]) <= s + 2 * ON_LINE_TOL_M; i++)
+      if (near(at(cross[i]), s)) return cross[i].label;
     return s.toFixed(2);
   };
   // columns sorted on each plan axis, so that each grid line finds its own by binary search

@@ -114,8 +114,15 @@ export function panelEdgeProfiles(p: Panel, oneWayAspect: number): { twoWay: boo
   return { twoWay, profiles };
 }
 
-/** Spreads a piecewise-linear profile (scaled by k) over the members of a beam line. */
-function addProfileToLine(line: BeamLine, profile: Profile, k: number, out: BeamLoad[]): void {
+/**
+ * Linear load pieces in flat form, five numbers each: member, fromM, toM, startKNPerM, endKNPerM.
+ * A slab spreads thousands of pieces over a scheme's beams before they are merged; numbers in one
+ * array cost far less to make and to collect than an object each.
+ */
+type Pieces = number[];
+
+/** Spreads a piecewise-linear profile (scaled by k) over the members of a beam line, into out. */
+function addProfileToLine(line: BeamLine, profile: Profile, k: number, out: Pieces): void {
   for (let i = 0; i + 1 < profile.length; i++) {
     const [s0, w0] = profile[i];
     const [s1, w1] = profile[i + 1];
@@ -136,16 +143,24 @@ function addProfileToLine(line: BeamLine, profile: Profile, k: number, out: Beam
       if (b - a <= 1e-9) continue;
       const wa = w0 + ((w1 - w0) * (a - s0)) / (s1 - s0);
       const wb = w0 + ((w1 - w0) * (b - s0)) / (s1 - s0);
-      out.push({
-        kind: 'linear',
-        member: m.index,
-        fromM: a - m.startS,
-        toM: Math.min(b - m.startS, m.lengthM),
-        startKNPerM: wa * k,
-        endKNPerM: wb * k,
-      });
+      out.push(m.index, a - m.startS, Math.min(b - m.startS, m.lengthM), wa * k, wb * k);
     }
   }
+}
+
+/** Flat pieces (see Pieces) as load objects, in order. */
+function piecesToLoads(pc: Pieces): LinearLoad[] {
+  const out: LinearLoad[] = [];
+  for (let q = 0; q < pc.length; q += 5)
+    out.push({
+      kind: 'linear',
+      member: pc[q],
+      fromM: pc[q + 1],
+      toM: pc[q + 2],
+      startKNPerM: pc[q + 3],
+      endKNPerM: pc[q + 4],
+    });
+  return out;
 }
 
 function pointOnLine(line: BeamLine, s: number, p: number, out: BeamLoad[]): void {
@@ -160,19 +175,40 @@ function pointOnLine(line: BeamLine, s: number, p: number, out: BeamLoad[]): voi
  * sides of a beam then cost one set of pieces instead of two. Point loads pass through.
  */
 export function mergeLinearLoads(loads: readonly BeamLoad[]): BeamLoad[] {
-  const byMember = new Map<number, LinearLoad[]>();
-  const out: BeamLoad[] = [];
+  const points: BeamLoad[] = [];
+  const pc: Pieces = [];
   for (const l of loads) {
-    if (l.kind === 'point') out.push(l);
-    else {
-      const list = byMember.get(l.member);
-      if (list) list.push(l);
-      else byMember.set(l.member, [l]);
+    if (l.kind === 'point') points.push(l);
+    else pc.push(l.member, l.fromM, l.toM, l.startKNPerM, l.endKNPerM);
+  }
+  return mergePieces(pc, points);
+}
+
+/** mergeLinearLoads on flat pieces: the point loads first, then each member's merged pieces. */
+function mergePieces(pc: Pieces, points: readonly BeamLoad[]): BeamLoad[] {
+  const out: BeamLoad[] = points.slice();
+  const n = pc.length / 5;
+  // each member's pieces as a chain in input order; members in order of first appearance
+  const slotOf = new Map<number, number>();
+  const head: number[] = [];
+  const tail: number[] = [];
+  const next = new Int32Array(n).fill(-1);
+  for (let q = 0; q < n; q++) {
+    const m = pc[5 * q];
+    const slot = slotOf.get(m);
+    if (slot === undefined) {
+      slotOf.set(m, head.length);
+      head.push(q);
+      tail.push(q);
+    } else {
+      next[tail[slot]] = q;
+      tail[slot] = q;
     }
   }
-  for (const [member, list] of byMember) {
-    const cuts: number[] = [];
-    for (const l of list) cuts.push(l.fromM, l.toM);
+  const cuts: number[] = [];
+  for (const [member, slot] of slotOf) {
+    cuts.length = 0;
+    for (let q = head[slot]; q >= 0; q = next[q]) cuts.push(pc[5 * q + 1], pc[5 * q + 2]);
     // insertion sort: a member carries a handful of pieces, and this runs for every member of a scheme
     for (let i = 1; i < cuts.length; i++) {
       const v = cuts[i];
@@ -191,12 +227,17 @@ export function mergeLinearLoads(loads: readonly BeamLoad[]): BeamLoad[] {
         // sum of the loads covering [a, b], at each end
         let wa = 0;
         let wb = 0;
-        for (const l of list) {
-          if (l.fromM > a + 1e-12 || l.toM < b - 1e-12) continue;
-          const h = l.toM - l.fromM;
-          const slope = (l.endKNPerM - l.startKNPerM) / h;
-          wa += l.startKNPerM + slope * (a - l.fromM);
-          wb += l.startKNPerM + slope * (b - l.fromM);
+        for (let q = head[slot]; q >= 0; q = next[q]) {
+          const o = 5 * q;
+          const fromM = pc[o + 1],
+            toM = pc[o + 2],
+            start = pc[o + 3],
+            end = pc[o + 4];
+          if (fromM > a + 1e-12 || toM < b - 1e-12) continue;
+          const h = toM - fromM;
+          const slope = (end - start) / h;
+          wa += start + slope * (a - fromM);
+          wb += start + slope * (b - fromM);
         }
         if (wa !== 0 || wb !== 0)
           out.push({ kind: 'linear', member, fromM: a, toM: b, startKNPerM: wa, endKNPerM: wb });
@@ -209,10 +250,15 @@ export function mergeLinearLoads(loads: readonly BeamLoad[]): BeamLoad[] {
 
 /** Slab shapes of a layout (see SlabShapes); one-way beyond oneWayAspect (long/short). */
 export function slabShapes(layout: Layout, oneWayAspect: number): SlabShapes {
-  const lines = new Map<string, BeamLoad[]>();
-  for (const l of layout.lines) lines.set(l.id, []);
+  // per line: the slab's pieces (flat) and, later, the secondary beams' reactions
+  const linePieces = new Map<string, Pieces>();
+  const linePoints = new Map<string, BeamLoad[]>();
+  for (const l of layout.lines) {
+    linePieces.set(l.id, []);
+    linePoints.set(l.id, []);
+  }
   const secById = new Map(layout.secondaries.map((s) => [s.beam.id, s]));
-  const secShape = new Map<string, BeamLoad[]>();
+  const secShape = new Map<string, Pieces>();
   for (const s of layout.secondaries) secShape.set(s.beam.id, []);
   const panels: SlabShapes['panels'] = [];
   for (const p of layout.panels) {
@@ -223,7 +269,7 @@ export function slabShapes(layout: Layout, oneWayAspect: number): SlabShapes {
       if (prof.length === 0) return;
       if (e.carrier.type === 'line') {
         const line = layout.lineById.get(e.carrier.lineId);
-        const out = lines.get(e.carrier.lineId);
+        const out = linePieces.get(e.carrier.lineId);
         if (line && out) addProfileToLine(line, prof, 1, out);
       } else {
         const sec = secById.get(e.carrier.id);
@@ -249,18 +295,19 @@ export function slabShapes(layout: Layout, oneWayAspect: number): SlabShapes {
   }
   const secondaries = new Map<string, { shape: BeamLoad[]; reactions: [number, number] }>();
   for (const s of layout.secondaries) {
-    const shape = secShape.get(s.beam.id) as BeamLoad[];
+    const shape = piecesToLoads(secShape.get(s.beam.id) as Pieces);
     const t = memberTerms(s.lengthM, shape);
     secondaries.set(s.beam.id, { shape, reactions: [t.ra, t.rb] });
     if (s.supports.length === 2) {
       s.supports.forEach((sup, k) => {
         const line = layout.lineById.get(sup.lineId);
-        const out = lines.get(sup.lineId);
+        const out = linePoints.get(sup.lineId);
         if (line && out) pointOnLine(line, sup.s, k === 0 ? t.ra : t.rb, out);
       });
     }
   }
-  for (const [id, list] of lines) lines.set(id, mergeLinearLoads(list));
+  const lines = new Map<string, BeamLoad[]>();
+  for (const [id, pc] of linePieces) lines.set(id, mergePieces(pc, linePoints.get(id) as BeamLoad[]));
   return { lines, secondaries, panels };
 }
 

@@ -42,26 +42,23 @@ function neighbourCounts(all: Panel[]): Map<Panel, { x: number; y: number }> {
     push(horiz, key(p.y2), p);
   }
   const overlaps = (a1: number, a2: number, b1: number, b2: number) => Math.min(a2, b2) - Math.max(a1, b1) > 1e-6;
+  // a neighbour across the line at v: on that line, beside p along it, and on the other side of p
+  const acrossX = (p: Panel, v: number) => {
+    const list = vert.get(key(v));
+    if (list)
+      for (const q of list)
+        if (q !== p && overlaps(p.y1, p.y2, q.y1, q.y2) && (q.x2 <= p.x1 + 1e-6 || q.x1 >= p.x2 - 1e-6)) return 1;
+    return 0;
+  };
+  const acrossY = (p: Panel, v: number) => {
+    const list = horiz.get(key(v));
+    if (list)
+      for (const q of list)
+        if (q !== p && overlaps(p.x1, p.x2, q.x1, q.x2) && (q.y2 <= p.y1 + 1e-6 || q.y1 >= p.y2 - 1e-6)) return 1;
+    return 0;
+  };
   const out = new Map<Panel, { x: number; y: number }>();
-  for (const p of all) {
-    let x = 0,
-      y = 0;
-    for (const xv of [p.x1, p.x2])
-      if (
-        (vert.get(key(xv)) ?? []).some(
-          (q) => q !== p && overlaps(p.y1, p.y2, q.y1, q.y2) && (q.x2 <= p.x1 + 1e-6 || q.x1 >= p.x2 - 1e-6),
-        )
-      )
-        x++;
-    for (const yv of [p.y1, p.y2])
-      if (
-        (horiz.get(key(yv)) ?? []).some(
-          (q) => q !== p && overlaps(p.x1, p.x2, q.x1, q.x2) && (q.y2 <= p.y1 + 1e-6 || q.y1 >= p.y2 - 1e-6),
-        )
-      )
-        y++;
-    out.set(p, { x, y });
-  }
+  for (const p of all) out.set(p, { x: acrossX(p, p.x1) + acrossX(p, p.x2), y: acrossY(p, p.y1) + acrossY(p, p.y2) });
   return out;
 }
 
@@ -211,14 +208,95 @@ export function columnSize(
   providedMm: [number, number],
   opts?: { alphaCc?: number },
 ): ColumnStoreySize {
-  const problems: { path: string; field: string; message: string }[] = [];
-  if (!(Number.isFinite(factoredKN) && factoredKN >= 0 && factoredKN <= 1e6))
-    problems.push({ path: 'factoredKN', field: 'factoredKN', message: 'must be a number of kN from 0 to 1 000 000' });
+  return columnSizer(family, fck, fy, steelRatio, minSideMm, providedMm, opts)(factoredKN);
+}
+
+/**
+ * columnSize for one column and material set, storey after storey: what does not depend on the
+ * load (the given section's capacity, the source text, the capacity per mm²) is worked once.
+ * Same units, results and errors as columnSize.
+ */
+export function columnSizer(
+  family: CodeFamily,
+  fck: number,
+  fy: number,
+  steelRatio: number,
+  minSideMm: number,
+  providedMm: [number, number],
+  opts?: { alphaCc?: number },
+): (factoredKN: number) => ColumnStoreySize {
+  const fixedProblems: { path: string; field: string; message: string }[] = [];
   if (!(Number.isFinite(minSideMm) && minSideMm >= 0 && minSideMm <= SIDE_MAX))
-    problems.push({ path: 'minSideMm', field: 'minSideMm', message: `must be a number of mm from 0 to ${SIDE_MAX}` });
+    fixedProblems.push({
+      path: 'minSideMm',
+      field: 'minSideMm',
+      message: `must be a number of mm from 0 to ${SIDE_MAX}`,
+    });
   if (!Array.isArray(providedMm) || providedMm.length !== 2)
-    problems.push({ path: 'providedMm', field: 'providedMm', message: 'must be [width, depth] in mm' });
-  if (problems.length) throw new StructuralInputError(problems);
+    fixedProblems.push({ path: 'providedMm', field: 'providedMm', message: 'must be [width, depth] in mm' });
+  let fixed: ColumnFixed | null = null;
+  return (factoredKN: number): ColumnStoreySize => {
+    const loadBad = !(Number.isFinite(factoredKN) && factoredKN >= 0 && factoredKN <= 1e6);
+    if (loadBad || fixedProblems.length)
+      throw new StructuralInputError([
+        ...(loadBad
+          ? [{ path: 'factoredKN', field: 'factoredKN', message: 'must be a number of kN from 0 to 1 000 000' }]
+          : []),
+        ...fixedProblems,
+      ]);
+    fixed ??= columnFixed(family, fck, fy, steelRatio, providedMm, opts);
+    const { key, provided, source, perMm2 } = fixed;
+    let requiredAreaMm2: number;
+    let side: number;
+    if (family !== 'EN1992') {
+      requiredAreaMm2 = factoredKN / perMm2;
+      side = Math.max(roundUp(Math.sqrt(requiredAreaMm2), SIDE_STEP), minSideMm);
+    } else {
+      let t = squareTables.get(key);
+      if (!t) {
+        t = new Float64Array(SIDE_MAX / SIDE_STEP + 1);
+        for (let k = 1; k < t.length; k++)
+          t[k] = columnCapacityKN(family, k * SIDE_STEP, k * SIDE_STEP, fck, fy, steelRatio, opts).value;
+        squareTables.set(key, t);
+      }
+      let k = 1;
+      while (k < t.length - 1 && t[k] < factoredKN) k++;
+      // side between the two tabulated squares, by linear interpolation of capacity
+      const s0 = (k - 1) * SIDE_STEP,
+        c0 = t[k - 1],
+        c1 = t[k];
+      const exact = c1 > c0 ? s0 + SIDE_STEP * Math.min(1, Math.max(0, (factoredKN - c0) / (c1 - c0))) : k * SIDE_STEP;
+      requiredAreaMm2 = exact * exact;
+      side = Math.max(k * SIDE_STEP, minSideMm);
+    }
+    return {
+      storey: 0,
+      factoredKN,
+      requiredAreaMm2,
+      requiredSideMm: side,
+      providedCapacityKN: provided.value,
+      utilisation: factoredKN / provided.value,
+      source,
+    };
+  };
+}
+
+interface ColumnFixed {
+  key: string;
+  provided: { value: number; source: string };
+  source: string;
+  perMm2: number;
+}
+
+/** The load-independent part of columnSize (see columnSizer). */
+function columnFixed(
+  family: CodeFamily,
+  fck: number,
+  fy: number,
+  steelRatio: number,
+  providedMm: [number, number],
+  opts?: { alphaCc?: number },
+): ColumnFixed {
   const key = `${family}|${fck}|${fy}|${steelRatio}|${opts?.alphaCc ?? ''}`;
   const provided = columnCapacityKN(family, providedMm[0], providedMm[1], fck, fy, steelRatio, opts);
   let source = sourceCache.get(key);
@@ -230,37 +308,6 @@ export function columnSize(
     source = `${generic}, steel ${(steelRatio * 100).toFixed(1)} % of gross area assumed`;
     sourceCache.set(key, source);
   }
-  let requiredAreaMm2: number;
-  let side: number;
-  if (family !== 'EN1992') {
-    const perMm2 = columnCapacityKN(family, 1, 1, fck, fy, steelRatio).value;
-    requiredAreaMm2 = factoredKN / perMm2;
-    side = Math.max(roundUp(Math.sqrt(requiredAreaMm2), SIDE_STEP), minSideMm);
-  } else {
-    let t = squareTables.get(key);
-    if (!t) {
-      t = new Float64Array(SIDE_MAX / SIDE_STEP + 1);
-      for (let k = 1; k < t.length; k++)
-        t[k] = columnCapacityKN(family, k * SIDE_STEP, k * SIDE_STEP, fck, fy, steelRatio, opts).value;
-      squareTables.set(key, t);
-    }
-    let k = 1;
-    while (k < t.length - 1 && t[k] < factoredKN) k++;
-    // side between the two tabulated squares, by linear interpolation of capacity
-    const s0 = (k - 1) * SIDE_STEP,
-      c0 = t[k - 1],
-      c1 = t[k];
-    const exact = c1 > c0 ? s0 + SIDE_STEP * Math.min(1, Math.max(0, (factoredKN - c0) / (c1 - c0))) : k * SIDE_STEP;
-    requiredAreaMm2 = exact * exact;
-    side = Math.max(k * SIDE_STEP, minSideMm);
-  }
-  return {
-    storey: 0,
-    factoredKN,
-    requiredAreaMm2,
-    requiredSideMm: side,
-    providedCapacityKN: provided.value,
-    utilisation: factoredKN / provided.value,
-    source,
-  };
+  const perMm2 = family !== 'EN1992' ? columnCapacityKN(family, 1, 1, fck, fy, steelRatio).value : 0;
+  return { key, provided, source, perMm2 };
 }
