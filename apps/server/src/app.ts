@@ -37,7 +37,9 @@ import { storageUnavailableHandler, type ObjectStore } from './storage';
 export interface AppDeps {
   config: Pick<Config, 'CLIENT_DIST' | 'TRUST_PROXY'> &
     Partial<AuthConfig> &
-    Partial<Pick<Config, 'NODE_ENV' | 'UPLOAD_MAX_BYTES' | 'DEV_OUTBOX_URL' | 'MAIL_OUTBOX_URL'>> &
+    Partial<
+      Pick<Config, 'NODE_ENV' | 'UPLOAD_MAX_BYTES' | 'DEV_OUTBOX_URL' | 'MAIL_OUTBOX_URL' | 'HEALTH_MAX_AGE_MS'>
+    > &
     /** The relay the health check greets; without SMTP_HOST it reports the mail relay as not set up. */
     Partial<Pick<Config, 'SMTP_HOST' | 'SMTP_PORT' | 'SMTP_SECURE'>> &
     Partial<PaymentsConfig>;
@@ -149,6 +151,7 @@ export function createApp({ config, db, logger, version = '0.1.0', store, jobs, 
         version,
         store,
         jobs,
+        maxAgeMs: config.HEALTH_MAX_AGE_MS,
         mailRelay: config.SMTP_HOST
           ? { host: config.SMTP_HOST, port: config.SMTP_PORT ?? 25, secure: config.SMTP_SECURE ?? false }
           : undefined,
