@@ -1,9 +1,12 @@
 import { createServer, type Server, type Socket } from 'node:net';
 import type { AddressInfo } from 'node:net';
+import express from 'express';
+import helmet from 'helmet';
 import request from 'supertest';
 import { healthSchema, type Health } from '@trabeate/contracts';
 import { createApp, type AppDeps } from '../../apps/server/src/app';
 import { createLogger } from '../../apps/server/src/core/logger';
+import { HELMET_OPTIONS } from '../../apps/server/src/core/security-headers';
 import { createDb } from '../../apps/server/src/db/db';
 import { createObjectStore } from '../../apps/server/src/storage';
 import { FAKE_S3_CREDENTIALS } from '../../scripts/fakes/s3';
@@ -273,6 +276,28 @@ describe('GET /api/health', () => {
     expect(echoed.headers['x-request-id']).toBe('probe-42');
     const hostile = await request(t.app).get('/api/health').set('X-Request-Id', '<script>');
     expect(hostile.headers['x-request-id']).not.toBe('<script>');
+  });
+
+  it('sends the same security headers as helmet itself does with our settings', async () => {
+    const reference = express();
+    reference.disable('x-powered-by');
+    reference.use(helmet(HELMET_OPTIONS));
+    reference.get('/api/health', (_req, res) => void res.json({}));
+    const securityHeaderNames = (res: request.Response) =>
+      Object.keys(res.headers)
+        .filter(
+          (h) =>
+            !['content-type', 'content-length', 'etag', 'date', 'connection', 'cache-control', 'x-request-id'].includes(
+              h,
+            ),
+        )
+        .sort();
+    const expected = await request(reference).get('/api/health');
+    const actual = await request(t.app).get('/api/health');
+    const names = securityHeaderNames(expected);
+    expect(names.length).toBeGreaterThan(8);
+    expect(securityHeaderNames(actual)).toEqual(names);
+    for (const h of names) expect({ h, value: actual.headers[h] }).toEqual({ h, value: expected.headers[h] });
   });
 
   it('sends security headers and hides the framework', async () => {
