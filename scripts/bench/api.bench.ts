@@ -145,7 +145,7 @@ benchBundledApi(
       );
       const cpuRow = (name: string, f: Figures) =>
         console.log(
-          `  ${name.padEnd(48)} ${f.cpuMs.toFixed(3).padStart(7)}  ${f.dbCpuMs.toFixed(3).padStart(10)}  ${f === reference ? '' : `${((reference.cpuMs / (f.cpuMs + f.dbCpuMs)) * 100).toFixed(0).padStart(3)} %`}`,
+          `  ${name.padEnd(48)} ${f.cpuMs.toFixed(3).padStart(7)}  ${f.dbCpuMs.toFixed(3).padStart(10)}  ${f === reference || f.cpuMs + f.dbCpuMs === 0 ? '' : `${((reference.cpuMs / (f.cpuMs + f.dbCpuMs)) * 100).toFixed(0).padStart(3)} %`}`,
         );
       cpuRow('bare Express route', reference);
       for (const [name, f] of results) cpuRow(name, f);
