@@ -128,10 +128,15 @@ export function nodeService(
       closeSync(fd);
     },
     ready: async () => {
-      await waitFor(name, async () => {
-        if (child?.exitCode !== null && child?.exitCode !== undefined) throw new Error(`${name} exited`);
-        return httpOk(readyUrl);
-      });
+      // Two minutes: on a machine busy with other work the bundled API has taken over 30 s to start.
+      await waitFor(
+        name,
+        async () => {
+          if (child?.exitCode !== null && child?.exitCode !== undefined) throw new Error(`${name} exited`);
+          return httpOk(readyUrl);
+        },
+        120_000,
+      );
       await new Promise((r) => setTimeout(r, 1000));
       if (child?.exitCode !== null) throw new Error(`${name} exited (port taken?); see ${logFile}`);
     },
