@@ -5,185 +5,168 @@
 // bundled server, so its memory is its own), beside reading the same objects straight from the
 // S3 fake. Targets: API peak RSS under 200 MB; ZIP throughput at least half the direct read.
 // BENCH_DRAWINGS, BENCH_ZIP_FILES and BENCH_ZIP_MIB make it smaller. Exits 1 when a target is missed.
-import { spawn } from 'node:child_process';
-import { createHmac, randomBytes, randomUUID } from 'node:crypto';
-import { readdirSync, readFileSync, readlinkSync } from 'node:fs';
+import { randomUUID } from 'node:crypto';
 import { request } from 'node:http';
 import autocannon from 'autocannon';
-import { apiService, databaseStep, freePort, postgresService, startAll } from '../lib/services';
-import { Cluster } from '../lib/postgres';
 import { s3Service } from '../lib/fake-services';
-import { log, run } from '../lib/proc';
+import { log } from '../lib/proc';
+import { createDb } from '../../apps/server/src/db/db';
 import { createObjectStore, type ObjectStore } from '../../apps/server/src/storage';
 import { DEMO } from '../../seeds/demo';
 import { pdfLikeStream } from './lib/generate';
+import {
+  bareExpressService,
+  benchBundledApi,
+  listenerPid,
+  rssOf,
+  sessionCookie,
+  type BenchContext,
+} from './lib/harness';
 
 const DRAWINGS = Number(process.env.BENCH_DRAWINGS ?? 2000);
 const ZIP_FILES = Number(process.env.BENCH_ZIP_FILES ?? 200);
 const ZIP_MIB = Number(process.env.BENCH_ZIP_MIB ?? 1000);
 const MiB = 1024 * 1024;
-const SECRET = randomBytes(32).toString('hex');
 const PROJECT = DEMO.projects.kestrel.id;
 
-async function main(): Promise<number> {
-  const ports = {
-    postgres: await freePort(5462),
-    api: await freePort(4340),
-    s3: await freePort(4342),
-    bare: await freePort(4344),
-  };
-  const cluster = new Cluster({ name: `pg-bench-register-${process.pid}`, port: ports.postgres, fast: true });
-  const databaseUrl = cluster.url('trabeate_bench');
-  const s3Env = {
-    S3_ENDPOINT: `http://127.0.0.1:${ports.s3}`,
-    S3_REGION: 'us-east-1',
-    S3_BUCKET: 'trabeate',
-    S3_ACCESS_KEY_ID: 'S3RVER',
-    S3_SECRET_ACCESS_KEY: 'S3RVER',
-    S3_FORCE_PATH_STYLE: 'true',
-  };
-  log('bench', 'bundling the server (npm run build:server)…');
-  run('npm', ['run', 'build:server']);
-  const api = apiService(
-    {
+const s3Env = (port: number) => ({
+  S3_ENDPOINT: `http://127.0.0.1:${port}`,
+  S3_REGION: 'us-east-1',
+  S3_BUCKET: 'trabeate',
+  S3_ACCESS_KEY_ID: 'S3RVER',
+  S3_SECRET_ACCESS_KEY: 'S3RVER',
+  S3_FORCE_PATH_STYLE: 'true',
+});
+
+benchBundledApi(
+  {
+    name: 'register',
+    fastDatabase: true,
+    extraPorts: ['s3', 'bare'],
+    apiEnv: (ctx) => ({
       NODE_ENV: 'test',
-      DATABASE_URL: databaseUrl,
+      DATABASE_URL: ctx.databaseUrl,
       LOG_LEVEL: 'warn',
-      SESSION_SECRET: SECRET,
-      PUBLIC_URL: `http://127.0.0.1:${ports.api}`,
-      ...s3Env,
+      PUBLIC_URL: ctx.apiUrl,
+      ...s3Env(ctx.ports.s3),
       SMTP_HOST: '127.0.0.1',
       SMTP_PORT: '9',
-    },
-    ports.api,
-    { bundle: 'dist/server/main.js' },
-  );
-  const bare = spawn(
-    process.execPath,
-    [
-      '-e',
-      `const e=require('express');const a=e();a.get('/bare',(q,r)=>r.json({items:[],total:0}));a.listen(${ports.bare},'127.0.0.1')`,
-    ],
-    { stdio: 'inherit' },
-  );
-  let stopAll: (() => Promise<void>) | undefined;
-  const store = createObjectStore({
-    endpoint: s3Env.S3_ENDPOINT,
-    region: 'us-east-1',
-    bucket: 'trabeate',
-    credentials: { accessKeyId: 'S3RVER', secretAccessKey: 'S3RVER' },
-    forcePathStyle: true,
-  });
-  try {
-    stopAll = await startAll([
-      postgresService(cluster),
-      databaseStep(cluster, 'trabeate_bench', { seed: true }),
-      s3Service({ port: ports.s3 }),
-      api,
-    ]);
-    await store.ensureBucket();
-    const apiPid = findApiPid(ports.api);
-    const { createDb } = await import('../../apps/server/src/db/db');
-    const db = createDb(databaseUrl, 2);
+    }),
+    services: (ctx) => [s3Service({ port: ctx.ports.s3 }), bareExpressService(ctx.ports.bare, { items: [], total: 0 })],
+  },
+  async (ctx) => {
+    const store = createObjectStore({
+      endpoint: s3Env(ctx.ports.s3).S3_ENDPOINT,
+      region: 'us-east-1',
+      bucket: 'trabeate',
+      credentials: { accessKeyId: 'S3RVER', secretAccessKey: 'S3RVER' },
+      forcePathStyle: true,
+    });
+    try {
+      await store.ensureBucket();
+      const apiPid = listenerPid(ctx.ports.api);
+      const db = createDb(ctx.databaseUrl, 2);
 
-    // 1. The register: DRAWINGS drawings, 5 revisions each (4 superseded, the 5th in some state).
-    let t0 = performance.now();
-    await db.raw(
-      `insert into drawings (id, firm_id, project_id, number, title, stage_key, sheet_size, scale, created_by)
-       select gen_random_uuid(), ?, ?, 'B-' || lpad(g::text, 5, '0'), 'Bench sheet ' || g,
-         (array['column_layout','beam_framing','slab_panels','stairs','foundations'])[1 + g % 5],
-         (array['A0','A1','A2','A3','A4'])[1 + g % 5], '1:100', ?
-       from generate_series(1, ?) g`,
-      [DEMO.firm.id, PROJECT, DEMO.users.engineerA.id, DRAWINGS],
-    );
-    await db.raw(
-      `insert into drawing_revisions (drawing_id, project_id, seq, series, code, suitability, purpose, revision_date, state, drawn_by, issued_at)
-       select d.id, d.project_id, s, 'preliminary', 'P0' || s, (array['S1','S2','S3','S4'])[1 + (s + length(d.number)) % 4],
-         'information', date '2026-01-01' + (s * 7 + (substr(d.number, 3)::int % 60)),
-         case when s < 5 then 'superseded' else (array['issued','approved','checked','draft'])[1 + substr(d.number, 3)::int % 4] end,
-         ?, case when s < 5 then now() else null end
-       from drawings d cross join generate_series(1, 5) s where d.number like 'B-%'`,
-      [DEMO.users.engineerA.id],
-    );
-    await db.raw('analyze');
-    log(
-      'bench',
-      `register of ${DRAWINGS} drawings x 5 revisions made in ${((performance.now() - t0) / 1000).toFixed(1)} s`,
-    );
+      // 1. The register: DRAWINGS drawings, 5 revisions each (4 superseded, the 5th in some state).
+      let t0 = performance.now();
+      await db.raw(
+        `insert into drawings (id, firm_id, project_id, number, title, stage_key, sheet_size, scale, created_by)
+         select gen_random_uuid(), ?, ?, 'B-' || lpad(g::text, 5, '0'), 'Bench sheet ' || g,
+           (array['column_layout','beam_framing','slab_panels','stairs','foundations'])[1 + g % 5],
+           (array['A0','A1','A2','A3','A4'])[1 + g % 5], '1:100', ?
+         from generate_series(1, ?) g`,
+        [DEMO.firm.id, PROJECT, DEMO.users.engineerA.id, DRAWINGS],
+      );
+      await db.raw(
+        `insert into drawing_revisions (drawing_id, project_id, seq, series, code, suitability, purpose, revision_date, state, drawn_by, issued_at)
+         select d.id, d.project_id, s, 'preliminary', 'P0' || s, (array['S1','S2','S3','S4'])[1 + (s + length(d.number)) % 4],
+           'information', date '2026-01-01' + (s * 7 + (substr(d.number, 3)::int % 60)),
+           case when s < 5 then 'superseded' else (array['issued','approved','checked','draft'])[1 + substr(d.number, 3)::int % 4] end,
+           ?, case when s < 5 then now() else null end
+         from drawings d cross join generate_series(1, 5) s where d.number like 'B-%'`,
+        [DEMO.users.engineerA.id],
+      );
+      await db.raw('analyze');
+      log(
+        'bench',
+        `register of ${DRAWINGS} drawings x 5 revisions made in ${((performance.now() - t0) / 1000).toFixed(1)} s`,
+      );
 
-    const auth = await signedInCookies(ports.api, db, DEMO.users.principal);
-    const registerPath = `/api/projects/${PROJECT}/drawings?sort=date&direction=desc&stageKey=beam_framing&state=issued&page=1&pageSize=25`;
-    const check = await fetch(`http://127.0.0.1:${ports.api}${registerPath}`, { headers: { cookie: auth.cookie } });
-    const first = (await check.json()) as { total: number; items: unknown[] };
-    if (check.status !== 200 || first.items.length === 0) throw new Error(`register answered ${check.status}`);
-    const load = (url: string, headers: Record<string, string> = {}) =>
-      autocannon({ url, connections: 10, duration: 10, headers });
-    const bareResult = await load(`http://127.0.0.1:${ports.bare}/bare`);
-    const registerResult = await load(`http://127.0.0.1:${ports.api}${registerPath}`, { cookie: auth.cookie });
+      const auth = await signedInCookies(ctx, db, DEMO.users.principal);
+      const registerPath = `/api/projects/${PROJECT}/drawings?sort=date&direction=desc&stageKey=beam_framing&state=issued&page=1&pageSize=25`;
+      const check = await fetch(`${ctx.apiUrl}${registerPath}`, { headers: { cookie: auth.cookie } });
+      const first = (await check.json()) as { total: number; items: unknown[] };
+      if (check.status !== 200 || first.items.length === 0) throw new Error(`register answered ${check.status}`);
+      const load = (url: string, headers: Record<string, string> = {}) =>
+        autocannon({ url, connections: 10, duration: 10, headers });
+      const bareResult = await load(`http://127.0.0.1:${ctx.ports.bare}/bare`);
+      const registerResult = await load(`${ctx.apiUrl}${registerPath}`, { cookie: auth.cookie });
 
-    // 2. A transmittal of ZIP_FILES files totalling ZIP_MIB MiB, stored in the S3 fake.
-    const fileBytes = Math.floor((ZIP_MIB * MiB) / ZIP_FILES);
-    t0 = performance.now();
-    const transmittalId = await makeTransmittal(db, store, fileBytes);
-    log(
-      'bench',
-      `${ZIP_FILES} files of ${(fileBytes / MiB).toFixed(1)} MiB stored in ${((performance.now() - t0) / 1000).toFixed(1)} s`,
-    );
-    const keys: string[] = (
-      await db('revision_files as f')
-        .join('transmittal_items as i', 'i.revision_id', 'f.revision_id')
-        .where('i.transmittal_id', transmittalId)
-        .select('f.object_key')
-    ).map((r: { object_key: string }) => r.object_key);
-    await db.destroy();
+      // 2. A transmittal of ZIP_FILES files totalling ZIP_MIB MiB, stored in the S3 fake.
+      const fileBytes = Math.floor((ZIP_MIB * MiB) / ZIP_FILES);
+      t0 = performance.now();
+      const transmittalId = await makeTransmittal(db, store, fileBytes);
+      log(
+        'bench',
+        `${ZIP_FILES} files of ${(fileBytes / MiB).toFixed(1)} MiB stored in ${((performance.now() - t0) / 1000).toFixed(1)} s`,
+      );
+      const keys: string[] = (
+        await db('revision_files as f')
+          .join('transmittal_items as i', 'i.revision_id', 'f.revision_id')
+          .where('i.transmittal_id', transmittalId)
+          .select('f.object_key')
+      ).map((r: { object_key: string }) => r.object_key);
+      await db.destroy();
 
-    t0 = performance.now();
-    let directBytes = 0;
-    for (const key of keys) {
-      const o = await store.getStream(key);
-      for await (const c of o.body) directBytes += (c as Buffer).length;
+      t0 = performance.now();
+      let directBytes = 0;
+      for (const key of keys) {
+        const o = await store.getStream(key);
+        for await (const c of o.body) directBytes += (c as Buffer).length;
+      }
+      const directSeconds = (performance.now() - t0) / 1000;
+
+      const before = rssOf(apiPid).rss;
+      let sampled = before;
+      const sampler = setInterval(() => (sampled = Math.max(sampled, rssOf(apiPid).rss)), 50);
+      t0 = performance.now();
+      const zip = await download(
+        ctx.ports.api,
+        `/api/projects/${PROJECT}/transmittals/${transmittalId}/zip`,
+        auth.cookie,
+      );
+      const zipSeconds = (performance.now() - t0) / 1000;
+      clearInterval(sampler);
+      const peakMb = rssOf(apiPid).hwm / 1e6;
+      if (zip.status !== 200) throw new Error(`the ZIP answered ${zip.status}`);
+      const ratio = zip.bytes / zipSeconds / (directBytes / directSeconds);
+
+      const lat = (r: autocannon.Result) =>
+        `${r.requests.average.toFixed(0)} req/s, latency p50 ${r.latency.p50} ms, p99 ${r.latency.p99} ms, errors ${r.errors + r.non2xx}`;
+      console.log('\nRegister benchmark');
+      console.log(
+        `  register             ${DRAWINGS} drawings x 5 revisions; first page: ${first.items.length} of ${first.total} (beam framing, issued, newest date first)`,
+      );
+      console.log(`  bare Express route   ${lat(bareResult)}`);
+      console.log(`  register first page  ${lat(registerResult)}`);
+      console.log(
+        `  ZIP                  ${ZIP_FILES} files, ${(zip.bytes / MiB).toFixed(0)} MiB (Content-Length ${zip.contentLength})`,
+      );
+      console.log(`  direct from S3 fake  ${(directBytes / MiB / directSeconds).toFixed(1)} MiB/s`);
+      console.log(
+        `  ZIP through the API  ${(zip.bytes / MiB / zipSeconds).toFixed(1)} MiB/s (${(ratio * 100).toFixed(0)} % of direct; target >= 50 %)`,
+      );
+      console.log(
+        `  API peak RSS         ${peakMb.toFixed(1)} MB (VmHWM; sampled ${(sampled / 1e6).toFixed(1)} MB, ${(before / 1e6).toFixed(1)} MB before; target < 200 MB)`,
+      );
+      const ok = peakMb < 200 && ratio >= 0.5 && zip.bytes >= directBytes;
+      console.log(ok ? '  result               targets met' : '  result               TARGET MISSED');
+      return ok;
+    } finally {
+      store.close();
     }
-    const directSeconds = (performance.now() - t0) / 1000;
-
-    const before = rssOf(apiPid).rss;
-    let sampled = before;
-    const sampler = setInterval(() => (sampled = Math.max(sampled, rssOf(apiPid).rss)), 50);
-    t0 = performance.now();
-    const zip = await download(ports.api, `/api/projects/${PROJECT}/transmittals/${transmittalId}/zip`, auth.cookie);
-    const zipSeconds = (performance.now() - t0) / 1000;
-    clearInterval(sampler);
-    const peakMb = rssOf(apiPid).hwm / 1e6;
-    if (zip.status !== 200) throw new Error(`the ZIP answered ${zip.status}`);
-    const ratio = zip.bytes / zipSeconds / (directBytes / directSeconds);
-
-    const lat = (r: autocannon.Result) =>
-      `${r.requests.average.toFixed(0)} req/s, latency p50 ${r.latency.p50} ms, p99 ${r.latency.p99} ms, errors ${r.errors + r.non2xx}`;
-    console.log('\nRegister benchmark');
-    console.log(
-      `  register             ${DRAWINGS} drawings x 5 revisions; first page: ${first.items.length} of ${first.total} (beam framing, issued, newest date first)`,
-    );
-    console.log(`  bare Express route   ${lat(bareResult)}`);
-    console.log(`  register first page  ${lat(registerResult)}`);
-    console.log(
-      `  ZIP                  ${ZIP_FILES} files, ${(zip.bytes / MiB).toFixed(0)} MiB (Content-Length ${zip.contentLength})`,
-    );
-    console.log(`  direct from S3 fake  ${(directBytes / MiB / directSeconds).toFixed(1)} MiB/s`);
-    console.log(
-      `  ZIP through the API  ${(zip.bytes / MiB / zipSeconds).toFixed(1)} MiB/s (${(ratio * 100).toFixed(0)} % of direct; target >= 50 %)`,
-    );
-    console.log(
-      `  API peak RSS         ${peakMb.toFixed(1)} MB (VmHWM; sampled ${(sampled / 1e6).toFixed(1)} MB, ${(before / 1e6).toFixed(1)} MB before; target < 200 MB)`,
-    );
-    const ok = peakMb < 200 && ratio >= 0.5 && zip.bytes >= directBytes;
-    console.log(ok ? '  result               targets met' : '  result               TARGET MISSED');
-    return ok ? 0 : 1;
-  } finally {
-    store.close();
-    bare.kill();
-    await stopAll?.();
-    cluster.remove();
-  }
-}
+  },
+);
 
 /** ZIP_FILES issued revisions, each with one stored file, carried by one transmittal. */
 async function makeTransmittal(db: import('knex').Knex, store: ObjectStore, fileBytes: number): Promise<string> {
@@ -259,74 +242,14 @@ function download(port: number, path: string, cookie: string) {
   });
 }
 
-/** The API child's pid: the process listening on its port (found through /proc, Linux only). */
-function findApiPid(port: number): number {
-  const hexPort = port.toString(16).toUpperCase().padStart(4, '0');
-  const inode = readFileSync('/proc/net/tcp', 'utf8')
-    .split('\n')
-    .map((l) => l.trim().split(/\s+/))
-    .find((f) => f[1]?.endsWith(`:${hexPort}`) && f[3] === '0A')?.[9];
-  if (!inode) throw new Error('cannot find the API socket');
-  for (const pid of readdirSync('/proc').filter((d) => /^\d+$/.test(d))) {
-    try {
-      for (const fd of readdirSync(`/proc/${pid}/fd`)) {
-        if (readlinkSync(`/proc/${pid}/fd/${fd}`) === `socket:[${inode}]`) return Number(pid);
-      }
-    } catch {
-      // a process we may not look into, or one that ended
-    }
-  }
-  throw new Error('cannot find the API process');
-}
-
-function rssOf(pid: number): { rss: number; hwm: number } {
-  const status = readFileSync(`/proc/${pid}/status`, 'utf8');
-  const kb = (name: string) => Number(new RegExp(`${name}:\\s+(\\d+) kB`).exec(status)?.[1] ?? 0) * 1024;
-  return { rss: kb('VmRSS'), hwm: kb('VmHWM') };
-}
-
 /** A session row as the store keeps it and its signed cookie (the bench has no identity provider). */
 async function signedInCookies(
-  port: number,
+  ctx: BenchContext,
   db: import('knex').Knex,
   u: { id: string; email: string; name: string },
 ): Promise<{ cookie: string }> {
-  const sid = randomBytes(24).toString('base64url');
-  const expires = new Date(Date.now() + 3_600_000);
-  await db('sessions').insert({
-    sid,
-    sess: JSON.stringify({
-      cookie: {
-        originalMaxAge: 3_600_000,
-        expires: expires.toISOString(),
-        httpOnly: true,
-        path: '/',
-        sameSite: 'lax',
-        secure: false,
-      },
-      auth: {
-        userId: u.id,
-        issuer: 'bench',
-        subject: 'bench',
-        email: u.email,
-        name: u.name,
-        signedInAt: Date.now(),
-        idToken: '',
-      },
-    }),
-    expire: expires,
-  });
-  const signed = `s:${sid}.${createHmac('sha256', SECRET).update(sid).digest('base64').replace(/=+$/, '')}`;
-  const cookie = `trabeate.sid=${encodeURIComponent(signed)}`;
-  const me = await fetch(`http://127.0.0.1:${port}/api/me`, { headers: { cookie } });
+  const cookie = await sessionCookie(db, ctx.secret, u);
+  const me = await fetch(`${ctx.apiUrl}/api/me`, { headers: { cookie } });
   if (me.status !== 200) throw new Error(`GET /api/me answered ${me.status}`);
   return { cookie };
 }
-
-main().then(
-  (code) => process.exit(code),
-  (err) => {
-    console.error(err);
-    process.exit(1);
-  },
-);

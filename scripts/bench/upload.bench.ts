@@ -2,64 +2,53 @@
 // so its RSS is its own) into the local S3 fake, and compares the throughput with copying the same
 // bytes straight to the fake over loopback. Targets: API peak RSS under 200 MB; throughput at least
 // half the direct copy. BENCH_BYTES changes the size. Exits 1 when a target is missed.
-import { createHmac, randomBytes } from 'node:crypto';
-import { readdirSync, readFileSync, readlinkSync } from 'node:fs';
+import { randomBytes } from 'node:crypto';
 import { request } from 'node:http';
 import { Readable } from 'node:stream';
-import { apiService, freePort, postgresService, databaseStep, startAll } from '../lib/services';
-import { Cluster } from '../lib/postgres';
-import { log, run } from '../lib/proc';
 import { s3Service } from '../lib/fake-services';
+import { log } from '../lib/proc';
+import { createDb } from '../../apps/server/src/db/db';
 import { createObjectStore } from '../../apps/server/src/storage';
 import { DEMO } from '../../seeds/demo';
 import { generatedSha256, pdfLikeStream } from './lib/generate';
+import { benchBundledApi, listenerPid, rssOf, sessionCookie } from './lib/harness';
 
 const BYTES = Number(process.env.BENCH_BYTES ?? 1024 * 1024 * 1024);
 const MiB = 1024 * 1024;
-const SECRET = randomBytes(32).toString('hex');
 
-async function main(): Promise<number> {
-  const ports = { postgres: await freePort(5452), api: await freePort(4330), s3: await freePort(4332) };
-  const cluster = new Cluster({ name: `pg-bench-${process.pid}`, port: ports.postgres, fast: true });
-  const s3 = s3Service({ port: ports.s3 });
-  const databaseUrl = cluster.url('trabeate_bench');
-  const s3Env = {
-    S3_ENDPOINT: `http://127.0.0.1:${ports.s3}`,
-    S3_REGION: 'us-east-1',
-    S3_BUCKET: 'trabeate',
-    S3_ACCESS_KEY_ID: 'S3RVER',
-    S3_SECRET_ACCESS_KEY: 'S3RVER',
-    S3_FORCE_PATH_STYLE: 'true',
-  };
-  const api = apiService(
-    {
+const s3Env = (port: number) => ({
+  S3_ENDPOINT: `http://127.0.0.1:${port}`,
+  S3_REGION: 'us-east-1',
+  S3_BUCKET: 'trabeate',
+  S3_ACCESS_KEY_ID: 'S3RVER',
+  S3_SECRET_ACCESS_KEY: 'S3RVER',
+  S3_FORCE_PATH_STYLE: 'true',
+});
+
+benchBundledApi(
+  {
+    name: 'upload',
+    fastDatabase: true,
+    extraPorts: ['s3'],
+    apiEnv: (ctx) => ({
       NODE_ENV: 'test',
-      DATABASE_URL: databaseUrl,
+      DATABASE_URL: ctx.databaseUrl,
       LOG_LEVEL: 'warn',
-      SESSION_SECRET: SECRET,
-      PUBLIC_URL: `http://127.0.0.1:${ports.api}`,
+      PUBLIC_URL: ctx.apiUrl,
       UPLOAD_MAX_BYTES: String(BYTES + MiB),
-      ...s3Env,
+      ...s3Env(ctx.ports.s3),
       // No mail is sent in the bench; an unreachable port only keeps the worker idle.
       SMTP_HOST: '127.0.0.1',
       SMTP_PORT: '9',
-    },
-    ports.api,
-    { bundle: buildServerBundle() },
-  );
-  let stopAll: (() => Promise<void>) | undefined;
-  try {
-    stopAll = await startAll([
-      postgresService(cluster),
-      databaseStep(cluster, 'trabeate_bench', { seed: true }),
-      s3,
-      api,
-    ]);
-    const apiPid = findApiPid(ports.api);
+    }),
+    services: (ctx) => [s3Service({ port: ctx.ports.s3 })],
+  },
+  async (ctx) => {
+    const apiPid = listenerPid(ctx.ports.api);
 
     // 1. The reference: the same bytes copied straight to the S3 fake over loopback.
     const store = createObjectStore({
-      endpoint: s3Env.S3_ENDPOINT,
+      endpoint: s3Env(ctx.ports.s3).S3_ENDPOINT,
       region: 'us-east-1',
       bucket: 'trabeate',
       credentials: { accessKeyId: 'S3RVER', secretAccessKey: 'S3RVER' },
@@ -72,12 +61,12 @@ async function main(): Promise<number> {
     log('bench', `direct to S3: ${fmt(BYTES / MiB / directSeconds)} MiB/s (${directSeconds.toFixed(1)} s)`);
 
     // 2. Through the API, signed in as the engineer assigned to the stage.
-    const cookies = await signedInCookies(ports.api, databaseUrl);
+    const cookies = await signedInCookies(ctx.apiUrl, ctx.databaseUrl, ctx.secret);
     const baselineRss = rssOf(apiPid).rss;
     let sampledPeak = baselineRss;
     const sampler = setInterval(() => (sampledPeak = Math.max(sampledPeak, rssOf(apiPid).rss)), 50);
     t0 = performance.now();
-    const answer = await uploadThroughApi(ports.api, cookies);
+    const answer = await uploadThroughApi(ctx.ports.api, cookies);
     const apiSeconds = (performance.now() - t0) / 1000;
     clearInterval(sampler);
     const { hwm } = rssOf(apiPid);
@@ -102,77 +91,23 @@ async function main(): Promise<number> {
     const ok = peakMb < 200 && ratio >= 0.5 && body.sha256 === expected;
     console.log(ok ? '  result               targets met' : '  result               TARGET MISSED');
     store.close();
-    return ok ? 0 : 1;
-  } finally {
-    await stopAll?.();
-    cluster.remove();
-  }
-}
-
-/** The API child's pid: the process listening on its port (found through /proc, Linux only). */
-function findApiPid(port: number): number {
-  const hexPort = port.toString(16).toUpperCase().padStart(4, '0');
-  const inode = readFileSync('/proc/net/tcp', 'utf8')
-    .split('\n')
-    .map((l) => l.trim().split(/\s+/))
-    .find((f) => f[1]?.endsWith(`:${hexPort}`) && f[3] === '0A')?.[9];
-  if (!inode) throw new Error('cannot find the API socket');
-  for (const pid of readdirSync('/proc').filter((d) => /^\d+$/.test(d))) {
-    try {
-      for (const fd of readdirSync(`/proc/${pid}/fd`)) {
-        if (readlinkSync(`/proc/${pid}/fd/${fd}`) === `socket:[${inode}]`) return Number(pid);
-      }
-    } catch {
-      // a process we may not look into, or one that ended
-    }
-  }
-  throw new Error('cannot find the API process');
-}
-
-function rssOf(pid: number): { rss: number; hwm: number } {
-  const status = readFileSync(`/proc/${pid}/status`, 'utf8');
-  const kb = (name: string) => Number(new RegExp(`${name}:\\s+(\\d+) kB`).exec(status)?.[1] ?? 0) * 1024;
-  return { rss: kb('VmRSS'), hwm: kb('VmHWM') };
-}
+    return ok;
+  },
+);
 
 /**
  * A session for the assigned engineer, written the way the session store keeps it, with the
  * signed cookie express-session expects; then the CSRF cookie from GET /api/me. (The bench has no
  * identity provider; tests cover the real sign-in.)
  */
-async function signedInCookies(port: number, databaseUrl: string): Promise<{ cookie: string; xsrf: string }> {
-  const { createDb } = await import('../../apps/server/src/db/db');
+async function signedInCookies(
+  apiUrl: string,
+  databaseUrl: string,
+  secret: string,
+): Promise<{ cookie: string; xsrf: string }> {
   const db = createDb(databaseUrl, 1);
-  const sid = randomBytes(24).toString('base64url');
-  const expires = new Date(Date.now() + 3_600_000);
-  const u = DEMO.users.engineerA;
-  await db('sessions').insert({
-    sid,
-    sess: JSON.stringify({
-      cookie: {
-        originalMaxAge: 3_600_000,
-        expires: expires.toISOString(),
-        httpOnly: true,
-        path: '/',
-        sameSite: 'lax',
-        secure: false,
-      },
-      auth: {
-        userId: u.id,
-        issuer: 'bench',
-        subject: 'bench',
-        email: u.email,
-        name: u.name,
-        signedInAt: Date.now(),
-        idToken: '',
-      },
-    }),
-    expire: expires,
-  });
-  await db.destroy();
-  const signed = `s:${sid}.${createHmac('sha256', SECRET).update(sid).digest('base64').replace(/=+$/, '')}`;
-  const session = `trabeate.sid=${encodeURIComponent(signed)}`;
-  const me = await fetch(`http://127.0.0.1:${port}/api/me`, { headers: { cookie: session } });
+  const session = await sessionCookie(db, secret, DEMO.users.engineerA).finally(() => db.destroy());
+  const me = await fetch(`${apiUrl}/api/me`, { headers: { cookie: session } });
   if (me.status !== 200) throw new Error(`GET /api/me answered ${me.status}`);
   const xsrf = /XSRF-TOKEN=([^;]+)/.exec(me.headers.get('set-cookie') ?? '')?.[1];
   if (!xsrf) throw new Error('no XSRF-TOKEN cookie');
@@ -224,18 +159,3 @@ function uploadThroughApi(
 }
 
 const fmt = (n: number) => n.toFixed(1);
-
-main().then(
-  (code) => process.exit(code),
-  (err) => {
-    console.error(err);
-    process.exit(1);
-  },
-);
-
-/** The bench measures the API as production runs it: the bundled server, not TypeScript via tsx. */
-function buildServerBundle(): string {
-  log('bench', 'bundling the server (npm run build:server)…');
-  run('npm', ['run', 'build:server']);
-  return 'dist/server/main.js';
-}

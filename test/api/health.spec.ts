@@ -1,9 +1,12 @@
 import { createServer, type Server, type Socket } from 'node:net';
 import type { AddressInfo } from 'node:net';
+import express from 'express';
+import helmet from 'helmet';
 import request from 'supertest';
 import { healthSchema, type Health } from '@trabeate/contracts';
 import { createApp, type AppDeps } from '../../apps/server/src/app';
 import { createLogger } from '../../apps/server/src/core/logger';
+import { HELMET_OPTIONS } from '../../apps/server/src/core/security-headers';
 import { createDb } from '../../apps/server/src/db/db';
 import { createObjectStore } from '../../apps/server/src/storage';
 import { FAKE_S3_CREDENTIALS } from '../../scripts/fakes/s3';
@@ -223,6 +226,49 @@ describe('GET /api/health', () => {
     expect(body.dependencies.mailRelay.status).toBe('not_configured');
   });
 
+  it('answers calls close together from one check of the dependencies, and says when it was made', async () => {
+    let probes = 0;
+    const counted = { ...t.store, probe: (ms: number) => (probes++, t.store.probe(ms)) };
+    const app = appWith({ store: counted }, { HEALTH_MAX_AGE_MS: 60_000 });
+    const answers = await Promise.all([health(app), health(app), health(app)]);
+    const later = await health(app);
+    expect(probes).toBe(1);
+    const checkedAt = answers[0].body.checkedAt;
+    expect(checkedAt).toMatch(/^\d{4}-\d\d-\d\dT/);
+    for (const { res, body } of [...answers, later]) {
+      expect(res.status).toBe(200);
+      expect(body.checkedAt).toBe(checkedAt);
+      expect(body.ageMs).toBeGreaterThanOrEqual(0);
+    }
+    expect(later.body.ageMs!).toBeGreaterThanOrEqual(answers[0].body.ageMs!);
+  });
+
+  it('asks the dependencies again once the last check is older than HEALTH_MAX_AGE_MS, and sees an outage then', async () => {
+    const files = await fakeObjectStore();
+    try {
+      const app = appWith({ store: files.store }, { HEALTH_MAX_AGE_MS: 100 });
+      const first = await health(app);
+      expect(first.body.dependencies.objectStorage.status).toBe('up');
+      await files.s3.stop();
+      await new Promise((r) => setTimeout(r, 150));
+      const second = await health(app);
+      expect(second.body.status).toBe('degraded');
+      expect(second.body.dependencies.objectStorage.status).toBe('down');
+      expect(Date.parse(second.body.checkedAt!)).toBeGreaterThan(Date.parse(first.body.checkedAt!));
+    } finally {
+      files.store.close();
+    }
+  });
+
+  it('with HEALTH_MAX_AGE_MS 0, probes on every call', async () => {
+    let probes = 0;
+    const counted = { ...t.store, probe: (ms: number) => (probes++, t.store.probe(ms)) };
+    const app = appWith({ store: counted }, { HEALTH_MAX_AGE_MS: 0 });
+    await health(app);
+    await health(app);
+    expect(probes).toBe(2);
+  });
+
   it('gives every answer a request id, echoing a sane incoming one', async () => {
     const fresh = await request(t.app).get('/api/health');
     expect(fresh.headers['x-request-id']).toMatch(/^[0-9a-f-]{36}$/);
@@ -230,6 +276,28 @@ describe('GET /api/health', () => {
     expect(echoed.headers['x-request-id']).toBe('probe-42');
     const hostile = await request(t.app).get('/api/health').set('X-Request-Id', '<script>');
     expect(hostile.headers['x-request-id']).not.toBe('<script>');
+  });
+
+  it('sends the same security headers as helmet itself does with our settings', async () => {
+    const reference = express();
+    reference.disable('x-powered-by');
+    reference.use(helmet(HELMET_OPTIONS));
+    reference.get('/api/health', (_req, res) => void res.json({}));
+    const securityHeaderNames = (res: request.Response) =>
+      Object.keys(res.headers)
+        .filter(
+          (h) =>
+            !['content-type', 'content-length', 'etag', 'date', 'connection', 'cache-control', 'x-request-id'].includes(
+              h,
+            ),
+        )
+        .sort();
+    const expected = await request(reference).get('/api/health');
+    const actual = await request(t.app).get('/api/health');
+    const names = securityHeaderNames(expected);
+    expect(names.length).toBeGreaterThan(8);
+    expect(securityHeaderNames(actual)).toEqual(names);
+    for (const h of names) expect({ h, value: actual.headers[h] }).toEqual({ h, value: expected.headers[h] });
   });
 
   it('sends security headers and hides the framework', async () => {

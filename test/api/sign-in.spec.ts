@@ -77,6 +77,29 @@ describe('signing in through the local identity provider', () => {
     expect(xsrf).not.toMatch(/HttpOnly/i);
   });
 
+  it('keeps a valid XSRF-TOKEN on later /api/me calls, and replaces a missing or tampered one', async () => {
+    const api = request.agent(t.app);
+    const steps = await signIn(api, t.identity!, DEMO.users.principal.email);
+    const issued = cookieNamed(steps.callback!, 'XSRF-TOKEN')!.split(';')[0];
+    const again = await api.get('/api/me');
+    expect(again.status).toBe(200);
+    expect(cookieNamed(again, 'XSRF-TOKEN')).toBeUndefined();
+    const token = decodeURIComponent(issued.slice('XSRF-TOKEN='.length));
+    expect(xsrfToken(api)).toBe(token);
+
+    const session = cookieNamed(steps.callback!, 'trabeate.sid')!.split(';')[0];
+    const tampered = await request(t.app)
+      .get('/api/me')
+      .set('Cookie', `${session}; XSRF-TOKEN=${encodeURIComponent(`${'0'.repeat(64)}.${token.split('.')[1]}`)}`);
+    const replaced = cookieNamed(tampered, 'XSRF-TOKEN');
+    expect(replaced).toBeDefined();
+    expect(replaced!.split(';')[0]).not.toBe(issued);
+    const missing = await request(t.app).get('/api/me').set('Cookie', session);
+    expect(cookieNamed(missing, 'XSRF-TOKEN')).toBeDefined();
+    // The kept token still lets a change through.
+    expect((await api.post('/api/auth/logout').set('X-XSRF-TOKEN', token)).status).toBe(200);
+  });
+
   it('keeps the sign-in page on its own origin with labelled fields, and refuses a wrong password with a message', async () => {
     const api = request.agent(t.app);
     const steps = await signIn(api, t.identity!, DEMO.users.principal.email, { password: 'not-the-password' });

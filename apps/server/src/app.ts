@@ -4,8 +4,7 @@ import path from 'node:path';
 import { randomBytes } from 'node:crypto';
 import cookieParser from 'cookie-parser';
 import { doubleCsrf } from 'csrf-csrf';
-import express, { type Express } from 'express';
-import helmet from 'helmet';
+import express, { type Express, type Request } from 'express';
 import { pinoHttp } from 'pino-http';
 import { mountRoutes, route } from './access/registry';
 import { authRoutes } from './auth/auth.routes';
@@ -14,6 +13,7 @@ import { signInRateLimit } from './auth/rate-limit';
 import { loadCaller, sessionMiddleware } from './auth/session';
 import { outboxUrlOf, type AuthConfig, type Config, type PaymentsConfig } from './core/config';
 import { apiNotFound, errorHandler } from './core/errors';
+import { securityHeaders } from './core/security-headers';
 import type { Logger } from './core/logger';
 import type { Db } from './db/db';
 import { healthHandler } from './health/health.routes';
@@ -37,7 +37,9 @@ import { storageUnavailableHandler, type ObjectStore } from './storage';
 export interface AppDeps {
   config: Pick<Config, 'CLIENT_DIST' | 'TRUST_PROXY'> &
     Partial<AuthConfig> &
-    Partial<Pick<Config, 'NODE_ENV' | 'UPLOAD_MAX_BYTES' | 'DEV_OUTBOX_URL' | 'MAIL_OUTBOX_URL'>> &
+    Partial<
+      Pick<Config, 'NODE_ENV' | 'UPLOAD_MAX_BYTES' | 'DEV_OUTBOX_URL' | 'MAIL_OUTBOX_URL' | 'HEALTH_MAX_AGE_MS'>
+    > &
     /** The relay the health check greets; without SMTP_HOST it reports the mail relay as not set up. */
     Partial<Pick<Config, 'SMTP_HOST' | 'SMTP_PORT' | 'SMTP_SECURE'>> &
     Partial<PaymentsConfig>;
@@ -85,21 +87,7 @@ export function createApp({ config, db, logger, version = '0.1.0', store, jobs, 
         err || res.statusCode >= 500 ? 'error' : res.statusCode >= 400 ? 'warn' : 'info',
     }),
   );
-  app.use(
-    helmet({
-      contentSecurityPolicy: {
-        directives: {
-          defaultSrc: ["'self'"],
-          // Angular Material sets inline styles; scripts and fonts come only from our own origin.
-          styleSrc: ["'self'", "'unsafe-inline'"],
-          fontSrc: ["'self'"],
-          imgSrc: ["'self'", 'data:'],
-          connectSrc: ["'self'"],
-          formAction: ["'self'"],
-        },
-      },
-    }),
-  );
+  app.use(securityHeaders());
 
   const publicUrl = (config.PUBLIC_URL ?? 'http://127.0.0.1:4310').replace(/\/$/, '');
   const secureCookies = publicUrl.startsWith('https:');
@@ -120,6 +108,16 @@ export function createApp({ config, db, logger, version = '0.1.0', store, jobs, 
     cookieOptions: { httpOnly: false, sameSite: 'lax', secure: secureCookies, path: '/' },
     getCsrfTokenFromRequest: (req) => req.headers['x-xsrf-token'] as string | undefined,
   });
+
+  /** The XSRF-TOKEN cookie the request carries was made for this session with one of our secrets. */
+  const csrfCookieValid = (req: Request): boolean => {
+    const current = req.cookies?.[CSRF_COOKIE] as unknown;
+    if (typeof current !== 'string' || !current) return false;
+    // The library checks a cookie against the header; here the cookie is checked against itself.
+    const asked = Object.create(req) as Request;
+    Object.defineProperty(asked, 'headers', { value: { ...req.headers, 'x-xsrf-token': current } });
+    return csrf.validateRequest(asked);
+  };
 
   const oidc =
     config.OIDC_ISSUER && config.OIDC_CLIENT_ID && config.OIDC_CLIENT_SECRET
@@ -149,6 +147,7 @@ export function createApp({ config, db, logger, version = '0.1.0', store, jobs, 
         version,
         store,
         jobs,
+        maxAgeMs: config.HEALTH_MAX_AGE_MS,
         mailRelay: config.SMTP_HOST
           ? { host: config.SMTP_HOST, port: config.SMTP_PORT ?? 25, secure: config.SMTP_SECURE ?? false }
           : undefined,
@@ -160,7 +159,12 @@ export function createApp({ config, db, logger, version = '0.1.0', store, jobs, 
       publicUrl,
       absoluteHours,
       rateLimit: signInRateLimit(db, config.SIGN_IN_RATE_LIMIT),
-      issueCsrfToken: (req, res, overwrite) => void csrf.generateCsrfToken(req, res, { overwrite }),
+      // A valid cookie already bound to this session is left as it is (no HMAC and Set-Cookie on
+      // every /api/me); sign-in asks for a new one, and a missing or foreign one is replaced.
+      issueCsrfToken: (req, res, overwrite) => {
+        if (!overwrite && csrfCookieValid(req)) return;
+        csrf.generateCsrfToken(req, res, { overwrite: true });
+      },
       clearCsrfToken: (res) => void res.clearCookie(CSRF_COOKIE, { path: '/' }),
     }),
     ...peopleRoutes(db, {

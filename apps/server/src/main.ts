@@ -23,7 +23,7 @@ async function main(): Promise<void> {
     }
     throw err;
   }
-  const logger = createLogger(config.LOG_LEVEL);
+  const logger = createLogger(config.LOG_LEVEL, undefined, { sync: false });
   const db = createDb(config.DATABASE_URL, config.DATABASE_POOL_MAX);
   const store = createObjectStore(
     objectStoreConfigFrom({ ...config, S3_BUCKET: config.S3_BUCKET ?? LOCAL_DEFAULTS.S3_BUCKET }),

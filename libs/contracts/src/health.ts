@@ -25,6 +25,13 @@ export const healthSchema = z.object({
   status: z.enum(['ok', 'degraded', 'down']),
   version: z.string(),
   uptimeSeconds: z.number().nonnegative(),
+  /**
+   * When the dependencies were asked. Answers within a second or two of one another share one
+   * check (the server's HEALTH_MAX_AGE_MS), so a busy health endpoint does not probe on every call.
+   */
+  checkedAt: z.iso.datetime().optional(),
+  /** How old that check was when this answer was sent (ms). */
+  ageMs: z.number().nonnegative().optional(),
   dependencies: z.object({
     database: dependencyHealthSchema,
     jobQueue: dependencyHealthSchema,

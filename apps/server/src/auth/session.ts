@@ -6,7 +6,7 @@ import type { Db } from '../db/db';
 import type { Caller } from '../access/policy';
 import type { SessionAuth } from '../access/request';
 import { bindAccount } from '../people/people.repository';
-import { loadCallerRow, loadSessionWithCaller, type CallerRow } from './caller.repository';
+import { loadCallerRow, sessionLoader, type CallerRow } from './caller.repository';
 
 export const SESSION_COOKIE = 'trabeate.sid';
 
@@ -46,13 +46,14 @@ function knexPool(db: Db) {
  */
 export function sessionMiddleware(db: Db, s: SessionSettings): RequestHandler {
   const PgStore = connectPgSimple(session);
+  const sessions = sessionLoader(db);
   /**
-   * Reads the session and the person it names in one query (see loadSessionWithCaller) and hands
-   * the person to loadCaller on the request. Nothing is kept between requests.
+   * Reads the session and the person it names in one query (see sessionLoader) and hands the
+   * person to loadCaller on the request. Nothing is kept between requests.
    */
   class SessionAndCallerStore extends PgStore {
     override get(sid: string, fn: (err: unknown, sess?: session.SessionData | null) => void): void {
-      loadSessionWithCaller(db, sid).then((found) => {
+      sessions.load(sid).then((found) => {
         if (!found) return fn(null, null);
         const sess = (typeof found.sess === 'string' ? JSON.parse(found.sess) : found.sess) as session.SessionData;
         Object.defineProperty(sess, PRELOADED_CALLER, { value: found.caller, enumerable: false });

@@ -22,6 +22,13 @@ describe('configuration', () => {
     const config = loadConfig({ DATABASE_URL: 'postgres://a:b@127.0.0.1:5442/trabeate' });
     expect(config).toMatchObject({ HOST: '127.0.0.1', PORT: 4310, NODE_ENV: 'development', TRUST_PROXY: false });
   });
+
+  it('reuses a health check for 2 s unless HEALTH_MAX_AGE_MS says otherwise, and refuses a negative age', () => {
+    const base = { DATABASE_URL: 'postgres://a:b@127.0.0.1:5442/trabeate' };
+    expect(loadConfig(base).HEALTH_MAX_AGE_MS).toBe(2000);
+    expect(loadConfig({ ...base, HEALTH_MAX_AGE_MS: '0' }).HEALTH_MAX_AGE_MS).toBe(0);
+    expect(() => loadConfig({ ...base, HEALTH_MAX_AGE_MS: '-1' })).toThrow(/HEALTH_MAX_AGE_MS/);
+  });
 });
 
 describe('sign-in configuration', () => {

@@ -18,6 +18,8 @@ const configSchema = z
       .regex(/^postgres(ql)?:\/\//, 'must be a postgres:// URL'),
     DATABASE_POOL_MAX: z.coerce.number().int().min(1).max(100).default(10),
     LOG_LEVEL: z.enum(['fatal', 'error', 'warn', 'info', 'debug', 'trace', 'silent']).default('info'),
+    // GET /api/health answers from one check of the dependencies for this long (0: every call).
+    HEALTH_MAX_AGE_MS: z.coerce.number().int().min(0).max(60_000).default(2000),
     CLIENT_DIST: z.string().optional(),
     PUBLIC_URL: z.url().default('http://127.0.0.1:4310'),
     SHUTDOWN_GRACE_MS: z.coerce.number().int().min(0).default(10_000),

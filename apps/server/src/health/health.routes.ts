@@ -1,4 +1,4 @@
-import type { RequestHandler } from 'express';
+import type { Request, RequestHandler } from 'express';
 import type { DependencyHealth, Health, HealthDependency } from '@trabeate/contracts';
 import type { Db } from '../db/db';
 import type { Jobs } from '../jobs';
@@ -38,32 +38,54 @@ export interface HealthDeps {
   store?: ObjectStore;
   jobs?: Jobs;
   mailRelay?: MailRelayAddress;
+  /**
+   * Answers within this long of a check reuse it (and requests arriving while a check runs wait
+   * for it), so a load balancer, a monitor and a busy status page together cause one round of
+   * probes per period rather than four connections per call. The reply states the check's time
+   * and age. 0 asks afresh every time.
+   */
+  maxAgeMs?: number;
 }
 
+type Dependencies = Health['dependencies'];
+
 /**
- * GET /api/health: the API and each dependency, asked afresh on every request (several API
- * processes run behind the load balancer, so nothing is cached here). 503 when an essential
- * dependency is down, so a load balancer or container check sees it; the body says which.
+ * GET /api/health: the API and each dependency, probed at most once per `maxAgeMs` in this
+ * process (several API processes run behind the load balancer; each checks its own
+ * connections). 503 when an essential dependency is down, so a load balancer or container check
+ * sees it; the body says which, and when it was checked.
  */
-export function healthHandler({ db, version, store, jobs, mailRelay }: HealthDeps): RequestHandler {
-  return async (req, res) => {
-    const logFailure = (name: HealthDependency, err: unknown) =>
-      req.log?.warn({ err, dependency: name }, `health check: ${WHAT[name].toLowerCase()} did not answer`);
+export function healthHandler({ db, version, store, jobs, mailRelay, maxAgeMs = 2000 }: HealthDeps): RequestHandler {
+  let last: { at: number; dependencies: Promise<Dependencies> } | undefined;
+  // The request that starts a check lends its logger to the check's failure lines.
+  const checkAll = async (logger: Request['log'] | undefined): Promise<Dependencies> => {
     const check = (name: HealthDependency, probe: (() => Promise<unknown>) | undefined) =>
-      probeOne(name, probe, (err) => logFailure(name, err));
+      probeOne(name, probe, (err) =>
+        logger?.warn({ err, dependency: name }, `health check: ${WHAT[name].toLowerCase()} did not answer`),
+      );
     const [database, jobQueue, objectStorage, mailRelayHealth] = await Promise.all([
       check('database', () => db.raw('select 1')),
       check('jobQueue', jobs && (() => jobs.probe())),
       check('objectStorage', store && (() => store.probe(PROBE_TIMEOUT_MS))),
       check('mailRelay', mailRelay && (() => probeSmtp(mailRelay, PROBE_TIMEOUT_MS))),
     ]);
-    const dependencies = { database, jobQueue, objectStorage, mailRelay: mailRelayHealth };
+    return { database, jobQueue, objectStorage, mailRelay: mailRelayHealth };
+  };
+  return async (req, res) => {
+    const now = Date.now();
+    if (!last || now - last.at >= maxAgeMs) {
+      last = { at: now, dependencies: checkAll(req.log) };
+    }
+    const { at } = last;
+    const dependencies = await last.dependencies;
     const down = (Object.keys(dependencies) as HealthDependency[]).filter((k) => dependencies[k].status === 'down');
     const status: Health['status'] = down.some((k) => ESSENTIAL[k]) ? 'down' : down.length > 0 ? 'degraded' : 'ok';
     const body: Health = {
       status,
       version,
       uptimeSeconds: Math.round((Date.now() - startedAt) / 1000),
+      checkedAt: new Date(at).toISOString(),
+      ageMs: Math.max(0, Date.now() - at),
       dependencies,
     };
     res.setHeader('Cache-Control', 'no-store');
