@@ -120,6 +120,9 @@ async function main(): Promise<number> {
       autocannon({ url, connections: 10, duration: 10, headers });
     const bareResult = await load(`http://127.0.0.1:${ports.bare}/bare`);
     const registerResult = await load(`http://127.0.0.1:${ports.api}${registerPath}`, { cookie: auth.cookie });
+    // The page a register opens on: every drawing, by number, no filter.
+    const defaultPath = `/api/projects/${PROJECT}/drawings?page=1&pageSize=25`;
+    const defaultResult = await load(`http://127.0.0.1:${ports.api}${defaultPath}`, { cookie: auth.cookie });
 
     // 2. A transmittal of ZIP_FILES files totalling ZIP_MIB MiB, stored in the S3 fake.
     const fileBytes = Math.floor((ZIP_MIB * MiB) / ZIP_FILES);
@@ -164,6 +167,7 @@ async function main(): Promise<number> {
     );
     console.log(`  bare Express route   ${lat(bareResult)}`);
     console.log(`  register first page  ${lat(registerResult)}`);
+    console.log(`  register by number   ${lat(defaultResult)} (no filter, default sort)`);
     console.log(
       `  ZIP                  ${ZIP_FILES} files, ${(zip.bytes / MiB).toFixed(0)} MiB (Content-Length ${zip.contentLength})`,
     );
