@@ -51,7 +51,6 @@ export interface DrawingRow {
   r_date: string | null;
   r_issued_at: Date | null;
   revision_count: number;
-  total?: string;
 }
 
 const SORTS: Record<DrawingListFilters['sort'], string> = {
@@ -75,11 +74,11 @@ function registerQuery(db: Q, projectId: string, outOnly: boolean) {
     .join('stages as s', function () {
       this.on('s.project_id', 'd.project_id').andOn('s.key', 'd.stage_key');
     })
-    .modify((q) => {
-      if (outOnly) q.join('drawing_revisions as r', 'r.id', pointer);
-      else q.leftJoin('drawing_revisions as r', 'r.id', pointer);
-    })
+    .leftJoin('drawing_revisions as r', 'r.id', pointer)
     .where('d.project_id', projectId)
+    .modify((q) => {
+      if (outOnly) q.whereNotNull('d.out_revision_id');
+    })
     .select(
       'd.id',
       'd.project_id',
@@ -117,13 +116,20 @@ export async function listRegister(
   outOnly: boolean,
   f: DrawingListFilters,
 ): Promise<{ rows: DrawingRow[]; total: number }> {
-  const q = applyFilters(registerQuery(db, projectId, outOnly), f)
-    .select(db.raw('count(*) over () as total'))
+  // The page and the count apart: a count(*) over () on the page made PostgreSQL join every
+  // drawing to its revision before the limit. Counted on its own, the revision join drops out when
+  // no filter reads it (a left join on its primary key), and the page stops after pageSize rows
+  // read in the order of drawings_register_order.
+  const rows = (await applyFilters(registerQuery(db, projectId, outOnly), f)
     .orderByRaw(`${SORTS[f.sort]} ${f.direction} nulls last, lower(d.number) asc, d.id`)
     .limit(f.pageSize)
-    .offset((f.page - 1) * f.pageSize);
-  const rows = (await q) as DrawingRow[];
-  return { rows, total: rows.length ? Number(rows[0].total) : 0 };
+    .offset((f.page - 1) * f.pageSize)) as DrawingRow[];
+  const matching = applyFilters(registerQuery(db, projectId, outOnly), f)
+    .clearSelect()
+    .select(db.raw('1'))
+    .as('m');
+  const [{ n }] = await db.from(matching).count<Array<{ n: string }>>('* as n');
+  return { rows, total: Number(n) };
 }
 
 /** Every row of the register that matches (for the exports), in the register's order. */
