@@ -4,7 +4,8 @@
 // files totalling about 1 GB downloaded as one ZIP through the API (a child process running the
 // bundled server, so its memory is its own), beside reading the same objects straight from the
 // S3 fake. Targets: API peak RSS under 200 MB; ZIP throughput at least half the direct read.
-// BENCH_DRAWINGS, BENCH_ZIP_FILES and BENCH_ZIP_MIB make it smaller. Exits 1 when a target is missed.
+// BENCH_DRAWINGS, BENCH_ZIP_FILES and BENCH_ZIP_MIB make it smaller; BENCH_EXPLAIN=1 also prints
+// the register queries' plans. Exits 1 when a target is missed.
 import { randomUUID } from 'node:crypto';
 import { request } from 'node:http';
 import autocannon from 'autocannon';
@@ -92,6 +93,8 @@ benchBundledApi(
         `register of ${DRAWINGS} drawings x 5 revisions made in ${((performance.now() - t0) / 1000).toFixed(1)} s`,
       );
 
+      if (process.env.BENCH_EXPLAIN) await explainRegister(db);
+
       const auth = await signedInCookies(ctx, db, DEMO.users.principal);
       const registerPath = `/api/projects/${PROJECT}/drawings?sort=date&direction=desc&stageKey=beam_framing&state=issued&page=1&pageSize=25`;
       const check = await fetch(`${ctx.apiUrl}${registerPath}`, { headers: { cookie: auth.cookie } });
@@ -101,6 +104,9 @@ benchBundledApi(
         autocannon({ url, connections: 10, duration: 10, headers });
       const bareResult = await load(`http://127.0.0.1:${ctx.ports.bare}/bare`);
       const registerResult = await load(`${ctx.apiUrl}${registerPath}`, { cookie: auth.cookie });
+      // The page a register opens on: every drawing, by number, no filter.
+      const defaultPath = `/api/projects/${PROJECT}/drawings?page=1&pageSize=25`;
+      const defaultResult = await load(`${ctx.apiUrl}${defaultPath}`, { cookie: auth.cookie });
 
       // 2. A transmittal of ZIP_FILES files totalling ZIP_MIB MiB, stored in the S3 fake.
       const fileBytes = Math.floor((ZIP_MIB * MiB) / ZIP_FILES);
@@ -149,6 +155,7 @@ benchBundledApi(
       );
       console.log(`  bare Express route   ${lat(bareResult)}`);
       console.log(`  register first page  ${lat(registerResult)}`);
+      console.log(`  register by number   ${lat(defaultResult)} (no filter, default sort)`);
       console.log(
         `  ZIP                  ${ZIP_FILES} files, ${(zip.bytes / MiB).toFixed(0)} MiB (Content-Length ${zip.contentLength})`,
       );
@@ -167,6 +174,52 @@ benchBundledApi(
     }
   },
 );
+
+/**
+ * BENCH_EXPLAIN=1: the plans and timings (EXPLAIN ANALYZE) of the register's queries at bench
+ * size, as the repository builds them: the firm's first page (filtered, and the default order),
+ * the client's, and one drawing's revision history with its files.
+ */
+async function explainRegister(db: import('knex').Knex): Promise<void> {
+  const repo = await import('../../apps/server/src/drawings/drawings.repository');
+  const { drawingListQuerySchema } = await import('@trabeate/contracts');
+  const captured: Array<{ sql: string; bindings: unknown[] }> = [];
+  const onQuery = (q: { sql: string; bindings?: unknown[] }) =>
+    captured.push({ sql: q.sql, bindings: q.bindings ?? [] });
+  const drawingId = (await db('drawings').where({ project_id: PROJECT, number: 'B-00042' }).first('id')).id as string;
+  const cases: Array<[string, () => Promise<unknown>]> = [
+    [
+      'firm, beam framing, issued, newest date first',
+      () =>
+        repo.listRegister(
+          db,
+          PROJECT,
+          false,
+          drawingListQuerySchema.parse({ sort: 'date', direction: 'desc', stageKey: 'beam_framing', state: 'issued' }),
+        ),
+    ],
+    ['firm, default order', () => repo.listRegister(db, PROJECT, false, drawingListQuerySchema.parse({}))],
+    ['client, default order', () => repo.listRegister(db, PROJECT, true, drawingListQuerySchema.parse({}))],
+    ['one drawing’s revisions', () => repo.revisionsOf(db, drawingId, false)],
+  ];
+  console.log('\nRegister query plans (EXPLAIN ANALYZE)');
+  for (const [name, call] of cases) {
+    captured.length = 0;
+    db.on('query', onQuery);
+    await call();
+    db.removeListener('query', onQuery);
+    for (const q of captured) {
+      // The event carries PostgreSQL's numbered placeholders, in order; knex.raw takes "?".
+      const sql = q.sql.replace(/\$\d+/g, '?');
+      const plan = await db.raw(
+        `explain (analyze, buffers) ${sql}`,
+        q.bindings as readonly import('knex').Knex.Value[],
+      );
+      console.log(`\n-- ${name}`);
+      for (const row of plan.rows as Array<{ 'QUERY PLAN': string }>) console.log(row['QUERY PLAN']);
+    }
+  }
+}
 
 /** ZIP_FILES issued revisions, each with one stored file, carried by one transmittal. */
 async function makeTransmittal(db: import('knex').Knex, store: ObjectStore, fileBytes: number): Promise<string> {

@@ -11,14 +11,19 @@ import { DEMO_PASSWORD } from '../../seeds/identity';
 import { openBrowser, SCREENSHOTS } from '../support/browser';
 import { testEnv } from '../support/env';
 
-// A drawing from its registration to the client's acknowledgement, in three browsers: the engineer
-// registers a drawing on Kestrel Yard and uploads its first revision's PDF; the principal checks it
-// (the engineer drew it, so another engineer or the principal must) and approves it, then issues it
-// by transmittal to the client contact and an outside address. The outbox holds both mails; the
+// A drawing from its registration to the client's acknowledgement, in four browsers: the engineer
+// registers a drawing on Kestrel Yard and uploads its first revision's PDF; the principal puts a
+// second engineer on the project's team, and that engineer checks it (the first engineer drew it,
+// so may not); the principal approves it, then issues it by transmittal to the client contact and
+// an outside address. The outbox holds both mails; the
 // client finds the drawing, downloads it and the ZIP and acknowledges; the outside recipient's
 // signed link downloads, and the same link with an expiry in the past is refused.
 
 type Browser = Awaited<ReturnType<typeof openBrowser>>;
+
+// Each step is several page loads in a real browser; on a loaded shared machine one took longer
+// than Jest's default minute, so the steps get three (a limit, not a measured target).
+jest.setTimeout(180_000);
 
 /** A small, well-formed one-page PDF (the server sniffs the content, so it must really be one). */
 function writePdf(dir: string, name: string): string {
@@ -73,6 +78,7 @@ describe('a drawing from registration to the client’s acknowledgement, in Chro
   const kestrel = DEMO.projects.kestrel.id;
   const registerUrl = `${base}/drawings?project=${kestrel}`;
   let engineer: Browser;
+  let checker: Browser;
   let principal: Browser;
   let client: Browser;
   let tmp = '';
@@ -119,9 +125,12 @@ describe('a drawing from registration to the client’s acknowledgement, in Chro
     engineer = await openBrowser();
     principal = await openBrowser();
     client = await openBrowser();
-  });
+    // The fourth browser opens when the second engineer's turn comes (four starting at once can
+    // outlast the hook's time on a loaded machine).
+  }, 120_000);
   afterAll(async () => {
     await engineer?.close();
+    await checker?.close();
     await principal?.close();
     await client?.close();
     if (tmp) rmSync(tmp, { recursive: true, force: true });
@@ -156,12 +165,42 @@ describe('a drawing from registration to the client’s acknowledgement, in Chro
     await shot(page, '1-registered');
   });
 
-  it('the principal checks and approves the revision', async () => {
+  it('the principal puts a second engineer on Kestrel Yard’s team', async () => {
     const page = principal.page;
     await signIn(page, registerUrl, DEMO.users.principal);
+    // Through the API as the signed-in principal (the call the project page makes). Adding someone
+    // already on the team changes nothing, so the kept e2e database may have it from an earlier run.
+    const status = await page.evaluate(
+      async ([projectId, userId]) => {
+        const token = decodeURIComponent(/(?:^|; )XSRF-TOKEN=([^;]*)/.exec(document.cookie)?.[1] ?? '');
+        const res = await fetch(`/api/projects/${projectId}/members/${userId}`, {
+          method: 'PUT',
+          headers: { 'X-XSRF-TOKEN': token },
+        });
+        return res.status;
+      },
+      [kestrel, DEMO.users.engineerB.id] as const,
+    );
+    expect(status).toBe(204);
+  });
+
+  it('the second engineer, who did not draw it, checks the revision', async () => {
+    checker = await openBrowser();
+    const page = checker.page;
+    await signIn(page, registerUrl, DEMO.users.engineerB);
     const detail = await openDrawing(page);
+    await expect(detail.textContent()).resolves.toContain(`Drawn by ${DEMO.users.engineerA.name}`);
     await detail.locator('[data-testid="revision-check"]').click({ timeout: 20_000 });
-    await detail.filter({ hasText: `checked by ${DEMO.users.principal.name}` }).waitFor({ timeout: 20_000 });
+    await detail.filter({ hasText: `checked by ${DEMO.users.engineerB.name}` }).waitFor({ timeout: 20_000 });
+    // Approval is the principal's alone.
+    expect(await detail.locator('[data-testid="revision-approve"]').count()).toBe(0);
+  }, 120_000);
+
+  it('the principal approves the checked revision', async () => {
+    const page = principal.page;
+    const detail = await openDrawing(page);
+    await detail.filter({ hasText: `checked by ${DEMO.users.engineerB.name}` }).waitFor({ timeout: 20_000 });
+    expect(await detail.locator('[data-testid="revision-check"]').count()).toBe(0);
     await detail.locator('[data-testid="revision-approve"]').click({ timeout: 20_000 });
     await detail.filter({ hasText: `approved by ${DEMO.users.principal.name}` }).waitFor({ timeout: 20_000 });
     await expect(detail.textContent()).resolves.toContain(`Drawn by ${DEMO.users.engineerA.name}`);
@@ -275,7 +314,7 @@ describe('a drawing from registration to the client’s acknowledgement, in Chro
   });
 
   it('asked for nothing outside loopback and logged no errors', () => {
-    for (const b of [engineer, principal, client]) {
+    for (const b of [engineer, checker, principal, client]) {
       expect(b.outside).toEqual([]);
       expect(b.consoleErrors).toEqual([]);
     }
