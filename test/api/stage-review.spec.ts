@@ -8,7 +8,7 @@ import {
   type StageKey,
 } from '@trabeate/contracts';
 import { DEMO } from '../../seeds/demo';
-import { kestrelSchemes } from '../../seeds/demo-schemes';
+import { DEMO_SCHEMES, kestrelSchemes } from '../../seeds/demo-schemes';
 import { insertNewScheme } from '../../apps/server/src/schemes/schemes.service';
 import { testApp, type TestApp } from '../support/app';
 import { send, signedInAs } from '../support/agents';
@@ -220,6 +220,15 @@ describe('stage review: the check gate, justifications and the decision by versi
     expect(saved.status).toBe(200);
     const [latest] = await submissions('column_layout');
     expect(latest.scheme).toMatchObject({ version: 1, currentVersion: 2, changedSinceSubmitted: true });
+  });
+
+  it("the demo's Column layout under review rests on scheme A's first save, with its stored summary", async () => {
+    const res = await principal.get(`/api/projects/${DEMO.projects.kestrel.id}/stages/column_layout/submissions`);
+    const [seeded] = stageSubmissionListSchema.parse(res.body).items;
+    expect(seeded.scheme).toMatchObject({ id: DEMO_SCHEMES.full.id, version: 1 });
+    const stored = await t.db('scheme_versions').where({ scheme_id: DEMO_SCHEMES.full.id, version: 1 }).first();
+    expect(seeded.checks).toMatchObject({ errors: 0, warnings: stored.warning_count });
+    expect(seeded.decision).toBeNull();
   });
 
   it('keeps clients to the stage progress: the submissions and their checks answer 403', async () => {
