@@ -1,7 +1,8 @@
 import type { Knex } from 'knex';
-import { schemeSchema, type SchemeDocument } from '@trabeate/contracts';
+import { schemeResultsSchema, schemeSchema, type SchemeDocument } from '@trabeate/contracts';
 import { demoScheme, demoSchemeVariant, type Scheme } from '@trabeate/structural';
 import { insertNewScheme } from '../apps/server/src/schemes/schemes.service';
+import { summariseChecks } from '../apps/server/src/stages/stage-submissions';
 import { DEMO } from './demo-data';
 
 // Kestrel Yard's two schemes: the engine's invented demo building, turned to sit on Kestrel
@@ -126,4 +127,39 @@ export async function seedDemoSchemes(db: Knex): Promise<void> {
       });
     });
   }
+}
+
+/**
+ * Kestrel Yard's Column layout waits for review resting on scheme A's first save: the submission
+ * row carries that save's stored check summary (no error-level checks, so nothing to justify).
+ * Added once, while the stage is still under review with no submission recorded; safe to run again.
+ */
+export async function seedDemoSubmission(db: Knex): Promise<void> {
+  const projectId = DEMO.projects.kestrel.id;
+  const stage = await db('stages')
+    .where({ project_id: projectId, key: 'column_layout' })
+    .first('state', 'submitted_at');
+  if (stage?.state !== 'under_review') return;
+  if (await db('stage_submissions').where({ project_id: projectId, stage_key: 'column_layout' }).first('id')) return;
+  const saved = await db('scheme_versions')
+    .where({ scheme_id: DEMO_SCHEMES.full.id, version: 1 })
+    .first('results', 'engine_version');
+  if (!saved) return;
+  const summary = summariseChecks(schemeResultsSchema.parse(saved.results), saved.engine_version);
+  if (summary.errors > 0) return; // the demo's story has nothing to justify here
+  const comment = await db('stage_comments')
+    .where({ project_id: projectId, stage_key: 'column_layout', action: 'submit' })
+    .first('body');
+  await db('stage_submissions').insert({
+    firm_id: DEMO.firm.id,
+    project_id: projectId,
+    stage_key: 'column_layout',
+    submitted_by: DEMO.users.engineerA.id,
+    submitted_at: stage.submitted_at ?? db.fn.now(),
+    comment: comment?.body ?? null,
+    scheme_id: DEMO_SCHEMES.full.id,
+    scheme_version: 1,
+    check_summary: JSON.stringify(summary),
+    justifications: JSON.stringify([]),
+  });
 }

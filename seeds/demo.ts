@@ -1,7 +1,7 @@
 import type { Knex } from 'knex';
 import { DEMO } from './demo-data';
 import { seedIdentityAccounts } from './identity';
-import { seedDemoSchemes } from './demo-schemes';
+import { seedDemoSchemes, seedDemoSubmission } from './demo-schemes';
 import { seedDemoDrawings } from './demo-drawings';
 import { seedDemoFees } from './demo-fees';
 
@@ -23,6 +23,7 @@ export async function seedDemo(db: Knex, opts: { fees?: boolean } = {}): Promise
   await seedIdentityAccounts(db);
   if (opts.fees ?? true) await seedDemoFees(db);
   await seedDemoSchemes(db);
+  await seedDemoSubmission(db);
   return !existing;
 }
 
