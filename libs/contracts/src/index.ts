@@ -8,3 +8,4 @@ export * from './schemes';
 export * from './errors';
 export * from './drawings';
 export * from './fees';
+export * from './scheme-outputs';
