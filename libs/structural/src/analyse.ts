@@ -201,7 +201,13 @@ export function analyseScheme(scheme: Scheme): SchemeResult {
 /** Longest beam span between columns the engine plans, m. */
 export const MAX_SPAN_M = 30;
 
-function analyseValid(scheme: Scheme): SchemeResult {
+/**
+ * What every beam line needs before its envelope: the code's figures, the layout, slab and beam
+ * depths, each line's prepared beam, the distinct levels with their loads, and the slab's share of
+ * each line reduced once. Spans beyond MAX_SPAN_M give their problems instead. Shared by
+ * analyseScheme and beamLineDiagram so both see the same beams under the same loads.
+ */
+export function schemeLines(scheme: Scheme) {
   const b = scheme.basis;
   const family = b.codeFamily;
   const defaults = codeDefaults(family);
@@ -222,7 +228,7 @@ function analyseValid(scheme: Scheme): SchemeResult {
           field: 'span',
           message: `beam span ${m.lengthM.toFixed(2)} m is beyond the ${MAX_SPAN_M} m the engine plans (accepted: up to ${MAX_SPAN_M} m between columns)`,
         });
-  if (spanProblems.length) return emptyResult(scheme, spanProblems);
+  if (spanProblems.length) return spanProblems;
 
   // slab
   const slabPanels = slabSizes(
@@ -301,6 +307,70 @@ function analyseValid(scheme: Scheme): SchemeResult {
     const p = prepared.get(l.id) as PreparedBeam;
     if (p.ok) shapeParts.set(l.id, loadPart(p, shapes.lines.get(l.id) ?? []));
   }
+  return {
+    b,
+    family,
+    defaults,
+    limits,
+    combos,
+    gamma,
+    fck,
+    fy,
+    layout,
+    slabPanels,
+    slabT,
+    cover,
+    lineDepth,
+    secDepth,
+    secWidth,
+    prepared,
+    kinds,
+    shapes,
+    levels,
+    shapeParts,
+  };
+}
+
+/** The dead and imposed load parts of one line on one level, as its envelope takes them. */
+export function lineParts(
+  p: PreparedBeam,
+  shape: LoadPart,
+  lv: LevelLoads,
+  lineId: string,
+): { dead: [LoadPart, number][]; live: [LoadPart, number][] } {
+  return {
+    dead: [
+      [shape, lv.slabDeadKPa],
+      [loadPart(p, lv.extraDead.get(lineId) ?? []), 1],
+    ],
+    live: [[shape, lv.liveKPa]],
+  };
+}
+
+function analyseValid(scheme: Scheme): SchemeResult {
+  const setup = schemeLines(scheme);
+  if (Array.isArray(setup)) return emptyResult(scheme, setup);
+  const {
+    b,
+    family,
+    defaults,
+    limits,
+    combos,
+    gamma,
+    fck,
+    fy,
+    layout,
+    slabPanels,
+    slabT,
+    cover,
+    lineDepth,
+    secDepth,
+    secWidth,
+    prepared,
+    kinds,
+    levels,
+    shapeParts,
+  } = setup;
 
   const checks = new CheckList();
   const { beamLines, colR, designMoment } = analyseLevels(
@@ -516,18 +586,8 @@ function analyseLevels(
         });
         continue;
       }
-      const shape = shapeParts.get(l.id) as LoadPart;
-      const extra = loadPart(p, lv.extraDead.get(l.id) ?? []);
-      const env = envelopeParts(
-        p,
-        [
-          [shape, lv.slabDeadKPa],
-          [extra, 1],
-        ],
-        [[shape, lv.liveKPa]],
-        combos,
-        arrangementCache,
-      );
+      const parts = lineParts(p, shapeParts.get(l.id) as LoadPart, lv, l.id);
+      const env = envelopeParts(p, parts.dead, parts.live, combos, arrangementCache);
       l.nodes.forEach((n, i) => {
         if (n.columnId) addR(n.columnId, k.kind, env.deadReactionsKN[i], env.liveReactionsKN[i]);
       });

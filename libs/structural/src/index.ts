@@ -48,6 +48,7 @@ export { RULES, CheckList, splitChecks } from './checks';
 export type { Check, PassedRule, Severity } from './checks';
 export type { Quantities, QuantityRow, Cost, CostRow, MemberType } from './quantities';
 export { analyseScheme } from './analyse';
+export { beamLineDiagram, type BeamLineDiagram } from './diagrams';
 export type { SchemeResult, BeamLineResult, ColumnLoads, ColumnSizes, LevelKind } from './analyse';
 export { compareSchemes, compareResults } from './compare';
 export type { SchemeComparison } from './compare';
