@@ -105,6 +105,9 @@ describe('scheme outputs: calculation report, plan sheet, registering the sheet'
       expect(flat.split(squash(CAUTION.slice(0, 60))).length - 1).toBe(numpages);
       for (let p = 1; p <= numpages; p++) expect(flat).toContain(squash(`version 1 · page ${p} of ${numpages}`));
       expect(flat).toContain(squash(scheme.name));
+      // the beam lines are drawn from the engine's envelope diagram, not the simplified fallback
+      expect(flat).toContain('Envelopesofthefactoredloadarrangements');
+      expect(flat).not.toContain('(simplifieddiagram)');
     },
   );
 
@@ -115,7 +118,11 @@ describe('scheme outputs: calculation report, plan sheet, registering the sheet'
     );
     expect(report).toMatchObject({ state: 'done', stageKey: 'beam_framing', failure: null });
     const row = await t.db('deliverables').where({ id: report.deliverableId }).first();
-    expect(row).toMatchObject({ stage_key: 'beam_framing', uploaded_by: DEMO.users.engineerA.id, content_type: 'application/pdf' });
+    expect(row).toMatchObject({
+      stage_key: 'beam_framing',
+      uploaded_by: DEMO.users.engineerA.id,
+      content_type: 'application/pdf',
+    });
   });
 
   it('refuses a report of a version that does not exist with 404, before queueing anything', async () => {
@@ -145,7 +152,8 @@ describe('scheme outputs: calculation report, plan sheet, registering the sheet'
     expect(svg.headers['content-type']).toMatch(/^image\/svg\+xml/);
     const body = (svg.body as Buffer).toString('utf8');
     // same geometry: one filled rectangle per column in both
-    const columnShapes = (body.match(/<polygon [^>]*fill="#1d2427" stroke="#1d2427" stroke-width="0.35"/g) ?? []).length;
+    const columnShapes = (body.match(/<polygon [^>]*fill="#1d2427" stroke="#1d2427" stroke-width="0.35"/g) ?? [])
+      .length;
     expect(columnShapes).toBe(v.document.columns.length);
     expect(body).toContain('>PROPERTY LINE<');
   });
@@ -224,7 +232,7 @@ describe('scheme outputs: calculation report, plan sheet, registering the sheet'
     expect(await t.db('drawings').where({ project_id: KESTREL }).count<{ n: string }[]>('* as n')).toEqual(before);
   });
 
-  it("keeps every output from clients and from engineers off the project", async () => {
+  it('keeps every output from clients and from engineers off the project', async () => {
     for (const agent of [client, outsider]) {
       const sheet = await agent.get(`${at(DEMO_SCHEMES.full.id)}/sheet.svg`);
       expect([403, 404]).toContain(sheet.status);

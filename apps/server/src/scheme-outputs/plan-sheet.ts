@@ -18,7 +18,15 @@ export const SHEET_MM: Record<PlanSheetSize, { w: number; h: number }> = {
 export type Tone = 'ink' | 'muted' | 'accent' | 'paper';
 export type Primitive =
   | { kind: 'line'; x1: number; y1: number; x2: number; y2: number; width: number; tone: Tone; dash?: number[] }
-  | { kind: 'poly'; points: [number, number][]; width: number; tone: Tone; fill?: Tone; closed: boolean; dash?: number[] }
+  | {
+      kind: 'poly';
+      points: [number, number][];
+      width: number;
+      tone: Tone;
+      fill?: Tone;
+      closed: boolean;
+      dash?: number[];
+    }
   | { kind: 'circle'; cx: number; cy: number; r: number; width: number; tone: Tone; fill?: Tone }
   | {
       kind: 'text';
@@ -111,7 +119,9 @@ function drawingArea(size: PlanSheetSize) {
 
 const fits = (e: Extent, size: PlanSheetSize, scale: number) => {
   const a = drawingArea(size);
-  return ((e.maxX - e.minX) * 1000) / scale + 2 * AROUND <= a.w && ((e.maxY - e.minY) * 1000) / scale + 2 * AROUND <= a.h;
+  return (
+    ((e.maxX - e.minX) * 1000) / scale + 2 * AROUND <= a.w && ((e.maxY - e.minY) * 1000) / scale + 2 * AROUND <= a.h
+  );
 };
 
 /** The smallest of the offered scales (largest drawing) at which the plan fits this sheet; null when none does. */
@@ -170,8 +180,13 @@ export function buildPlanSheet(
   const px = (x: number) => round(ox + (x - e.minX) * k);
   const py = (y: number) => round(oy + (e.maxY - y) * k);
   const out: Primitive[] = [];
-  const text = (x: number, y: number, t: string, size: number, more: Partial<Extract<Primitive, { kind: 'text' }>> = {}) =>
-    out.push({ kind: 'text', x: round(x), y: round(y), text: t, size, anchor: 'start', tone: 'ink', ...more });
+  const text = (
+    x: number,
+    y: number,
+    t: string,
+    size: number,
+    more: Partial<Extract<Primitive, { kind: 'text' }>> = {},
+  ) => out.push({ kind: 'text', x: round(x), y: round(y), text: t, size, anchor: 'start', tone: 'ink', ...more });
 
   // frame
   out.push({
@@ -193,10 +208,23 @@ export function buildPlanSheet(
   for (const i of doc.boundary.propertyLines) {
     const a = v[i];
     const b = v[(i + 1) % v.length];
-    out.push({ kind: 'line', x1: px(a.x), y1: py(a.y), x2: px(b.x), y2: py(b.y), width: 0.7, tone: 'accent', dash: [6, 1.5, 1, 1.5] });
+    out.push({
+      kind: 'line',
+      x1: px(a.x),
+      y1: py(a.y),
+      x2: px(b.x),
+      y2: py(b.y),
+      width: 0.7,
+      tone: 'accent',
+      dash: [6, 1.5, 1, 1.5],
+    });
     const angle = (Math.atan2(-(py(b.y) - py(a.y)), px(b.x) - px(a.x)) * 180) / Math.PI;
     const upright = angle > 90 || angle < -90 ? angle + 180 : angle;
-    text((px(a.x) + px(b.x)) / 2, (py(a.y) + py(b.y)) / 2 - 1.5, 'PROPERTY LINE', 2, { anchor: 'middle', tone: 'accent', rotate: round(upright, 1) });
+    text((px(a.x) + px(b.x)) / 2, (py(a.y) + py(b.y)) / 2 - 1.5, 'PROPERTY LINE', 2, {
+      anchor: 'middle',
+      tone: 'accent',
+      rotate: round(upright, 1),
+    });
   }
 
   // grid lines, bubbles at both ends, and dimension chains between neighbours
@@ -212,13 +240,31 @@ export function buildPlanSheet(
   };
   for (const g of xs) {
     const x = px(g.x!);
-    out.push({ kind: 'line', x1: x, y1: top + BUBBLE_R, x2: x, y2: bottom - BUBBLE_R, width: 0.18, tone: 'muted', dash: [8, 1.5, 1.5, 1.5] });
+    out.push({
+      kind: 'line',
+      x1: x,
+      y1: top + BUBBLE_R,
+      x2: x,
+      y2: bottom - BUBBLE_R,
+      width: 0.18,
+      tone: 'muted',
+      dash: [8, 1.5, 1.5, 1.5],
+    });
     bubble(x, top, g.label);
     bubble(x, bottom, g.label);
   }
   for (const g of ys) {
     const y = py(g.y!);
-    out.push({ kind: 'line', x1: left + BUBBLE_R, y1: y, x2: right - BUBBLE_R, y2: y, width: 0.18, tone: 'muted', dash: [8, 1.5, 1.5, 1.5] });
+    out.push({
+      kind: 'line',
+      x1: left + BUBBLE_R,
+      y1: y,
+      x2: right - BUBBLE_R,
+      y2: y,
+      width: 0.18,
+      tone: 'muted',
+      dash: [8, 1.5, 1.5, 1.5],
+    });
     bubble(left, y, g.label);
     bubble(right, y, g.label);
   }
@@ -228,7 +274,15 @@ export function buildPlanSheet(
     const b = px(xs[i + 1].x!);
     out.push({ kind: 'line', x1: a, y1: chainY, x2: b, y2: chainY, width: 0.18, tone: 'ink' });
     for (const t of [a, b])
-      out.push({ kind: 'line', x1: t - 0.8, y1: chainY + 0.8, x2: t + 0.8, y2: chainY - 0.8, width: 0.35, tone: 'ink' });
+      out.push({
+        kind: 'line',
+        x1: t - 0.8,
+        y1: chainY + 0.8,
+        x2: t + 0.8,
+        y2: chainY - 0.8,
+        width: 0.35,
+        tone: 'ink',
+      });
     text((a + b) / 2, chainY - 1, mm(xs[i + 1].x! - xs[i].x!), 2, { anchor: 'middle' });
   }
   const chainX = left + BUBBLE_R + 5;
@@ -237,7 +291,15 @@ export function buildPlanSheet(
     const b = py(ys[i + 1].y!);
     out.push({ kind: 'line', x1: chainX, y1: a, x2: chainX, y2: b, width: 0.18, tone: 'ink' });
     for (const t of [a, b])
-      out.push({ kind: 'line', x1: chainX - 0.8, y1: t + 0.8, x2: chainX + 0.8, y2: t - 0.8, width: 0.35, tone: 'ink' });
+      out.push({
+        kind: 'line',
+        x1: chainX - 0.8,
+        y1: t + 0.8,
+        x2: chainX + 0.8,
+        y2: t - 0.8,
+        width: 0.35,
+        tone: 'ink',
+      });
     text(chainX - 1, (a + b) / 2, mm(ys[i + 1].y! - ys[i].y!), 2, { anchor: 'middle', rotate: 90 });
   }
 
@@ -283,7 +345,9 @@ export function buildPlanSheet(
     const ly = py(c.y + hy) - 1;
     text(lx, ly, c.label, 2.5, { bold: true });
     const f = footings.get(c.id);
-    text(lx, ly + 3, `${c.widthMm}×${c.depthMm}${f ? ` · F ${f.adoptedSideM.toFixed(1)} m sq.` : ''}`, 1.8, { tone: 'muted' });
+    text(lx, ly + 3, `${c.widthMm}×${c.depthMm}${f ? ` · F ${f.adoptedSideM.toFixed(1)} m sq.` : ''}`, 1.8, {
+      tone: 'muted',
+    });
   }
 
   // scale bar: five equal parts of a round length in metres, alternately filled
@@ -313,8 +377,29 @@ export function buildPlanSheet(
   const nx = area.x + area.w - 12;
   const ny = area.y + 14;
   out.push({ kind: 'circle', cx: nx, cy: ny, r: 6, width: 0.25, tone: 'ink' });
-  out.push({ kind: 'poly', points: [[nx, ny - 8], [nx + 2.2, ny + 4], [nx, ny + 2]], width: 0.25, tone: 'ink', fill: 'ink', closed: true });
-  out.push({ kind: 'poly', points: [[nx, ny - 8], [nx - 2.2, ny + 4], [nx, ny + 2]], width: 0.25, tone: 'ink', closed: true });
+  out.push({
+    kind: 'poly',
+    points: [
+      [nx, ny - 8],
+      [nx + 2.2, ny + 4],
+      [nx, ny + 2],
+    ],
+    width: 0.25,
+    tone: 'ink',
+    fill: 'ink',
+    closed: true,
+  });
+  out.push({
+    kind: 'poly',
+    points: [
+      [nx, ny - 8],
+      [nx - 2.2, ny + 4],
+      [nx, ny + 2],
+    ],
+    width: 0.25,
+    tone: 'ink',
+    closed: true,
+  });
   text(nx, ny - 9.5, 'N', 3, { anchor: 'middle', bold: true });
 
   titlePanel(out, size, scale, title, text);
@@ -331,7 +416,13 @@ function titlePanel(
   size: PlanSheetSize,
   scale: number,
   t: TitleFields,
-  text: (x: number, y: number, t: string, size: number, more?: Partial<Extract<Primitive, { kind: 'text' }>>) => unknown,
+  text: (
+    x: number,
+    y: number,
+    t: string,
+    size: number,
+    more?: Partial<Extract<Primitive, { kind: 'text' }>>,
+  ) => unknown,
 ) {
   const { w: W, h: H } = SHEET_MM[size];
   const pw = panelWidth(size);

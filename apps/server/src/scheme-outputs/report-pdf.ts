@@ -1,5 +1,12 @@
 import type { SchemeDocument } from '@trabeate/contracts';
-import type { BeamLineResult, SchemeResult } from '@trabeate/structural';
+import {
+  beamLineDiagram,
+  ENGINE_VERSION,
+  type BeamLineDiagram,
+  type BeamLineResult,
+  type Scheme,
+  type SchemeResult,
+} from '@trabeate/structural';
 import { ACCENT, INK, MUTED, RULE, newDocument, table, toBuffer } from '../drawings/pdf';
 
 // The calculation report of one saved scheme version, written from the results stored with that
@@ -80,7 +87,11 @@ function facts(doc: Doc, rows: [string, string][]) {
   for (const [label, value] of rows) {
     const y = doc.y;
     doc.font('heading').fontSize(9).fillColor(MUTED).text(label, left, y, { width: 170 });
-    doc.font('body').fontSize(9.5).fillColor(INK).text(value, left + 175, y, { width: 335 });
+    doc
+      .font('body')
+      .fontSize(9.5)
+      .fillColor(INK)
+      .text(value, left + 175, y, { width: 335 });
     doc.moveDown(0.25);
   }
 }
@@ -112,7 +123,10 @@ function designBasis(doc: Doc, d: ReportInput) {
     ['Storeys × storey height', `${b.storeys} × ${b.storeyHeightM} m`],
     ['Beam width', `${b.beamWidthMm} mm`],
     ['Slab thickness adopted', `${f0(d.results.loads?.slabThicknessMm ?? NaN)} mm`],
-    ['Unit rates', `${b.rates.currency}: concrete ${b.rates.concretePerM3}/m³, steel ${b.rates.steelPerKg}/kg, formwork ${b.rates.formworkPerM2}/m²`],
+    [
+      'Unit rates',
+      `${b.rates.currency}: concrete ${b.rates.concretePerM3}/m³, steel ${b.rates.steelPerKg}/kg, formwork ${b.rates.formworkPerM2}/m²`,
+    ],
   ]);
   if (d.results.combinations.length) {
     doc.moveDown(0.4);
@@ -127,7 +141,10 @@ function designBasis(doc: Doc, d: ReportInput) {
       d.results.combinations.map((c) => [c.id, String(c.dead), String(c.live), c.source]),
     );
   }
-  note(doc, 'Units: SI throughout. Lengths in m, sections in mm, loads in kN, kN/m and kPa, moments in kN·m, strengths in MPa.');
+  note(
+    doc,
+    'Units: SI throughout. Lengths in m, sections in mm, loads in kN, kN/m and kPa, moments in kN·m, strengths in MPa.',
+  );
 }
 
 function checks(doc: Doc, d: ReportInput) {
@@ -276,72 +293,146 @@ function footingSchedule(doc: Doc, d: ReportInput) {
   );
 }
 
+type Curve = [number, number][];
+
+/** One plotted quantity along the line: the envelope band between its upper and lower curves. */
+function plotBand(
+  doc: Doc,
+  sx: (s: number) => number,
+  left: number,
+  width: number,
+  title: string,
+  unit: string,
+  upper: Curve,
+  lower: Curve,
+  height: number,
+) {
+  if (doc.y + height + 30 > doc.page.height - doc.page.margins.bottom - 20) doc.addPage();
+  const top = doc.y + 4;
+  const all = [...upper, ...lower];
+  const peak = Math.max(1e-9, ...all.map(([, v]) => Math.abs(v)));
+  const mid = top + height / 2;
+  // positive values drawn below the axis: sagging moments on the tension side
+  const vy = (v: number) => mid + (v / peak) * (height / 2);
+  doc
+    .font('body')
+    .fontSize(7.5)
+    .fillColor(MUTED)
+    .text(title, doc.page.margins.left, top - 2, { width: 40 });
+  for (const curve of [upper, lower]) {
+    if (!curve.length) continue;
+    doc.moveTo(sx(curve[0][0]), mid);
+    for (const [s, v] of curve) doc.lineTo(sx(s), vy(v));
+    doc.lineTo(sx(curve[curve.length - 1][0]), mid);
+    doc.fillOpacity(0.15).fillAndStroke(ACCENT, ACCENT);
+    doc.fillOpacity(1);
+  }
+  doc
+    .moveTo(left, mid)
+    .lineTo(left + width, mid)
+    .lineWidth(0.6)
+    .strokeColor(INK)
+    .stroke();
+  for (const curve of [upper, lower]) {
+    if (!curve.length) continue;
+    const extreme = curve.reduce((a, b) => (Math.abs(b[1]) > Math.abs(a[1]) ? b : a));
+    if (Math.abs(extreme[1]) < 1e-6) continue;
+    doc
+      .fontSize(7)
+      .fillColor(INK)
+      .text(`${f1(extreme[1])} ${unit}`, sx(extreme[0]) - 22, vy(extreme[1]) + (extreme[1] > 0 ? 2 : -9), {
+        width: 44,
+        align: 'center',
+        lineBreak: false,
+      });
+  }
+  doc.y = top + height + 8;
+}
+
 /**
- * One beam line's moment and shear drawn as vectors. Until the engine's station-by-station
- * diagram is available here, each member is drawn from its stored envelope extremes: hogging at
- * the ends, the largest sagging where the engine found it, and ± the largest shear at the ends,
- * joined by straight lines. That is a simplified picture of the envelope, and it says so.
+ * One beam line's moment and shear envelopes drawn as vectors. With the engine's station-by-station
+ * diagram (beamLineDiagram, same engine version as the stored results) the curves are the
+ * envelope along the line; without it each member is drawn from its stored extremes joined by
+ * straight lines, and the report says that this is a simplified picture.
  */
-function beamLineDiagram(doc: Doc, line: BeamLineResult) {
+function drawLine(doc: Doc, line: BeamLineResult, diagram: BeamLineDiagram | null) {
   const left = doc.page.margins.left + 40;
   const width = doc.page.width - doc.page.margins.left - doc.page.margins.right - 50;
   const total = line.members.reduce((s, m) => s + m.lengthM, 0) || 1;
   const sx = (s: number) => left + (s / total) * width;
-  const plot = (title: string, unit: string, points: [number, number][], height: number) => {
-    if (doc.y + height + 30 > doc.page.height - doc.page.margins.bottom - 20) doc.addPage();
-    const top = doc.y + 4;
-    const peak = Math.max(1e-9, ...points.map(([, v]) => Math.abs(v)));
-    const mid = top + height / 2;
-    const vy = (v: number) => mid + (v / peak) * (height / 2);
-    doc.font('body').fontSize(7.5).fillColor(MUTED).text(title, doc.page.margins.left, top - 2, { width: 40 });
-    doc.moveTo(left, mid).lineTo(left + width, mid).lineWidth(0.6).strokeColor(INK).stroke();
-    doc.moveTo(sx(points[0][0]), mid);
-    for (const [s, v] of points) doc.lineTo(sx(s), vy(v));
-    doc.lineTo(sx(points[points.length - 1][0]), mid);
-    doc.fillOpacity(0.15).fillAndStroke(ACCENT, ACCENT);
-    doc.fillOpacity(1);
-    const extreme = points.reduce((a, b) => (Math.abs(b[1]) > Math.abs(a[1]) ? b : a));
-    doc
-      .fontSize(7)
-      .fillColor(INK)
-      .text(`${f1(extreme[1])} ${unit}`, sx(extreme[0]) - 20, vy(extreme[1]) + (extreme[1] > 0 ? 2 : -9), { width: 40, align: 'center', lineBreak: false });
-    doc.y = top + height + 8;
-  };
-  // moments drawn on the tension side: sagging (positive) below the axis
-  const moment: [number, number][] = [];
-  const shear: [number, number][] = [];
-  let s0 = 0;
-  for (const m of line.members) {
-    const cantileverStart = m.kind === 'cantilever' && s0 === 0;
-    const hogStart = cantileverStart ? 0 : m.minMomentAtM <= m.lengthM / 2 ? m.minMomentKNm : 0;
-    const hogEnd = m.minMomentAtM > m.lengthM / 2 ? m.minMomentKNm : 0;
-    moment.push([s0, hogStart]);
-    if (m.maxMomentKNm > 0) moment.push([s0 + m.maxMomentAtM, m.maxMomentKNm]);
-    moment.push([s0 + m.lengthM, hogEnd]);
-    shear.push([s0, m.maxShearKN], [s0 + m.lengthM, -m.maxShearKN]);
-    s0 += m.lengthM;
+  if (diagram) {
+    const st = diagram.stations;
+    plotBand(
+      doc,
+      sx,
+      left,
+      width,
+      'M (kN·m)',
+      'kN·m',
+      st.map((p) => [p.s, p.maxMomentKNm]),
+      st.map((p) => [p.s, p.minMomentKNm]),
+      50,
+    );
+    plotBand(
+      doc,
+      sx,
+      left,
+      width,
+      'V (kN)',
+      'kN',
+      st.map((p) => [p.s, p.maxShearKN]),
+      st.map((p) => [p.s, p.minShearKN]),
+      40,
+    );
+  } else {
+    const moment: Curve = [];
+    const shear: Curve = [];
+    let s0 = 0;
+    for (const m of line.members) {
+      const cantileverStart = m.kind === 'cantilever' && s0 === 0;
+      const hogStart = cantileverStart ? 0 : m.minMomentAtM <= m.lengthM / 2 ? m.minMomentKNm : 0;
+      const hogEnd = m.minMomentAtM > m.lengthM / 2 ? m.minMomentKNm : 0;
+      moment.push([s0, hogStart]);
+      if (m.maxMomentKNm > 0) moment.push([s0 + m.maxMomentAtM, m.maxMomentKNm]);
+      moment.push([s0 + m.lengthM, hogEnd]);
+      shear.push([s0, m.maxShearKN], [s0 + m.lengthM, -m.maxShearKN]);
+      s0 += m.lengthM;
+    }
+    plotBand(doc, sx, left, width, 'M (kN·m)', 'kN·m', moment, [], 46);
+    plotBand(doc, sx, left, width, 'V (kN)', 'kN', shear, [], 36);
   }
-  plot('M (kN·m)', 'kN·m', moment, 46);
-  plot('V (kN)', 'kN', shear, 36);
   // supports under the line
-  doc.fontSize(7).fillColor(MUTED);
   const y = doc.y;
+  const origin = line.reactions[0]?.s ?? 0;
   for (const r of line.reactions) {
-    const x = sx(r.s - (line.reactions[0]?.s ?? 0));
+    const x = sx(r.s - origin);
     if (r.columnId) doc.polygon([x, y], [x - 3, y + 5], [x + 3, y + 5]).fill(INK);
   }
   doc.y = y + 10;
   doc.x = doc.page.margins.left;
 }
 
+/** The engine's diagram of a line, when the stored results came from this engine version. */
+function diagramOf(d: ReportInput, line: BeamLineResult): BeamLineDiagram | null {
+  if (d.engineVersion !== ENGINE_VERSION) return null;
+  try {
+    return beamLineDiagram(d.document as Scheme, line.lineId, line.level);
+  } catch {
+    return null;
+  }
+}
+
 function beamLines(doc: Doc, d: ReportInput) {
   heading(doc, '6  Beam lines: moments and shears');
+  const lines = d.results.beamLines.filter((l) => l.level === 'floor');
+  const diagrams = lines.map((l) => diagramOf(d, l));
   note(
     doc,
-    "Simplified diagrams: each member's stored envelope extremes (hogging at its supports, the largest sagging where it occurs, the largest shear at its ends) joined by straight lines; they show magnitudes and where they act, not the curve between. Floor level lines are shown; the roof lines follow the same layout.",
+    diagrams.every((g) => g)
+      ? 'Envelopes of the factored load arrangements along each floor beam line (upper and lower curves), sagging moment drawn below the axis; peaks are the envelope values in the beam schedule. The roof lines follow the same layout.'
+      : "Simplified diagrams where marked: the stored results came from another engine version, so each member's stored envelope extremes (hogging at its supports, the largest sagging where it occurs, the largest shear at its ends) are joined by straight lines; they show magnitudes and where they act, not the curve between.",
   );
-  const lines = d.results.beamLines.filter((l) => l.level === 'floor');
-  for (const line of lines) {
+  lines.forEach((line, i) => {
     if (doc.y > doc.page.height - doc.page.margins.bottom - 150) doc.addPage();
     doc.moveDown(0.5);
     doc.x = doc.page.margins.left;
@@ -349,15 +440,20 @@ function beamLines(doc: Doc, d: ReportInput) {
       .font('heading')
       .fontSize(10)
       .fillColor(INK)
-      .text(`Line ${line.label} (${line.level}), ${line.members.length} member${line.members.length === 1 ? '' : 's'}, b = ${line.widthMm} mm`);
+      .text(
+        `Line ${line.label} (${line.level}), ${line.members.length} member${line.members.length === 1 ? '' : 's'}, b = ${line.widthMm} mm${diagrams[i] ? '' : ' (simplified diagram)'}`,
+      );
     doc.font('body').fontSize(8).fillColor(MUTED);
     doc.text(
       line.members
-        .map((m) => `${m.id}: ${f2(m.lengthM)} m, M+ ${f1(m.maxMomentKNm)}, M− ${f1(m.minMomentKNm)} kN·m, V ${f1(m.maxShearKN)} kN`)
+        .map(
+          (m) =>
+            `${m.id}: ${f2(m.lengthM)} m, M+ ${f1(m.maxMomentKNm)}, M− ${f1(m.minMomentKNm)} kN·m, V ${f1(m.maxShearKN)} kN`,
+        )
         .join('; '),
     );
-    beamLineDiagram(doc, line);
-  }
+    drawLine(doc, line, diagrams[i]);
+  });
 }
 
 function boundaryFootings(doc: Doc, d: ReportInput) {
@@ -442,7 +538,11 @@ function quantities(doc: Doc, d: ReportInput) {
   heading(doc, '8  Quantities and cost');
   const q = d.results.quantities;
   const cost = d.results.cost;
-  const money = new Intl.NumberFormat('en-GB', { style: 'currency', currency: cost.currency || 'EUR', maximumFractionDigits: 0 });
+  const money = new Intl.NumberFormat('en-GB', {
+    style: 'currency',
+    currency: cost.currency || 'EUR',
+    maximumFractionDigits: 0,
+  });
   const costOf = new Map(cost.rows.map((r) => [r.member, r]));
   table(
     doc,
@@ -468,7 +568,11 @@ function quantities(doc: Doc, d: ReportInput) {
   );
   for (const n of q.notes) note(doc, n);
   doc.moveDown(0.6);
-  doc.font('body').fontSize(9).fillColor(INK).text(`Results computed by Trabeate engine ${d.engineVersion} when version ${d.version} was saved.`);
+  doc
+    .font('body')
+    .fontSize(9)
+    .fillColor(INK)
+    .text(`Results computed by Trabeate engine ${d.engineVersion} when version ${d.version} was saved.`);
 }
 
 /** The report's sections in order; the job reports progress after each. */

@@ -67,10 +67,7 @@ export function schemeOutputRoutes(deps: {
           throw noJobs();
         });
         const report = await requestReport(db, jobs, callerOf(req), ...v(req), req.body.stageKey);
-        res
-          .status(202)
-          .location(`/api/projects/${report.projectId}/scheme-reports/${report.id}`)
-          .json(report);
+        res.status(202).location(`/api/projects/${report.projectId}/scheme-reports/${report.id}`).json(report);
       },
     ),
     route('get', REPORT, 'project:readSchemes', validate({ params: reportParams }), async (req, res) => {

@@ -110,7 +110,9 @@ export async function planSheet(
   } catch (err) {
     if (err instanceof SheetDoesNotFit)
       throw new HttpError(400, 'validation_failed', err.message, {
-        'query.scale': [err.smallestScale === null ? 'no offered scale fits this sheet' : `1:${err.smallestScale} or smaller`],
+        'query.scale': [
+          err.smallestScale === null ? 'no offered scale fits this sheet' : `1:${err.smallestScale} or smaller`,
+        ],
       });
     throw err;
   }
@@ -124,12 +126,28 @@ const previewTitle = (caller: Caller): SheetTitle => ({
   drawnBy: caller.displayName,
 });
 
-export async function sheetSvgFor(db: Db, caller: Caller, p: string, s: string, v: number, size: PlanSheetSize, scale: number) {
+export async function sheetSvgFor(
+  db: Db,
+  caller: Caller,
+  p: string,
+  s: string,
+  v: number,
+  size: PlanSheetSize,
+  scale: number,
+) {
   const { sheet, title } = await planSheet(db, p, s, v, size, scale, previewTitle(caller));
   return sheetSvg(sheet, title);
 }
 
-export async function sheetPdfFor(db: Db, caller: Caller, p: string, s: string, v: number, size: PlanSheetSize, scale: number) {
+export async function sheetPdfFor(
+  db: Db,
+  caller: Caller,
+  p: string,
+  s: string,
+  v: number,
+  size: PlanSheetSize,
+  scale: number,
+) {
   const { sheet, title, facts: f } = await planSheet(db, p, s, v, size, scale, previewTitle(caller));
   return sheetPdf(sheet, { Title: title, Subject: `${f.project_reference} ${f.project_name}` });
 }
@@ -179,7 +197,15 @@ export async function registerSheet(
     drawingId = created.id;
   }
   const planned = await proposeRevision(db, caller, projectId, drawingId, undefined);
-  const { sheet, title: printed } = await planSheet(db, projectId, schemeId, version, body.size, body.scale, sheetTitle(planned.code));
+  const { sheet, title: printed } = await planSheet(
+    db,
+    projectId,
+    schemeId,
+    version,
+    body.size,
+    body.scale,
+    sheetTitle(planned.code),
+  );
   const pdf = await sheetPdf(sheet, { Title: printed, Subject: number });
   const revision = await registerRevision(
     db,
@@ -325,7 +351,8 @@ export async function runReport(db: Db, store: ObjectStore, reportId: string): P
   } catch (err) {
     await updateReport(db, r.id, {
       state: 'failed',
-      failure: 'The report could not be written; generate it again, and tell the firm’s administrator if it fails twice.',
+      failure:
+        'The report could not be written; generate it again, and tell the firm’s administrator if it fails twice.',
       finished_at: db.fn.now(),
     });
     throw err;
@@ -333,7 +360,12 @@ export async function runReport(db: Db, store: ObjectStore, reportId: string): P
 }
 
 /** Starts this process's report worker (every API process works the queue; pg-boss shares the jobs out). */
-export async function startReportWorker(db: Db, store: ObjectStore, jobs: Jobs, pollingIntervalSeconds = 2): Promise<void> {
+export async function startReportWorker(
+  db: Db,
+  store: ObjectStore,
+  jobs: Jobs,
+  pollingIntervalSeconds = 2,
+): Promise<void> {
   const boss = jobs.boss;
   if (!(await boss.getQueue(REPORT_QUEUE)))
     await boss.createQueue(REPORT_QUEUE, { name: REPORT_QUEUE, retryLimit: 2, retryDelay: 5 }).catch(async (err) => {

@@ -60,7 +60,7 @@ export function sheetPdf(sheet: PlanSheet, info: { Title: string; Subject: strin
       const width = doc.widthOfString(p.text);
       const dx = p.anchor === 'middle' ? -width / 2 : p.anchor === 'end' ? -width : 0;
       // SVG places text on its baseline; pdfkit at the top of the line box: lift by the ascender.
-      const ascent = (doc.currentLineHeight(false) * 0.8);
+      const ascent = doc.currentLineHeight(false) * 0.8;
       if (p.rotate) doc.rotate(-p.rotate, { origin: [u(p.x), u(p.y)] });
       doc.text(p.text, u(p.x) + dx, u(p.y) - ascent, { lineBreak: false });
     } else {
