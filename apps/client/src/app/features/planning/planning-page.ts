@@ -42,6 +42,7 @@ import type { PlanWorkerPort } from './plan-protocol';
 import { createPlanWorker } from './plan-worker-factory';
 import { PlanView, type ColumnDrop, type ColumnPick } from './plan-view';
 import { SchemesApi, schemeUrl } from './schemes-api';
+import { SchemeOutputs } from './scheme-outputs';
 
 type SeverityFilter = CheckSeverity | 'all';
 
@@ -67,6 +68,7 @@ export const KEY_STEP_M = 0.05;
     MatSelect,
     PlanView,
     RouterLink,
+    SchemeOutputs,
   ],
   templateUrl: './planning-page.html',
   styleUrls: ['../../shared/page/page.scss', './planning-page.scss'],
@@ -106,6 +108,8 @@ export class PlanningPage {
   /** the earlier save shown in the editor, when one was opened from the history */
   protected readonly openedVersion = signal<number | null>(null);
   protected readonly historyOpen = signal(false);
+  /** the report and plan sheet of the version this session started from */
+  protected readonly outputsOpen = signal(false);
   protected readonly historyBusy = signal(false);
   protected readonly history = httpResource(
     () => (this.historyOpen() ? `${schemeUrl(this.projectId(), this.schemeId())}/versions?pageSize=50` : undefined),
