@@ -58,10 +58,15 @@ describe('scheme outputs: calculation report, plan sheet, registering the sheet'
     const report = schemeReportSchema.parse(created.body);
     expect(report.state).toBe('queued');
     let last = report;
-    await until('the report job', async () => {
-      last = schemeReportSchema.parse((await agent.get(`/api/projects/${KESTREL}/scheme-reports/${report.id}`)).body);
-      return last.state === 'done' || last.state === 'failed';
-    });
+    await until(
+      'the report job',
+      async () => {
+        last = schemeReportSchema.parse((await agent.get(`/api/projects/${KESTREL}/scheme-reports/${report.id}`)).body);
+        return last.state === 'done' || last.state === 'failed';
+        // a deadline for a loaded shared machine, not a speed check (bench figures are printed elsewhere)
+      },
+      120_000,
+    );
     return last;
   }
 
