@@ -9,6 +9,7 @@ import * as m20261221000000 from './20261221000000_drawings';
 import * as m20261222000001 from './20261222000001_fees';
 import * as m20261222000101 from './20261222000101_fee_activity';
 import * as m20261223000001 from './20261223000001_schemes';
+import * as m20261224000001 from './20261224000001_stage_submissions';
 import * as m20261224000201 from './20261224000201_scheme_outputs';
 
 /** Every migration, by name, in the order they run. Add new ones here as well as in the folder. */
@@ -23,5 +24,6 @@ export const migrations: Record<string, Knex.Migration> = {
   '20261222000001_fees': m20261222000001,
   '20261222000101_fee_activity': m20261222000101,
   '20261223000001_schemes': m20261223000001,
+  '20261224000001_stage_submissions': m20261224000001,
   '20261224000201_scheme_outputs': m20261224000201,
 };

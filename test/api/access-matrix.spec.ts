@@ -194,6 +194,11 @@ const MATRIX: Record<string, Entry> = {
     // Review threads are the firm's: the project's client sees stage progress, not the notes.
     expect: onProject(200, 200, 403),
   },
+  'GET /projects/:projectId/stages/:stageKey/submissions': {
+    path: `/projects/${KESTREL}/stages/column_layout/submissions`,
+    // Checks and justifications are the firm's review: the project's client sees stage progress only.
+    expect: onProject(200, 200, 403),
+  },
   'POST /projects/:projectId/stages/:stageKey/comments': {
     path: `/projects/${SPARE_PROJECT}/stages/column_layout/comments`,
     body: (c) => ({ body: `Note from ${c}` }),

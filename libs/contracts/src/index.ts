@@ -8,4 +8,5 @@ export * from './schemes';
 export * from './errors';
 export * from './drawings';
 export * from './fees';
+export * from './stage-review';
 export * from './scheme-outputs';

@@ -107,10 +107,39 @@ export const stagePatchSchema = z
   .refine((v) => Object.keys(v).length > 0, { message: 'nothing to change' });
 export type StagePatch = z.input<typeof stagePatchSchema>;
 
+/** The stages whose submission names a scheme version and answers for its error-level checks. */
+export const SCHEME_STAGE_KEYS = [
+  'column_layout',
+  'beam_framing',
+  'foundations',
+] as const satisfies readonly StageKey[];
+export const isSchemeStage = (key: StageKey): boolean => (SCHEME_STAGE_KEYS as readonly StageKey[]).includes(key);
+
+/**
+ * The engineer's reason why one error-level check may stand, named as the engine names the check:
+ * its rule id and the elements it is about.
+ */
+export const checkJustificationSchema = z.object({
+  ruleId: z.string().trim().min(1).max(200),
+  elements: z.array(z.string().max(200)).max(100),
+  text: z.string().trim().min(1, 'say why this check may stand').max(4000),
+});
+export type CheckJustification = z.infer<typeof checkJustificationSchema>;
+
+/** One way to name a check in messages and field keys: "column.capacity @ B3". */
+export const checkKey = (c: { ruleId: string; elements: readonly string[] }): string =>
+  `${c.ruleId} @ ${c.elements.join(', ')}`;
+
 /** POST /api/projects/:projectId/stages/:stageKey/transitions */
 export const stageTransitionSchema = z.discriminatedUnion('action', [
   z.object({ action: z.literal('start') }),
-  z.object({ action: z.literal('submit'), comment: z.string().trim().max(4000).optional() }),
+  z.object({
+    action: z.literal('submit'),
+    comment: z.string().trim().max(4000).optional(),
+    /** Column layout, Beam framing and Foundations only: the scheme, and its version (default: the latest save). */
+    scheme: z.object({ schemeId: id, version: z.number().int().min(1).optional() }).optional(),
+    justifications: z.array(checkJustificationSchema).max(500).optional(),
+  }),
   z.object({ action: z.literal('approve'), comment: z.string().trim().max(4000).optional() }),
   z.object({ action: z.literal('return'), comment: z.string().trim().min(1, 'say what needs changing').max(4000) }),
   z.object({ action: z.literal('reopen'), reason: z.string().trim().min(1, 'give a reason for reopening').max(4000) }),

@@ -5,6 +5,7 @@ import {
   stageKeySchema,
   stagePatchSchema,
   stageSchema,
+  stageSubmissionListSchema,
   stageTransitionSchema,
   type StageKey,
 } from '@trabeate/contracts';
@@ -14,6 +15,7 @@ import { route, type RouteDecl } from '../access/registry';
 import type { Caller } from '../access/policy';
 import type { Notices } from '../notices/notices';
 import { listComments, listStages } from './stages.repository';
+import { listSubmissions } from './stage-submissions';
 import { addComment, commentOf, patchStage, stageOf, transition } from './stages.service';
 
 const callerOf = (req: Request): Caller => req.caller as Caller;
@@ -54,6 +56,16 @@ export function stageRoutes(db: Db, notices: Notices): RouteDecl[] {
       validate({ params: stageParams, body: stageTransitionSchema }),
       async (req, res) => {
         res.json(await transition(db, notices, callerOf(req), req.project!.id, keyOf(req), req.body));
+      },
+    ),
+    route(
+      'get',
+      '/projects/:projectId/stages/:stageKey/submissions',
+      // Checks and justifications are the firm's review: clients see the stage's progress only.
+      'project:internal',
+      validate({ params: stageParams }),
+      async (req, res) => {
+        res.json(stageSubmissionListSchema.parse(await listSubmissions(db, req.project!.id, keyOf(req))));
       },
     ),
     route(

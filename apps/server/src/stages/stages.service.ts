@@ -25,6 +25,7 @@ import {
 } from './stages.repository';
 import { offerStageDraft } from '../fees/fees.service';
 import { allowedActions, STATE_WORDS, transitionRefusal, TRANSITIONS } from './stage-rules';
+import { insertSubmission, openSubmission, recordDecision, submissionBasis } from './stage-submissions';
 
 export function stageOf(r: StageRow, caller: Caller, archived: boolean): Stage {
   return {
@@ -173,6 +174,9 @@ export async function transition(
     if (refusal)
       throw new HttpError(refusal.status, refusal.status === 409 ? 'conflict' : 'forbidden', refusal.message);
 
+    // A stage that rests on a scheme passes the check gate before anything changes.
+    const basis = input.action === 'submit' ? await submissionBasis(trx, projectId, key, input) : null;
+
     const t = TRANSITIONS[input.action];
     const changes: Record<string, unknown> = { state: t.to };
     if (input.action === 'start') changes['started_at'] = trx.fn.now();
@@ -180,10 +184,42 @@ export async function transition(
     if (input.action === 'approve') changes['approved_at'] = trx.fn.now();
     if (input.action === 'reopen') changes['approved_at'] = null;
     await updateStage(trx, projectId, key, changes);
-    // Approval offers the principal a draft invoice for the stage's share of the fee.
-    if (input.action === 'approve') await offerStageDraft(trx, caller, projectId, key);
+    // Approval offers the principal a draft invoice for the stage's share of the fee (or points at
+    // the stage's draft that is already waiting).
+    const offeredInvoiceId =
+      input.action === 'approve'
+        ? ((await offerStageDraft(trx, caller, projectId, key)) ??
+          (await trx('invoices').where({ project_id: projectId, stage_key: key, state: 'draft' }).first('id'))?.id ??
+          null)
+        : null;
 
     const text = input.action === 'reopen' ? input.reason : 'comment' in input ? input.comment : undefined;
+    // The decision is recorded against the submission (and so the scheme version) it answers.
+    const answered =
+      input.action === 'approve' || input.action === 'return' ? await openSubmission(trx, projectId, key) : undefined;
+    if (answered)
+      await recordDecision(trx, answered.id, {
+        outcome: input.action === 'approve' ? 'approved' : 'returned',
+        by: caller.userId,
+        comment: text,
+        invoiceId: offeredInvoiceId,
+      });
+    const submissionId = basis
+      ? await insertSubmission(trx, {
+          firmId: caller.firmId,
+          projectId,
+          key,
+          submittedBy: caller.userId,
+          comment: text,
+          basis,
+        })
+      : answered?.id;
+    const scheme = basis?.scheme
+      ? { name: basis.scheme.name, version: basis.scheme.version }
+      : answered?.scheme_name && answered.scheme_version
+        ? { name: answered.scheme_name, version: answered.scheme_version }
+        : null;
+    const justified = basis?.justifications.length ?? 0;
     if (text)
       await insertComment(trx, { projectId, stageKey: key, authorId: caller.userId, body: text, action: input.action });
     await insertActivity(trx, {
@@ -194,8 +230,18 @@ export async function transition(
       objectType: 'stage',
       objectId: `${projectId}:${key}`,
       stageKey: key,
-      summary: `${caller.displayName} ${VERB[input.action]} ${title}${input.action === 'submit' ? ' for review' : ''}`,
-      details: { from: current.state, to: t.to, ...(text ? { comment: text } : {}) },
+      summary:
+        `${caller.displayName} ${VERB[input.action]} ${title}${input.action === 'submit' ? ' for review' : ''}` +
+        (scheme ? ` (${scheme.name}, version ${scheme.version})` : '') +
+        (justified ? `, with ${justified} error-level check${justified === 1 ? '' : 's'} justified` : ''),
+      details: {
+        from: current.state,
+        to: t.to,
+        ...(text ? { comment: text } : {}),
+        ...(submissionId ? { submissionId } : {}),
+        ...(scheme ? { schemeVersion: scheme.version } : {}),
+        ...(basis?.scheme ? { schemeId: basis.scheme.id } : {}),
+      },
     });
     await trx('projects').where({ id: projectId }).update({ updated_at: trx.fn.now() });
 

@@ -2,7 +2,14 @@ import { HttpClient, provideHttpClient } from '@angular/common/http';
 import { HttpTestingController, provideHttpClientTesting } from '@angular/common/http/testing';
 import { ANIMATION_MODULE_TYPE, inject } from '@angular/core';
 import { ComponentFixture, TestBed } from '@angular/core/testing';
-import { commentSchema, deliverableSchema, stageSchema, type ProjectPage, type Stage } from '@trabeate/contracts';
+import {
+  commentSchema,
+  deliverableSchema,
+  stageSchema,
+  stageSubmissionListSchema,
+  type ProjectPage,
+  type Stage,
+} from '@trabeate/contracts';
 import { reply, replyError } from '../../../../testing/api-replies';
 import { aProjectPage } from '../../../../testing/fixtures';
 import { UPLOAD_HTTP } from '../projects-api';
@@ -11,13 +18,14 @@ import { StagePanel } from './stage-panel';
 
 const PROJECT_ID = '00000000-0000-4000-8000-000000000301';
 const ENGINEER = { id: '00000000-0000-4000-8000-000000000202', displayName: 'Cato Brennagh' };
-const BASE = `/api/projects/${PROJECT_ID}/stages/column_layout`;
+// Slab panels is submitted without a scheme; the scheme stages have their own specs below.
+const BASE = `/api/projects/${PROJECT_ID}/stages/slab_panels`;
 
 function stage(extra: Partial<Stage> = {}): Stage {
   return {
-    key: 'column_layout',
-    title: 'Column layout',
-    position: 2,
+    key: 'slab_panels',
+    title: 'Slab panels',
+    position: 4,
     state: 'in_progress',
     assignee: ENGINEER,
     dueDate: '2026-04-01',
@@ -87,8 +95,9 @@ describe('StagePanel', () => {
     fixture.detectChanges();
     TestBed.tick();
     if (as.abilities.seeInternal) {
-      reply(backend.expectOne(`${BASE}/deliverables`), deliverableSchema.array(), []);
-      reply(backend.expectOne(`${BASE}/comments`), commentSchema.array(), []);
+      const base = `/api/projects/${PROJECT_ID}/stages/${s.key}`;
+      reply(backend.expectOne(`${base}/deliverables`), deliverableSchema.array(), []);
+      reply(backend.expectOne(`${base}/comments`), commentSchema.array(), []);
     }
     await settle();
   }
@@ -142,7 +151,7 @@ describe('StagePanel', () => {
     await open(stage({ state: 'under_review', allowedActions: ['approve', 'return'] }), true);
     (el().querySelector('[data-testid="action-approve"]') as HTMLButtonElement).click();
     await settle(50);
-    expect(document.querySelector('mat-dialog-container h2')?.textContent).toContain('Approve Column layout?');
+    expect(document.querySelector('mat-dialog-container h2')?.textContent).toContain('Approve Slab panels?');
     backend.expectNone(`${BASE}/transitions`);
     (
       Array.from(document.querySelectorAll('mat-dialog-container button')).find((b) =>
@@ -222,6 +231,30 @@ describe('StagePanel', () => {
       'Upload at least one deliverable before submitting.',
     );
     expect(changed).toBe(1);
+  });
+
+  it('on a stage that rests on a scheme, shows the firm its review and submits through the scheme dialog', async () => {
+    const layout = `/api/projects/${PROJECT_ID}/stages/column_layout`;
+    await open(stage({ key: 'column_layout', title: 'Column layout', position: 2, allowedActions: ['submit'] }), false);
+    reply(backend.expectOne(`${layout}/submissions`), stageSubmissionListSchema, { items: [] });
+    await settle();
+    expect(el().querySelector('[data-testid="review-empty"]')?.textContent).toContain('Nothing submitted with a scheme yet');
+    (el().querySelector('[data-testid="action-submit"]') as HTMLButtonElement).click();
+    await settle(50);
+    expect(document.querySelector('mat-dialog-container h2')?.textContent).toContain('Submit Column layout for review');
+    // The dialog asks for the project's schemes; no transition goes out until the engineer submits there.
+    backend.expectOne((r) => r.url.startsWith(`/api/projects/${PROJECT_ID}/schemes`));
+    backend.expectNone(`${layout}/transitions`);
+  });
+
+  it('shows a client contact no review of a scheme stage, and never asks for it', async () => {
+    await open(
+      stage({ key: 'column_layout', title: 'Column layout', deliverableCount: null, commentCount: null }),
+      false,
+      project(false, false, false),
+    );
+    backend.expectNone(`/api/projects/${PROJECT_ID}/stages/column_layout/submissions`);
+    expect(el().querySelector('tb-stage-review')).toBeNull();
   });
 
   it('lets the principal assign an engineer and set a due date', async () => {

@@ -18,7 +18,13 @@ import { MatFormField, MatHint, MatLabel, MatSuffix } from '@angular/material/fo
 import { MatIcon } from '@angular/material/icon';
 import { MatInput } from '@angular/material/input';
 import { MatSelect } from '@angular/material/select';
-import type { ProjectPage, Stage, StageAction, StageTransition } from '@trabeate/contracts';
+import {
+  isSchemeStage,
+  type ProjectPage,
+  type Stage,
+  type StageAction,
+  type StageTransition,
+} from '@trabeate/contracts';
 import { firstValueFrom } from 'rxjs';
 import { errorMessage } from '../../../core/auth/api-error';
 import { Notice } from '../../../core/notice';
@@ -28,6 +34,8 @@ import { DeliverablesPanel } from './deliverables-panel';
 import { ConfirmDialog, type ConfirmData } from '../../../shared/confirm-dialog/confirm-dialog';
 import { StageActionDialog, StageActionDialogData } from './stage-action-dialog';
 import { StageComments } from './stage-comments';
+import { StageReview } from './stage-review';
+import { StageSubmitDialog, type StageSubmitDialogData } from './stage-submit-dialog';
 import { fromIsoDay, toIsoDay } from '../../../shared/dates/firm-date-adapter';
 import { DayPipe, DayTimePipe, WaitedPipe } from '../../../shared/dates/app-dates';
 import { StateMarker } from '../../../shared/state-marker/state-marker';
@@ -63,6 +71,7 @@ const DONE: Readonly<Record<StageAction, string>> = {
     MatOption,
     MatSelect,
     StageComments,
+    StageReview,
   ],
   templateUrl: './stage-panel.html',
   styleUrl: './stage-panel.scss',
@@ -95,6 +104,13 @@ export class StagePanel {
   protected readonly staff = computed(
     () => this.engineers() ?? this.project().members.filter((m) => m.role === 'engineer'),
   );
+  /** Column layout, Beam framing and Foundations are submitted with a scheme version and reviewed with its checks. */
+  protected readonly schemeStage = computed(() => isSchemeStage(this.stage().key));
+  /** Read the review again whenever the stage moves. */
+  protected readonly reviewRevision = computed(() => {
+    const s = this.stage();
+    return `${s.state}|${s.submittedAt ?? ''}|${s.approvedAt ?? ''}`;
+  });
   /** Files change only while the work is open: not under review, not once approved. */
   protected readonly canUpload = computed(
     () => this.work() && this.stage().state !== 'under_review' && this.stage().state !== 'approved',
@@ -119,6 +135,19 @@ export class StagePanel {
   protected async act(action: StageAction): Promise<void> {
     if (this.busy()) return;
     let body: StageTransition;
+    if (action === 'submit' && this.schemeStage()) {
+      // The dialog names the scheme version, answers its error-level checks and submits itself.
+      const ref = this.dialog.open<StageSubmitDialog, StageSubmitDialogData, Stage>(StageSubmitDialog, {
+        data: { projectId: this.project().id, stageKey: this.stage().key, stageTitle: this.stage().title },
+        autoFocus: 'first-heading',
+      });
+      const submitted = await firstValueFrom(ref.afterClosed());
+      if (!submitted) return;
+      this.notice.show(DONE.submit, 5000);
+      this.comments()?.reload();
+      this.changed.emit();
+      return;
+    }
     if (action === 'return' || action === 'reopen') {
       const ref = this.dialog.open<StageActionDialog, StageActionDialogData, string>(StageActionDialog, {
         data: { action, stageTitle: this.stage().title },
@@ -132,7 +161,7 @@ export class StagePanel {
         data: {
           title: `Approve ${this.stage().title}?`,
           message:
-            'The stage is marked approved, its files can no longer change and the engineer is told by e-mail. You can reopen it later, giving a reason.',
+            'The stage is marked approved, its files can no longer change and the engineer is told by e-mail. If the stage carries a share of the fee, a draft invoice for it is prepared in Fees. You can reopen it later, giving a reason.',
           confirm: 'Approve stage',
           danger: false,
         },
