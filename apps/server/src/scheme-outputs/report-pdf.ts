@@ -39,6 +39,13 @@ export interface ReportInput {
 const f0 = (v: number) => (Number.isFinite(v) ? v.toFixed(0) : '—');
 const f1 = (v: number) => (Number.isFinite(v) ? v.toFixed(1) : '—');
 const f2 = (v: number) => (Number.isFinite(v) ? v.toFixed(2) : '—');
+/** A load factor as written in the codes: up to three decimals, no trailing noise (1.05, not 1.0499…). */
+const factor = (v: number) => String(Math.round(v * 1000) / 1000);
+/** A check's source with its kind in brackets, unless the source already says it. */
+const sourced = (source: string, kind: string) => {
+  const words = KIND_WORDS[kind] ?? kind;
+  return source.toLowerCase().includes(words) ? source : `${source} (${words})`;
+};
 const KIND_WORDS: Record<string, string> = {
   code: 'design code',
   practice: 'common practice',
@@ -138,7 +145,7 @@ function designBasis(doc: Doc, d: ReportInput) {
         { header: 'Imposed factor', width: 80 },
         { header: 'Source', width: 211 },
       ],
-      d.results.combinations.map((c) => [c.id, String(c.dead), String(c.live), c.source]),
+      d.results.combinations.map((c) => [c.id, factor(c.dead), factor(c.live), c.source]),
     );
   }
   note(
@@ -180,8 +187,9 @@ function checks(doc: Doc, d: ReportInput) {
         c.ruleId,
         c.severity,
         c.message,
-        `${f1(c.value)} ${c.sense === 'max' ? '≤' : '≥'} ${f1(c.limit)} ${c.unit}`,
-        `${c.source} (${KIND_WORDS[c.sourceKind] ?? c.sourceKind})`,
+        // the shipped Latin subset has no ≤ or ≥: words instead
+        `${f1(c.value)} ${c.unit}, ${c.sense === 'max' ? 'at most' : 'at least'} ${f1(c.limit)}`,
+        sourced(c.source, c.sourceKind),
       ]),
     );
   doc.moveDown(0.5);
@@ -199,7 +207,7 @@ function checks(doc: Doc, d: ReportInput) {
       p.ruleId,
       String(p.count),
       p.tightest.message,
-      `${p.tightest.source} (${KIND_WORDS[p.tightest.sourceKind] ?? p.tightest.sourceKind})`,
+      sourced(p.tightest.source, p.tightest.sourceKind),
     ]),
   );
 }
@@ -214,10 +222,10 @@ function columnSchedule(doc: Doc, d: ReportInput) {
       { header: 'Mark', width: 44 },
       { header: 'Position x, y (m)', width: 84 },
       { header: 'Section (mm)', width: 70 },
-      { header: 'Factored load, lowest storey (kN)', width: 96 },
+      { header: 'Pu storey 1 (kN)', width: 96 },
       { header: 'Capacity (kN)', width: 66 },
       { header: 'Utilisation', width: 62 },
-      { header: 'Square side needed (mm)', width: 89 },
+      { header: 'Side needed (mm)', width: 89 },
     ],
     d.document.columns.map((c) => {
       const l = loads.get(c.id);
@@ -233,7 +241,10 @@ function columnSchedule(doc: Doc, d: ReportInput) {
       ];
     }),
   );
-  if (d.results.sizes.columns[0]) note(doc, `Capacity: ${d.results.sizes.columns[0].source}.`);
+  note(
+    doc,
+    `Pu storey 1: factored axial load in the lowest storey. ${d.results.sizes.columns[0] ? `Capacity: ${d.results.sizes.columns[0].source}.` : ''}`,
+  );
 }
 
 function beamSchedule(doc: Doc, d: ReportInput) {
@@ -246,8 +257,8 @@ function beamSchedule(doc: Doc, d: ReportInput) {
       { header: 'Support', width: 62 },
       { header: 'b (mm)', width: 40 },
       { header: 'Design M (kN·m)', width: 60 },
-      { header: 'Depth by span/depth, by moment (mm)', width: 92 },
-      { header: 'Adopted depth (mm)', width: 60 },
+      { header: 'd span, moment', width: 92 },
+      { header: 'Adopted (mm)', width: 60 },
       { header: 'Governs', width: 71 },
     ],
     d.results.sizes.beams.map((b) => [
@@ -262,7 +273,10 @@ function beamSchedule(doc: Doc, d: ReportInput) {
     ]),
   );
   const first = d.results.sizes.beams[0];
-  if (first) note(doc, `Span/depth: ${first.spanDepthSource}. Moment: ${first.momentSource}.`);
+  note(
+    doc,
+    `d span, moment: overall depth needed by the span/depth limit and by moment capacity, mm.${first ? ` Span/depth: ${first.spanDepthSource}. Moment: ${first.momentSource}.` : ''}`,
+  );
 }
 
 function footingSchedule(doc: Doc, d: ReportInput) {
@@ -551,7 +565,7 @@ function quantities(doc: Doc, d: ReportInput) {
       { header: 'Concrete (m³)', width: 66 },
       { header: 'Steel (kg)', width: 66 },
       { header: 'Formwork (m²)', width: 66 },
-      { header: 'Steel ratio (kg/m³)', width: 100 },
+      { header: 'Steel (kg/m³)', width: 100 },
       { header: 'Cost', width: 143 },
     ],
     [
