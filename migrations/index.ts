@@ -11,6 +11,7 @@ import * as m20261222000101 from './20261222000101_fee_activity';
 import * as m20261223000001 from './20261223000001_schemes';
 import * as m20261224000001d from './20261224000001_drawing_current_revision';
 import * as m20261224000001s from './20261224000001_stage_submissions';
+import * as m20261224000201 from './20261224000201_scheme_outputs';
 
 /** Every migration, by name, in the order they run. Add new ones here as well as in the folder. */
 export const migrations: Record<string, Knex.Migration> = {
@@ -26,4 +27,5 @@ export const migrations: Record<string, Knex.Migration> = {
   '20261223000001_schemes': m20261223000001,
   '20261224000001_drawing_current_revision': m20261224000001d,
   '20261224000001_stage_submissions': m20261224000001s,
+  '20261224000201_scheme_outputs': m20261224000201,
 };

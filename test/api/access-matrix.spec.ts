@@ -85,6 +85,8 @@ const SPARE_SCHEME = {
   back: randomUUID(),
 };
 const SCHEMES = `/projects/${KESTREL}/schemes`;
+// A finished report of scheme A, stored, for the report rows.
+const MATRIX_REPORT = randomUUID();
 
 interface Entry {
   expect: Expected;
@@ -330,6 +332,33 @@ const MATRIX: Record<string, Entry> = {
   'POST /projects/:projectId/schemes/:schemeId/versions/:version/restore': {
     path: `${SCHEMES}/${SPARE_SCHEME.back}/versions/1/restore`,
     expect: schemeEdit(201),
+  },
+  'POST /projects/:projectId/schemes/:schemeId/versions/:version/reports': {
+    path: `${SCHEMES}/${DEMO_SCHEMES.full.id}/versions/1/reports`,
+    body: () => ({}),
+    expect: { ...schemeRead, principal: 202, assignedEngineer: 202 },
+  },
+  'GET /projects/:projectId/scheme-reports/:reportId': {
+    path: `/projects/${KESTREL}/scheme-reports/${MATRIX_REPORT}`,
+    expect: schemeRead,
+  },
+  'GET /projects/:projectId/scheme-reports/:reportId/file': {
+    path: `/projects/${KESTREL}/scheme-reports/${MATRIX_REPORT}/file`,
+    expect: schemeRead,
+  },
+  'GET /projects/:projectId/schemes/:schemeId/versions/:version/sheet.svg': {
+    path: `${SCHEMES}/${DEMO_SCHEMES.full.id}/versions/1/sheet.svg?size=A3&scale=200`,
+    expect: schemeRead,
+  },
+  'GET /projects/:projectId/schemes/:schemeId/versions/:version/sheet.pdf': {
+    path: `${SCHEMES}/${DEMO_SCHEMES.full.id}/versions/1/sheet.pdf?size=A3&scale=200`,
+    expect: schemeRead,
+  },
+  // Each caller that may, registers the sheet on a new drawing of its own.
+  'POST /projects/:projectId/schemes/:schemeId/versions/:version/sheet/revisions': {
+    path: `${SCHEMES}/${DEMO_SCHEMES.full.id}/versions/1/sheet/revisions`,
+    body: (c) => ({ size: 'A3', scale: 200, newDrawing: { title: `Matrix sheet ${c}`, stageKey: 'column_layout' } }),
+    expect: { ...schemeRead, principal: 201, assignedEngineer: 201 },
   },
   'GET /projects/:projectId': {
     path: `/projects/${KESTREL}`,
@@ -632,6 +661,25 @@ describe('authorization matrix: every API route against every kind of caller', (
         }),
       );
     }
+    const reportPdf = tinyPdf('Matrix report');
+    await t.store.putStream(`reports/${KESTREL}/${MATRIX_REPORT}`, Readable.from([reportPdf]), {
+      contentType: 'application/pdf',
+    });
+    await t.db('scheme_reports').insert({
+      id: MATRIX_REPORT,
+      firm_id: DEMO.firm.id,
+      project_id: KESTREL,
+      scheme_id: DEMO_SCHEMES.full.id,
+      scheme_version: 1,
+      state: 'done',
+      sections_done: 8,
+      sections_total: 8,
+      object_key: `reports/${KESTREL}/${MATRIX_REPORT}`,
+      size_bytes: reportPdf.length,
+      pages: 1,
+      requested_by: DEMO.users.engineerA.id,
+      finished_at: new Date(),
+    });
     await seedRegisterForMatrix(t.db, t.store, {
       firmId: DEMO.firm.id,
       projectId: KESTREL,

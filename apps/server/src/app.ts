@@ -32,6 +32,7 @@ import { invoiceRoutes } from './invoices/invoices.routes';
 import { paymentRoutes, STRIPE_WEBHOOK_PATH } from './payments/payments.routes';
 import { createPayments, type Payments } from './payments/stripe-client';
 import { schemeRoutes } from './schemes/schemes.routes';
+import { schemeOutputRoutes } from './scheme-outputs/scheme-outputs.routes';
 import { storageUnavailableHandler, type ObjectStore } from './storage';
 
 export interface AppDeps {
@@ -179,6 +180,13 @@ export function createApp({ config, db, logger, version = '0.1.0', store, jobs, 
     ...deliverableRoutes(db, store, config.UPLOAD_MAX_BYTES ?? 1024 * 1024 * 1024),
     ...activityRoutes(db),
     ...schemeRoutes(db),
+    ...schemeOutputRoutes({
+      db,
+      store,
+      jobs,
+      logger,
+      pollingIntervalSeconds: config.NODE_ENV === 'production' ? 2 : 0.5,
+    }),
     ...drawingRoutes(db, store, config.UPLOAD_MAX_BYTES ?? 1024 * 1024 * 1024),
     ...transmittalRoutes({
       db,

@@ -9,3 +9,4 @@ export * from './errors';
 export * from './drawings';
 export * from './fees';
 export * from './stage-review';
+export * from './scheme-outputs';

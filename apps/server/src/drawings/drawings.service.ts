@@ -267,6 +267,8 @@ export async function registerRevision(
   projectId: string,
   drawingId: string,
   body: RevisionCreate,
+  /** the scheme version a generated plan sheet was drawn from (scheme-outputs) */
+  origin?: { schemeId: string; schemeVersion: number },
 ): Promise<Revision> {
   const id = await db.transaction(async (trx) => {
     await refuseArchived(trx, projectId);
@@ -302,6 +304,7 @@ export async function registerRevision(
         description: body.description,
         revision_date: body.date,
         drawn_by: caller.userId,
+        ...(origin ? { scheme_id: origin.schemeId, scheme_version: origin.schemeVersion } : {}),
       })
       .returning('id');
     await insertActivity(trx, {

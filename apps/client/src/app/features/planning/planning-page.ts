@@ -47,6 +47,7 @@ import { createPlanWorker } from './plan-worker-factory';
 import { PlanView, type ColumnDrop, type ColumnPick } from './plan-view';
 import { ResultsPanel } from './results-panel';
 import { SchemesApi, schemeUrl } from './schemes-api';
+import { SchemeOutputs } from './scheme-outputs';
 
 type SeverityFilter = CheckSeverity | 'all';
 
@@ -74,6 +75,7 @@ export const KEY_STEP_M = 0.05;
     PlanView,
     ResultsPanel,
     RouterLink,
+    SchemeOutputs,
   ],
   templateUrl: './planning-page.html',
   styleUrls: ['../../shared/page/page.scss', './planning-page.scss'],
@@ -113,6 +115,8 @@ export class PlanningPage {
   /** the earlier save shown in the editor, when one was opened from the history */
   protected readonly openedVersion = signal<number | null>(null);
   protected readonly historyOpen = signal(false);
+  /** the report and plan sheet of the version this session started from */
+  protected readonly outputsOpen = signal(false);
   protected readonly historyBusy = signal(false);
   protected readonly history = httpResource(
     () => (this.historyOpen() ? `${schemeUrl(this.projectId(), this.schemeId())}/versions?pageSize=50` : undefined),

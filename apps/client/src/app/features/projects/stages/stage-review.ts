@@ -1,5 +1,7 @@
 import { httpResource } from '@angular/common/http';
-import { ChangeDetectionStrategy, Component, computed, input } from '@angular/core';
+import { ChangeDetectionStrategy, Component, computed, input, signal } from '@angular/core';
+import { MatButton } from '@angular/material/button';
+import { SchemeOutputs } from '../../planning/scheme-outputs';
 import { RouterLink } from '@angular/router';
 import {
   checkKey,
@@ -22,7 +24,7 @@ import { formatMinor } from '../../fees/money';
  */
 @Component({
   selector: 'tb-stage-review',
-  imports: [DayTimePipe, RouterLink, StateMarker],
+  imports: [DayTimePipe, MatButton, RouterLink, SchemeOutputs, StateMarker],
   templateUrl: './stage-review.html',
   styleUrl: './stage-review.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
@@ -34,6 +36,8 @@ export class StageReview {
   readonly revision = input<string>('');
   /** The principal may open the Fees page, where the offered draft waits. */
   readonly canBill = input(false);
+  /** the report and plan sheet panel (tb-scheme-outputs), opened on demand */
+  protected readonly outputsOpen = signal(false);
 
   protected readonly submissions = httpResource(
     () => {

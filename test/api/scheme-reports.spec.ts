@@ -1,0 +1,250 @@
+import type TestAgent from 'supertest/lib/agent';
+import type { Response } from 'supertest';
+import {
+  planSheetRegisteredSchema,
+  schemeReportSchema,
+  schemeVersionSchema,
+  type SchemeReport,
+  type SchemeVersion,
+} from '@trabeate/contracts';
+import { CAUTION, ENGINE_VERSION } from '@trabeate/structural';
+import { DEMO } from '../../seeds/demo';
+import { DEMO_SCHEMES } from '../../seeds/demo-schemes';
+import { DEMO_DRAWINGS } from '../../seeds/demo-drawings';
+import { testApp, type TestApp } from '../support/app';
+import { send, signedInAs, until } from '../support/agents';
+
+// pdf-parse 1.1.1's index runs a debug self-test when required directly; its library file does not.
+// eslint-disable-next-line @typescript-eslint/no-require-imports
+const pdfParse = require('pdf-parse/lib/pdf-parse.js') as (b: Buffer) => Promise<{ text: string; numpages: number }>;
+
+jest.setTimeout(90_000);
+
+const KESTREL = DEMO.projects.kestrel.id;
+const schemes = `/api/projects/${KESTREL}/schemes`;
+const at = (schemeId: string, version = 1) => `${schemes}/${schemeId}/versions/${version}`;
+
+const binary = (req: ReturnType<TestAgent['get']>) =>
+  req.buffer(true).parse((r, cb) => {
+    const chunks: Buffer[] = [];
+    r.on('data', (c: Buffer) => chunks.push(c));
+    r.on('end', () => cb(null, Buffer.concat(chunks)));
+  });
+
+// Text extraction joins words differently from how they were laid out: compare without whitespace.
+const squash = (s: string) => s.replace(/\s+/g, '');
+
+describe('scheme outputs: calculation report, plan sheet, registering the sheet', () => {
+  let t: TestApp;
+  let engineer: TestAgent;
+  let principal: TestAgent;
+  let client: TestAgent;
+  let outsider: TestAgent;
+  const stored: Record<string, SchemeVersion> = {};
+
+  beforeAll(async () => {
+    t = await testApp({ seed: true, identity: true });
+    engineer = await signedInAs(t, DEMO.users.engineerA.email);
+    principal = await signedInAs(t, DEMO.users.principal.email);
+    client = await signedInAs(t, DEMO.users.fenwickContact.email);
+    outsider = await signedInAs(t, DEMO.users.engineerB.email);
+    for (const s of [DEMO_SCHEMES.full, DEMO_SCHEMES.fewer])
+      stored[s.id] = schemeVersionSchema.parse((await principal.get(at(s.id))).body);
+  });
+  afterAll(() => t.close());
+
+  async function finished(agent: TestAgent, created: Response): Promise<SchemeReport> {
+    expect(created.status).toBe(202);
+    const report = schemeReportSchema.parse(created.body);
+    expect(report.state).toBe('queued');
+    let last = report;
+    await until(
+      'the report job',
+      async () => {
+        last = schemeReportSchema.parse((await agent.get(`/api/projects/${KESTREL}/scheme-reports/${report.id}`)).body);
+        return last.state === 'done' || last.state === 'failed';
+        // a deadline for a loaded shared machine, not a speed check (bench figures are printed elsewhere)
+      },
+      120_000,
+    );
+    return last;
+  }
+
+  async function reportText(agent: TestAgent, report: SchemeReport) {
+    const file = await binary(agent.get(`/api/projects/${KESTREL}/scheme-reports/${report.id}/file`));
+    expect(file.status).toBe(200);
+    expect(file.headers['content-type']).toBe('application/pdf');
+    return pdfParse(file.body as Buffer);
+  }
+
+  it.each([
+    ['A (full grid)', DEMO_SCHEMES.full],
+    ['B (one column fewer)', DEMO_SCHEMES.fewer],
+  ])(
+    "writes scheme %s's report through the job queue from its stored results, with the caution and footer on every page",
+    async (_name, scheme) => {
+      const report = await finished(engineer, await send(engineer, 'post', `${at(scheme.id)}/reports`, {}));
+      expect(report).toMatchObject({ state: 'done', failure: null, progress: { done: 8, total: 8 } });
+      const { text, numpages } = await reportText(engineer, report);
+      expect(numpages).toBe(report.pages);
+      const flat = squash(text);
+      const v = stored[scheme.id];
+      // design basis as saved (Kestrel Yard's: EN 1992, 30 MPa, 180 kPa, 7 storeys of 3.1 m)
+      expect(text).toContain('EN1992');
+      expect(flat).toContain(squash(`${v.document.basis.concreteMPa} MPa`));
+      expect(flat).toContain(squash(`${v.document.basis.bearingPressureKPa} kPa`));
+      expect(flat).toContain(squash(`${v.document.basis.storeys} × ${v.document.basis.storeyHeightM} m`));
+      // a failing check in full, with its source
+      const failing = v.results.checks[0];
+      expect(failing).toBeDefined();
+      expect(flat).toContain(squash(failing.ruleId));
+      expect(flat).toContain(squash(failing.source).slice(0, 40));
+      // schedules: every column mark, and the beam members
+      for (const c of v.document.columns) expect(text).toContain(c.label);
+      expect(flat).toContain('Columnschedule');
+      expect(flat).toContain('Beamschedule');
+      expect(flat).toContain('Footingschedule');
+      expect(flat).toContain(squash(`engine ${ENGINE_VERSION}`));
+      // the caution and the footer on every page
+      expect(flat.split('PRELIMINARY.').length - 1).toBe(numpages);
+      expect(flat.split(squash(CAUTION.slice(0, 60))).length - 1).toBe(numpages);
+      for (let p = 1; p <= numpages; p++) expect(flat).toContain(squash(`version 1 · page ${p} of ${numpages}`));
+      expect(flat).toContain(squash(scheme.name));
+      // the beam lines are drawn from the engine's envelope diagram, not the simplified fallback
+      expect(flat).toContain('Envelopesofthefactoredloadarrangements');
+      expect(flat).not.toContain('(simplifieddiagram)');
+    },
+  );
+
+  it('files the finished report on the stage named, as a deliverable of the requester', async () => {
+    const report = await finished(
+      engineer,
+      await send(engineer, 'post', `${at(DEMO_SCHEMES.full.id)}/reports`, { stageKey: 'beam_framing' }),
+    );
+    expect(report).toMatchObject({ state: 'done', stageKey: 'beam_framing', failure: null });
+    const row = await t.db('deliverables').where({ id: report.deliverableId }).first();
+    expect(row).toMatchObject({
+      stage_key: 'beam_framing',
+      uploaded_by: DEMO.users.engineerA.id,
+      content_type: 'application/pdf',
+    });
+  });
+
+  it('refuses a report of a version that does not exist with 404, before queueing anything', async () => {
+    const before = await t.db('scheme_reports').count<{ n: string }[]>('* as n');
+    expect((await send(engineer, 'post', `${at(DEMO_SCHEMES.full.id, 99)}/reports`, {})).status).toBe(404);
+    expect(await t.db('scheme_reports').count<{ n: string }[]>('* as n')).toEqual(before);
+  });
+
+  it('draws the plan sheet with grid, columns, property lines and our title panel, as PDF and as SVG', async () => {
+    const v = stored[DEMO_SCHEMES.full.id];
+    const pdf = await binary(principal.get(`${at(DEMO_SCHEMES.full.id)}/sheet.pdf?size=A3&scale=200`));
+    expect(pdf.status).toBe(200);
+    const { text, numpages } = await pdfParse(pdf.body as Buffer);
+    expect(numpages).toBe(1);
+    const flat = squash(text);
+    for (const c of v.document.columns) expect(text).toContain(c.label);
+    for (const g of v.document.grid) expect(text).toContain(g.label);
+    for (const field of ['Drawingnumber', 'Revision', 'Suitability', 'Scale', 'Drawn', 'Checked', 'Approved', 'Date'])
+      expect(flat).toContain(field);
+    expect(flat).toContain('1:200atA3');
+    expect(flat).toContain('PROPERTYLINE');
+    expect(flat).toContain(DEMO.projects.kestrel.reference);
+    expect(flat).toContain(squash(CAUTION.slice(0, 50)));
+
+    const svg = await binary(principal.get(`${at(DEMO_SCHEMES.full.id)}/sheet.svg?size=A3&scale=200`));
+    expect(svg.status).toBe(200);
+    expect(svg.headers['content-type']).toMatch(/^image\/svg\+xml/);
+    const body = (svg.body as Buffer).toString('utf8');
+    // same geometry: one filled rectangle per column in both
+    const columnShapes = (body.match(/<polygon [^>]*fill="#1d2427" stroke="#1d2427" stroke-width="0.35"/g) ?? [])
+      .length;
+    expect(columnShapes).toBe(v.document.columns.length);
+    expect(body).toContain('>PROPERTY LINE<');
+  });
+
+  it('refuses a scale at which the plan does not fit the sheet, naming the smallest that fits', async () => {
+    const res = await principal.get(`${at(DEMO_SCHEMES.full.id)}/sheet.pdf?size=A4&scale=50`);
+    expect(res.status).toBe(400);
+    expect(res.body.error.message).toMatch(/smallest scale that fits is 1:(\d+)/);
+    const smallest = Number(/1:(\d+)\.$/.exec(res.body.error.message)![1]);
+    expect(smallest).toBeGreaterThan(50);
+    expect((await principal.get(`${at(DEMO_SCHEMES.full.id)}/sheet.svg?size=A4&scale=${smallest}`)).status).toBe(200);
+    // and a scale that is not on the list is a plain 400
+    expect((await principal.get(`${at(DEMO_SCHEMES.full.id)}/sheet.svg?size=A3&scale=123`)).status).toBe(400);
+  });
+
+  it('registers the sheet as a new draft revision of a drawing, recording the scheme version, then it follows check and approve', async () => {
+    const res = await send(engineer, 'post', `${at(DEMO_SCHEMES.fewer.id)}/sheet/revisions`, {
+      size: 'A3',
+      scale: 200,
+      drawingId: DEMO_DRAWINGS.columns.id,
+      suitability: 'S3',
+      purpose: 'comment',
+    });
+    expect(res.status).toBe(201);
+    const out = planSheetRegisteredSchema.parse(res.body);
+    expect(out).toMatchObject({ drawingNumber: 'S-002', version: 1, schemeId: DEMO_SCHEMES.fewer.id });
+    expect(out.revision).toMatchObject({ code: 'P02', state: 'draft', suitability: 'S3' });
+    expect(out.revision.files).toEqual([expect.objectContaining({ role: 'pdf' })]);
+    const row = await t.db('drawing_revisions').where({ id: out.revision.id }).first();
+    expect(row).toMatchObject({ scheme_id: DEMO_SCHEMES.fewer.id, scheme_version: 1 });
+    // the stored PDF carries the drawing number and revision in its title panel
+    const file = await binary(
+      principal.get(`/api/projects/${KESTREL}/revisions/${out.revision.id}/files/${out.revision.files[0].id}/download`),
+    );
+    expect(file.status).toBe(200);
+    const flat = squash((await pdfParse(file.body as Buffer)).text);
+    expect(flat).toContain('S-002');
+    expect(flat).toContain('P02');
+    // a second sheet while this draft is open is refused, as for any revision
+    const again = await send(engineer, 'post', `${at(DEMO_SCHEMES.fewer.id)}/sheet/revisions`, {
+      size: 'A3',
+      scale: 200,
+      drawingId: DEMO_DRAWINGS.columns.id,
+    });
+    expect(again.status).toBe(409);
+    // the register's own flow takes it on
+    const checked = await send(principal, 'post', `/api/projects/${KESTREL}/revisions/${out.revision.id}/transitions`, {
+      action: 'check',
+    });
+    expect([200, 201]).toContain(checked.status);
+  });
+
+  it("registers the sheet on a new drawing with the register's next number", async () => {
+    const proposed = (await principal.get(`/api/projects/${KESTREL}/drawings/next-number`)).body;
+    const res = await send(principal, 'post', `${at(DEMO_SCHEMES.full.id)}/sheet/revisions`, {
+      size: 'A2',
+      scale: 100,
+      newDrawing: { title: 'Column layout, scheme A', stageKey: 'column_layout' },
+    });
+    expect(res.status).toBe(201);
+    const out = planSheetRegisteredSchema.parse(res.body);
+    if (proposed?.number) expect(out.drawingNumber).toBe(proposed.number);
+    expect(out.revision).toMatchObject({ code: 'P01', state: 'draft' });
+    const drawing = await t.db('drawings').where({ id: out.drawingId }).first();
+    expect(drawing).toMatchObject({ sheet_size: 'A2', scale: '1:100', stage_key: 'column_layout' });
+  });
+
+  it('refuses registering at a scale that does not fit, creating no drawing', async () => {
+    const before = await t.db('drawings').where({ project_id: KESTREL }).count<{ n: string }[]>('* as n');
+    const res = await send(engineer, 'post', `${at(DEMO_SCHEMES.full.id)}/sheet/revisions`, {
+      size: 'A4',
+      scale: 20,
+      newDrawing: { title: 'Too large', stageKey: 'column_layout' },
+    });
+    expect(res.status).toBe(400);
+    expect(await t.db('drawings').where({ project_id: KESTREL }).count<{ n: string }[]>('* as n')).toEqual(before);
+  });
+
+  it('keeps every output from clients and from engineers off the project', async () => {
+    for (const agent of [client, outsider]) {
+      const sheet = await agent.get(`${at(DEMO_SCHEMES.full.id)}/sheet.svg`);
+      expect([403, 404]).toContain(sheet.status);
+      const report = await send(agent, 'post', `${at(DEMO_SCHEMES.full.id)}/reports`, {});
+      expect([403, 404]).toContain(report.status);
+    }
+    expect((await client.get(`${at(DEMO_SCHEMES.full.id)}/sheet.svg`)).status).toBe(403);
+    expect((await outsider.get(`${at(DEMO_SCHEMES.full.id)}/sheet.svg`)).status).toBe(404);
+  });
+});
