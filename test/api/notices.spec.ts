@@ -1,6 +1,6 @@
 import { formatDay } from '@trabeate/dates';
 import type TestAgent from 'supertest/lib/agent';
-import { outboxMessageSchema } from '@trabeate/contracts';
+import { outboxPageSchema } from '@trabeate/contracts';
 import { DEMO } from '../../seeds/demo';
 import { MAIL_QUEUE } from '../../apps/server/src/jobs';
 import type { FakeSmtp } from '../../scripts/fakes/smtp';
@@ -92,15 +92,32 @@ describe('e-mail notices go through the queue and survive a mail server outage',
   });
 
   it('the development outbox lists the caught messages, newest first, for the principal only', async () => {
-    const res = await principal.get('/api/dev/outbox');
+    const res = await principal.get('/api/dev/outbox?pageSize=100');
     expect(res.status).toBe(200);
-    const messages = outboxMessageSchema.array().parse(res.body);
+    const { items: messages } = outboxPageSchema.parse(res.body);
     expect(messages[0]).toMatchObject({
       to: ['mira.sollen@sablequay.example'],
       html: expect.stringContaining('Accept the invitation'),
     });
     expect(messages.map((m) => m.subject)).toContain('Kestrel Yard apartments: Column layout is approved');
     expect((await tomas.get('/api/dev/outbox')).status).toBe(403);
+  });
+
+  it('the development outbox is paged by the server: each page holds the next messages, newest first', async () => {
+    const all = outboxPageSchema.parse((await principal.get('/api/dev/outbox?pageSize=100')).body);
+    expect(all.total).toBeGreaterThanOrEqual(2);
+    expect(all.items).toHaveLength(all.total);
+    const first = outboxPageSchema.parse((await principal.get('/api/dev/outbox?pageSize=1')).body);
+    const second = outboxPageSchema.parse((await principal.get('/api/dev/outbox?page=2&pageSize=1')).body);
+    expect(first).toMatchObject({ total: all.total, page: 1, pageSize: 1 });
+    expect(second).toMatchObject({ total: all.total, page: 2, pageSize: 1 });
+    expect([first.items[0].id, second.items[0].id]).toEqual([all.items[0].id, all.items[1].id]);
+    const past = outboxPageSchema.parse((await principal.get(`/api/dev/outbox?page=${all.total + 1}&pageSize=1`)).body);
+    expect(past).toMatchObject({ items: [], total: all.total });
+    // The default page is 25 messages, as on every paged list.
+    expect(outboxPageSchema.parse((await principal.get('/api/dev/outbox')).body).pageSize).toBe(25);
+    for (const bad of ['page=0', 'pageSize=101', 'pageSize=two'])
+      expect((await principal.get(`/api/dev/outbox?${bad}`)).status).toBe(400);
   });
 
   it('without the local fake configured, the outbox is not there', async () => {

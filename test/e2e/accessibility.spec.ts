@@ -1,9 +1,12 @@
 import path from 'node:path';
 import type { Page } from 'playwright-core';
-import { DEMO } from '../../seeds/demo-data';
-import { DEMO_PASSWORD } from '../../seeds/identity';
 import { openBrowser, SCREENSHOTS } from '../support/browser';
 import { testEnv } from '../support/env';
+import { ROLES, signIn, visit } from './main-pages';
+
+// Launching Chromium and signing in share the machine with other runs: the setup gets a wider
+// budget than a single step (not an assertion on speed).
+const SETUP_BUDGET_MS = 180_000;
 
 // Every existing main page, for each role, at a desktop and a phone size: axe-core (from npm,
 // injected into the page; nothing downloaded) must find no serious or critical violation, and the
@@ -15,8 +18,6 @@ const SIZES = [
   { name: 'desktop', width: 1440, height: 900 },
   { name: 'phone', width: 390, height: 844 },
 ] as const;
-const kestrel = `/projects/${DEMO.projects.kestrel.id}`;
-
 interface Violation {
   id: string;
   impact: string | null;
@@ -40,70 +41,6 @@ async function serious(page: Page): Promise<string[]> {
     .map((v) => `${v.impact} ${v.id}: ${v.help} at ${v.nodes.map((n) => n.target.join(' ')).join(', ')}`);
 }
 
-async function signIn(page: Page, base: string, user: { email: string; name: string }): Promise<void> {
-  await page.goto(`${base}/projects`);
-  await page.locator('[data-testid="sign-in"]').click({ timeout: 20_000 });
-  await page.locator('input#email').waitFor({ state: 'visible', timeout: 20_000 });
-  await page.fill('input#email', user.email);
-  await page.fill('input#password', DEMO_PASSWORD);
-  await page.getByRole('button', { name: 'Sign in' }).click();
-  await page.locator('[data-testid="user-name"]').filter({ hasText: user.name }).waitFor({ timeout: 20_000 });
-}
-
-/** Opens a page and waits until it has drawn its content (not a spinner). */
-async function visit(page: Page, url: string, ready: string): Promise<void> {
-  await page.goto(url);
-  await page.locator(ready).first().waitFor({ state: 'visible', timeout: 20_000 });
-  await page.waitForLoadState('networkidle');
-  // Let Material's entry animations finish so colours are measured at rest.
-  await page.waitForTimeout(300);
-}
-
-const ROLES: Array<{
-  role: string;
-  user: { email: string; name: string } | null;
-  pages: Array<{ name: string; url: string; ready: string }>;
-}> = [
-  {
-    role: 'principal',
-    user: DEMO.users.principal,
-    pages: [
-      { name: 'projects', url: '/projects', ready: '[data-testid="projects-table"]' },
-      { name: 'project', url: kestrel, ready: '[data-testid="stage-panel"]' },
-      { name: 'project-form', url: '/projects/new', ready: '[data-testid="project-form"]' },
-      { name: 'project-edit', url: `${kestrel}/edit`, ready: '[data-testid="project-form"]' },
-      { name: 'people', url: '/people', ready: 'main h1' },
-      { name: 'outbox', url: '/dev/outbox', ready: 'main h1' },
-      { name: 'status', url: '/status', ready: '[data-testid="status-database"]' },
-    ],
-  },
-  {
-    role: 'engineer',
-    user: DEMO.users.engineerA,
-    pages: [
-      { name: 'projects', url: '/projects', ready: '[data-testid="projects-table"]' },
-      { name: 'project', url: kestrel, ready: '[data-testid="stage-panel"]' },
-      { name: 'status', url: '/status', ready: '[data-testid="status-database"]' },
-    ],
-  },
-  {
-    role: 'client',
-    user: DEMO.users.fenwickContact,
-    pages: [
-      { name: 'projects', url: '/projects', ready: '[data-testid="projects-table"]' },
-      { name: 'project', url: kestrel, ready: '[data-testid="stage-panel"]' },
-    ],
-  },
-  {
-    role: 'signed-out',
-    user: null,
-    pages: [
-      { name: 'sign-in', url: '/sign-in', ready: '[data-testid="sign-in"]' },
-      { name: 'status', url: '/status', ready: '[data-testid="status-database"]' },
-    ],
-  },
-];
-
 describe.each(ROLES)('accessibility for the $role', ({ role, user, pages }) => {
   const base = testEnv('E2E_BASE_URL');
   let browser: Browser;
@@ -111,7 +48,7 @@ describe.each(ROLES)('accessibility for the $role', ({ role, user, pages }) => {
   beforeAll(async () => {
     browser = await openBrowser({ bypassCSP: true });
     if (user) await signIn(browser.page, base, user);
-  });
+  }, SETUP_BUDGET_MS);
   afterAll(() => browser?.close());
 
   it.each(pages)(

@@ -1,11 +1,18 @@
+import { mkdtempSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
 import path from 'node:path';
 import type { Page } from 'playwright-core';
 import { DEMO } from '../../seeds/demo-data';
+import { DEMO_DRAWINGS } from '../../seeds/demo-drawings';
 import { DEMO_PASSWORD } from '../../seeds/identity';
 import { openBrowser, SCREENSHOTS } from '../support/browser';
 import { testEnv } from '../support/env';
 
-// The principal's way in, by keyboard alone: no click, no mouse event anywhere in this file. Every
+// Launching Chromium and signing in share the machine with other runs: the setup gets a wider
+// budget than a single step (not an assertion on speed).
+const SETUP_BUDGET_MS = 180_000;
+
+// Each role's main flow by keyboard alone: no click, no mouse event anywhere in this file. Every
 // element the Tab key lands on must show a focus ring of at least 3 px (WCAG 2.2, 2.4.13).
 
 type Browser = Awaited<ReturnType<typeof openBrowser>>;
@@ -15,6 +22,8 @@ interface Focused {
   text: string;
   testId: string | null;
   href: string | null;
+  /** The data-testid of the nearest marked ancestor (the table or panel the element sits in). */
+  within: string | null;
   ring: number;
 }
 
@@ -30,6 +39,7 @@ const focused = (page: Page): Promise<Focused> =>
       text: (el?.textContent ?? '').trim().slice(0, 60),
       testId: el?.getAttribute('data-testid') ?? null,
       href: el?.getAttribute('href') ?? null,
+      within: el?.parentElement?.closest('[data-testid]')?.getAttribute('data-testid') ?? null,
       ring: Math.max(ring, field),
     };
   });
@@ -39,15 +49,64 @@ async function tabTo(
   page: Page,
   want: (f: Focused) => boolean,
   max = 40,
+  key: 'Tab' | 'Shift+Tab' = 'Tab',
 ): Promise<{ presses: number; stops: Focused[] }> {
   const stops: Focused[] = [];
   for (let i = 1; i <= max; i++) {
-    await page.keyboard.press('Tab');
+    await page.keyboard.press(key);
     const f = await focused(page);
     stops.push(f);
     if (want(f)) return { presses: i, stops };
   }
   throw new Error(`not reached in ${max} Tab presses; stops: ${stops.map((s) => s.testId ?? s.text).join(' | ')}`);
+}
+
+/** Signs in from the sign-in page with Tab, typing and Enter only. */
+async function signInByKeyboard(page: Page, base: string, user: { email: string; name: string }): Promise<void> {
+  await page.goto(`${base}/sign-in`);
+  await page.locator('[data-testid="sign-in"]').waitFor({ timeout: 20_000 });
+  await tabTo(page, (f) => f.testId === 'sign-in');
+  await page.keyboard.press('Enter');
+  await page.locator('input#email').waitFor({ state: 'visible', timeout: 20_000 });
+  await page.waitForFunction(() => document.activeElement?.id === 'email', null, { timeout: 20_000 });
+  await page.keyboard.type(user.email);
+  await page.keyboard.press('Tab');
+  await page.keyboard.type(DEMO_PASSWORD);
+  await page.keyboard.press('Enter');
+  await page.locator('[data-testid="user-name"]').filter({ hasText: user.name }).waitFor({ timeout: 60_000 });
+}
+
+/** From wherever focus is, back up to the main navigation and follow one of its links with Enter. */
+async function navigateByKeyboard(page: Page, id: string, ready: string): Promise<Focused[]> {
+  const { stops } = await tabTo(page, (f) => f.testId === `nav-${id}`, 80, 'Shift+Tab');
+  await page.keyboard.press('Enter');
+  await page.locator(ready).first().waitFor({ timeout: 20_000 });
+  await page.waitForLoadState('networkidle');
+  return stops;
+}
+
+const unringed = (stops: Focused[]) => stops.filter((s) => s.ring < 3);
+
+/** A one-page PDF, enough for the register's upload check (it reads the header, not the drawing). */
+function writePdf(name: string): string {
+  const objects = [
+    '1 0 obj\n<< /Type /Catalog /Pages 2 0 R >>\nendobj\n',
+    '2 0 obj\n<< /Type /Pages /Kids [3 0 R] /Count 1 >>\nendobj\n',
+    '3 0 obj\n<< /Type /Page /Parent 2 0 R /MediaBox [0 0 1684 2384] >>\nendobj\n',
+  ];
+  let body = '%PDF-1.4\n';
+  const offsets: number[] = [];
+  for (const o of objects) {
+    offsets.push(body.length);
+    body += o;
+  }
+  const xref = body.length;
+  body += `xref\n0 ${objects.length + 1}\n0000000000 65535 f \n`;
+  for (const o of offsets) body += `${String(o).padStart(10, '0')} 00000 n \n`;
+  body += `trailer\n<< /Size ${objects.length + 1} /Root 1 0 R >>\nstartxref\n${xref}\n%%EOF\n`;
+  const file = path.join(mkdtempSync(path.join(tmpdir(), 'trabeate-kbd-')), name);
+  writeFileSync(file, body);
+  return file;
 }
 
 describe('the principal by keyboard alone', () => {
@@ -59,7 +118,7 @@ describe('the principal by keyboard alone', () => {
     browser = await openBrowser();
     page = browser.page;
     await page.setViewportSize({ width: 1440, height: 900 });
-  });
+  }, SETUP_BUDGET_MS);
   afterAll(() => browser?.close());
 
   it('signs in with the keyboard', async () => {
@@ -108,6 +167,186 @@ describe('the principal by keyboard alone', () => {
     await page.waitForURL(/stage=stairs/, { timeout: 20_000 });
     await expect(page.locator('[data-testid="stage-panel"] h2').textContent()).resolves.toContain('Stairs');
     await page.screenshot({ path: path.join(SCREENSHOTS, 'keyboard-stage.png') });
+    expect(browser.outside).toEqual([]);
+  });
+});
+
+describe('the client by keyboard alone', () => {
+  const base = testEnv('E2E_BASE_URL');
+  let browser: Browser;
+  let page: Page;
+
+  beforeAll(async () => {
+    browser = await openBrowser();
+    page = browser.page;
+    await page.setViewportSize({ width: 1440, height: 900 });
+    await signInByKeyboard(page, base, DEMO.users.fenwickContact);
+  }, SETUP_BUDGET_MS);
+  afterAll(() => browser?.close());
+
+  it('opens a project from the list with Enter', async () => {
+    await page.locator('[data-testid="projects-table"]').waitFor({ timeout: 20_000 });
+    await page.waitForLoadState('networkidle');
+    const { stops } = await tabTo(page, (f) => /^\/projects\/[0-9a-f-]{36}$/.test(f.href ?? ''));
+    expect(unringed(stops)).toEqual([]);
+    await page.keyboard.press('Enter');
+    await page.locator('[data-testid="stage-timeline"]').waitFor({ timeout: 20_000 });
+  });
+
+  it('opens an issued drawing from the register and reaches its download', async () => {
+    const back = await navigateByKeyboard(page, 'drawings', '[data-testid="drawings-table"]');
+    const { stops } = await tabTo(
+      page,
+      (f) => f.within === 'drawings-table' && f.text === DEMO_DRAWINGS.columns.number,
+      60,
+    );
+    expect(unringed([...back, ...stops])).toEqual([]);
+    await page.keyboard.press('Enter');
+    await page.locator('[data-testid="drawing-detail"]').waitFor({ timeout: 20_000 });
+    const toFile = await tabTo(page, (f) => f.testId === 'file-download', 60);
+    expect(unringed(toFile.stops)).toEqual([]);
+    await page.screenshot({ path: path.join(SCREENSHOTS, 'keyboard-client-drawing.png') });
+  });
+
+  it('asked for nothing outside loopback', () => {
+    expect(browser.outside).toEqual([]);
+  });
+});
+
+// The demo's invoices are Alder Lane's, so its client contact (Harbourlight) takes this part.
+describe('a client by keyboard alone: from the Fees page to Pay', () => {
+  const base = testEnv('E2E_BASE_URL');
+  let browser: Browser;
+  let page: Page;
+
+  beforeAll(async () => {
+    browser = await openBrowser();
+    page = browser.page;
+    await page.setViewportSize({ width: 1440, height: 900 });
+    await signInByKeyboard(page, base, DEMO.users.harbourlightContact);
+  }, SETUP_BUDGET_MS);
+  afterAll(() => browser?.close());
+
+  it("reaches an invoice's PDF and then its Pay button, every stop ringed", async () => {
+    await page.locator('[data-testid="projects-table"]').waitFor({ timeout: 20_000 });
+    await page.waitForLoadState('networkidle');
+    const toNav = await tabTo(page, (f) => f.testId === 'nav-fees', 40);
+    await page.keyboard.press('Enter');
+    await page.locator('[data-testid="invoices-table"]').waitFor({ timeout: 20_000 });
+    await page.waitForLoadState('networkidle');
+    const pdf = await tabTo(page, (f) => /\/invoices\/[0-9a-f-]{36}\/pdf$/.test(f.href ?? ''), 60);
+    const pay = await tabTo(page, (f) => f.testId === 'pay', 60);
+    expect(pay.stops.at(-1)?.text).toMatch(/^Pay /);
+    expect(unringed([...toNav.stops, ...pdf.stops, ...pay.stops])).toEqual([]);
+    await page.screenshot({ path: path.join(SCREENSHOTS, 'keyboard-client-pay.png') });
+    expect(browser.outside).toEqual([]);
+  });
+});
+
+describe('the register by keyboard alone: an engineer registers a revision, the principal approves it', () => {
+  const base = testEnv('E2E_BASE_URL');
+  let engineer: Browser;
+  let principal: Browser;
+  const drawing = DEMO_DRAWINGS.columns.number;
+
+  beforeAll(async () => {
+    engineer = await openBrowser();
+    principal = await openBrowser();
+    for (const b of [engineer, principal]) await b.page.setViewportSize({ width: 1440, height: 900 });
+    await signInByKeyboard(engineer.page, base, DEMO.users.engineerA);
+  }, SETUP_BUDGET_MS);
+  afterAll(async () => {
+    await engineer?.close();
+    await principal?.close();
+  });
+
+  /** Opens the drawing from the register (navigation, then its number in the table) by keyboard. */
+  async function openDrawing(page: Page): Promise<Focused[]> {
+    const back = await navigateByKeyboard(page, 'drawings', '[data-testid="drawings-table"]');
+    const { stops } = await tabTo(page, (f) => f.within === 'drawings-table' && f.text === drawing, 60);
+    await page.keyboard.press('Enter');
+    await page.locator('[data-testid="drawing-detail"]').waitFor({ timeout: 20_000 });
+    await page.waitForLoadState('networkidle');
+    return [...back, ...stops];
+  }
+
+  it('the engineer registers the next revision and uploads its PDF', async () => {
+    const page = engineer.page;
+    const stops = await openDrawing(page);
+    const code = (await page.locator('[data-testid="proposed-code"]').textContent({ timeout: 20_000 }))!.trim();
+    const toSubmit = await tabTo(page, (f) => f.testId === 'register-revision', 60);
+    expect(unringed([...stops, ...toSubmit.stops])).toEqual([]);
+    await page.keyboard.press('Enter');
+    const upload = await tabTo(page, (f) => f.testId === 'upload-pdf', 60, 'Shift+Tab').catch(() =>
+      tabTo(page, (f) => f.testId === 'upload-pdf', 60),
+    );
+    expect(unringed(upload.stops)).toEqual([]);
+    const [chooser] = await Promise.all([page.waitForEvent('filechooser'), page.keyboard.press('Space')]);
+    await chooser.setFiles(writePdf(`${drawing}-${code}.pdf`));
+    await page
+      .locator('[data-testid="file-download"]')
+      .filter({ hasText: `${drawing}-${code}.pdf` })
+      .waitFor({ timeout: 20_000 });
+    await page.screenshot({ path: path.join(SCREENSHOTS, 'keyboard-engineer-revision.png') });
+  });
+
+  it(
+    'the principal checks and approves it',
+    async () => {
+      const page = principal.page;
+      await signInByKeyboard(page, base, DEMO.users.principal);
+      const stops = await openDrawing(page);
+      const check = await tabTo(page, (f) => f.testId === 'revision-check', 60);
+      await page.keyboard.press('Enter');
+      await page.locator('[data-testid="revision-approve"]').waitFor({ timeout: 20_000 });
+      const approve = await tabTo(page, (f) => f.testId === 'revision-approve', 60, 'Shift+Tab').catch(() =>
+        tabTo(page, (f) => f.testId === 'revision-approve', 60),
+      );
+      expect(unringed([...stops, ...check.stops, ...approve.stops])).toEqual([]);
+      await page.keyboard.press('Enter');
+      await page
+        .locator('[data-testid="revision-history"] li')
+        .first()
+        .locator('tb-state-marker[data-state="approved"]')
+        .waitFor({ timeout: 20_000 });
+      await page.screenshot({ path: path.join(SCREENSHOTS, 'keyboard-principal-approved.png') });
+      expect(engineer.outside).toEqual([]);
+      expect(principal.outside).toEqual([]);
+    },
+    SETUP_BUDGET_MS,
+  );
+});
+
+describe('fees by keyboard alone: the principal issues a draft invoice', () => {
+  const base = testEnv('E2E_BASE_URL');
+  let browser: Browser;
+  let page: Page;
+
+  beforeAll(async () => {
+    browser = await openBrowser();
+    page = browser.page;
+    await page.setViewportSize({ width: 1440, height: 900 });
+    await signInByKeyboard(page, base, DEMO.users.principal);
+  }, SETUP_BUDGET_MS);
+  afterAll(() => browser?.close());
+
+  it("opens the demo draft (Alder Lane's) from the invoice list and issues it", async () => {
+    await page.locator('[data-testid="projects-table"]').waitFor({ timeout: 20_000 });
+    await page.waitForLoadState('networkidle');
+    const toNav = await tabTo(page, (f) => f.testId === 'nav-fees', 40);
+    await page.keyboard.press('Enter');
+    await page.locator('[data-testid="invoices-table"]').waitFor({ timeout: 20_000 });
+    await page.waitForLoadState('networkidle');
+    const toDraft = await tabTo(page, (f) => f.within === 'invoices-table' && f.text === 'Draft', 80);
+    await page.keyboard.press('Enter');
+    const panel = page.locator('[data-testid="invoice-panel"]');
+    await panel.waitFor({ timeout: 20_000 });
+    const toIssue = await tabTo(page, (f) => f.testId === 'issue-invoice', 80);
+    expect(unringed([...toNav.stops, ...toDraft.stops, ...toIssue.stops])).toEqual([]);
+    await page.keyboard.press('Enter');
+    await panel.locator('[data-testid="invoice-state"]', { hasText: 'Awaiting payment' }).waitFor({ timeout: 20_000 });
+    await expect(panel.locator('h3').textContent()).resolves.toMatch(/INV-\d{4}-\d{4}/);
+    await page.screenshot({ path: path.join(SCREENSHOTS, 'keyboard-principal-issued.png') });
     expect(browser.outside).toEqual([]);
   });
 });

@@ -281,3 +281,11 @@ export const outboxMessageSchema = z.object({
   html: z.string().nullable(),
 });
 export type OutboxMessage = z.infer<typeof outboxMessageSchema>;
+/** GET /api/dev/outbox?page=&pageSize=: newest first, one page at a time. */
+export const outboxQuerySchema = z.object({
+  page: z.coerce.number().int().min(1).default(1),
+  pageSize: z.coerce.number().int().min(1).max(100).default(25),
+});
+export type OutboxQuery = z.infer<typeof outboxQuerySchema>;
+export const outboxPageSchema = pageOf(outboxMessageSchema);
+export type OutboxPage = z.infer<typeof outboxPageSchema>;

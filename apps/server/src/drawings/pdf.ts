@@ -1,21 +1,20 @@
 import PDFDocument from 'pdfkit';
+import { PRINT_COLOURS, PRINT_FONTS, PRINT_TYPE, printDay, printDayTime } from '../look/print-look';
 
-// The register's own PDF helpers (transmittal sheets and register exports). Fonts ship with the app
-// as WOFF from @fontsource (pdfkit cannot read every glyph of WOFF2); nothing is fetched.
-const FONT_DIR = '@fontsource/atkinson-hyperlegible/files/';
-const fontFile = (name: string) => require.resolve(`${FONT_DIR}${name}`);
+// The PDF helpers shared by transmittal sheets, register exports, invoices and reports. The look
+// (fonts, colours, type scale, dates) lives in look/print-look.ts and is re-exported here, so
+// these names keep working for every sheet built on them.
+export { PRINT_COLOURS, PRINT_FONTS, PRINT_TYPE, printDay, printDayTime };
 // The Latin subset covers Western European names; other scripts would need their own subset.
-export const FONTS = {
-  regular: fontFile('atkinson-hyperlegible-latin-400-normal.woff'),
-  bold: fontFile('atkinson-hyperlegible-latin-700-normal.woff'),
-};
+export const FONTS = PRINT_FONTS;
 
-export const INK = '#1d2427';
-export const MUTED = '#5b6568';
-export const RULE = '#c9d0d2';
-export const ACCENT = '#0f5c63';
+export const INK = PRINT_COLOURS.ink;
+export const MUTED = PRINT_COLOURS.muted;
+export const RULE = PRINT_COLOURS.rule;
+export const ACCENT = PRINT_COLOURS.accent;
+export const TYPE = PRINT_TYPE;
 
-/** A new A4 document with our fonts registered as "body" and "heading". */
+/** A new A4 document with our fonts registered as "body", "heading" and "figures" (fixed-width digits). */
 export function newDocument(info: { Title: string; Subject?: string }, layout: 'portrait' | 'landscape' = 'portrait') {
   const doc = new PDFDocument({
     size: 'A4',
@@ -26,6 +25,7 @@ export function newDocument(info: { Title: string; Subject?: string }, layout: '
   });
   doc.registerFont('body', FONTS.regular);
   doc.registerFont('heading', FONTS.bold);
+  doc.registerFont('figures', FONTS.figures);
   doc.font('body').fillColor(INK);
   return doc;
 }
@@ -44,6 +44,9 @@ export function toBuffer(doc: PDFKit.PDFDocument): Promise<Buffer> {
 export interface Column {
   header: string;
   width: number;
+  /** Amounts, counts and codes: the figures face, so the digits line up down the column. */
+  figures?: boolean;
+  align?: 'left' | 'right';
 }
 
 /**
@@ -56,34 +59,38 @@ export function table(doc: PDFKit.PDFDocument, columns: Column[], rows: string[]
   const header = () => {
     let x = left;
     const y = doc.y;
-    doc.font('heading').fontSize(8.5).fillColor(MUTED);
+    doc.font('heading').fontSize(TYPE.caption).fillColor(MUTED);
     for (const c of columns) {
-      doc.text(c.header, x + pad, y, { width: c.width - 2 * pad });
+      doc.text(c.header, x + pad, y, { width: c.width - 2 * pad, align: c.align ?? 'left' });
       x += c.width;
     }
     doc.y = y + 14;
     doc
       .moveTo(left, doc.y)
       .lineTo(left + columns.reduce((s, c) => s + c.width, 0), doc.y)
-      .strokeColor(ACCENT)
-      .lineWidth(0.8)
+      .strokeColor(INK)
+      .lineWidth(1.2)
       .stroke();
     doc.y += 4;
   };
+  // The dense table of the screens: a heavy rule under the head, hairlines between rows.
+  const cellFont = (i: number) => doc.font(columns[i].figures ? 'figures' : 'body').fontSize(TYPE.body - 1);
   header();
-  doc.font('body').fontSize(9).fillColor(INK);
+  doc.fillColor(INK);
   for (const row of rows) {
     const height =
-      Math.max(...row.map((cell, i) => doc.heightOfString(cell || ' ', { width: columns[i].width - 2 * pad }))) + 6;
+      Math.max(
+        ...row.map((cell, i) => cellFont(i).heightOfString(cell || ' ', { width: columns[i].width - 2 * pad })),
+      ) + 6;
     if (doc.y + height > doc.page.height - doc.page.margins.bottom - 30) {
       doc.addPage();
       header();
-      doc.font('body').fontSize(9).fillColor(INK);
+      doc.fillColor(INK);
     }
     const y = doc.y;
     let x = left;
     row.forEach((cell, i) => {
-      doc.text(cell, x + pad, y + 3, { width: columns[i].width - 2 * pad });
+      cellFont(i).text(cell, x + pad, y + 3, { width: columns[i].width - 2 * pad, align: columns[i].align ?? 'left' });
       x += columns[i].width;
     });
     doc.y = y + height;
@@ -98,7 +105,10 @@ export function footers(doc: PDFKit.PDFDocument, text: string): void {
   for (let i = range.start; i < range.start + range.count; i++) {
     doc.switchToPage(i);
     const bottom = doc.page.height - doc.page.margins.bottom + 12;
-    doc.font('body').fontSize(7.5).fillColor(MUTED);
+    doc
+      .font('body')
+      .fontSize(TYPE.caption - 0.5)
+      .fillColor(MUTED);
     doc.text(`${text}   ·   page ${i + 1} of ${range.count}`, doc.page.margins.left, bottom, {
       width: doc.page.width - doc.page.margins.left - doc.page.margins.right,
       lineBreak: false,

@@ -1,19 +1,20 @@
-import { createRequire } from 'node:module';
 import { readFileSync } from 'node:fs';
 import PDFDocument from 'pdfkit';
 import { STAGE_TITLES, type StageKey } from '@trabeate/contracts';
+import { PRINT_COLOURS, PRINT_FONTS, PRINT_TYPE as TYPE, printDay } from '../look/print-look';
 import { formatMoney } from './money';
 
-// The invoice sheet. Fonts are the shipped WOFF files of the app's own typeface (pdfkit cannot
-// read WOFF2), so the PDF looks the same on every machine and needs nothing from the network.
-const require_ = createRequire(__filename);
-let fonts: { regular: Buffer; bold: Buffer } | undefined;
+// The invoice sheet, in the app's look (look/print-look.ts): its typeface from shipped WOFF files
+// (pdfkit cannot read WOFF2; nothing from the network), amounts in the fixed-width figures face so
+// they line up, the screen's type scale and accent, dates as on screen. The stored PDF names no
+// payment state: it is made once at issue, and the state moves on (the Fees page shows it).
+let fonts: { regular: Buffer; bold: Buffer; figures: Buffer } | undefined;
 function loadFonts() {
-  if (!fonts) {
-    const dir = (weight: number) =>
-      require_.resolve(`@fontsource/atkinson-hyperlegible/files/atkinson-hyperlegible-latin-${weight}-normal.woff`);
-    fonts = { regular: readFileSync(dir(400)), bold: readFileSync(dir(700)) };
-  }
+  fonts ??= {
+    regular: readFileSync(PRINT_FONTS.regular),
+    bold: readFileSync(PRINT_FONTS.bold),
+    figures: readFileSync(PRINT_FONTS.figures),
+  };
   return fonts;
 }
 
@@ -42,11 +43,9 @@ export interface InvoiceSheet {
   paymentReference: string;
 }
 
-/** One date format everywhere: 2 December 2026. */
+/** A calendar day in invoices, their mails and the activity log: as on screen, "2 Dec 2026" (libs/dates). */
 export function longDate(iso: string): string {
-  return new Intl.DateTimeFormat('en-GB', { day: 'numeric', month: 'long', year: 'numeric', timeZone: 'UTC' }).format(
-    new Date(`${iso}T00:00:00Z`),
-  );
+  return printDay(iso);
 }
 
 export async function renderInvoicePdf(s: InvoiceSheet): Promise<Buffer> {
@@ -58,6 +57,7 @@ export async function renderInvoicePdf(s: InvoiceSheet): Promise<Buffer> {
   });
   doc.registerFont('body', f.regular);
   doc.registerFont('bold', f.bold);
+  doc.registerFont('figures', f.figures);
   const chunks: Buffer[] = [];
   doc.on('data', (c: Buffer) => chunks.push(c));
   const done = new Promise<Buffer>((resolve, reject) => {
@@ -65,22 +65,31 @@ export async function renderInvoicePdf(s: InvoiceSheet): Promise<Buffer> {
     doc.on('error', reject);
   });
   const money = (m: number) => formatMoney(m, s.currency);
-  const accent = '#016973';
+  const accent = PRINT_COLOURS.accent;
+  const ink = PRINT_COLOURS.ink;
+  const muted = PRINT_COLOURS.muted;
   const left = doc.page.margins.left;
   const width = doc.page.width - left - doc.page.margins.right;
 
-  doc.font('bold').fontSize(18).fillColor(accent).text(s.firm.name, left, 56);
-  doc.font('body').fontSize(10).fillColor('#333').text('Structural engineering');
+  doc.font('bold').fontSize(TYPE.h2).fillColor(accent).text(s.firm.name, left, 56);
+  doc.font('body').fontSize(TYPE.body).fillColor(muted).text('Structural engineering');
+  doc
+    .moveTo(left, doc.y + 6)
+    .lineTo(left + width, doc.y + 6)
+    .strokeColor(accent)
+    .lineWidth(2)
+    .stroke();
   doc.moveDown(1.5);
   doc
     .font('bold')
-    .fontSize(16)
-    .fillColor('#111')
-    .text(s.kind === 'invoice' ? `Invoice ${s.number}` : `Credit note ${s.number}`);
-  if (s.creditsNumber) doc.font('body').fontSize(10).text(`Corrects invoice ${s.creditsNumber}`);
-  if (s.reason) doc.font('body').fontSize(10).text(`Reason: ${s.reason}`);
+    .fontSize(TYPE.h1)
+    .fillColor(ink)
+    .text(s.kind === 'invoice' ? `Invoice ${s.number}` : `Credit note ${s.number}`, left);
+  doc.fillColor(ink);
+  if (s.creditsNumber) doc.font('body').fontSize(TYPE.body).text(`Corrects invoice ${s.creditsNumber}`);
+  if (s.reason) doc.font('body').fontSize(TYPE.body).text(`Reason: ${s.reason}`);
   doc.moveDown(0.5);
-  doc.font('body').fontSize(10);
+  doc.font('body').fontSize(TYPE.body);
   doc.text(`Issued: ${longDate(s.issuedOn)}`);
   if (s.kind === 'invoice') doc.text(`Due: ${longDate(s.dueOn)}`);
   doc.moveDown();
@@ -95,10 +104,13 @@ export async function renderInvoicePdf(s: InvoiceSheet): Promise<Buffer> {
 
   const cols = { desc: left, net: left + width * 0.55, tax: left + width * 0.7, total: left + width * 0.85 };
   const colW = width * 0.15;
+  // The dense table of the screens: a heavy rule under the head, hairlines between lines, and
+  // amounts right-aligned in the figures face.
   const row = (y: number, cells: [string, string, string, string], font: 'body' | 'bold') => {
-    doc.font(font).fontSize(10);
+    doc.font(font).fontSize(TYPE.body);
     doc.text(cells[0], cols.desc, y, { width: width * 0.53 });
     const h = doc.y;
+    if (font === 'body') doc.font('figures').fontSize(TYPE.body - 1);
     doc.text(cells[1], cols.net, y, { width: colW, align: 'right' });
     doc.text(cells[2], cols.tax, y, { width: colW, align: 'right' });
     doc.text(cells[3], cols.total, y, { width: colW, align: 'right' });
@@ -108,7 +120,8 @@ export async function renderInvoicePdf(s: InvoiceSheet): Promise<Buffer> {
   doc
     .moveTo(left, y - 2)
     .lineTo(left + width, y - 2)
-    .strokeColor('#999')
+    .strokeColor(ink)
+    .lineWidth(1.2)
     .stroke();
   for (const l of s.lines) {
     const what =
@@ -125,11 +138,18 @@ export async function renderInvoicePdf(s: InvoiceSheet): Promise<Buffer> {
       ],
       'body',
     );
+    doc
+      .moveTo(left, y - 2)
+      .lineTo(left + width, y - 2)
+      .strokeColor(PRINT_COLOURS.rule)
+      .lineWidth(0.4)
+      .stroke();
   }
   doc
     .moveTo(left, y)
     .lineTo(left + width, y)
-    .strokeColor('#999')
+    .strokeColor(ink)
+    .lineWidth(1.2)
     .stroke();
   y += 6;
   for (const [label, value, font] of [
@@ -137,15 +157,16 @@ export async function renderInvoicePdf(s: InvoiceSheet): Promise<Buffer> {
     [s.taxLabel, s.taxMinor, 'body'],
     [s.kind === 'invoice' ? 'Total due' : 'Total credited', s.totalMinor, 'bold'],
   ] as const) {
-    doc.font(font).fontSize(11);
+    doc.font(font).fontSize(TYPE.lead);
     doc.text(label, cols.tax - colW, y, { width: colW * 2 - 4, align: 'right' });
+    doc.font(font === 'bold' ? 'bold' : 'figures').fontSize(font === 'bold' ? TYPE.lead : TYPE.body);
     doc.text(money(value), cols.total, y, { width: colW, align: 'right' });
     y = doc.y + 4;
   }
   doc.moveDown(2);
   doc.x = left;
   if (s.kind === 'invoice') {
-    doc.font('bold').fontSize(10).text('How to pay', left);
+    doc.font('bold').fontSize(TYPE.body).text('How to pay', left);
     doc
       .font('body')
       .text(

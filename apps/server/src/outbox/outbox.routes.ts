@@ -1,8 +1,7 @@
-import { outboxMessageSchema, type OutboxMessage } from '@trabeate/contracts';
+import { outboxMessageSchema, outboxQuerySchema, type OutboxMessage, type OutboxQuery } from '@trabeate/contracts';
 import { HttpError } from '../core/errors';
+import { validate } from '../core/validate';
 import { route, type RouteDecl } from '../access/registry';
-
-const LIMIT = 50;
 
 /**
  * The development outbox: the messages the local SMTP fake caught, read from its HTTP API. Only
@@ -10,7 +9,8 @@ const LIMIT = 50;
  */
 export function outboxRoutes(outboxUrl: string | undefined): RouteDecl[] {
   return [
-    route('get', '/dev/outbox', 'principal', async (_req, res) => {
+    route('get', '/dev/outbox', 'principal', validate({ query: outboxQuerySchema }), async (_req, res) => {
+      const q = res.locals['query'] as OutboxQuery;
       if (!outboxUrl)
         throw new HttpError(
           404,
@@ -28,10 +28,12 @@ export function outboxRoutes(outboxUrl: string | undefined): RouteDecl[] {
         if (!r.ok) throw new HttpError(503, 'service_unavailable', `The local mail fake answered ${r.status}.`);
         return r.json();
       };
-      // The list has headers only; each message is fetched for its bodies (newest first, at most 50).
-      const list = ((await fetchJson('/messages')) as Array<{ id: string }>).slice(0, LIMIT);
-      const messages: OutboxMessage[] = await Promise.all(
-        list.map(async (m) => {
+      // The fake's list has headers only, newest first; only this page's messages are fetched for
+      // their bodies, so a long-running outbox costs one page of requests, not all of them.
+      const all = (await fetchJson('/messages')) as Array<{ id: string }>;
+      const onPage = all.slice((q.page - 1) * q.pageSize, q.page * q.pageSize);
+      const items: OutboxMessage[] = await Promise.all(
+        onPage.map(async (m) => {
           const full = (await fetchJson(`/messages/${encodeURIComponent(m.id)}`)) as Record<string, unknown>;
           return outboxMessageSchema.parse({
             id: full['id'],
@@ -44,7 +46,7 @@ export function outboxRoutes(outboxUrl: string | undefined): RouteDecl[] {
           });
         }),
       );
-      res.json(messages);
+      res.json({ items, total: all.length, page: q.page, pageSize: q.pageSize });
     }),
   ];
 }

@@ -1,7 +1,8 @@
-import { provideHttpClient } from '@angular/common/http';
+import { HttpRequest, provideHttpClient } from '@angular/common/http';
 import { HttpTestingController, provideHttpClientTesting } from '@angular/common/http/testing';
 import { ComponentFixture, TestBed } from '@angular/core/testing';
-import { outboxMessageSchema, type OutboxMessage } from '@trabeate/contracts';
+import { Router, provideRouter } from '@angular/router';
+import { outboxPageSchema, type OutboxMessage } from '@trabeate/contracts';
 import { reply, replyError } from '../../../testing/api-replies';
 import { OutboxPage, sealedHtml } from './outbox-page';
 
@@ -13,6 +14,14 @@ const message = (n: number, receivedAt: string, html: string | null = `<p>Notice
   subject: `Notice ${n}`,
   text: `Plain notice ${n}`,
   html,
+});
+
+const outboxRequest = (r: HttpRequest<unknown>) => r.url === '/api/dev/outbox';
+const pageOf = (items: OutboxMessage[], total = items.length, page = 1, pageSize = 25) => ({
+  items,
+  total,
+  page,
+  pageSize,
 });
 
 describe('OutboxPage', () => {
@@ -27,7 +36,7 @@ describe('OutboxPage', () => {
   beforeEach(() => {
     TestBed.configureTestingModule({
       imports: [OutboxPage],
-      providers: [provideHttpClient(), provideHttpClientTesting()],
+      providers: [provideHttpClient(), provideHttpClientTesting(), provideRouter([])],
     });
     backend = TestBed.inject(HttpTestingController);
     fixture = TestBed.createComponent(OutboxPage);
@@ -36,10 +45,11 @@ describe('OutboxPage', () => {
   });
 
   it('lists messages newest first with recipient, subject and time, and opens the newest', async () => {
-    reply(backend.expectOne('/api/dev/outbox'), outboxMessageSchema.array(), [
-      message(1, '2026-03-02T08:00:00.000Z'),
-      message(2, '2026-03-02T09:30:00.000Z'),
-    ]);
+    reply(
+      backend.expectOne(outboxRequest),
+      outboxPageSchema,
+      pageOf([message(1, '2026-03-02T08:00:00.000Z'), message(2, '2026-03-02T09:30:00.000Z')]),
+    );
     await settle();
     const items = Array.from(el().querySelectorAll('[data-testid="outbox-item"]'));
     expect(items.map((i) => i.querySelector('.subject')?.textContent)).toEqual(['Notice 2', 'Notice 1']);
@@ -48,10 +58,14 @@ describe('OutboxPage', () => {
   });
 
   it('shows the chosen message’s HTML in an iframe that may run no scripts and load nothing', async () => {
-    reply(backend.expectOne('/api/dev/outbox'), outboxMessageSchema.array(), [
-      message(1, '2026-03-02T08:00:00.000Z', '<p>Hi</p><script>alert(1)</script>'),
-      message(2, '2026-03-02T09:30:00.000Z'),
-    ]);
+    reply(
+      backend.expectOne(outboxRequest),
+      outboxPageSchema,
+      pageOf([
+        message(1, '2026-03-02T08:00:00.000Z', '<p>Hi</p><script>alert(1)</script>'),
+        message(2, '2026-03-02T09:30:00.000Z'),
+      ]),
+    );
     await settle();
     (el().querySelectorAll('[data-testid="outbox-item"]')[1] as HTMLButtonElement).click();
     await settle();
@@ -64,24 +78,57 @@ describe('OutboxPage', () => {
   });
 
   it('shows only the text when a message has no HTML part', async () => {
-    reply(backend.expectOne('/api/dev/outbox'), outboxMessageSchema.array(), [
-      message(1, '2026-03-02T08:00:00.000Z', null),
-    ]);
+    reply(backend.expectOne(outboxRequest), outboxPageSchema, pageOf([message(1, '2026-03-02T08:00:00.000Z', null)]));
     await settle();
     expect(el().querySelector('[data-testid="outbox-html"]')).toBeNull();
     expect(el().querySelector('[data-testid="outbox-text"]')?.textContent).toBe('Plain notice 1');
   });
 
   it('says plainly when the server keeps no outbox (404)', async () => {
-    replyError(backend.expectOne('/api/dev/outbox'), 404, { code: 'not_found', message: 'Not found.' });
+    replyError(backend.expectOne(outboxRequest), 404, { code: 'not_found', message: 'Not found.' });
     await settle();
     expect(el().querySelector('[data-testid="outbox-error"]')?.textContent).toContain(
       'does not keep a development outbox',
     );
   });
 
+  it('asks the server for one page at a time and moves to the next page through the address', async () => {
+    const first = backend.expectOne(outboxRequest);
+    expect(first.request.params.get('page')).toBe('1');
+    expect(first.request.params.get('pageSize')).toBe('25');
+    reply(
+      first,
+      outboxPageSchema,
+      pageOf(
+        Array.from({ length: 25 }, (_, i) =>
+          message(60 - i, `2026-03-02T08:${String(59 - i).padStart(2, '0')}:00.000Z`),
+        ),
+        60,
+      ),
+    );
+    await settle();
+    expect(el().querySelectorAll('[data-testid="outbox-item"]')).toHaveLength(25);
+    expect(el().querySelector('[data-testid="outbox-pages"]')?.textContent).toContain('1 – 25 of 60');
+    const navigate = jest.spyOn(TestBed.inject(Router), 'navigate').mockResolvedValue(true);
+    (el().querySelector('[data-testid="outbox-pages"] button[aria-label="Next page"]') as HTMLButtonElement).click();
+    expect(navigate).toHaveBeenCalledWith([], {
+      queryParams: { page: 2, pageSize: null },
+      queryParamsHandling: 'merge',
+    });
+    // The router binds the address's page to the input; the page then asks for page 2.
+    fixture.componentRef.setInput('page', '2');
+    fixture.detectChanges();
+    TestBed.tick();
+    const second = backend.expectOne(outboxRequest);
+    expect(second.request.params.get('page')).toBe('2');
+    reply(second, outboxPageSchema, pageOf([message(35, '2026-03-02T07:00:00.000Z')], 60, 2));
+    await settle();
+    expect(el().querySelector('[data-testid="outbox-pages"]')?.textContent).toContain('26 – 50 of 60');
+    expect(el().querySelector('[data-testid="outbox-text"]')?.textContent).toBe('Plain notice 35');
+  });
+
   it('says so when no mail has been sent yet', async () => {
-    reply(backend.expectOne('/api/dev/outbox'), outboxMessageSchema.array(), []);
+    reply(backend.expectOne(outboxRequest), outboxPageSchema, pageOf([]));
     await settle();
     expect(el().textContent).toContain('No mail yet');
   });

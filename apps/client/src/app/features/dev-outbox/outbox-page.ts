@@ -1,13 +1,15 @@
-import { HttpErrorResponse, httpResource } from '@angular/common/http';
-import { ChangeDetectionStrategy, Component, computed, inject, linkedSignal } from '@angular/core';
+import { HttpErrorResponse, HttpParams, httpResource } from '@angular/common/http';
+import { ChangeDetectionStrategy, Component, computed, inject, input, linkedSignal } from '@angular/core';
 import { MatButton } from '@angular/material/button';
 import { MatIcon } from '@angular/material/icon';
+import { MatPaginator } from '@angular/material/paginator';
 import { MatProgressSpinner } from '@angular/material/progress-spinner';
 import { DomSanitizer, SafeHtml } from '@angular/platform-browser';
-import type { OutboxMessage } from '@trabeate/contracts';
+import { outboxPageSchema, type OutboxPage as OutboxList } from '@trabeate/contracts';
 import { errorMessage } from '../../core/auth/api-error';
 import { EmptyState } from '../../shared/empty-state/empty-state';
 import { DayTimePipe } from '../../shared/dates/app-dates';
+import { DEFAULT_PAGE_SIZE, PAGE_SIZES, addressTable, positiveInt } from '../../shared/table-state/address-table';
 
 /**
  * The message's HTML, shut in: the iframe has `sandbox=""` (no scripts, forms, navigation or
@@ -19,10 +21,10 @@ export function sealedHtml(html: string): string {
   return `<!doctype html><html><head>${policy}<meta charset="utf-8"></head><body>${html}</body></html>`;
 }
 
-/** Development only: the e-mail the local fake SMTP server kept, newest first. */
+/** Development only: the e-mail the local fake SMTP server kept, newest first, a page at a time (page in the address). */
 @Component({
   selector: 'tb-outbox-page',
-  imports: [DayTimePipe, EmptyState, MatButton, MatIcon, MatProgressSpinner],
+  imports: [DayTimePipe, EmptyState, MatButton, MatIcon, MatPaginator, MatProgressSpinner],
   template: `
     <div class="page-head">
       <div>
@@ -40,11 +42,11 @@ export function sealedHtml(html: string): string {
         <mat-icon aria-hidden="true">error</mat-icon>
         <span>{{ failure(err) }}</span>
       </div>
-    } @else if (!messages.hasValue()) {
+    } @else if (!shown()) {
       <div class="state" role="status">
         <mat-progress-spinner mode="indeterminate" diameter="28" /> Loading the outbox…
       </div>
-    } @else if (sorted().length === 0) {
+    } @else if (shown()!.total === 0) {
       <tb-empty-state
         icon="outgoing_mail"
         heading="No mail yet"
@@ -52,24 +54,35 @@ export function sealedHtml(html: string): string {
       />
     } @else {
       <div class="split">
-        <ul class="list" aria-label="Messages" data-testid="outbox-list">
-          @for (m of sorted(); track m.id) {
-            <li>
-              <button
-                type="button"
-                class="item"
-                [class.selected]="m.id === selected()?.id"
-                [attr.aria-current]="m.id === selected()?.id"
-                (click)="selectedId.set(m.id)"
-                data-testid="outbox-item"
-              >
-                <span class="subject">{{ m.subject }}</span>
-                <span class="meta">To {{ m.to.join(', ') }}</span>
-                <time class="meta" [attr.datetime]="m.receivedAt">{{ m.receivedAt | tbDayTime }}</time>
-              </button>
-            </li>
-          }
-        </ul>
+        <div class="list-column">
+          <ul class="list" aria-label="Messages" data-testid="outbox-list">
+            @for (m of sorted(); track m.id) {
+              <li>
+                <button
+                  type="button"
+                  class="item"
+                  [class.selected]="m.id === selected()?.id"
+                  [attr.aria-current]="m.id === selected()?.id"
+                  (click)="selectedId.set(m.id)"
+                  data-testid="outbox-item"
+                >
+                  <span class="subject">{{ m.subject }}</span>
+                  <span class="meta">To {{ m.to.join(', ') }}</span>
+                  <time class="meta" [attr.datetime]="m.receivedAt">{{ m.receivedAt | tbDayTime }}</time>
+                </button>
+              </li>
+            }
+          </ul>
+          <mat-paginator
+            [length]="shown()!.total"
+            [pageIndex]="paging().page - 1"
+            [pageSize]="paging().pageSize"
+            [pageSizeOptions]="pageSizes"
+            (page)="table.paged($event)"
+            aria-label="Pages of messages"
+            data-testid="outbox-pages"
+          />
+        </div>
         @if (selected(); as m) {
           <article class="message" data-testid="outbox-message">
             <h2>{{ m.subject }}</h2>
@@ -99,6 +112,9 @@ export function sealedHtml(html: string): string {
       grid-template-columns: minmax(16rem, 1fr) 2fr;
       gap: 1rem;
       align-items: start;
+    }
+    .list-column {
+      min-width: 0;
     }
     .list {
       list-style: none;
@@ -188,12 +204,31 @@ export function sealedHtml(html: string): string {
 })
 export class OutboxPage {
   private readonly sanitizer = inject(DomSanitizer);
+  protected readonly table = addressTable();
+  protected readonly pageSizes = PAGE_SIZES;
 
-  protected readonly messages = httpResource<OutboxMessage[]>(() => '/api/dev/outbox');
+  // Route-bound query parameters.
+  readonly page = input<string>();
+  readonly pageSize = input<string>();
+  protected readonly paging = computed(() => ({
+    page: positiveInt(this.page(), 1),
+    pageSize: positiveInt(this.pageSize(), DEFAULT_PAGE_SIZE, 100),
+  }));
+
+  protected readonly messages = httpResource(
+    () => {
+      const { page, pageSize } = this.paging();
+      return { url: '/api/dev/outbox', params: new HttpParams().set('page', page).set('pageSize', pageSize) };
+    },
+    { parse: (v) => outboxPageSchema.parse(v) },
+  );
+  /** The last page stays on screen while the next one loads, so the list does not jump. */
+  protected readonly shown = linkedSignal<OutboxList | undefined, OutboxList | undefined>({
+    source: () => (this.messages.hasValue() ? this.messages.value() : undefined),
+    computation: (next, previous) => next ?? previous?.value,
+  });
   protected readonly sorted = computed(() =>
-    [...(this.messages.hasValue() ? this.messages.value() : [])].sort((a, b) =>
-      b.receivedAt.localeCompare(a.receivedAt),
-    ),
+    [...(this.shown()?.items ?? [])].sort((a, b) => b.receivedAt.localeCompare(a.receivedAt)),
   );
   /** The newest message is open until another is chosen. */
   protected readonly selectedId = linkedSignal(() => this.sorted()[0]?.id ?? null);

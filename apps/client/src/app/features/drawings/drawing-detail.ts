@@ -1,4 +1,3 @@
-import { DatePipe } from '@angular/common';
 import { HttpEventType, httpResource } from '@angular/common/http';
 import { ChangeDetectionStrategy, Component, computed, inject, input, output, signal } from '@angular/core';
 import { FormBuilder, ReactiveFormsModule, Validators } from '@angular/forms';
@@ -23,6 +22,9 @@ import {
 } from '@trabeate/contracts';
 import { errorMessage } from '../../core/auth/api-error';
 import { Session } from '../../core/auth/session';
+import { DayPipe, DayTimePipe } from '../../shared/dates/app-dates';
+import { formErrorFocus } from '../../shared/forms/form-error-focus';
+import { StateMarker } from '../../shared/state-marker/state-marker';
 import { DrawingsApi } from './drawings-api';
 import { REVISION_STATE_LABELS, formatBytes } from './drawing-labels';
 
@@ -33,7 +35,9 @@ const today = () => new Date().toISOString().slice(0, 10);
 @Component({
   selector: 'tb-drawing-detail',
   imports: [
-    DatePipe,
+    DayPipe,
+    DayTimePipe,
+    StateMarker,
     ReactiveFormsModule,
     MatButton,
     MatError,
@@ -78,12 +82,12 @@ const today = () => new Date().toISOString().slice(0, 10);
             <li [class.current]="$first">
               <div class="line">
                 <strong class="mono code">{{ r.code }}</strong>
-                <span class="state-tag" [attr.data-state]="r.state">
-                  <mat-icon aria-hidden="true">{{ stateGlyph(r) }}</mat-icon>{{ stateLabel(r) }}
-                </span>
+                <tb-state-marker [shape]="marker(r).shape" [tone]="marker(r).tone" [attr.data-state]="r.state">{{
+                  stateLabel(r)
+                }}</tb-state-marker>
                 <span [title]="meaning(r.suitability)">{{ r.suitability }} · {{ meaning(r.suitability) }}</span>
                 <span>{{ purposeLabel(r) }}</span>
-                <span class="muted">{{ r.date | date: 'd MMM y' }}</span>
+                <span class="muted">{{ r.date | tbDay }}</span>
               </div>
               @if (r.description) {
                 <p class="desc">{{ r.description }}</p>
@@ -97,7 +101,7 @@ const today = () => new Date().toISOString().slice(0, 10);
                   · approved by {{ r.approvedBy.displayName }}
                 }
                 @if (r.issuedAt) {
-                  · issued {{ r.issuedAt | date: 'd MMM y, HH:mm' }}
+                  · issued {{ r.issuedAt | tbDayTime }}
                 }
               </p>
               <ul class="files">
@@ -111,18 +115,25 @@ const today = () => new Date().toISOString().slice(0, 10);
               </ul>
               @if (r.state === 'draft' && canWork()) {
                 <div class="upload">
+                  <!-- The file inputs stay in the tab order (visually hidden, not [hidden]) so the
+                       keyboard reaches them; the label shows the focus ring. -->
                   <label class="file-button">
                     <input
                       type="file"
+                      class="tb-visually-hidden"
                       accept=".pdf,application/pdf"
                       (change)="upload(r, 'pdf', $event)"
                       data-testid="upload-pdf"
-                      hidden
                     />
                     <mat-icon>upload_file</mat-icon> {{ hasPdf(r) ? 'PDF uploaded' : 'Upload the PDF' }}
                   </label>
                   <label class="file-button">
-                    <input type="file" (change)="upload(r, 'source', $event)" data-testid="upload-source" hidden />
+                    <input
+                      type="file"
+                      class="tb-visually-hidden"
+                      (change)="upload(r, 'source', $event)"
+                      data-testid="upload-source"
+                    />
                     <mat-icon>attach_file</mat-icon> Add a source file
                   </label>
                   @if (progress() !== null) {
@@ -191,7 +202,7 @@ const today = () => new Date().toISOString().slice(0, 10);
               <mat-label>Description</mat-label>
               <input matInput formControlName="description" maxlength="2000" data-testid="revision-description" />
             </mat-form-field>
-            <button mat-flat-button type="submit" [disabled]="busy() || form.invalid" data-testid="register-revision">
+            <button mat-flat-button type="submit" [disabled]="busy()" data-testid="register-revision">
               Register revision
             </button>
           </form>
@@ -212,6 +223,7 @@ export class DrawingDetail {
   /** Something in the register changed (a revision, a state): the list should reload. */
   readonly changed = output<void>();
 
+  private readonly showErrors = formErrorFocus();
   protected readonly canWork = computed(() => this.session.role() !== 'client');
   protected readonly busy = signal(false);
   protected readonly error = signal<string | null>(null);
@@ -254,8 +266,8 @@ export class DrawingDetail {
   protected stateLabel(r: Revision): string {
     return REVISION_STATE_LABELS[r.state].label;
   }
-  protected stateGlyph(r: Revision): string {
-    return REVISION_STATE_LABELS[r.state].glyph;
+  protected marker(r: Revision) {
+    return REVISION_STATE_LABELS[r.state];
   }
   protected purposeLabel(r: Revision): string {
     return PURPOSE_LABELS[r.purpose];
@@ -278,7 +290,10 @@ export class DrawingDetail {
   }
 
   protected async register(d: Drawing): Promise<void> {
-    if (this.form.invalid) return;
+    if (this.form.invalid) {
+      this.showErrors(this.form);
+      return;
+    }
     const v = this.form.getRawValue();
     await this.run(() =>
       this.api.registerRevision(this.projectId(), d.id, { ...v, suitability: v.suitability.toUpperCase() }),

@@ -1,9 +1,7 @@
-import { DatePipe } from '@angular/common';
 import { HttpParams, httpResource } from '@angular/common/http';
 import {
   ChangeDetectionStrategy,
   Component,
-  OnDestroy,
   computed,
   inject,
   input,
@@ -17,10 +15,10 @@ import { MatOption } from '@angular/material/core';
 import { MatError, MatFormField, MatLabel, MatPrefix } from '@angular/material/form-field';
 import { MatIcon } from '@angular/material/icon';
 import { MatInput } from '@angular/material/input';
-import { MatPaginator, PageEvent } from '@angular/material/paginator';
+import { MatPaginator } from '@angular/material/paginator';
 import { MatProgressBar } from '@angular/material/progress-bar';
 import { MatSelect } from '@angular/material/select';
-import { MatSort, MatSortHeader, Sort } from '@angular/material/sort';
+import { MatSort, MatSortHeader } from '@angular/material/sort';
 import {
   MatCell,
   MatCellDef,
@@ -33,7 +31,7 @@ import {
   MatRowDef,
   MatTable,
 } from '@angular/material/table';
-import { Router, RouterLink } from '@angular/router';
+import { RouterLink } from '@angular/router';
 import {
   REVISION_STATES,
   SHEET_SIZES,
@@ -50,7 +48,11 @@ import {
 } from '@trabeate/contracts';
 import { errorMessage } from '../../core/auth/api-error';
 import { Session } from '../../core/auth/session';
+import { DayPipe } from '../../shared/dates/app-dates';
 import { EmptyState } from '../../shared/empty-state/empty-state';
+import { formErrorFocus } from '../../shared/forms/form-error-focus';
+import { StateMarker } from '../../shared/state-marker/state-marker';
+import { PAGE_SIZES, addressTable, oneOf, readTableQuery, tableParams } from '../../shared/table-state/address-table';
 import { DrawingDetail } from './drawing-detail';
 import { DrawingsApi } from './drawings-api';
 import { REVISION_STATE_LABELS } from './drawing-labels';
@@ -58,12 +60,6 @@ import { TransmittalsPanel } from './transmittals-panel';
 
 type SortKey = NonNullable<DrawingListQuery['sort']>;
 const SORTS: readonly SortKey[] = ['number', 'title', 'stage', 'revision', 'date'];
-const DEFAULT_PAGE_SIZE = 25;
-const SEARCH_DELAY_MS = 300;
-const positive = (v: string | undefined, fallback: number, max = Infinity) => {
-  const n = Number(v);
-  return Number.isInteger(n) && n >= 1 ? Math.min(n, max) : fallback;
-};
 
 /**
  * The drawing register of one project: every drawing with its current revision, sorted, filtered
@@ -74,7 +70,8 @@ const positive = (v: string | undefined, fallback: number, max = Infinity) => {
   selector: 'tb-drawings-page',
   imports: [
     RouterLink,
-    DatePipe,
+    DayPipe,
+    StateMarker,
     DrawingDetail,
     EmptyState,
     ReactiveFormsModule,
@@ -107,8 +104,9 @@ const positive = (v: string | undefined, fallback: number, max = Infinity) => {
   styleUrls: ['../../shared/page/page.scss', './drawings.scss'],
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
-export class DrawingsPage implements OnDestroy {
-  private readonly router = inject(Router);
+export class DrawingsPage {
+  protected readonly table = addressTable();
+  private readonly showErrors = formErrorFocus();
   private readonly api = inject(DrawingsApi);
   protected readonly session = inject(Session);
 
@@ -137,13 +135,13 @@ export class DrawingsPage implements OnDestroy {
   });
 
   protected readonly query = computed(() => ({
-    page: positive(this.page(), 1),
-    pageSize: positive(this.pageSize(), DEFAULT_PAGE_SIZE, 100),
-    sort: SORTS.includes(this.sort() as SortKey) ? (this.sort() as SortKey) : 'number',
-    direction: this.direction() === 'desc' ? ('desc' as const) : ('asc' as const),
-    q: (this.q() ?? '').trim().slice(0, 100),
-    stage: STAGE_KEYS.includes(this.stage() as StageKey) ? (this.stage() as StageKey) : '',
-    state: REVISION_STATES.includes(this.state() as RevisionState) ? (this.state() as RevisionState) : '',
+    ...readTableQuery(
+      { page: this.page(), pageSize: this.pageSize(), sort: this.sort(), direction: this.direction(), q: this.q() },
+      SORTS,
+      { sort: 'number', direction: 'asc' },
+    ),
+    stage: oneOf(this.stage(), STAGE_KEYS, ''),
+    state: oneOf(this.state(), REVISION_STATES, ''),
     suitability: /^(S[0-4]|A\d{1,2}|CR)$/i.test(this.suitability() ?? '') ? this.suitability()!.toUpperCase() : '',
   }));
 
@@ -152,15 +150,7 @@ export class DrawingsPage implements OnDestroy {
       const id = this.projectId();
       if (!id) return undefined;
       const s = this.query();
-      let params = new HttpParams()
-        .set('page', s.page)
-        .set('pageSize', s.pageSize)
-        .set('sort', s.sort)
-        .set('direction', s.direction);
-      if (s.q) params = params.set('q', s.q);
-      if (s.stage) params = params.set('stageKey', s.stage);
-      if (s.state) params = params.set('state', s.state);
-      if (s.suitability) params = params.set('suitability', s.suitability);
+      const params = tableParams(s, { stageKey: s.stage, state: s.state, suitability: s.suitability });
       return { url: `/api/projects/${encodeURIComponent(id)}/drawings`, params };
     },
     { parse: (x) => drawingListSchema.parse(x) },
@@ -175,6 +165,7 @@ export class DrawingsPage implements OnDestroy {
   });
 
   protected readonly columns = ['number', 'title', 'stage', 'sheet', 'revision', 'state', 'suitability', 'date'];
+  protected readonly pageSizes = PAGE_SIZES;
   protected readonly stages = STAGE_KEYS;
   protected readonly stageTitles = STAGE_TITLES;
   protected readonly states = REVISION_STATES;
@@ -192,16 +183,14 @@ export class DrawingsPage implements OnDestroy {
     scale: ['1:100', [Validators.required, Validators.pattern(/^(1:\d{1,5}|NTS|As shown)$/)]],
   });
 
-  private searchTimer?: ReturnType<typeof setTimeout>;
-
   protected stageTitle(d: DrawingListItem): string {
     return STAGE_TITLES[d.stageKey];
   }
   protected stateLabel(s: RevisionState): string {
     return REVISION_STATE_LABELS[s].label;
   }
-  protected stateGlyph(s: RevisionState): string {
-    return REVISION_STATE_LABELS[s].glyph;
+  protected stateMarker(s: RevisionState) {
+    return REVISION_STATE_LABELS[s];
   }
   protected message(err: unknown): string {
     return errorMessage(err);
@@ -224,30 +213,16 @@ export class DrawingsPage implements OnDestroy {
   }
 
   protected projectChosen(id: string): void {
-    this.go({ project: id, page: null, drawing: null, transmittal: null });
-  }
-  protected searchTyped(value: string): void {
-    clearTimeout(this.searchTimer);
-    this.searchTimer = setTimeout(() => this.go({ q: value.trim() || null, page: null }), SEARCH_DELAY_MS);
+    this.table.go({ project: id, page: null, drawing: null, transmittal: null });
   }
   protected filterChosen(key: 'stage' | 'state' | 'suitability', value: string): void {
-    this.go({ [key]: value || null, page: null });
-  }
-  protected sorted(sort: Sort): void {
-    if (!sort.direction) this.go({ sort: null, direction: null, page: null });
-    else this.go({ sort: sort.active, direction: sort.direction, page: null });
-  }
-  protected paged(event: PageEvent): void {
-    this.go({
-      page: event.pageIndex === 0 ? null : event.pageIndex + 1,
-      pageSize: event.pageSize === DEFAULT_PAGE_SIZE ? null : event.pageSize,
-    });
+    this.table.filter(key, value);
   }
   protected open(d: DrawingListItem): void {
-    this.go({ drawing: d.id });
+    this.table.go({ drawing: d.id });
   }
   protected clearFilters(): void {
-    this.go({ q: null, stage: null, state: null, suitability: null, page: null });
+    this.table.clear(['stage', 'state', 'suitability']);
   }
 
   protected async startCreating(): Promise<void> {
@@ -264,7 +239,11 @@ export class DrawingsPage implements OnDestroy {
 
   protected async create(): Promise<void> {
     const id = this.projectId();
-    if (!id || this.form.invalid || this.busy()) return;
+    if (!id || this.busy()) return;
+    if (this.form.invalid) {
+      this.showErrors(this.form);
+      return;
+    }
     this.busy.set(true);
     this.createError.set(null);
     try {
@@ -272,7 +251,7 @@ export class DrawingsPage implements OnDestroy {
       this.creating.set(false);
       this.form.reset();
       this.list.reload();
-      this.go({ drawing: d.id });
+      this.table.go({ drawing: d.id });
     } catch (err) {
       this.createError.set(errorMessage(err));
     } finally {
@@ -283,13 +262,5 @@ export class DrawingsPage implements OnDestroy {
   protected registerChanged(): void {
     this.list.reload();
     this.transmittals()?.reload();
-  }
-
-  ngOnDestroy(): void {
-    clearTimeout(this.searchTimer);
-  }
-
-  private go(queryParams: Record<string, string | number | null>): void {
-    void this.router.navigate([], { queryParams, queryParamsHandling: 'merge' });
   }
 }

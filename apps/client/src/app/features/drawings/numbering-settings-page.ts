@@ -18,6 +18,7 @@ import { firstValueFrom, map } from 'rxjs';
 import { errorMessage, fieldErrors } from '../../core/auth/api-error';
 import { Notice } from '../../core/notice';
 import { applyServerErrors, asYouType, fieldErrorText } from '../../shared/forms/field-errors';
+import { formErrorFocus } from '../../shared/forms/form-error-focus';
 
 /** The pattern rule the server applies, so the form says the same thing while the principal types. */
 const patternRule = (c: AbstractControl) => {
@@ -147,6 +148,7 @@ export const SCHEME_CHOICES: ReadonlyArray<{ value: RevisionScheme; label: strin
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class NumberingSettingsPage {
+  private readonly showErrors = formErrorFocus();
   private readonly http = inject(HttpClient);
   private readonly notice = inject(Notice);
   protected readonly asYouType = asYouType;
@@ -180,7 +182,7 @@ export class NumberingSettingsPage {
     if (this.saving()) return;
     this.formError.set('');
     if (this.form.invalid) {
-      this.form.markAllAsTouched();
+      this.showErrors(this.form);
       this.formError.set('The pattern needs attention before the numbering can be saved.');
       return;
     }

@@ -1,4 +1,3 @@
-import { DatePipe } from '@angular/common';
 import { httpResource } from '@angular/common/http';
 import { ChangeDetectionStrategy, Component, computed, inject, input, output, signal } from '@angular/core';
 import {
@@ -31,6 +30,8 @@ import {
 import { z } from 'zod';
 import { errorMessage } from '../../core/auth/api-error';
 import { Session } from '../../core/auth/session';
+import { DayTimePipe } from '../../shared/dates/app-dates';
+import { StateMarker } from '../../shared/state-marker/state-marker';
 import { DrawingsApi } from './drawings-api';
 
 const email = z.email();
@@ -49,7 +50,8 @@ const splitEmails = (v: string) =>
 @Component({
   selector: 'tb-transmittals-panel',
   imports: [
-    DatePipe,
+    DayTimePipe,
+    StateMarker,
     ReactiveFormsModule,
     MatButton,
     MatCheckbox,
@@ -91,17 +93,13 @@ const splitEmails = (v: string) =>
               <button type="button" class="link" (click)="opened.set(t.id)" [attr.aria-expanded]="opened() === t.id">
                 <span class="mono">{{ t.reference }}</span>
               </button>
-              <span
-                >{{ purposeLabel(t.purpose) }} · {{ t.issuedAt | date: 'd MMM y, HH:mm' }} ·
-                {{ t.itemCount }} revision(s)</span
-              >
+              <span>{{ purposeLabel(t.purpose) }} · {{ t.issuedAt | tbDayTime }} · {{ t.itemCount }} revision(s)</span>
               @if (t.myAcknowledgement; as mine) {
-                <span class="state-tag" [attr.data-state]="mine.acknowledgedAt ? 'issued' : 'draft'">
-                  <mat-icon aria-hidden="true">{{
-                    mine.acknowledgedAt ? 'mark_email_read' : 'mark_email_unread'
-                  }}</mat-icon>
-                  {{ mine.acknowledgedAt ? 'Acknowledged' : 'Awaiting your acknowledgement' }}
-                </span>
+                <tb-state-marker
+                  [shape]="mine.acknowledgedAt ? 'done' : 'wait'"
+                  [tone]="mine.acknowledgedAt ? 'neutral' : 'accent'"
+                  >{{ mine.acknowledgedAt ? 'Acknowledged' : 'Awaiting your acknowledgement' }}</tb-state-marker
+                >
               } @else if (!isClient()) {
                 <span class="muted">{{ t.acknowledgedCount }} of {{ t.recipientCount }} acknowledged</span>
               }
@@ -118,7 +116,7 @@ const splitEmails = (v: string) =>
           <h3>
             <span class="mono">{{ t.reference }}</span> · {{ purposeLabel(t.purpose) }}
           </h3>
-          <p class="muted">Issued {{ t.issuedAt | date: 'd MMM y, HH:mm' }} by {{ t.issuedBy.displayName }}</p>
+          <p class="muted">Issued {{ t.issuedAt | tbDayTime }} by {{ t.issuedBy.displayName }}</p>
           @if (t.note) {
             <p class="note">{{ t.note }}</p>
           }
@@ -129,9 +127,7 @@ const splitEmails = (v: string) =>
                   i.suitability
                 }}) {{ i.title }}
                 @if (i.state === 'superseded') {
-                  <span class="state-tag" data-state="superseded"
-                    ><mat-icon aria-hidden="true">layers_clear</mat-icon>since superseded</span
-                  >
+                  <tb-state-marker shape="stop" data-state="superseded">since superseded</tb-state-marker>
                 }
                 @for (f of i.files; track f.id) {
                   · <a [href]="f.downloadUrl" download>{{ f.fileName }}</a>
@@ -168,13 +164,11 @@ const splitEmails = (v: string) =>
                   }}</mat-icon>
                   {{ r.name || r.email }}
                   @if (r.acknowledgedAt) {
-                    <span>acknowledged {{ r.acknowledgedAt | date: 'd MMM y, HH:mm' }}</span>
+                    <span>acknowledged {{ r.acknowledgedAt | tbDayTime }}</span>
                   } @else if (r.userId) {
                     <span class="muted">not acknowledged yet</span>
                   } @else {
-                    <span class="muted"
-                      >outside address; signed links until {{ t.linksExpireAt | date: 'd MMM y, HH:mm' }}</span
-                    >
+                    <span class="muted">outside address; signed links until {{ t.linksExpireAt | tbDayTime }}</span>
                   }
                 </li>
               }

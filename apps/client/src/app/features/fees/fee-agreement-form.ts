@@ -18,7 +18,9 @@ import {
 import { errorMessage } from '../../core/auth/api-error';
 import { asYouType } from '../../shared/forms/field-errors';
 import { FeesApi, agreementUrl } from './fees-api';
-import { formatDay, formatMinor, parseMajor } from './money';
+import { DayPipe } from '../../shared/dates/app-dates';
+import { formErrorFocus } from '../../shared/forms/form-error-focus';
+import { formatMinor, parseMajor } from './money';
 
 /** A share typed as a percentage with up to two decimals ("12.5"), kept as basis points. */
 const toBp = (v: string): number | null => {
@@ -58,6 +60,7 @@ type SharesForm = FormGroup<Record<StageKey, FormControl<string>>>;
 @Component({
   selector: 'tb-fee-agreement-form',
   imports: [
+    DayPipe,
     ReactiveFormsModule,
     MatButton,
     MatFormField,
@@ -165,14 +168,18 @@ export class FeeAgreementForm {
       text: `${minor < 0 ? 'Reduces' : 'Adds to'} the fee by ${formatMinor(Math.abs(minor), a.currency)}; the fee becomes ${formatMinor(after, a.currency)}.`,
     };
   });
-  protected readonly formatDay = formatDay;
+  private readonly showErrors = formErrorFocus();
   protected readonly addingVariation = signal(false);
   protected readonly variationError = signal<string | null>(null);
   protected readonly variationAdded = signal(false);
 
   protected async addVariation(): Promise<void> {
-    this.variation.markAllAsTouched();
     const preview = this.variationPreview();
+    if (this.variation.invalid) {
+      this.showErrors(this.variation);
+      return;
+    }
+    this.variation.markAllAsTouched();
     if (this.variation.invalid || !preview?.ok || this.addingVariation() || !this.agreement.hasValue()) return;
     const v = this.variation.getRawValue();
     this.addingVariation.set(true);
@@ -237,8 +244,12 @@ export class FeeAgreementForm {
   }
 
   protected async save(): Promise<void> {
+    if (this.form.invalid) {
+      this.showErrors(this.form);
+      return;
+    }
     this.form.markAllAsTouched();
-    if (this.form.invalid || this.amountError() || this.saving()) return;
+    if (this.amountError() || this.saving()) return;
     const v = this.form.getRawValue();
     this.saving.set(true);
     this.saveError.set(null);

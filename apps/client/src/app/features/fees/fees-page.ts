@@ -1,23 +1,14 @@
-import { HttpParams, httpResource } from '@angular/common/http';
-import {
-  ChangeDetectionStrategy,
-  Component,
-  OnDestroy,
-  computed,
-  inject,
-  input,
-  linkedSignal,
-  signal,
-} from '@angular/core';
+import { httpResource } from '@angular/common/http';
+import { ChangeDetectionStrategy, Component, computed, inject, input, linkedSignal, signal } from '@angular/core';
 import { MatButton } from '@angular/material/button';
 import { MatOption } from '@angular/material/core';
 import { MatFormField, MatLabel, MatPrefix } from '@angular/material/form-field';
 import { MatIcon } from '@angular/material/icon';
 import { MatInput } from '@angular/material/input';
-import { MatPaginator, PageEvent } from '@angular/material/paginator';
+import { MatPaginator } from '@angular/material/paginator';
 import { MatProgressBar } from '@angular/material/progress-bar';
 import { MatSelect } from '@angular/material/select';
-import { MatSort, MatSortHeader, Sort } from '@angular/material/sort';
+import { MatSort, MatSortHeader } from '@angular/material/sort';
 import {
   MatCell,
   MatCellDef,
@@ -30,7 +21,6 @@ import {
   MatRowDef,
   MatTable,
 } from '@angular/material/table';
-import { Router } from '@angular/router';
 import {
   AGE_BAND_LABELS,
   AGE_BANDS,
@@ -43,24 +33,20 @@ import {
 import { errorMessage } from '../../core/auth/api-error';
 import { PageLocation } from '../../core/auth/page-location';
 import { Session } from '../../core/auth/session';
+import { DayPipe } from '../../shared/dates/app-dates';
 import { EmptyState } from '../../shared/empty-state/empty-state';
+import { PAGE_SIZES, addressTable, oneOf, readTableQuery, tableParams } from '../../shared/table-state/address-table';
 import { FeeAgreementForm } from './fee-agreement-form';
 import { CHECKOUT_KEY, FeesApi, invoiceUrl } from './fees-api';
 import { InvoicePanel } from './invoice-panel';
 import { INVOICE_STATE_LABELS, InvoiceStateTag } from './invoice-state';
 import { ReceivablesChart } from './receivables-chart';
-import { formatDay, formatMinor } from './money';
+import { formatMinor } from './money';
 
 type SortKey = NonNullable<InvoiceListQuery['sort']>;
 type StateFilter = NonNullable<InvoiceListQuery['state']>;
 const SORTS: readonly SortKey[] = ['number', 'issuedOn', 'dueOn', 'total', 'due', 'client', 'project', 'state'];
 const STATES: readonly StateFilter[] = ['draft', 'issued', 'part_paid', 'paid', 'void', 'overdue'];
-const DEFAULT_PAGE_SIZE = 25;
-const SEARCH_DELAY_MS = 300;
-const positive = (v: string | undefined, fallback: number, max = Infinity) => {
-  const n = Number(v);
-  return Number.isInteger(n) && n >= 1 ? Math.min(n, max) : fallback;
-};
 
 /**
  * Fees. The principal: every invoice across projects (sorted, filtered and paged by the server),
@@ -70,6 +56,7 @@ const positive = (v: string | undefined, fallback: number, max = Infinity) => {
 @Component({
   selector: 'tb-fees-page',
   imports: [
+    DayPipe,
     EmptyState,
     FeeAgreementForm,
     InvoicePanel,
@@ -102,8 +89,8 @@ const positive = (v: string | undefined, fallback: number, max = Infinity) => {
   styleUrls: ['../../shared/page/page.scss', './fees-page.scss'],
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
-export class FeesPage implements OnDestroy {
-  private readonly router = inject(Router);
+export class FeesPage {
+  protected readonly table = addressTable();
   private readonly api = inject(FeesApi);
   private readonly location = inject(PageLocation);
   protected readonly session = inject(Session);
@@ -119,12 +106,12 @@ export class FeesPage implements OnDestroy {
   readonly project = input<string>();
 
   protected readonly list$ = computed(() => ({
-    page: positive(this.page(), 1),
-    pageSize: positive(this.pageSize(), DEFAULT_PAGE_SIZE, 100),
-    sort: SORTS.includes(this.sort() as SortKey) ? (this.sort() as SortKey) : 'issuedOn',
-    direction: (this.direction() === 'asc' ? 'asc' : 'desc') as 'asc' | 'desc',
-    q: (this.q() ?? '').trim().slice(0, 100),
-    state: STATES.includes(this.state() as StateFilter) ? (this.state() as StateFilter) : '',
+    ...readTableQuery(
+      { page: this.page(), pageSize: this.pageSize(), sort: this.sort(), direction: this.direction(), q: this.q() },
+      SORTS,
+      { sort: 'issuedOn', direction: 'desc' },
+    ),
+    state: oneOf(this.state(), STATES, ''),
     client: this.client() ?? '',
     project: this.project() ?? '',
   }));
@@ -132,16 +119,10 @@ export class FeesPage implements OnDestroy {
   protected readonly invoices = httpResource(
     () => {
       const s = this.list$();
-      let params = new HttpParams()
-        .set('page', s.page)
-        .set('pageSize', s.pageSize)
-        .set('sort', s.sort)
-        .set('direction', s.direction);
-      if (s.q) params = params.set('q', s.q);
-      if (s.state) params = params.set('state', s.state);
-      if (s.client) params = params.set('clientId', s.client);
-      if (s.project) params = params.set('projectId', s.project);
-      return { url: '/api/invoices', params };
+      return {
+        url: '/api/invoices',
+        params: tableParams(s, { state: s.state, clientId: s.client, projectId: s.project }),
+      };
     },
     { parse: (v) => invoiceListSchema.parse(v) },
   );
@@ -168,6 +149,7 @@ export class FeesPage implements OnDestroy {
       ? ['number', 'project', 'client', 'state', 'total', 'due', 'dueOn']
       : ['number', 'project', 'state', 'total', 'due', 'dueOn', 'actions'],
   );
+  protected readonly pageSizes = PAGE_SIZES;
   protected readonly bands = AGE_BANDS.map((b) => ({ key: b, label: AGE_BAND_LABELS[b] }));
   protected readonly stateOptions = STATES.map((s) => ({ value: s, label: INVOICE_STATE_LABELS[s].text }));
   protected readonly selected = signal<InvoiceSummary | null>(null);
@@ -179,13 +161,8 @@ export class FeesPage implements OnDestroy {
     return !!(s.q || s.state || s.client || s.project);
   });
 
-  private searchTimer?: ReturnType<typeof setTimeout>;
-
   protected money(minor: number, currency: string): string {
     return formatMinor(minor, currency);
-  }
-  protected day(iso: string | null): string {
-    return formatDay(iso);
   }
   protected message(err: unknown): string {
     return errorMessage(err);
@@ -221,30 +198,7 @@ export class FeesPage implements OnDestroy {
     this.receivables.reload();
   }
 
-  protected searchTyped(value: string): void {
-    clearTimeout(this.searchTimer);
-    this.searchTimer = setTimeout(() => this.go({ q: value.trim() || null, page: null }), SEARCH_DELAY_MS);
-  }
-  protected filter(key: 'state' | 'client' | 'project', value: string): void {
-    this.go({ [key]: value || null, page: null });
-  }
-  protected sorted(sort: Sort): void {
-    if (!sort.direction) this.go({ sort: null, direction: null, page: null });
-    else this.go({ sort: sort.active, direction: sort.direction, page: null });
-  }
-  protected paged(event: PageEvent): void {
-    this.go({
-      page: event.pageIndex === 0 ? null : event.pageIndex + 1,
-      pageSize: event.pageSize === DEFAULT_PAGE_SIZE ? null : event.pageSize,
-    });
-  }
   protected clearFilters(): void {
-    this.go({ q: null, state: null, client: null, project: null, page: null });
-  }
-  ngOnDestroy(): void {
-    clearTimeout(this.searchTimer);
-  }
-  private go(queryParams: Record<string, string | number | null>): void {
-    void this.router.navigate([], { queryParams, queryParamsHandling: 'merge' });
+    this.table.clear(['state', 'client', 'project']);
   }
 }

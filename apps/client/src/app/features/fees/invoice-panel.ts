@@ -11,7 +11,9 @@ import { errorMessage } from '../../core/auth/api-error';
 import { asYouType } from '../../shared/forms/field-errors';
 import { FeesApi, invoiceUrl } from './fees-api';
 import { InvoiceStateTag } from './invoice-state';
-import { formatDay, formatMinor, parseMajor } from './money';
+import { DayPipe } from '../../shared/dates/app-dates';
+import { formErrorFocus } from '../../shared/forms/form-error-focus';
+import { formatMinor, parseMajor } from './money';
 
 const LINE_KINDS: Array<{ value: Exclude<LineKind, 'credit'>; label: string }> = [
   { value: 'stage_fee', label: 'Stage fee' },
@@ -31,6 +33,7 @@ type LineForm = FormGroup<{
 @Component({
   selector: 'tb-invoice-panel',
   imports: [
+    DayPipe,
     ReactiveFormsModule,
     MatButton,
     MatFormField,
@@ -47,6 +50,7 @@ type LineForm = FormGroup<{
 })
 export class InvoicePanel {
   private readonly api = inject(FeesApi);
+  private readonly showErrors = formErrorFocus();
   readonly projectId = input.required<string>();
   readonly invoiceId = input.required<string>();
   /** Tells the list to load again after a change. */
@@ -112,9 +116,6 @@ export class InvoicePanel {
   protected money(minor: number, currency: string): string {
     return formatMinor(minor, currency);
   }
-  protected day(iso: string | null): string {
-    return formatDay(iso);
-  }
   protected stageTitle(key: string | null): string {
     return key ? STAGE_TITLES[key as keyof typeof STAGE_TITLES] : '';
   }
@@ -147,6 +148,7 @@ export class InvoicePanel {
 
   protected saveDraft(): void {
     const inv = this.invoice.value()!;
+    if (this.lines.invalid) this.showErrors(this.lines);
     this.lines.markAllAsTouched();
     const parsed = this.lines.getRawValue().map((l) => ({ ...l, net: parseMajor(l.amount, inv.currency) }));
     if (this.lines.invalid || !parsed.length || parsed.some((l) => l.net === null)) {
@@ -170,7 +172,10 @@ export class InvoicePanel {
   }
   protected recordPayment(): void {
     const inv = this.invoice.value()!;
-    this.payment.markAllAsTouched();
+    if (this.payment.invalid) {
+      this.showErrors(this.payment);
+      return;
+    }
     const v = this.payment.getRawValue();
     const amountMinor = parseMajor(v.amount, inv.currency);
     if (this.payment.invalid || !amountMinor) return;
@@ -184,7 +189,10 @@ export class InvoicePanel {
   }
   protected addCredit(): void {
     const inv = this.invoice.value()!;
-    this.credit.markAllAsTouched();
+    if (this.credit.invalid) {
+      this.showErrors(this.credit);
+      return;
+    }
     const v = this.credit.getRawValue();
     const netMinor = parseMajor(v.amount, inv.currency);
     if (this.credit.invalid || !netMinor) return;
@@ -196,8 +204,10 @@ export class InvoicePanel {
     );
   }
   protected voidIt(): void {
-    this.voidReason.markAsTouched();
-    if (this.voidReason.invalid) return;
+    if (this.voidReason.invalid) {
+      this.showErrors(this.voidReason);
+      return;
+    }
     void this.run(() => this.api.void(this.projectId(), this.invoiceId(), this.voidReason.value.trim()));
   }
 }

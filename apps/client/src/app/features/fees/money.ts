@@ -1,3 +1,4 @@
+import { formatDay as sharedFormatDay } from '@trabeate/dates';
 // Money on screen: amounts travel as integer minor units and are formatted only here, with
 // Intl.NumberFormat for the invoice's own currency (its exponent: EUR 2, JPY 0).
 const LOCALE = 'en-GB';
@@ -22,10 +23,7 @@ export function parseMajor(text: string, currency: string): number | null {
   return Number(m[1]) * 10 ** digits + Number((m[2] ?? '').padEnd(digits, '0') || '0');
 }
 
-/** One date format across the app: "2 Dec 2026" (dates travel as ISO yyyy-mm-dd). */
+/** A calendar day in the app's one date format ("2 Dec 2026", libs/dates), or a dash for none. */
 export function formatDay(iso: string | null): string {
-  if (!iso) return '—';
-  return new Intl.DateTimeFormat(LOCALE, { day: 'numeric', month: 'short', year: 'numeric', timeZone: 'UTC' }).format(
-    new Date(`${iso}T00:00:00Z`),
-  );
+  return iso ? sharedFormatDay(iso) || '—' : '—';
 }

@@ -1,15 +1,15 @@
-import { HttpParams, httpResource } from '@angular/common/http';
-import { ChangeDetectionStrategy, Component, OnDestroy, computed, inject, input, linkedSignal } from '@angular/core';
+import { httpResource } from '@angular/common/http';
+import { ChangeDetectionStrategy, Component, computed, inject, input, linkedSignal } from '@angular/core';
 import { MatButton } from '@angular/material/button';
 import { MatOption } from '@angular/material/core';
 import { MatFormField, MatLabel, MatPrefix } from '@angular/material/form-field';
 import { MatIcon } from '@angular/material/icon';
 import { MatInput } from '@angular/material/input';
-import { MatPaginator, PageEvent } from '@angular/material/paginator';
+import { MatPaginator } from '@angular/material/paginator';
 import { MatProgressBar } from '@angular/material/progress-bar';
 import { MatProgressSpinner } from '@angular/material/progress-spinner';
 import { MatSelect } from '@angular/material/select';
-import { MatSort, MatSortHeader, Sort } from '@angular/material/sort';
+import { MatSort, MatSortHeader } from '@angular/material/sort';
 import {
   MatCell,
   MatCellDef,
@@ -22,7 +22,7 @@ import {
   MatRowDef,
   MatTable,
 } from '@angular/material/table';
-import { Router, RouterLink } from '@angular/router';
+import { RouterLink } from '@angular/router';
 import type { ProjectList, ProjectListQuery, StageState } from '@trabeate/contracts';
 import { errorMessage } from '../../core/auth/api-error';
 import { Session } from '../../core/auth/session';
@@ -30,14 +30,12 @@ import { EmptyState } from '../../shared/empty-state/empty-state';
 import { STATE_LABELS, STATE_MARKERS } from './project-labels';
 import { DayTimePipe } from '../../shared/dates/app-dates';
 import { StateMarker } from '../../shared/state-marker/state-marker';
+import { PAGE_SIZES, addressTable, oneOf, readTableQuery, tableParams } from '../../shared/table-state/address-table';
 
 type SortKey = NonNullable<ProjectListQuery['sort']>;
 type Status = NonNullable<ProjectListQuery['status']>;
 const SORTS: readonly SortKey[] = ['reference', 'name', 'client', 'updatedAt', 'storeys'];
 const STATUSES: readonly Status[] = ['active', 'archived', 'all'];
-export const PAGE_SIZES = [10, 25, 50, 100];
-const DEFAULT_PAGE_SIZE = 25;
-const SEARCH_DELAY_MS = 300;
 
 /** The list state as it is in the address, so reload and back return to the same view. */
 export interface ListState {
@@ -49,11 +47,6 @@ export interface ListState {
   readonly client: string;
   readonly status: Status;
 }
-
-const positive = (v: string | undefined, fallback: number, max = Infinity) => {
-  const n = Number(v);
-  return Number.isInteger(n) && n >= 1 ? Math.min(n, max) : fallback;
-};
 
 /**
  * The firm's projects: sorted, filtered and paged by the server (a firm with years of jobs should
@@ -94,8 +87,8 @@ const positive = (v: string | undefined, fallback: number, max = Infinity) => {
   styleUrls: ['../../shared/page/page.scss', './projects-page.scss'],
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
-export class ProjectsPage implements OnDestroy {
-  private readonly router = inject(Router);
+export class ProjectsPage {
+  protected readonly table = addressTable();
   protected readonly session = inject(Session);
 
   // Route-bound query parameters (strings as they stand in the address).
@@ -108,26 +101,21 @@ export class ProjectsPage implements OnDestroy {
   readonly status = input<string>();
 
   protected readonly state = computed<ListState>(() => ({
-    page: positive(this.page(), 1),
-    pageSize: positive(this.pageSize(), DEFAULT_PAGE_SIZE, 100),
-    sort: SORTS.includes(this.sort() as SortKey) ? (this.sort() as SortKey) : 'reference',
-    direction: this.direction() === 'asc' ? 'asc' : 'desc',
-    q: (this.q() ?? '').trim().slice(0, 100),
+    ...readTableQuery(
+      { page: this.page(), pageSize: this.pageSize(), sort: this.sort(), direction: this.direction(), q: this.q() },
+      SORTS,
+      { sort: 'reference', direction: 'desc' },
+    ),
     client: this.client() ?? '',
-    status: STATUSES.includes(this.status() as Status) ? (this.status() as Status) : 'active',
+    status: oneOf(this.status(), STATUSES, 'active'),
   }));
 
   protected readonly list = httpResource<ProjectList>(() => {
     const s = this.state();
-    let params = new HttpParams()
-      .set('page', s.page)
-      .set('pageSize', s.pageSize)
-      .set('sort', s.sort)
-      .set('direction', s.direction)
-      .set('status', s.status);
-    if (s.q) params = params.set('q', s.q);
-    if (s.client) params = params.set('clientOrganisationId', s.client);
-    return { url: '/api/projects', params };
+    return {
+      url: '/api/projects',
+      params: tableParams(s, { status: s.status, clientOrganisationId: s.client }),
+    };
   });
   /** The last answer stays on screen while the next page loads, so the table does not jump. */
   protected readonly shown = linkedSignal<ProjectList | undefined, ProjectList | undefined>({
@@ -147,8 +135,6 @@ export class ProjectsPage implements OnDestroy {
     return !!s.q || !!s.client || s.status !== 'active';
   });
 
-  private searchTimer?: ReturnType<typeof setTimeout>;
-
   protected marker(state: StageState) {
     return STATE_MARKERS[state];
   }
@@ -161,42 +147,15 @@ export class ProjectsPage implements OnDestroy {
     return errorMessage(err);
   }
 
-  /** Typing waits for a pause before asking the server, and starts again from page 1. */
-  protected searchTyped(value: string): void {
-    clearTimeout(this.searchTimer);
-    this.searchTimer = setTimeout(() => this.go({ q: value.trim() || null, page: null }), SEARCH_DELAY_MS);
-  }
-
   protected clientChosen(id: string): void {
-    this.go({ client: id || null, page: null });
+    this.table.filter('client', id);
   }
 
   protected statusChosen(status: Status): void {
-    this.go({ status: status === 'active' ? null : status, page: null });
-  }
-
-  protected sorted(sort: Sort): void {
-    // Material offers a third "no sort" click; the server always sorts, so that means the default.
-    if (!sort.direction) this.go({ sort: null, direction: null, page: null });
-    else this.go({ sort: sort.active, direction: sort.direction, page: null });
-  }
-
-  protected paged(event: PageEvent): void {
-    this.go({
-      page: event.pageIndex === 0 ? null : event.pageIndex + 1,
-      pageSize: event.pageSize === DEFAULT_PAGE_SIZE ? null : event.pageSize,
-    });
+    this.table.filter('status', status === 'active' ? null : status);
   }
 
   protected clearFilters(): void {
-    this.go({ q: null, client: null, status: null, page: null });
-  }
-
-  ngOnDestroy(): void {
-    clearTimeout(this.searchTimer);
-  }
-
-  private go(queryParams: Record<string, string | number | null>): void {
-    void this.router.navigate([], { queryParams, queryParamsHandling: 'merge' });
+    this.table.clear(['client', 'status']);
   }
 }

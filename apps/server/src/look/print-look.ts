@@ -1,0 +1,47 @@
+import { DEFAULT_LOCALE, formatDay, formatDayTime } from '@trabeate/dates';
+
+// Trabeate's look on paper and in mail, taken from the screens (apps/client/src/styles.scss and
+// styles/_palette.scss) so an invoice, a transmittal sheet and a notice read as the same product:
+// the same accent and ink, the same typeface, numbers in a fixed-width figures face so columns of
+// amounts line up, the same 1.2-step type scale, and dates written by libs/dates.
+
+const fontFile = (name: string) => require.resolve(`@fontsource/${name}`);
+
+/** Shipped WOFF files (pdfkit cannot read every glyph of WOFF2); nothing is fetched. Latin subset. */
+export const PRINT_FONTS = {
+  regular: fontFile('atkinson-hyperlegible/files/atkinson-hyperlegible-latin-400-normal.woff'),
+  bold: fontFile('atkinson-hyperlegible/files/atkinson-hyperlegible-latin-700-normal.woff'),
+  /** Every digit the same width: amounts, dates and references line up in a column. */
+  figures: fontFile('jetbrains-mono/files/jetbrains-mono-latin-400-normal.woff'),
+};
+
+/** Colours: the app's primary tone 40 as the accent, its neutral tones for ink, notes and rules. */
+export const PRINT_COLOURS = {
+  accent: '#016973',
+  ink: '#1d2427',
+  muted: '#496367',
+  rule: '#c9d0d2',
+  paper: '#f2f1ee',
+};
+
+/**
+ * The type scale in points for paper: the screen's 13 / 16 / 18 / 22 / 28 px steps from a 16 px
+ * body, scaled to a 10 pt body.
+ */
+export const PRINT_TYPE = { caption: 8, body: 10, lead: 11.25, h2: 13.75, h1: 17.5 } as const;
+
+/** The same scale in px for mail (mail programs read px), on the screen's 16 px body. */
+export const MAIL_TYPE = { caption: 13, body: 16, lead: 18, h2: 22 } as const;
+
+/** The screen's font stacks, for mail: our typeface where the reader has it, system fonts else. */
+export const MAIL_FONTS = {
+  body: "'Atkinson Hyperlegible',-apple-system,'Segoe UI',Roboto,Arial,sans-serif",
+  figures: "'JetBrains Mono',ui-monospace,'Cascadia Mono',Menlo,Consolas,monospace",
+};
+
+/** A calendar day on paper and in mail, as on screen: "20 Dec 2026". */
+export const printDay = (value: string | Date): string => formatDay(value, { locale: DEFAULT_LOCALE });
+
+/** An instant on paper and in mail: "20 Dec 2026, 14:05 UTC" (a sheet has no reader's time zone). */
+export const printDayTime = (value: Date | string): string =>
+  `${formatDayTime(value, { locale: DEFAULT_LOCALE, timeZone: 'UTC' })} UTC`;
