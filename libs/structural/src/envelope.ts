@@ -400,7 +400,11 @@ function combineParts(deadParts: Parts, liveParts: Parts, lengths: Float64Array)
         let j = pb; // piece of the part that holds the current grid piece
         for (let g = off[i]; g + 1 < off[i + 1]; g++) {
           const x = bp[g];
-          while (j + 2 < pe && part.bp[j + 1] <= x) j++;
+          // find the part's piece by the grid piece's midpoint, not its start: a part breakpoint
+          // merged into a grid breakpoint within the tolerance may lie just after that start, and
+          // the piece before it would carry its cubic across the load that starts there
+          const xm = (x + bp[g + 1]) / 2;
+          while (j + 2 < pe && part.bp[j + 1] <= xm) j++;
           const src = 4 * (j - i);
           const c0 = part.coef[src],
             c1 = part.coef[src + 1],
