@@ -9,7 +9,9 @@ import {
 } from '@trabeate/contracts';
 import { CAUTION, ENGINE_VERSION } from '@trabeate/structural';
 import { DEMO } from '../../seeds/demo';
-import { DEMO_SCHEMES } from '../../seeds/demo-schemes';
+import { DEMO_FOOTING_CHOICE, DEMO_SCHEMES } from '../../seeds/demo-schemes';
+import { printable } from '../../apps/server/src/look/print-look';
+import { FOOTING_OPTION_LABELS } from '@trabeate/contracts';
 import { DEMO_DRAWINGS } from '../../seeds/demo-drawings';
 import { testApp, type TestApp } from '../support/app';
 import { send, signedInAs, until } from '../support/agents';
@@ -98,7 +100,7 @@ describe('scheme outputs: calculation report, plan sheet, registering the sheet'
       const failing = v.results.checks[0];
       expect(failing).toBeDefined();
       expect(flat).toContain(squash(failing.ruleId));
-      expect(flat).toContain(squash(failing.source).slice(0, 40));
+      expect(flat).toContain(squash(printable(failing.source)).slice(0, 40));
       // schedules: every column mark, and the beam members
       for (const c of v.document.columns) expect(text).toContain(c.label);
       expect(flat).toContain('Columnschedule');
@@ -113,6 +115,15 @@ describe('scheme outputs: calculation report, plan sheet, registering the sheet'
       // the beam lines are drawn from the engine's envelope diagram, not the simplified fallback
       expect(flat).toContain('Envelopesofthefactoredloadarrangements');
       expect(flat).not.toContain('(simplifieddiagram)');
+      // the recorded footing choice with its reason, in words (scheme A records one for D4)
+      const choices = v.document.footingChoices ?? [];
+      if (scheme.id === DEMO_SCHEMES.full.id) expect(choices).toEqual([DEMO_FOOTING_CHOICE]);
+      for (const c of choices) {
+        expect(flat).toContain(squash(`Chosen: ${FOOTING_OPTION_LABELS[c.option]}.`));
+        expect(flat).toContain(squash(c.reason).slice(0, 60));
+      }
+      // the shipped face has no Greek letters: the engine's symbols are spelled out, never dropped
+      expect(text).not.toMatch(/[\u0370-\u03ff\u2200-\u2211\u2213-\u22ff]/u);
     },
   );
 

@@ -123,6 +123,16 @@ export const footingOptionSchema = z.enum([
 ]);
 export type FootingOption = z.infer<typeof footingOptionSchema>;
 
+/** Words for each footing option: the planning panel, its list and the calculation report. */
+export const FOOTING_OPTION_LABELS: Readonly<Record<z.infer<typeof footingOptionSchema>, string>> = {
+  shift: 'Move the column inward',
+  strap: 'Strap to an interior column',
+  combinedRectangular: 'Combined footing, rectangular',
+  combinedTrapezoidal: 'Combined footing, trapezoidal',
+  combinedOverlap: 'Combined footing for both columns',
+  isolated: 'Keep separate pads',
+};
+
 /** The engineer's choice for one column, with the reason in their words (one entry per column at most). */
 export const footingChoiceSchema = z.object({
   columnId: z.string().min(1),

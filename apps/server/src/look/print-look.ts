@@ -45,3 +45,62 @@ export const printDay = (value: string | Date): string => formatDay(value, { loc
 /** An instant on paper and in mail: "20 Dec 2026, 14:05 UTC" (a sheet has no reader's time zone). */
 export const printDayTime = (value: Date | string): string =>
   `${formatDayTime(value, { locale: DEFAULT_LOCALE, timeZone: 'UTC' })} UTC`;
+
+/**
+ * The shipped faces carry the Latin subset only, so Greek letters and mathematical signs from the
+ * engine's texts (ψ0, εc2, αcc, ≤; the minus sign is there) would print as empty boxes: on paper they are spelled out.
+ */
+const SPELLED: Readonly<Record<string, string>> = {
+  α: 'alpha',
+  β: 'beta',
+  γ: 'gamma',
+  δ: 'delta',
+  ε: 'eps',
+  ζ: 'zeta',
+  η: 'eta',
+  θ: 'theta',
+  κ: 'kappa',
+  λ: 'lambda',
+  μ: 'mu',
+  ν: 'nu',
+  ξ: 'xi',
+  π: 'pi',
+  ρ: 'rho',
+  σ: 'sigma',
+  τ: 'tau',
+  φ: 'phi',
+  ϕ: 'phi',
+  χ: 'chi',
+  ψ: 'psi',
+  ω: 'omega',
+  Γ: 'Gamma',
+  Δ: 'Delta',
+  Θ: 'Theta',
+  Λ: 'Lambda',
+  Σ: 'Sigma',
+  Φ: 'Phi',
+  Ψ: 'Psi',
+  Ω: 'Omega',
+  '≤': '<=',
+  '≥': '>=',
+  '≈': '~',
+  '≠': '!=',
+  '√': 'sqrt',
+  '∞': 'inf',
+
+  '→': '->',
+};
+const OUTSIDE_LATIN = /[\u0370-\u03ff\u2190-\u21ff\u2200-\u2211\u2213-\u22ff]/gu;
+
+/** Text as the shipped print faces can draw it. */
+export const printable = (text: string): string => text.replace(OUTSIDE_LATIN, (c) => SPELLED[c] ?? '?');
+
+/** A copy of a value with every string in it made printable (an engine result, say). */
+export function printableDeep<T>(value: T): T {
+  if (typeof value === 'string') return printable(value) as T;
+  if (Array.isArray(value)) return value.map(printableDeep) as T;
+  if (value && typeof value === 'object' && Object.getPrototypeOf(value) === Object.prototype) {
+    return Object.fromEntries(Object.entries(value).map(([k, v]) => [k, printableDeep(v)])) as T;
+  }
+  return value;
+}

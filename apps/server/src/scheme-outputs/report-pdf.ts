@@ -1,4 +1,4 @@
-import type { SchemeDocument } from '@trabeate/contracts';
+import { FOOTING_OPTION_LABELS, type FootingOption, type SchemeDocument } from '@trabeate/contracts';
 import {
   beamLineDiagram,
   ENGINE_VERSION,
@@ -8,6 +8,7 @@ import {
   type SchemeResult,
 } from '@trabeate/structural';
 import { ACCENT, INK, MUTED, RULE, newDocument, table, toBuffer } from '../drawings/pdf';
+import { printableDeep } from '../look/print-look';
 
 // The calculation report of one saved scheme version, written from the results stored with that
 // save (never re-run here), so the report says exactly what the engine said at the time.
@@ -527,7 +528,11 @@ function boundaryFootings(doc: Doc, d: ReportInput) {
       .font('body')
       .fontSize(9)
       .fillColor(c ? INK : MUTED)
-      .text(c ? `Chosen: ${c.option}. Reason: ${c.reason}` : 'No option chosen yet in this version of the scheme.');
+      .text(
+        c
+          ? `Chosen: ${FOOTING_OPTION_LABELS[c.option as FootingOption] ?? c.option}. Reason: ${c.reason}`
+          : 'No option chosen yet in this version of the scheme.',
+      );
   }
   if (d.results.footings.combined.length) {
     doc.moveDown(0.5);
@@ -606,9 +611,10 @@ export const REPORT_SECTIONS = [
  * Every page carries the caution at its head and a footer naming project, scheme, version and page.
  */
 export async function calculationReport(
-  d: ReportInput,
+  input: ReportInput,
   progress: (done: number, total: number) => Promise<void> = async () => undefined,
 ): Promise<{ pdf: Buffer; pages: number }> {
+  const d = printableDeep(input);
   const doc = newDocument({ Title: `Calculation report: ${d.schemeName} v${d.version}`, Subject: d.projectName });
   // room for the caution above the body on every page
   doc.page.margins.top = 70;

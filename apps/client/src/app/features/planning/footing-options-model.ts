@@ -1,4 +1,4 @@
-import type { FootingOption, SchemeDocument } from '@trabeate/contracts';
+import { FOOTING_OPTION_LABELS, type FootingOption, type SchemeDocument } from '@trabeate/contracts';
 import type { BoundaryOptions, OverlapCombined, SchemeResult } from '@trabeate/structural';
 
 // What the footing panel shows, worked out from the engine's result and the document's recorded
@@ -7,15 +7,8 @@ import type { BoundaryOptions, OverlapCombined, SchemeResult } from '@trabeate/s
 
 export type FootingChoice = SchemeDocument['footingChoices'][number];
 
-/** Words for each option, used in the panel, its list and the choice's record. */
-export const FOOTING_OPTION_LABELS: Readonly<Record<FootingOption, string>> = {
-  shift: 'Move the column inward',
-  strap: 'Strap to an interior column',
-  combinedRectangular: 'Combined footing, rectangular',
-  combinedTrapezoidal: 'Combined footing, trapezoidal',
-  combinedOverlap: 'Combined footing for both columns',
-  isolated: 'Keep separate pads',
-};
+/** Words for each option, used in the panel, its list and the choice's record (shared with the report). */
+export { FOOTING_OPTION_LABELS };
 
 export interface FootingSiteEntry {
   columnId: string;
