@@ -238,7 +238,9 @@ describe('StagePanel', () => {
     await open(stage({ key: 'column_layout', title: 'Column layout', position: 2, allowedActions: ['submit'] }), false);
     reply(backend.expectOne(`${layout}/submissions`), stageSubmissionListSchema, { items: [] });
     await settle();
-    expect(el().querySelector('[data-testid="review-empty"]')?.textContent).toContain('Nothing submitted with a scheme yet');
+    expect(el().querySelector('[data-testid="review-empty"]')?.textContent).toContain(
+      'Nothing submitted with a scheme yet',
+    );
     (el().querySelector('[data-testid="action-submit"]') as HTMLButtonElement).click();
     await settle(50);
     expect(document.querySelector('mat-dialog-container h2')?.textContent).toContain('Submit Column layout for review');
