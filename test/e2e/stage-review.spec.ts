@@ -153,7 +153,7 @@ describe('stage review from checks to the offered invoice, in Chromium', () => {
     await testId(page, 'review-justification').filter({ hasText: justification }).waitFor({ timeout: 20_000 });
   });
 
-  it('the principal sees the check summary and the justification, and approves against the version', async () => {
+  it('the principal sees the check summary and the justification, opens the report, registers the plan sheet and approves against the version', async () => {
     const page = principal.page;
     await page.goto(`${base}/projects/${projectId}?stage=column_layout`);
     await testId(page, 'stage-review').waitFor({ timeout: 20_000 });
@@ -162,6 +162,22 @@ describe('stage review from checks to the offered invoice, in Chromium', () => {
     await expect(testId(page, 'review-counts').textContent()).resolves.toContain('1 error(s)');
     await expect(testId(page, 'review-rules').textContent()).resolves.toContain('column.capacity');
     await shot(page, '2-review');
+
+    // from the review: the calculation report of the submitted version, then its plan sheet
+    // registered as a draft revision, without leaving the stage
+    await testId(page, 'review-outputs-toggle').click();
+    await testId(page, 'report-generate').click();
+    const open = testId(page, 'report-open');
+    await open.waitFor({ timeout: 90_000 });
+    const report = await page.request.get(new URL((await open.getAttribute('href'))!, base).toString());
+    expect(report.status()).toBe(200);
+    expect(report.headers()['content-type']).toBe('application/pdf');
+    await testId(page, 'register-title').fill('Column layout, submitted scheme');
+    await testId(page, 'register-submit').click();
+    await expect(testId(page, 'register-done').textContent({ timeout: 30_000 })).resolves.toMatch(
+      /Revision P01 of .+ registered from version 2/,
+    );
+    await shot(page, '2b-review-outputs');
 
     await testId(page, 'action-approve').click();
     await testId(page, 'confirm').click();
