@@ -277,10 +277,11 @@ describe('the register by keyboard alone: an engineer registers a revision, the 
     const toSubmit = await tabTo(page, (f) => f.testId === 'register-revision', 60);
     expect(unringed([...stops, ...toSubmit.stops])).toEqual([]);
     await page.keyboard.press('Enter');
-    const upload = await tabTo(page, (f) => f.testId === 'upload-pdf', 60, 'Shift+Tab').catch(() =>
-      tabTo(page, (f) => f.testId === 'upload-pdf', 60),
-    );
-    expect(unringed(upload.stops)).toEqual([]);
+    // the form gives way to the new draft, and focus moves on to its PDF upload
+    await page.waitForFunction(() => document.activeElement?.getAttribute('data-testid') === 'upload-pdf', null, {
+      timeout: 20_000,
+    });
+    expect((await focused(page)).ring).toBeGreaterThanOrEqual(3);
     const [chooser] = await Promise.all([page.waitForEvent('filechooser'), page.keyboard.press('Space')]);
     await chooser.setFiles(writePdf(`${drawing}-${code}.pdf`));
     await page
@@ -348,5 +349,105 @@ describe('fees by keyboard alone: the principal issues a draft invoice', () => {
     await expect(panel.locator('h3').textContent()).resolves.toMatch(/INV-\d{4}-\d{4}/);
     await page.screenshot({ path: path.join(SCREENSHOTS, 'keyboard-principal-issued.png') });
     expect(browser.outside).toEqual([]);
+  });
+});
+
+describe('an engineer by keyboard alone: comments on a stage and submits it for review', () => {
+  const base = testEnv('E2E_BASE_URL');
+  const reference = `E2E-KB-${Date.now().toString(36).toUpperCase()}`;
+  const note = 'Wind basis taken from the site survey; importance class II.';
+  let principal: Browser;
+  let engineer: Browser;
+  let page: Page;
+  let projectId = '';
+
+  /** One API call from a signed-in page, with the CSRF header the app sends (set-up only). */
+  const api = (p: Page, method: string, url: string, body?: unknown) =>
+    p.evaluate(
+      async ([m, u, b]) => {
+        const xsrf = decodeURIComponent(/(?:^|; )XSRF-TOKEN=([^;]+)/.exec(document.cookie)?.[1] ?? '');
+        const res = await fetch(u as string, {
+          method: m as string,
+          headers: { 'Content-Type': 'application/json', 'X-XSRF-TOKEN': xsrf },
+          body: b === undefined ? undefined : JSON.stringify(b),
+        });
+        return { status: res.status, body: res.status === 204 ? null : await res.json() };
+      },
+      [method, url, body] as const,
+    );
+
+  beforeAll(async () => {
+    // The principal sets up a project of this file's own through the API (so no other browser
+    // test's demo stages change), with the demo engineer on its design basis stage.
+    principal = await openBrowser();
+    await signInByKeyboard(principal.page, base, DEMO.users.principal);
+    const created = await api(principal.page, 'POST', '/api/projects', {
+      reference,
+      name: `Quillon Court ${reference}`,
+      clientOrganisationId: DEMO.clients.fenwick.id,
+      storeys: 4,
+      storeyHeightM: 3,
+      currency: 'EUR',
+      designBasis: {
+        codeFamily: 'EN1992',
+        concreteMPa: 30,
+        steelMPa: 500,
+        imposedKPa: 2,
+        superimposedDeadKPa: 1.5,
+        bearingPressureKPa: 150,
+        foundingDepthM: 1.2,
+      },
+    });
+    expect(created.status).toBe(201);
+    projectId = created.body.id;
+    const assigned = await api(principal.page, 'PATCH', `/api/projects/${projectId}/stages/design_basis`, {
+      assigneeId: DEMO.users.engineerA.id,
+    });
+    expect(assigned.status).toBe(200);
+
+    engineer = await openBrowser();
+    page = engineer.page;
+    await page.setViewportSize({ width: 1440, height: 900 });
+    await signInByKeyboard(page, base, DEMO.users.engineerA);
+  }, SETUP_BUDGET_MS);
+  afterAll(async () => {
+    await principal?.close();
+    await engineer?.close();
+  });
+
+  it('opens the stage with Enter and starts work', async () => {
+    await page.goto(`${base}/projects/${projectId}`);
+    await page.locator('[data-testid="stage-timeline"]').waitFor({ timeout: 20_000 });
+    await page.waitForLoadState('networkidle');
+    const toStage = await tabTo(page, (f) => f.testId === 'stage-design_basis', 40);
+    await page.keyboard.press('Enter');
+    await page.waitForURL(/stage=design_basis/, { timeout: 20_000 });
+    const toStart = await tabTo(page, (f) => f.testId === 'action-start', 40);
+    expect(unringed([...toStage.stops, ...toStart.stops])).toEqual([]);
+    await page.keyboard.press('Enter');
+    await page
+      .locator('[data-testid="stage-panel"] [data-testid="stage-state"]')
+      .filter({ hasText: 'In progress' })
+      .waitFor({ timeout: 20_000 });
+  });
+
+  it('writes a comment, posts it with Enter on the button, and submits the stage for review', async () => {
+    await tabTo(page, (f) => f.testId === 'comment-text', 60);
+    await page.keyboard.type(note);
+    const toPost = await tabTo(page, (f) => f.testId === 'comment-post', 10);
+    expect(unringed(toPost.stops)).toEqual([]);
+    await page.keyboard.press('Enter');
+    await page.locator('[data-testid="comment"]').filter({ hasText: note }).waitFor({ timeout: 20_000 });
+
+    // back up from the comments to the stage's actions
+    const toSubmit = await tabTo(page, (f) => f.testId === 'action-submit', 60, 'Shift+Tab');
+    expect(unringed(toSubmit.stops)).toEqual([]);
+    await page.keyboard.press('Enter');
+    await page
+      .locator('[data-testid="stage-panel"] [data-testid="stage-state"]')
+      .filter({ hasText: 'Under review' })
+      .waitFor({ timeout: 20_000 });
+    await page.screenshot({ path: path.join(SCREENSHOTS, 'keyboard-engineer-submitted.png') });
+    expect(engineer.outside).toEqual([]);
   });
 });

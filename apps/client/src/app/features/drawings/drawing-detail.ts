@@ -1,5 +1,17 @@
 import { HttpEventType, httpResource } from '@angular/common/http';
-import { ChangeDetectionStrategy, Component, computed, inject, input, output, signal } from '@angular/core';
+import {
+  afterNextRender,
+  ChangeDetectionStrategy,
+  Component,
+  computed,
+  effect,
+  ElementRef,
+  inject,
+  Injector,
+  input,
+  output,
+  signal,
+} from '@angular/core';
 import { FormBuilder, ReactiveFormsModule, Validators } from '@angular/forms';
 import { MatButton } from '@angular/material/button';
 import { MatOption } from '@angular/material/core';
@@ -217,6 +229,10 @@ const today = () => new Date().toISOString().slice(0, 10);
 })
 export class DrawingDetail {
   private readonly api = inject(DrawingsApi);
+  private readonly host: ElementRef<HTMLElement> = inject(ElementRef);
+  private readonly injector = inject(Injector);
+  /** Set once a revision is registered: its PDF upload takes the focus when the drawing reloads. */
+  private focusUploadNext = false;
   private readonly session = inject(Session);
   readonly projectId = input.required<string>();
   readonly drawingId = input.required<string>();
@@ -257,6 +273,16 @@ export class DrawingDetail {
   );
 
   constructor() {
+    effect(() => {
+      if (!this.drawing.hasValue()) return;
+      this.drawing.value(); // a new value: the reload after registering has arrived
+      if (!this.focusUploadNext) return;
+      this.focusUploadNext = false;
+      afterNextRender(
+        () => this.host.nativeElement.querySelector<HTMLInputElement>('[data-testid="upload-pdf"]')?.focus(),
+        { injector: this.injector },
+      );
+    });
     this.form.controls.series.valueChanges.subscribe((s) => this.series.set(s));
   }
 
@@ -295,9 +321,11 @@ export class DrawingDetail {
       return;
     }
     const v = this.form.getRawValue();
-    await this.run(() =>
+    const done = await this.run(() =>
       this.api.registerRevision(this.projectId(), d.id, { ...v, suitability: v.suitability.toUpperCase() }),
     );
+    // The form goes away with the new draft; without this, focus would fall back to the page.
+    if (done) this.focusUploadNext = true;
   }
 
   protected upload(r: Revision, role: 'pdf' | 'source', event: Event): void {
@@ -327,16 +355,18 @@ export class DrawingDetail {
     });
   }
 
-  private async run(work: () => Promise<unknown>): Promise<void> {
-    if (this.busy()) return;
+  private async run(work: () => Promise<unknown>): Promise<boolean> {
+    if (this.busy()) return false;
     this.busy.set(true);
     this.error.set(null);
     try {
       await work();
       this.drawing.reload();
       this.changed.emit();
+      return true;
     } catch (err) {
       this.error.set(errorMessage(err));
+      return false;
     } finally {
       this.busy.set(false);
     }
