@@ -161,7 +161,7 @@ describe('a drawing from registration to the client’s acknowledgement, in Chro
     await detail.locator('[data-testid="file-download"]').filter({ hasText: pdfName }).waitFor({ timeout: 20_000 });
     // The engineer drew it, so the engineer may not check it.
     expect(await testId(page, 'revision-check').count()).toBe(0);
-    await expect(detail.locator('.state-tag').first().textContent()).resolves.toMatch(/draft/i);
+    await expect(detail.locator('tb-state-marker').first().textContent()).resolves.toMatch(/draft/i);
     await shot(page, '1-registered');
   });
 
