@@ -3,20 +3,13 @@ import { MatIconButton } from '@angular/material/button';
 import { MatIcon } from '@angular/material/icon';
 import type { SchemeCheck, SchemeDocument } from '@trabeate/contracts';
 import { snap } from './editor-model';
-import { markerPoint, planGeometry, type Pt } from './plan-geometry';
-
-/** A check on the plan: where its marker sits, with its index in the page's list. */
-interface Marker {
-  index: number;
-  check: SchemeCheck;
-  x: number;
-  y: number;
-}
+import { PlanBaseLayer } from './plan-base-layer';
+import { PlanColumnLayer } from './plan-column-layer';
+import { planGeometry, type PlanGeometry, type Pt } from './plan-geometry';
+import { PlanMarkerLayer, type Marker } from './plan-marker-layer';
 
 /** spacing of markers that share a spot, m on the plan */
 const MARKER_STEP_M = 0.95;
-
-const SHAPE_LABEL = { error: 'must fix', warning: 'worth a look', info: 'note' } as const;
 
 /** how far, in screen pixels, a dragged column jumps to a grid line or another column */
 const SNAP_PX = 10;
@@ -43,6 +36,10 @@ interface Drag {
   start: Pt;
   from: Pt;
   moved: boolean;
+  /** ids that move with the grab: the selection when the grabbed column is in it */
+  moving: string[];
+  /** the screen matrix at the grab (a drag neither zooms nor pans), so moves do not ask for layout */
+  screen: { inverse: DOMMatrix; metresPerPixel: number } | null;
 }
 interface Pan {
   pointerId: number;
@@ -54,6 +51,11 @@ interface Pan {
  * The plan in Trabeate's own drawing style: plot outline with its property lines hatched, grid
  * lines with their labels in circles, beams, columns to scale, and a marker for each failed check
  * (shape and text tell the severity, not colour alone). Plan y runs up the screen.
+ *
+ * Drawn in layers so that a drag stays cheap on a large scheme: the base (plot, grid, beams), the
+ * columns and the markers are OnPush pieces whose inputs do not change while a column moves; the
+ * dragged columns are drawn once more on a moving layer that follows the pointer by one transform,
+ * and only their dimensions are worked out again on each move.
  */
 @Component({
   selector: 'tb-plan-view',
@@ -84,86 +86,33 @@ interface Pan {
       (pointercancel)="cancel()"
       (wheel)="wheel($event)"
     >
-      <g class="boundary">
-        @for (s of g.boundary; track s.id) {
-          <line
-            [class.property]="s.property"
-            [attr.x1]="X(s.a.x)"
-            [attr.y1]="Y(s.a.y)"
-            [attr.x2]="X(s.b.x)"
-            [attr.y2]="Y(s.b.y)"
-            [attr.data-testid]="s.property ? 'property-line' : 'plot-edge'"
-          />
-        }
-      </g>
-      <g class="grid">
-        @for (l of g.grid; track l.id) {
-          <line
-            [class.hl]="lit().has(l.id)"
-            [attr.x1]="X(l.a.x)"
-            [attr.y1]="Y(l.a.y)"
-            [attr.x2]="X(l.b.x)"
-            [attr.y2]="Y(l.b.y)"
-          />
-          <g class="bubble" data-testid="grid-label">
-            <circle
-              r="0.55"
-              [attr.cx]="X(l.a.x) - (l.axis === 'y' ? 0.6 : 0)"
-              [attr.cy]="Y(l.a.y) + (l.axis === 'x' ? 0.6 : 0)"
+      <g tbPlanBaseLayer [geometry]="g" [lit]="lit()"></g>
+      <g
+        tbPlanColumnLayer
+        [columns]="document().columns"
+        [box]="g.box"
+        [lit]="lit()"
+        [chosen]="chosenIds()"
+        [lifted]="liftedIds()"
+        [editable]="editable()"
+        (press)="grab($event.event, $event.id)"
+      ></g>
+      @if (lifted(); as l) {
+        <!-- only the dragged columns follow the pointer: one transform on their group -->
+        <g class="moving" aria-hidden="true" [attr.transform]="moveTransform()">
+          @for (c of l; track c.id) {
+            @let w = (c.orientationDeg === 0 ? c.widthMm : c.depthMm) / 1000;
+            @let d = (c.orientationDeg === 0 ? c.depthMm : c.widthMm) / 1000;
+            <rect
+              [attr.x]="X(c.x) - w / 2"
+              [attr.y]="Y(c.y) - d / 2"
+              [attr.width]="w"
+              [attr.height]="d"
+              [attr.data-moving-column]="c.id"
             />
-            <text
-              [attr.x]="X(l.a.x) - (l.axis === 'y' ? 0.6 : 0)"
-              [attr.y]="Y(l.a.y) + (l.axis === 'x' ? 0.6 : 0)"
-              dominant-baseline="central"
-              text-anchor="middle"
-            >
-              {{ l.label }}
-            </text>
-          </g>
-        }
-      </g>
-      <g class="beams">
-        @for (b of g.beams; track b.id) {
-          <line
-            [class.hl]="lit().has(b.id) || lit().has('L-' + b.lineId)"
-            [attr.x1]="X(b.a.x)"
-            [attr.y1]="Y(b.a.y)"
-            [attr.x2]="X(b.b.x)"
-            [attr.y2]="Y(b.b.y)"
-            [attr.data-beam]="b.id"
-          />
-        }
-        @for (b of g.secondaries; track b.id) {
-          <line
-            class="secondary"
-            [class.hl]="lit().has(b.id)"
-            [attr.x1]="X(b.a.x)"
-            [attr.y1]="Y(b.a.y)"
-            [attr.x2]="X(b.b.x)"
-            [attr.y2]="Y(b.b.y)"
-          />
-        }
-      </g>
-      <g class="columns">
-        @for (c of document().columns; track c.id) {
-          @let w = (c.orientationDeg === 0 ? c.widthMm : c.depthMm) / 1000;
-          @let d = (c.orientationDeg === 0 ? c.depthMm : c.widthMm) / 1000;
-          @let p = shownAt(c);
-          <rect
-            [class.hl]="lit().has(c.id)"
-            [class.sel]="chosenIds().has(c.id)"
-            [attr.x]="X(p.x) - w / 2"
-            [attr.y]="Y(p.y) - d / 2"
-            [attr.width]="w"
-            [attr.height]="d"
-            [attr.data-column]="c.id"
-            [attr.aria-selected]="chosenIds().has(c.id)"
-            (pointerdown)="grab($event, c.id)"
-          >
-            <title>Column {{ c.label }}, {{ c.widthMm }} × {{ c.depthMm }} mm</title>
-          </rect>
-        }
-      </g>
+          }
+        </g>
+      }
       @if (dimensions().length) {
         <g class="dims" data-testid="dimensions">
           @for (dm of dimensions(); track dm.key) {
@@ -179,42 +128,17 @@ interface Pan {
           }
         </g>
       }
-      <g class="markers">
-        @for (m of markers(); track m.index) {
-          <g
-            class="marker"
-            [class]="m.check.severity"
-            [class.chosen]="m.index === selected()"
-            role="button"
-            tabindex="0"
-            [attr.transform]="'translate(' + (X(m.x) + 0.45) + ' ' + (Y(m.y) - 0.45) + ')'"
-            [attr.aria-label]="label(m.check)"
-            [attr.data-testid]="'marker-' + m.check.ruleId"
-            (click)="choose.emit(m.index)"
-            (keydown.enter)="choose.emit(m.index)"
-            (keydown.space)="choose.emit(m.index); $event.preventDefault()"
-          >
-            @switch (m.check.severity) {
-              @case ('error') {
-                <rect x="-0.32" y="-0.32" width="0.64" height="0.64" transform="rotate(45)" />
-                <text dominant-baseline="central" text-anchor="middle">!</text>
-              }
-              @case ('warning') {
-                <path d="M 0 -0.42 L 0.42 0.32 L -0.42 0.32 Z" />
-                <text y="0.05" dominant-baseline="central" text-anchor="middle">!</text>
-              }
-              @default {
-                <circle r="0.34" />
-                <text dominant-baseline="central" text-anchor="middle">i</text>
-              }
-            }
-          </g>
-        }
-      </g>
+      <g
+        tbPlanMarkerLayer
+        [markers]="markers()"
+        [box]="g.box"
+        [selected]="selected()"
+        (choose)="choose.emit($event)"
+      ></g>
     </svg>
     <p class="snap-note" aria-live="polite" data-testid="snap-note">{{ snapNote() }}</p>
   `,
-  imports: [MatIcon, MatIconButton],
+  imports: [MatIcon, MatIconButton, PlanBaseLayer, PlanColumnLayer, PlanMarkerLayer],
   styles: `
     :host {
       display: block;
@@ -230,17 +154,16 @@ interface Pan {
       margin-left: 6px;
       color: var(--mat-sys-on-surface-variant);
     }
-    .plan.editable .columns rect {
-      cursor: grab;
-    }
     .plan {
       touch-action: none;
     }
-    .columns rect.sel {
+    .moving rect {
       fill: var(--mat-sys-primary);
       stroke: var(--mat-sys-on-surface);
       stroke-width: 2px;
       stroke-dasharray: 3 2;
+      vector-effect: non-scaling-stroke;
+      cursor: grabbing;
     }
     .dims line {
       stroke: var(--mat-sys-tertiary);
@@ -266,94 +189,8 @@ interface Pan {
       background: var(--mat-sys-surface-container-lowest);
       border: 1px solid var(--mat-sys-outline-variant);
     }
-    line,
-    rect,
-    circle,
-    path {
+    .dims line {
       vector-effect: non-scaling-stroke;
-    }
-    .boundary line {
-      stroke: var(--mat-sys-on-surface-variant);
-      stroke-width: 1.5px;
-    }
-    .boundary line.property {
-      stroke: var(--mat-sys-on-surface);
-      stroke-width: 3px;
-      stroke-dasharray: 10 3 2 3;
-    }
-    .grid line {
-      stroke: var(--mat-sys-outline);
-      stroke-width: 0.75px;
-      stroke-dasharray: 8 4;
-    }
-    .bubble circle {
-      fill: var(--mat-sys-surface);
-      stroke: var(--mat-sys-outline);
-      stroke-width: 1px;
-    }
-    .bubble text {
-      font:
-        600 0.55px 'Atkinson Hyperlegible',
-        sans-serif;
-      fill: var(--mat-sys-on-surface);
-    }
-    .beams line {
-      stroke: var(--mat-sys-secondary);
-      stroke-width: 3px;
-    }
-    .beams line.secondary {
-      stroke-dasharray: 6 3;
-      stroke-width: 2px;
-    }
-    .columns rect {
-      fill: var(--mat-sys-on-surface);
-    }
-    .hl,
-    .grid line.hl,
-    .beams line.hl {
-      stroke: var(--mat-sys-primary);
-      stroke-width: 6px;
-    }
-    .columns rect.hl {
-      fill: var(--mat-sys-primary);
-      stroke: var(--mat-sys-primary);
-      stroke-width: 4px;
-    }
-    .marker {
-      cursor: pointer;
-    }
-    .marker rect,
-    .marker path,
-    .marker circle {
-      stroke: var(--mat-sys-surface);
-      stroke-width: 1.5px;
-    }
-    .marker.error rect {
-      fill: var(--mat-sys-error);
-    }
-    .marker.warning path {
-      fill: #8a5a00;
-    }
-    .marker.info circle {
-      fill: var(--mat-sys-secondary);
-    }
-    .marker text {
-      font:
-        700 0.5px 'Atkinson Hyperlegible',
-        sans-serif;
-      fill: #fff;
-    }
-    .marker.chosen rect,
-    .marker.chosen path,
-    .marker.chosen circle,
-    .marker:focus-visible rect,
-    .marker:focus-visible path,
-    .marker:focus-visible circle {
-      stroke: var(--mat-sys-primary);
-      stroke-width: 3px;
-    }
-    .marker:focus {
-      outline: none;
     }
   `,
   changeDetection: ChangeDetectionStrategy.OnPush,
@@ -379,6 +216,13 @@ export class PlanView {
   protected readonly zoomPercent = computed(() => Math.round(this.zoom() * 100));
   /** while dragging: how far the grabbed columns have moved, m (already snapped) */
   private readonly offset = signal<Pt | null>(null);
+  /** while dragging: the columns that move, as they stand in the document */
+  protected readonly lifted = signal<SchemeDocument['columns'] | null>(null);
+  protected readonly liftedIds = computed<ReadonlySet<string>>(() => new Set(this.lifted()?.map((c) => c.id)));
+  protected readonly moveTransform = computed(() => {
+    const o = this.offset();
+    return o ? `translate(${o.x} ${-o.y})` : null;
+  });
   protected readonly snapNote = signal('');
   private drag: Drag | null = null;
   private pan: Pan | null = null;
@@ -394,64 +238,74 @@ export class PlanView {
     return `${cx - w / 2} ${cy - h / 2} ${w} ${h}`;
   });
 
-  /** where a column is drawn: moved with the drag while it is under way */
-  protected shownAt(c: { id: string; x: number; y: number }): Pt {
-    const o = this.offset();
-    return o && this.movingIds().has(c.id) ? { x: c.x + o.x, y: c.y + o.y } : c;
+  /** where a column is drawn: moved with the drag while it is lifted */
+  private shownAt(c: { id: string; x: number; y: number }, lifted: ReadonlySet<string>, o: Pt | null): Pt {
+    return o && lifted.has(c.id) ? { x: c.x + o.x, y: c.y + o.y } : c;
   }
-  private readonly movingIds = computed(() => {
-    const o = this.offset();
-    if (!o || !this.drag) return new Set<string>();
-    return this.chosenIds().has(this.drag.id) ? this.chosenIds() : new Set([this.drag.id]);
+
+  /** The last selected column and the others, split by whether they move: redone per drag, not per move. */
+  private readonly dimensionBase = computed(() => {
+    const id = this.selection()[this.selection().length - 1];
+    const cols = this.document().columns;
+    const c = cols.find((x) => x.id === id);
+    if (!c) return null;
+    const lifted = this.liftedIds();
+    const others = cols.filter((x) => x.id !== id);
+    return { c, lifted, still: others.filter((x) => !lifted.has(x.id)), along: others.filter((x) => lifted.has(x.id)) };
   });
 
   /** Dimensions from the last selected column to its neighbours along its row and its column line. */
   protected readonly dimensions = computed(() => {
-    const id = this.selection()[this.selection().length - 1];
-    const cols = this.document().columns;
-    const c = cols.find((x) => x.id === id);
-    if (!c) return [];
-    const at = this.shownAt(c);
-    const others = cols.filter((x) => x.id !== id).map((x) => ({ id: x.id, ...this.shownAt(x) }));
+    const base = this.dimensionBase();
+    if (!base) return [];
+    const o = this.offset();
+    const at = this.shownAt(base.c, base.lifted, o);
+    const others: Pt[] =
+      o && base.along.length
+        ? [...base.still, ...base.along.map((x) => this.shownAt(x, base.lifted, o))]
+        : [...base.still, ...base.along];
     const out: { key: string; a: Pt; b: Pt; text: string }[] = [];
-    const nearest = (pred: (o: Pt) => boolean, dist: (o: Pt) => number) =>
-      others.filter(pred).sort((p, q) => dist(p) - dist(q))[0];
-    const row = (o: Pt) => Math.abs(o.y - at.y) < SAME_LINE_M;
-    const line = (o: Pt) => Math.abs(o.x - at.x) < SAME_LINE_M;
+    const nearest = (pred: (o: Pt) => boolean, dist: (o: Pt) => number) => {
+      let best: Pt | undefined;
+      for (const p of others) if (pred(p) && (!best || dist(p) < dist(best))) best = p;
+      return best;
+    };
+    const row = (p: Pt) => Math.abs(p.y - at.y) < SAME_LINE_M;
+    const line = (p: Pt) => Math.abs(p.x - at.x) < SAME_LINE_M;
     const sides = [
       {
         key: 'w',
         n: nearest(
-          (o) => row(o) && o.x < at.x,
-          (o) => at.x - o.x,
+          (p) => row(p) && p.x < at.x,
+          (p) => at.x - p.x,
         ),
       },
       {
         key: 'e',
         n: nearest(
-          (o) => row(o) && o.x > at.x,
-          (o) => o.x - at.x,
+          (p) => row(p) && p.x > at.x,
+          (p) => p.x - at.x,
         ),
       },
       {
         key: 's',
         n: nearest(
-          (o) => line(o) && o.y < at.y,
-          (o) => at.y - o.y,
+          (p) => line(p) && p.y < at.y,
+          (p) => at.y - p.y,
         ),
       },
       {
         key: 'n',
         n: nearest(
-          (o) => line(o) && o.y > at.y,
-          (o) => o.y - at.y,
+          (p) => line(p) && p.y > at.y,
+          (p) => p.y - at.y,
         ),
       },
     ];
     for (const { key, n } of sides) {
       if (!n) continue;
       const d = Math.hypot(n.x - at.x, n.y - at.y);
-      out.push({ key, a: at, b: n, text: `${d.toFixed(2)} m` });
+      out.push({ key, a: { x: at.x, y: at.y }, b: { x: n.x, y: n.y }, text: `${d.toFixed(2)} m` });
     }
     return out;
   });
@@ -483,7 +337,20 @@ export class PlanView {
     } catch {
       // a synthetic pointer (tests, assistive tools) has nothing to capture
     }
-    this.drag = { id, pointerId: e.pointerId, start: this.toPlan(e), from: { x: c.x, y: c.y }, moved: false };
+    const moving = this.chosenIds().has(id) ? [...this.selection()] : [id];
+    const svg = (e.currentTarget as Element | null)?.closest?.('svg') as SVGSVGElement | null;
+    const m = svg?.getScreenCTM?.();
+    const screen = m && m.a ? { inverse: m.inverse(), metresPerPixel: 1 / m.a } : null;
+    this.drag = {
+      id,
+      pointerId: e.pointerId,
+      start: { x: 0, y: 0 },
+      from: { x: c.x, y: c.y },
+      moved: false,
+      moving,
+      screen,
+    };
+    this.drag.start = this.toPlan(e);
   }
 
   protected startPan(e: PointerEvent): void {
@@ -497,8 +364,15 @@ export class PlanView {
     if (this.drag && e.pointerId === this.drag.pointerId) {
       const p = this.toPlan(e);
       const raw = { x: this.drag.from.x + p.x - this.drag.start.x, y: this.drag.from.y + p.y - this.drag.start.y };
-      const moving = this.chosenIds().has(this.drag.id) ? [...this.selection()] : [this.drag.id];
-      const s = snap(this.document(), raw, { toleranceM: SNAP_PX * this.metresPerPixel(e), exclude: moving });
+      const moving = this.drag.moving;
+      if (!this.lifted()) {
+        const ids = new Set(moving);
+        this.lifted.set(this.document().columns.filter((c) => ids.has(c.id)));
+      }
+      const s = snap(this.document(), raw, {
+        toleranceM: SNAP_PX * (this.drag.screen?.metresPerPixel ?? this.metresPerPixel(e)),
+        exclude: moving,
+      });
       this.drag.moved ||= s.x !== this.drag.from.x || s.y !== this.drag.from.y;
       this.offset.set({ x: s.x - this.drag.from.x, y: s.y - this.drag.from.y });
       const to = [s.snappedX, s.snappedY].filter(Boolean).join(' and ');
@@ -528,6 +402,7 @@ export class PlanView {
     this.drag = null;
     this.pan = null;
     this.offset.set(null);
+    this.lifted.set(null);
     this.snapNote.set('');
   }
 
@@ -540,15 +415,20 @@ export class PlanView {
 
   /** A pointer's position in plan metres. Without a screen matrix (jsdom), client units are view units. */
   private toPlan(e: MouseEvent): Pt {
-    const svg = ((e.currentTarget as Element | null)?.closest?.('svg') ?? null) as SVGSVGElement | null;
-    const m = svg?.getScreenCTM?.();
     let u = { x: e.clientX, y: e.clientY };
-    if (m && svg?.createSVGPoint) {
-      const q = svg.createSVGPoint();
-      q.x = e.clientX;
-      q.y = e.clientY;
-      const r = q.matrixTransform(m.inverse());
-      u = { x: r.x, y: r.y };
+    const cached = this.drag?.screen?.inverse;
+    if (cached) {
+      u = { x: cached.a * u.x + cached.c * u.y + cached.e, y: cached.b * u.x + cached.d * u.y + cached.f };
+    } else {
+      const svg = ((e.currentTarget as Element | null)?.closest?.('svg') ?? null) as SVGSVGElement | null;
+      const m = svg?.getScreenCTM?.();
+      if (m && svg?.createSVGPoint) {
+        const q = svg.createSVGPoint();
+        q.x = e.clientX;
+        q.y = e.clientY;
+        const r = q.matrixTransform(m.inverse());
+        u = { x: r.x, y: r.y };
+      }
     }
     const b = this.geometry().box;
     return { x: u.x + b.minX, y: b.minY + b.height - u.y };
@@ -560,8 +440,11 @@ export class PlanView {
     // Checks about the same place (a long span and the wide column spacing under it) would hide
     // one another: each further marker at a spot steps along to the right.
     const taken = new Map<string, number>();
+    const doc = this.document();
+    const geometry = this.geometry();
+    const columnIds = new Set(doc.columns.map((c) => c.id));
     this.checks().forEach((check, index) => {
-      const p = markerPoint(this.document(), this.geometry(), check.elements);
+      const p = markerAt(geometry, columnIds, check.elements);
       if (!p) return;
       const spot = `${p.x.toFixed(2)},${p.y.toFixed(2)}`;
       const n = taken.get(spot) ?? 0;
@@ -578,5 +461,16 @@ export class PlanView {
 
   protected X = (x: number) => x - this.geometry().box.minX;
   protected Y = (y: number) => this.geometry().box.minY + this.geometry().box.height - y;
-  protected label = (c: SchemeCheck) => `${SHAPE_LABEL[c.severity]}: ${c.message}`;
+}
+
+/**
+ * Where a check's marker goes: plan-geometry's markerPoint rule (the named columns when there are
+ * any, else every named element; their mean), with the document's column ids gathered once for
+ * all the checks rather than once per check.
+ */
+function markerAt(geometry: PlanGeometry, columnIds: ReadonlySet<string>, elements: readonly string[]): Pt | null {
+  const named = elements.some((e) => columnIds.has(e)) ? elements.filter((e) => columnIds.has(e)) : elements;
+  const pts = named.map((e) => geometry.at.get(e)).filter((p): p is Pt => p !== undefined);
+  if (!pts.length) return null;
+  return { x: pts.reduce((s, p) => s + p.x, 0) / pts.length, y: pts.reduce((s, p) => s + p.y, 0) / pts.length };
 }

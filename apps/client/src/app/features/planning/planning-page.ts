@@ -42,7 +42,7 @@ import {
   type ColumnPatch,
   type EditorState,
 } from './editor-model';
-import type { PlanWorkerPort } from './plan-protocol';
+import type { AnalyseRequest, PlanWorkerPort } from './plan-protocol';
 import { createPlanWorker } from './plan-worker-factory';
 import { PlanView, type ColumnDrop, type ColumnPick } from './plan-view';
 import { ResultsPanel } from './results-panel';
@@ -144,6 +144,9 @@ export class PlanningPage {
 
   private readonly worker: PlanWorkerPort = createPlanWorker();
   private seq = 0;
+  /** whether the worker is running a document now; while it is, only the newest edit waits */
+  private busy = false;
+  private waiting: AnalyseRequest | null = null;
   /** the edit (seq) whose checks are on screen; bench:editor reads it to time drop → checks */
   protected readonly checkedSeq = signal(0);
   protected readonly postedSeq = signal(0);
@@ -182,6 +185,8 @@ export class PlanningPage {
 
   constructor() {
     this.worker.onReply = (reply) => {
+      this.busy = false;
+      this.sendWaiting();
       if (reply.seq !== this.seq) return; // an answer to an older edit
       this.checking.set(false);
       this.checkedSeq.set(reply.seq);
@@ -201,10 +206,21 @@ export class PlanningPage {
       if (!doc) return;
       this.selected.set(null);
       this.checking.set(true);
-      this.worker.post({ kind: 'analyse', seq: ++this.seq, document: doc });
+      // Edits that come faster than the engine answers replace one another: only the newest
+      // document waits for the worker, so a drop is never queued behind stale ones.
+      this.waiting = { kind: 'analyse', seq: ++this.seq, document: doc };
       this.postedSeq.set(this.seq);
+      this.sendWaiting();
     });
     inject(DestroyRef).onDestroy(() => this.worker.terminate());
+  }
+
+  private sendWaiting(): void {
+    if (this.busy || !this.waiting) return;
+    const request = this.waiting;
+    this.waiting = null;
+    this.busy = true;
+    this.worker.post(request);
   }
 
   protected choose(index: number): void {

@@ -1,0 +1,108 @@
+import { TestBed, type ComponentFixture } from '@angular/core/testing';
+import { schemeDetailSchema, type SchemeDocument } from '@trabeate/contracts';
+import { demoSchemeVariant } from '@trabeate/structural';
+import { planGeometry } from './plan-geometry';
+import { PlanView, type ColumnDrop } from './plan-view';
+
+// The demo variant (no B3), parsed by the contract as the API would send it.
+const doc = (): SchemeDocument =>
+  schemeDetailSchema.parse({
+    id: '00000000-0000-4000-8000-000000000402',
+    projectId: '00000000-0000-4000-8000-000000000301',
+    name: 'Tamarind Row without B3',
+    archivedAt: null,
+    createdAt: '2026-11-30T09:00:00.000Z',
+    canEdit: true,
+    current: {
+      version: 1,
+      savedAt: '2026-12-01T10:00:00.000Z',
+      savedBy: { id: '00000000-0000-4000-8000-000000000202', displayName: 'Cato Brennagh' },
+      restoredFrom: null,
+      schemaVersion: 1,
+      checks: { engineVersion: '0.1.0', ok: true, errors: 0, warnings: 0 },
+    },
+    document: { ...demoSchemeVariant(), name: 'Tamarind Row without B3' },
+  }).document;
+
+jest.setTimeout(30_000);
+
+describe('PlanView while a column is dragged', () => {
+  let fixture: ComponentFixture<PlanView>;
+  const d = doc();
+  const box = planGeometry(d).box;
+  const el = () => fixture.nativeElement as HTMLElement;
+  const q = (sel: string) => el().querySelector<SVGElement>(sel);
+  /** jsdom has no screen matrix, so the plan reads client units as view units (1 m each) */
+  const pointer = (target: Element, type: string, x: number, y: number) =>
+    target.dispatchEvent(
+      new PointerEvent(type, {
+        bubbles: true,
+        pointerId: 1,
+        button: 0,
+        clientX: x - box.minX,
+        clientY: box.minY + box.height - y,
+      }),
+    );
+  const dims = () => Array.from(el().querySelectorAll('[data-testid="dimension"]')).map((t) => t.textContent?.trim());
+
+  beforeEach(() => {
+    fixture = TestBed.createComponent(PlanView);
+    fixture.componentRef.setInput('document', d);
+    fixture.componentRef.setInput('editable', true);
+    fixture.componentRef.setInput('selection', ['C2']);
+    fixture.detectChanges();
+  });
+
+  it('moves only a copy of the dragged column, by one transform, and leaves every drawn column in place until the drop', () => {
+    const drops: ColumnDrop[] = [];
+    fixture.componentInstance.place.subscribe((p) => drops.push(p));
+    const c2 = q('[data-column="C2"]')!;
+    const a1 = q('[data-column="A1"]')!;
+    const c2At = [c2.getAttribute('x'), c2.getAttribute('y')];
+    const a1At = [a1.getAttribute('x'), a1.getAttribute('y')];
+    expect(q('.moving')).toBeNull();
+
+    // C2 stands at (8.6, 4.2) on grid C; moved up to y 6.1 it snaps back across to grid C
+    pointer(c2, 'pointerdown', 8.6, 4.2);
+    pointer(q('[data-testid="plan"]')!, 'pointermove', 8.52, 6.1);
+    fixture.detectChanges();
+
+    const move = /^translate\((\S+) (\S+)\)$/.exec(q('.moving')?.getAttribute('transform') ?? '');
+    const [dx, dy] = [Number(move?.[1]), Number(move?.[2])];
+    expect(dx).toBe(0);
+    expect(dy).toBeCloseTo(-1.9, 9); // plan y runs up the screen
+    expect(q('[data-moving-column="C2"]')).not.toBeNull();
+    expect(el().querySelectorAll('[data-moving-column]')).toHaveLength(1);
+    // the drawn columns are the same nodes where they were; C2's own stays as an outline
+    expect(q('[data-column="C2"]')).toBe(c2);
+    expect(q('[data-column="A1"]')).toBe(a1);
+    expect([c2.getAttribute('x'), c2.getAttribute('y')]).toEqual(c2At);
+    expect([a1.getAttribute('x'), a1.getAttribute('y')]).toEqual(a1At);
+    expect(c2.classList.contains('lifted')).toBe(true);
+    expect(drops).toEqual([]);
+
+    pointer(q('[data-testid="plan"]')!, 'pointerup', 8.52, 6.1);
+    fixture.detectChanges();
+    expect(drops).toHaveLength(1);
+    expect(drops[0].id).toBe('C2');
+    expect(drops[0].x).toBeCloseTo(8.6, 9);
+    expect(drops[0].y).toBeCloseTo(6.1, 9);
+    expect(q('.moving')).toBeNull();
+    expect(c2.classList.contains('lifted')).toBe(false);
+  });
+
+  it('keeps the dimensions of the chosen column with it as it moves', () => {
+    // C3 stands 4 m north of C2 on grid C (y 8.2 against 4.2)
+    expect(dims()).toContain('4.00 m');
+    pointer(q('[data-column="C2"]')!, 'pointerdown', 8.6, 4.2);
+    pointer(q('[data-testid="plan"]')!, 'pointermove', 8.52, 6.1);
+    fixture.detectChanges();
+    expect(dims()).toContain('2.10 m');
+    expect(dims()).not.toContain('4.00 m');
+    // a pointer cancelled mid-drag puts everything back as it was
+    q('[data-testid="plan"]')!.dispatchEvent(new PointerEvent('pointercancel', { bubbles: true, pointerId: 1 }));
+    fixture.detectChanges();
+    expect(dims()).toContain('4.00 m');
+    expect(q('.moving')).toBeNull();
+  });
+});
