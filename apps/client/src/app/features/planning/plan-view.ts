@@ -73,10 +73,12 @@ interface Pan {
       </button>
       <span class="zoom-level" aria-live="polite">{{ zoomPercent() }} %</span>
     </div>
+    <!-- a group, not an image: it holds focusable columns and markers, and an image's children
+         would be presentational to assistive technology (axe: nested-interactive) -->
     <svg
       class="plan"
       [class.editable]="editable()"
-      role="img"
+      role="group"
       [attr.viewBox]="viewBox()"
       [attr.aria-label]="'Plan of ' + document().name + ': ' + document().columns.length + ' columns'"
       data-testid="plan"
