@@ -16,6 +16,7 @@ import { FormBuilder, ReactiveFormsModule, Validators } from '@angular/forms';
 import { MatButton } from '@angular/material/button';
 import { MatOption } from '@angular/material/core';
 import { MatError, MatFormField, MatHint, MatLabel } from '@angular/material/form-field';
+import { MatDatepicker, MatDatepickerInput, MatDatepickerToggle } from '@angular/material/datepicker';
 import { MatIcon } from '@angular/material/icon';
 import { MatInput } from '@angular/material/input';
 import { MatProgressBar } from '@angular/material/progress-bar';
@@ -39,9 +40,10 @@ import { formErrorFocus } from '../../shared/forms/form-error-focus';
 import { StateMarker } from '../../shared/state-marker/state-marker';
 import { DrawingsApi } from './drawings-api';
 import { REVISION_STATE_LABELS, formatBytes } from './drawing-labels';
+import { fromIsoDay, toIsoDay } from '../../shared/dates/firm-date-adapter';
 
 const SUITABILITY = /^(S[0-4]|A[1-9][0-9]?|CR)$/i;
-const today = () => new Date().toISOString().slice(0, 10);
+const today = (): Date | null => fromIsoDay(new Date().toISOString().slice(0, 10));
 
 /** One drawing: its revision history, the actions the caller may take, uploads and a new revision. */
 @Component({
@@ -52,6 +54,9 @@ const today = () => new Date().toISOString().slice(0, 10);
     StateMarker,
     ReactiveFormsModule,
     MatButton,
+    MatDatepicker,
+    MatDatepickerInput,
+    MatDatepickerToggle,
     MatError,
     MatFormField,
     MatHint,
@@ -205,7 +210,15 @@ const today = () => new Date().toISOString().slice(0, 10);
             </mat-form-field>
             <mat-form-field>
               <mat-label>Date</mat-label>
-              <input matInput type="date" formControlName="date" />
+              <input
+                matInput
+                [matDatepicker]="revisionDatePicker"
+                formControlName="date"
+                placeholder="e.g. 20 Dec 2026"
+                data-testid="revision-date"
+              />
+              <mat-datepicker-toggle matIconSuffix [for]="revisionDatePicker" />
+              <mat-datepicker #revisionDatePicker />
               @if (form.controls.date.invalid) {
                 <mat-error>Give the revision's date</mat-error>
               }
@@ -322,7 +335,11 @@ export class DrawingDetail {
     }
     const v = this.form.getRawValue();
     const done = await this.run(() =>
-      this.api.registerRevision(this.projectId(), d.id, { ...v, suitability: v.suitability.toUpperCase() }),
+      this.api.registerRevision(this.projectId(), d.id, {
+        ...v,
+        date: toIsoDay(v.date),
+        suitability: v.suitability.toUpperCase(),
+      }),
     );
     // The form goes away with the new draft; without this, focus would fall back to the page.
     if (done) this.focusUploadNext = true;

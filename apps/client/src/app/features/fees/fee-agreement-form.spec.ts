@@ -5,6 +5,7 @@ import { feeAgreementSchema, projectPageSchema, type FeeAgreement, type FeeAgree
 import { FeeAgreementForm } from './fee-agreement-form';
 import { reply, replyError } from '../../../testing/api-replies';
 import { PROJECT } from './fees-fixtures';
+import { provideFirmDates } from '../../shared/dates/firm-date-adapter';
 
 const CONTACT = { id: '00000000-0000-4000-8000-000000000211', displayName: 'Ines Marrow', role: 'client' as const };
 
@@ -15,7 +16,7 @@ describe('FeeAgreementForm', () => {
 
   async function mount(existing?: FeeAgreement) {
     TestBed.configureTestingModule({
-      providers: [provideHttpClient(), provideHttpClientTesting()],
+      providers: [provideHttpClient(), provideHttpClientTesting(), provideFirmDates()],
     });
     backend = TestBed.inject(HttpTestingController);
     const fixture = TestBed.createComponent(FeeAgreementForm);
@@ -197,8 +198,11 @@ describe('FeeAgreementForm', () => {
     const root = fixture.nativeElement as HTMLElement;
     type(root, 'variation-amount', '-1500');
     type(root, 'variation-reason', 'Basement omitted');
-    type(root, 'variation-date', '2026-11-20');
+    type(root, 'variation-date', '20/11/2026');
+    // the date field reads the firm's day-first order and writes the app's one format back
+    root.querySelector<HTMLInputElement>('[data-testid="variation-date"]')!.dispatchEvent(new Event('blur'));
     fixture.detectChanges();
+    expect(root.querySelector<HTMLInputElement>('[data-testid="variation-date"]')!.value).toBe('20 Nov 2026');
     root.querySelector<HTMLButtonElement>('[data-testid="add-variation"]')!.click();
     const req = backend.expectOne(`/api/projects/${PROJECT.id}/fee-variations`);
     expect(req.request.method).toBe('POST');

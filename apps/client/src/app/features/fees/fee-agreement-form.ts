@@ -5,6 +5,7 @@ import { FormControl, FormGroup, ReactiveFormsModule, Validators, type AbstractC
 import { MatButton } from '@angular/material/button';
 import { MatOption } from '@angular/material/core';
 import { MatError, MatFormField, MatHint, MatLabel, MatSuffix } from '@angular/material/form-field';
+import { MatDatepicker, MatDatepickerInput, MatDatepickerToggle } from '@angular/material/datepicker';
 import { MatInput } from '@angular/material/input';
 import { MatSelect } from '@angular/material/select';
 import {
@@ -19,6 +20,7 @@ import { errorMessage } from '../../core/auth/api-error';
 import { asYouType } from '../../shared/forms/field-errors';
 import { FeesApi, agreementUrl } from './fees-api';
 import { DayPipe } from '../../shared/dates/app-dates';
+import { toIsoDay } from '../../shared/dates/firm-date-adapter';
 import { formErrorFocus } from '../../shared/forms/form-error-focus';
 import { formatMinor, parseMajor } from './money';
 
@@ -36,9 +38,6 @@ export function parseSignedMajor(text: string, currency: string): number | null 
   if (minor === null || minor === 0) return null;
   return m[1] === '-' || m[1] === '−' ? -minor : minor;
 }
-const ISO_DAY = /^\d{4}-\d{2}-\d{2}$/;
-const isoDay = (c: AbstractControl) =>
-  ISO_DAY.test(c.value ?? '') && !Number.isNaN(Date.parse(`${c.value}T00:00:00Z`)) ? null : { day: true };
 
 const pct = (bp: number) => (bp / 100).toFixed(bp % 100 === 0 ? 0 : 2);
 
@@ -66,6 +65,9 @@ type SharesForm = FormGroup<Record<StageKey, FormControl<string>>>;
     MatFormField,
     MatLabel,
     MatInput,
+    MatDatepicker,
+    MatDatepickerInput,
+    MatDatepickerToggle,
     MatSelect,
     MatOption,
     MatError,
@@ -148,7 +150,8 @@ export class FeeAgreementForm {
       nonNullable: true,
       validators: [Validators.required, Validators.minLength(3), Validators.maxLength(2000)],
     }),
-    effectiveOn: new FormControl('', { nonNullable: true, validators: [Validators.required, isoDay] }),
+    // a Date from the picker (it reads what people type in the firm's format, or YYYY-MM-DD)
+    effectiveOn: new FormControl<Date | null>(null, { validators: [Validators.required] }),
   });
   private readonly variationValue = toSignal(this.variation.valueChanges, {
     initialValue: this.variation.getRawValue(),
@@ -189,7 +192,7 @@ export class FeeAgreementForm {
       const a = await this.api.addVariation(this.projectId(), {
         amountMinor: parseSignedMajor(v.amount, this.agreement.value().currency)!,
         reason: v.reason.trim(),
-        effectiveOn: v.effectiveOn,
+        effectiveOn: toIsoDay(v.effectiveOn),
       });
       this.agreement.set(a);
       this.variation.reset();

@@ -4,6 +4,7 @@ import { FormArray, FormControl, FormGroup, ReactiveFormsModule, Validators } fr
 import { MatButton } from '@angular/material/button';
 import { MatOption } from '@angular/material/core';
 import { MatError, MatFormField, MatLabel } from '@angular/material/form-field';
+import { MatDatepicker, MatDatepickerInput, MatDatepickerToggle } from '@angular/material/datepicker';
 import { MatInput } from '@angular/material/input';
 import { MatSelect } from '@angular/material/select';
 import { STAGE_TITLES, invoiceSchema, type Invoice, type LineKind } from '@trabeate/contracts';
@@ -13,6 +14,7 @@ import { FeesApi, invoiceUrl } from './fees-api';
 import { InvoiceStateTag } from './invoice-state';
 import { DayPipe } from '../../shared/dates/app-dates';
 import { formErrorFocus } from '../../shared/forms/form-error-focus';
+import { fromIsoDay, toIsoDay } from '../../shared/dates/firm-date-adapter';
 import { formatMinor, parseMajor } from './money';
 
 const LINE_KINDS: Array<{ value: Exclude<LineKind, 'credit'>; label: string }> = [
@@ -20,7 +22,7 @@ const LINE_KINDS: Array<{ value: Exclude<LineKind, 'credit'>; label: string }> =
   { value: 'additional_service', label: 'Additional service' },
   { value: 'expense', label: 'Reimbursable expense' },
 ];
-const today = () => new Date().toISOString().slice(0, 10);
+const today = (): Date | null => fromIsoDay(new Date().toISOString().slice(0, 10));
 
 type LineForm = FormGroup<{
   kind: FormControl<Exclude<LineKind, 'credit'>>;
@@ -39,6 +41,9 @@ type LineForm = FormGroup<{
     MatFormField,
     MatLabel,
     MatInput,
+    MatDatepicker,
+    MatDatepickerInput,
+    MatDatepickerToggle,
     MatSelect,
     MatOption,
     MatError,
@@ -68,7 +73,7 @@ export class InvoicePanel {
   protected readonly lines = new FormArray<LineForm>([]);
   protected readonly payment = new FormGroup({
     amount: new FormControl('', { nonNullable: true, validators: [Validators.required] }),
-    receivedOn: new FormControl(today(), { nonNullable: true, validators: [Validators.required] }),
+    receivedOn: new FormControl<Date | null>(today(), { validators: [Validators.required] }),
     reference: new FormControl('', { nonNullable: true, validators: [Validators.required, Validators.maxLength(200)] }),
   });
   protected readonly credit = new FormGroup({
@@ -182,7 +187,7 @@ export class InvoicePanel {
     void this.run(() =>
       this.api.recordPayment(this.projectId(), inv.id, {
         amountMinor,
-        receivedOn: v.receivedOn,
+        receivedOn: toIsoDay(v.receivedOn),
         reference: v.reference.trim(),
       }),
     );
