@@ -122,7 +122,9 @@ describe('scheme outputs: calculation report, plan sheet, registering the sheet'
         expect(flat).toContain(squash(`Chosen: ${FOOTING_OPTION_LABELS[c.option]}.`));
         expect(flat).toContain(squash(c.reason).slice(0, 60));
       }
-      // the shipped face has no Greek letters: the engine's symbols are spelled out, never dropped
+      // the shipped face has no Greek letters: the engine's symbols and our own notes' are spelled
+      // out, never dropped (the footing note's plan-area rule uses alpha)
+      expect(flat).toContain(squash('(1 + alpha)·P / qa'));
       expect(text).not.toMatch(/[\u0370-\u03ff\u2200-\u2211\u2213-\u22ff]/u);
     },
   );

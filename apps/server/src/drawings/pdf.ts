@@ -1,5 +1,5 @@
 import PDFDocument from 'pdfkit';
-import { PRINT_COLOURS, PRINT_FONTS, PRINT_TYPE, printDay, printDayTime } from '../look/print-look';
+import { PRINT_COLOURS, PRINT_FONTS, PRINT_TYPE, printable, printDay, printDayTime } from '../look/print-look';
 
 // The PDF helpers shared by transmittal sheets, register exports, invoices and reports. The look
 // (fonts, colours, type scale, dates) lives in look/print-look.ts and is re-exported here, so
@@ -27,6 +27,26 @@ export function newDocument(info: { Title: string; Subject?: string }, layout: '
   doc.registerFont('heading', FONTS.bold);
   doc.registerFont('figures', FONTS.figures);
   doc.font('body').fillColor(INK);
+  return printableText(doc);
+}
+
+/**
+ * Makes every string the document writes or measures printable in the shipped Latin faces
+ * (Greek letters and maths signs spelled out), whoever wrote it: the engine's texts, our own
+ * notes, a name someone typed. Measuring goes through the same spelling, so tables size their
+ * rows for what is drawn.
+ */
+export function printableText(doc: PDFKit.PDFDocument): PDFKit.PDFDocument {
+  type Call = (...args: unknown[]) => unknown;
+  const spell = <F>(f: F): F => {
+    const call = f as unknown as Call;
+    const spelled: Call = (first, ...rest) =>
+      call.call(doc, typeof first === 'string' ? printable(first) : first, ...rest);
+    return spelled as unknown as F;
+  };
+  doc.text = spell(doc.text);
+  doc.widthOfString = spell(doc.widthOfString);
+  doc.heightOfString = spell(doc.heightOfString);
   return doc;
 }
 

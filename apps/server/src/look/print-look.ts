@@ -94,13 +94,3 @@ const OUTSIDE_LATIN = /[\u0370-\u03ff\u2190-\u21ff\u2200-\u2211\u2213-\u22ff]/gu
 
 /** Text as the shipped print faces can draw it. */
 export const printable = (text: string): string => text.replace(OUTSIDE_LATIN, (c) => SPELLED[c] ?? '?');
-
-/** A copy of a value with every string in it made printable (an engine result, say). */
-export function printableDeep<T>(value: T): T {
-  if (typeof value === 'string') return printable(value) as T;
-  if (Array.isArray(value)) return value.map(printableDeep) as T;
-  if (value && typeof value === 'object' && Object.getPrototypeOf(value) === Object.prototype) {
-    return Object.fromEntries(Object.entries(value).map(([k, v]) => [k, printableDeep(v)])) as T;
-  }
-  return value;
-}

@@ -8,7 +8,6 @@ import {
   type SchemeResult,
 } from '@trabeate/structural';
 import { ACCENT, INK, MUTED, RULE, newDocument, table, toBuffer } from '../drawings/pdf';
-import { printableDeep } from '../look/print-look';
 
 // The calculation report of one saved scheme version, written from the results stored with that
 // save (never re-run here), so the report says exactly what the engine said at the time.
@@ -611,10 +610,9 @@ export const REPORT_SECTIONS = [
  * Every page carries the caution at its head and a footer naming project, scheme, version and page.
  */
 export async function calculationReport(
-  input: ReportInput,
+  d: ReportInput,
   progress: (done: number, total: number) => Promise<void> = async () => undefined,
 ): Promise<{ pdf: Buffer; pages: number }> {
-  const d = printableDeep(input);
   const doc = newDocument({ Title: `Calculation report: ${d.schemeName} v${d.version}`, Subject: d.projectName });
   // room for the caution above the body on every page
   doc.page.margins.top = 70;

@@ -1,4 +1,4 @@
-import { ACCENT, INK, MUTED, FONTS } from '../drawings/pdf';
+import { ACCENT, INK, MUTED, FONTS, printableText } from '../drawings/pdf';
 import PDFDocument from 'pdfkit';
 import type { PlanSheet, Primitive, Tone } from './plan-sheet';
 
@@ -49,6 +49,7 @@ export function sheetPdf(sheet: PlanSheet, info: { Title: string; Subject: strin
   });
   doc.registerFont('body', FONTS.regular);
   doc.registerFont('heading', FONTS.bold);
+  printableText(doc);
   const u = (v: number) => v * PT_PER_MM;
   for (const p of sheet.primitives) {
     doc.save();
