@@ -6,6 +6,7 @@ import { RouterTestingHarness } from '@angular/router/testing';
 import {
   drawingListSchema,
   drawingSchema,
+  nextNumberSchema,
   projectListSchema,
   transmittalListSchema,
   transmittalSchema,
@@ -274,6 +275,34 @@ describe('DrawingsPage', () => {
       .flush({ ...transmittal, myAcknowledgement: { acknowledgedAt: '2026-03-03T08:00:00.000Z' } });
     await settle();
     expect(el().querySelector('[data-testid="acknowledge"]')).toBeNull();
+  });
+
+  it('proposes the next number, but never over a number the engineer typed while it was on its way', async () => {
+    await open('/drawings', 'engineer');
+    registerRequest().flush(drawingListSchema.parse({ items: [listItem()], total: 1, page: 1, pageSize: 25 }));
+    backend.expectOne(`/api/projects/${PROJECT}/transmittals`).flush([]);
+    await settle();
+    const nextNumber = `/api/projects/${PROJECT}/drawings/next-number`;
+    const numberInput = () => el().querySelector('[data-testid="drawing-number"]') as HTMLInputElement;
+
+    // Untouched: the proposal fills the field.
+    (el().querySelector('[data-testid="new-drawing"]') as HTMLButtonElement).click();
+    await settle();
+    backend.expectOne(nextNumber).flush(nextNumberSchema.parse({ number: 'QT-S-102', pattern: 'QT-S-{n}' }));
+    await settle();
+    expect(numberInput().value).toBe('QT-S-102');
+
+    // Typed before the proposal arrived: the typed number stays.
+    (el().querySelector('.new-drawing .form-actions button[type="button"]') as HTMLButtonElement).click();
+    await settle();
+    (el().querySelector('[data-testid="new-drawing"]') as HTMLButtonElement).click();
+    await settle();
+    const pending = backend.expectOne(nextNumber);
+    numberInput().value = 'QT-S-900';
+    numberInput().dispatchEvent(new Event('input'));
+    pending.flush(nextNumberSchema.parse({ number: 'QT-S-102', pattern: 'QT-S-{n}' }));
+    await settle();
+    expect(numberInput().value).toBe('QT-S-900');
   });
 
   it('rejects a reply that is not the register’s shape instead of showing it', async () => {

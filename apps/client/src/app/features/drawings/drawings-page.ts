@@ -231,7 +231,10 @@ export class DrawingsPage {
     const id = this.projectId();
     if (!id) return;
     try {
-      this.form.controls.number.setValue((await this.api.nextNumber(id)).number);
+      const proposed = (await this.api.nextNumber(id)).number;
+      // A number the engineer typed while the proposal was on its way is theirs: keep it.
+      const number = this.form.controls.number;
+      if (!number.dirty && !number.value) number.setValue(proposed);
     } catch {
       // The proposal is a convenience; the engineer can type the number.
     }
