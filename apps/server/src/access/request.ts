@@ -1,5 +1,7 @@
 import type { Caller } from './policy';
 import type { CallerRow } from '../auth/caller.repository';
+import type { RequestSession } from '../auth/session';
+import type { Logger } from '../core/logger';
 
 /** The signed-in identity kept in the session (set at the sign-in callback). */
 export interface SessionAuth {
@@ -28,17 +30,14 @@ export interface VisibleProject {
   client_organisation_id: string;
 }
 
-declare module 'express-session' {
-  interface SessionData {
-    auth?: SessionAuth;
-    signIn?: PendingSignIn;
-    /** When the idle expiry was last pushed forward (ms since 1970); see refreshIdleExpiry. */
-    seenAt?: number;
-  }
-}
-
 declare module 'express-serve-static-core' {
   interface Request {
+    /** The request's id (X-Request-Id); see core/request-log.ts. */
+    id: string;
+    /** A logger whose lines carry the request's id, method and path. */
+    log: Logger;
+    /** This request's session (a new, empty one when no live session came with it); see auth/session.ts. */
+    session: RequestSession;
     /** The person with access making this request (set by the session middleware). */
     caller?: Caller;
     /** The project named by :projectId, loaded by the access guard once visibility is checked. */

@@ -39,13 +39,6 @@ export function safeReturnTo(value: unknown): string {
   }
 }
 
-const save = (req: Request) =>
-  new Promise<void>((resolve, reject) => req.session.save((err) => (err ? reject(err) : resolve())));
-const regenerate = (req: Request) =>
-  new Promise<void>((resolve, reject) => req.session.regenerate((err) => (err ? reject(err) : resolve())));
-const destroy = (req: Request) =>
-  new Promise<void>((resolve, reject) => req.session.destroy((err) => (err ? reject(err) : resolve())));
-
 export function authRoutes(d: AuthRouteDeps): RouteDecl[] {
   const unavailable = (req: Request, res: Response, err: unknown) => {
     req.log?.error({ err }, 'identity provider unavailable during sign-in');
@@ -81,7 +74,7 @@ export function authRoutes(d: AuthRouteDeps): RouteDecl[] {
       }
       const { url, ...checks } = start;
       req.session.signIn = { ...checks, returnTo: safeReturnTo(req.query['returnTo']), startedAt: Date.now() };
-      await save(req);
+      await req.session.save();
       res.setHeader('Cache-Control', 'no-store');
       res.redirect(302, url.href);
     }),
@@ -92,7 +85,7 @@ export function authRoutes(d: AuthRouteDeps): RouteDecl[] {
       // Whatever happens next, this sign-in attempt is used up: a replayed callback finds nothing.
       if (pending) {
         delete req.session.signIn;
-        await save(req);
+        await req.session.save();
       }
       if (params.get('error')) {
         req.log?.info({ error: params.get('error') }, 'sign-in cancelled or refused at the provider');
@@ -158,7 +151,7 @@ export function authRoutes(d: AuthRouteDeps): RouteDecl[] {
       }
       const user = await bindAccount(d.db, identity);
       // A fresh session id at sign-in, so an id planted before sign-in is worth nothing after it.
-      await regenerate(req);
+      await req.session.regenerate();
       req.session.auth = { ...identity, userId: user?.id ?? null, signedInAt: Date.now() };
       if (user) {
         await touchSignIn(d.db, user.id);
@@ -166,14 +159,14 @@ export function authRoutes(d: AuthRouteDeps): RouteDecl[] {
       } else {
         req.log?.warn({ subject: identity.subject }, 'signed in at the provider without a Trabeate invitation');
       }
-      await save(req);
+      await req.session.save();
       d.issueCsrfToken(req, res, true);
       res.redirect(302, pending.returnTo);
     }),
 
     route('post', '/auth/logout', 'public', async (req, res) => {
       const idToken = req.session?.auth?.idToken;
-      if (req.session) await destroy(req);
+      await req.session.destroy();
       res.clearCookie(SESSION_COOKIE, { path: '/' });
       d.clearCsrfToken(res);
       const body: LogoutResponse = { endSessionUrl: idToken && d.oidc ? await d.oidc.endSessionUrl(idToken) : null };

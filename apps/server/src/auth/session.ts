@@ -1,16 +1,12 @@
-import { randomBytes } from 'node:crypto';
-import type { Request, RequestHandler } from 'express';
-import session from 'express-session';
-import connectPgSimple from 'connect-pg-simple';
+import { createHmac, randomBytes, timingSafeEqual } from 'node:crypto';
+import type { RequestHandler, Response } from 'express';
 import type { Db } from '../db/db';
 import type { Caller } from '../access/policy';
-import type { SessionAuth } from '../access/request';
+import type { PendingSignIn, SessionAuth } from '../access/request';
 import { bindAccount } from '../people/people.repository';
-import { loadCallerRow, sessionLoader, type CallerRow } from './caller.repository';
+import { loadCallerRow, sessionLoader } from './caller.repository';
 
 export const SESSION_COOKIE = 'trabeate.sid';
-
-const PRELOADED_CALLER = Symbol('preloaded caller');
 
 export interface SessionSettings {
   secrets: string[];
@@ -21,93 +17,217 @@ export interface SessionSettings {
   secureCookies: boolean;
 }
 
+/** What a session row keeps (table `sessions`, column `sess`), besides its id and expiry. */
+export interface SessionData {
+  auth?: SessionAuth;
+  signIn?: PendingSignIn;
+  /** When the idle expiry was last pushed forward (ms since 1970); see refreshIdleExpiry. */
+  seenAt?: number;
+}
+
+/** The stored form: the data and the cookie's expiry, as the rows have always been written. */
+interface StoredSession extends SessionData {
+  cookie?: { expires?: string | null; originalMaxAge?: number };
+}
+
 /**
- * A pg-compatible query object over Knex's own pool, so the session store shares the app's
- * connections instead of opening a second pool.
+ * The session of one request. A request without a live session gets a new, empty one that is
+ * written only when something is put in it and saved (a sign-in starting), so anonymous requests
+ * leave no rows. Every change is saved explicitly (save, regenerate, destroy): nothing is written
+ * behind the handler's back at the end of the response.
  */
-function knexPool(db: Db) {
-  return {
-    query: async (text: string, params: unknown[]) => {
-      const conn = await db.client.acquireConnection();
-      try {
-        return await conn.query(text, params);
-      } finally {
-        await db.client.releaseConnection(conn);
-      }
+export class RequestSession implements SessionData {
+  auth?: SessionAuth;
+  signIn?: PendingSignIn;
+  seenAt?: number;
+  /** When the session (row and cookie) ends unless pushed forward. */
+  expires: Date;
+  #id: string | undefined;
+
+  constructor(
+    private readonly owner: SessionRuntime,
+    private readonly res: Response,
+    id: string | undefined,
+    stored: StoredSession | undefined,
+  ) {
+    this.#id = id;
+    this.auth = stored?.auth;
+    this.signIn = stored?.signIn;
+    this.seenAt = stored?.seenAt;
+    const expires = stored?.cookie?.expires ? new Date(stored.cookie.expires) : undefined;
+    this.expires = expires && !Number.isNaN(expires.getTime()) ? expires : owner.idleExpiry();
+  }
+
+  /** The session id (made when a new session first needs one: a save, or a CSRF token bound to it). */
+  get id(): string {
+    return (this.#id ??= randomBytes(24).toString('base64url'));
+  }
+
+  /** Pushes the idle expiry forward (written by the next save). */
+  touch(): void {
+    this.expires = this.owner.idleExpiry();
+  }
+
+  /** Writes the session row and sends the cookie that names it. */
+  async save(): Promise<void> {
+    await this.owner.write(this.id, this.stored(), this.expires);
+    this.owner.sendCookie(this.res, this.id, this.expires);
+  }
+
+  /** A new id with nothing in it: the old row is deleted (sign-in, against session fixation). */
+  async regenerate(): Promise<void> {
+    if (this.#id) await this.owner.remove(this.#id);
+    this.#id = undefined;
+    this.clear();
+  }
+
+  /** Ends the session: its row is deleted and nothing in it is used for the rest of the request. */
+  async destroy(): Promise<void> {
+    if (this.#id) await this.owner.remove(this.#id);
+    this.clear();
+  }
+
+  private clear(): void {
+    this.auth = undefined;
+    this.signIn = undefined;
+    this.seenAt = undefined;
+    this.expires = this.owner.idleExpiry();
+  }
+
+  private stored(): StoredSession {
+    return {
+      cookie: { expires: this.expires.toISOString(), originalMaxAge: this.owner.idleMs },
+      ...(this.auth ? { auth: this.auth } : {}),
+      ...(this.signIn ? { signIn: this.signIn } : {}),
+      ...(this.seenAt !== undefined ? { seenAt: this.seenAt } : {}),
+    };
+  }
+}
+
+interface SessionRuntime {
+  idleMs: number;
+  idleExpiry(): Date;
+  write(sid: string, sess: StoredSession, expires: Date): Promise<void>;
+  remove(sid: string): Promise<void>;
+  sendCookie(res: Response, sid: string, expires: Date): void;
+}
+
+/** The signature after the id in the cookie value `s:<id>.<signature>` (HMAC-SHA256, base64, no padding). */
+function signatureOf(sid: string, secret: string): string {
+  return createHmac('sha256', secret).update(sid).digest('base64').replace(/=+$/, '');
+}
+
+/**
+ * The session id a cookie value names, when one of the secrets signed it (the first secret signs;
+ * the others are older ones still accepted while they are rotated out).
+ */
+export function unsignSessionId(value: string, secrets: string[]): string | undefined {
+  if (!value.startsWith('s:')) return undefined;
+  const dot = value.lastIndexOf('.');
+  if (dot < 3) return undefined;
+  const sid = value.slice(2, dot);
+  const given = Buffer.from(value.slice(dot + 1));
+  for (const secret of secrets) {
+    const expected = Buffer.from(signatureOf(sid, secret));
+    if (expected.length === given.length && timingSafeEqual(expected, given)) return sid;
+  }
+  return undefined;
+}
+
+/** The raw value of the session cookie in a Cookie header, if there is one. */
+function sessionCookieValue(header: string | undefined): string | undefined {
+  if (!header) return undefined;
+  let at = header.indexOf(`${SESSION_COOKIE}=`);
+  // Only at the start of a cookie pair ("x-trabeate.sid=" is another cookie).
+  while (at > 0 && header[at - 1] !== ' ' && header[at - 1] !== ';') at = header.indexOf(`${SESSION_COOKIE}=`, at + 1);
+  if (at < 0) return undefined;
+  const start = at + SESSION_COOKIE.length + 1;
+  const end = header.indexOf(';', start);
+  const raw = header.slice(start, end < 0 ? undefined : end).trim();
+  try {
+    return decodeURIComponent(raw);
+  } catch {
+    return undefined;
+  }
+}
+
+/**
+ * Sessions in PostgreSQL (table `sessions`), so every API process sees the same ones, behind a
+ * signed cookie. A read request writes nothing: the idle expiry moves forward only every
+ * `touchSeconds` (see refreshIdleExpiry). The session row and the person it names are read in one
+ * query, shared by the requests arriving together (see sessionLoader); the person goes on the
+ * request for loadCaller.
+ */
+export function sessionMiddleware(db: Db, s: SessionSettings): RequestHandler {
+  const sessions = sessionLoader(db);
+  const idleMs = s.idleMinutes * 60_000;
+  const runtime: SessionRuntime = {
+    idleMs,
+    idleExpiry: () => new Date(Date.now() + idleMs),
+    write: async (sid, sess, expires) => {
+      await db.raw(
+        `insert into sessions (sid, sess, expire) values (?, ?::json, ?)
+         on conflict (sid) do update set sess = excluded.sess, expire = excluded.expire`,
+        [sid, JSON.stringify(sess), expires],
+      );
     },
+    remove: async (sid) => {
+      await db('sessions').where({ sid }).del();
+    },
+    sendCookie: (res, sid, expires) => {
+      if (res.headersSent) return;
+      // One session cookie per response: a later save (after regenerate, say) replaces an earlier one.
+      const earlier = res.getHeader('Set-Cookie');
+      if (earlier !== undefined) {
+        const others = ([] as Array<string | number>)
+          .concat(earlier)
+          .filter((c) => !String(c).startsWith(`${SESSION_COOKIE}=`))
+          .map(String);
+        res.setHeader('Set-Cookie', others);
+      }
+      res.cookie(SESSION_COOKIE, `s:${sid}.${signatureOf(sid, s.secrets[0])}`, {
+        httpOnly: true,
+        sameSite: 'lax',
+        secure: s.secureCookies,
+        path: '/',
+        expires,
+      });
+    },
+  };
+  const refresh = refreshIdleExpiry(s.idleMinutes, s.touchSeconds);
+  return (req, res, next) => {
+    const value = sessionCookieValue(req.headers.cookie);
+    const sid = value === undefined ? undefined : unsignSessionId(value, s.secrets);
+    if (sid === undefined) {
+      req.session = new RequestSession(runtime, res, undefined, undefined);
+      return next();
+    }
+    sessions.load(sid).then((found) => {
+      if (!found) {
+        req.session = new RequestSession(runtime, res, undefined, undefined);
+        return next();
+      }
+      const stored = (typeof found.sess === 'string' ? JSON.parse(found.sess) : found.sess) as StoredSession;
+      req.session = new RequestSession(runtime, res, sid, stored);
+      req.preloadedCaller = found.caller;
+      refresh(req, res, next);
+    }, next);
   };
 }
 
 /**
- * Sessions in PostgreSQL (table `sessions`), so every API process sees the same ones. A read
- * request writes nothing: the store's per-request touch is off and the idle expiry moves forward
- * only every `touchSeconds` (see refreshIdleExpiry), which at 100 concurrent requests was the
- * largest single cost of a signed-in read.
- */
-export function sessionMiddleware(db: Db, s: SessionSettings): RequestHandler {
-  const PgStore = connectPgSimple(session);
-  const sessions = sessionLoader(db);
-  /**
-   * Reads the session and the person it names in one query (see sessionLoader) and hands the
-   * person to loadCaller on the request. Nothing is kept between requests.
-   */
-  class SessionAndCallerStore extends PgStore {
-    override get(sid: string, fn: (err: unknown, sess?: session.SessionData | null) => void): void {
-      sessions.load(sid).then((found) => {
-        if (!found) return fn(null, null);
-        const sess = (typeof found.sess === 'string' ? JSON.parse(found.sess) : found.sess) as session.SessionData;
-        Object.defineProperty(sess, PRELOADED_CALLER, { value: found.caller, enumerable: false });
-        fn(null, sess);
-      }, fn);
-    }
-    override createSession(req: Request, sess: session.SessionData): session.Session & session.SessionData {
-      const preloaded = (sess as unknown as Record<symbol, CallerRow | null | undefined>)[PRELOADED_CALLER];
-      if (preloaded !== undefined) req.preloadedCaller = preloaded;
-      return super.createSession(req, sess);
-    }
-  }
-  const store = new SessionAndCallerStore({
-    pool: knexPool(db) as never,
-    tableName: 'sessions',
-    createTableIfMissing: false,
-    // Expired rows are skipped on read; pruning is a maintenance job, not a per-process timer.
-    pruneSessionInterval: false,
-  });
-  // No touch at all (rather than the store's disableTouch, whose synchronous no-op callback sent
-  // express-session down its write-twice path): express-session then skips it for unchanged sessions.
-  Object.defineProperty(store, 'touch', { value: undefined });
-  const handler = session({
-    name: SESSION_COOKIE,
-    secret: s.secrets,
-    store,
-    resave: false,
-    saveUninitialized: false,
-    // Not rolling: the cookie and the row are renewed together by refreshIdleExpiry.
-    rolling: false,
-    unset: 'destroy',
-    genid: () => randomBytes(24).toString('base64url'),
-    cookie: { httpOnly: true, sameSite: 'lax', secure: s.secureCookies, path: '/', maxAge: s.idleMinutes * 60_000 },
-  });
-  const refresh = refreshIdleExpiry(s.idleMinutes, s.touchSeconds);
-  return (req, res, next) => handler(req, res, (err?: unknown) => (err ? next(err) : refresh(req, res, next)));
-}
-
-/**
  * Pushes a signed-in session's idle expiry forward when it was last pushed more than
- * `touchSeconds` ago. Changing `seenAt` marks the session modified, so express-session saves the
- * row and sends the cookie again, both with the new expiry, in the one write; other requests
- * leave both alone.
+ * `touchSeconds` ago, writing the row and sending the cookie again, both with the new expiry, in
+ * the one write; other requests leave both alone.
  */
 export function refreshIdleExpiry(idleMinutes: number, touchSeconds: number): RequestHandler {
   const idleMs = idleMinutes * 60_000;
   return (req, _res, next) => {
     const s = req.session;
-    const expires = s?.auth ? s.cookie.expires : undefined;
-    if (s && expires && new Date(expires).getTime() - Date.now() < idleMs - touchSeconds * 1000) {
-      s.seenAt = Date.now();
-      s.touch();
-    }
-    next();
+    if (!s?.auth || s.expires.getTime() - Date.now() >= idleMs - touchSeconds * 1000) return next();
+    s.seenAt = Date.now();
+    s.touch();
+    s.save().then(() => next(), next);
   };
 }
 
@@ -129,11 +249,11 @@ export function loadCaller(db: Db, absoluteHours: number): RequestHandler {
     }
     if (Date.now() - auth.signedInAt > absoluteHours * 3_600_000) {
       req.log?.info({ userId: auth.userId }, 'session reached its absolute limit');
-      await new Promise<void>((resolve, reject) => req.session.destroy((err) => (err ? reject(err) : resolve())));
+      await req.session.destroy();
       req.sessionProblem = 'expired';
       return next();
     }
-    // Normally read with the session itself (SessionAndCallerStore); null there means no active person.
+    // Normally read with the session itself (sessionMiddleware); null there means no active person.
     const preloaded = req.preloadedCaller;
     let user: UserRow | undefined =
       preloaded !== undefined
@@ -145,6 +265,7 @@ export function loadCaller(db: Db, absoluteHours: number): RequestHandler {
       const bound = await bindAccount(db, auth);
       if (bound) {
         req.session.auth = { ...auth, userId: bound.id } satisfies SessionAuth;
+        await req.session.save();
         req.log?.info({ userId: bound.id }, 'signed-in identity bound to an invitation');
         user = await loadCallerRow(db, bound.id);
       }
@@ -155,7 +276,7 @@ export function loadCaller(db: Db, absoluteHours: number): RequestHandler {
 }
 
 function hasSessionCookie(cookieHeader: string | undefined): boolean {
-  return Boolean(cookieHeader && cookieHeader.split(';').some((c) => c.trim().startsWith(`${SESSION_COOKIE}=`)));
+  return sessionCookieValue(cookieHeader) !== undefined;
 }
 
 export interface UserRow {
