@@ -1,11 +1,10 @@
-import { createHmac, randomUUID } from 'node:crypto';
+import { createHmac } from 'node:crypto';
 import { existsSync } from 'node:fs';
 import path from 'node:path';
 import { randomBytes } from 'node:crypto';
 import cookieParser from 'cookie-parser';
 import { doubleCsrf } from 'csrf-csrf';
-import express, { type Express, type Request } from 'express';
-import { pinoHttp } from 'pino-http';
+import express, { type Express, type Request, type RequestHandler } from 'express';
 import { mountRoutes, route } from './access/registry';
 import { authRoutes } from './auth/auth.routes';
 import { OidcClient } from './auth/oidc';
@@ -13,6 +12,7 @@ import { signInRateLimit } from './auth/rate-limit';
 import { loadCaller, sessionMiddleware } from './auth/session';
 import { outboxUrlOf, type AuthConfig, type Config, type PaymentsConfig } from './core/config';
 import { apiNotFound, errorHandler } from './core/errors';
+import { requestLog } from './core/request-log';
 import { securityHeaders } from './core/security-headers';
 import type { Logger } from './core/logger';
 import type { Db } from './db/db';
@@ -39,7 +39,15 @@ export interface AppDeps {
   config: Pick<Config, 'CLIENT_DIST' | 'TRUST_PROXY'> &
     Partial<AuthConfig> &
     Partial<
-      Pick<Config, 'NODE_ENV' | 'UPLOAD_MAX_BYTES' | 'DEV_OUTBOX_URL' | 'MAIL_OUTBOX_URL' | 'HEALTH_MAX_AGE_MS'>
+      Pick<
+        Config,
+        | 'NODE_ENV'
+        | 'UPLOAD_MAX_BYTES'
+        | 'DEV_OUTBOX_URL'
+        | 'MAIL_OUTBOX_URL'
+        | 'HEALTH_MAX_AGE_MS'
+        | 'LOG_SLOW_READ_MS'
+      >
     > &
     /** The relay the health check greets; without SMTP_HOST it reports the mail relay as not set up. */
     Partial<Pick<Config, 'SMTP_HOST' | 'SMTP_PORT' | 'SMTP_SECURE'>> &
@@ -58,7 +66,25 @@ export interface AppDeps {
 /** The cookie Angular's HttpClient reads and echoes as X-XSRF-TOKEN on every state change. */
 export const CSRF_COOKIE = 'XSRF-TOKEN';
 
-const REQUEST_ID = /^[\w.:-]{1,128}$/;
+/**
+ * `req.cookies`, parsed by `parse` (cookie-parser) when first read: most requests need only the
+ * session cookie, which the session middleware finds in the header itself.
+ */
+function lazyCookies(parse: RequestHandler): RequestHandler {
+  return (req, res, next) => {
+    Object.defineProperty(req, 'cookies', {
+      configurable: true,
+      enumerable: true,
+      get() {
+        // The parser sets req.cookies itself (it skips a request that already has them).
+        delete (req as { cookies?: unknown }).cookies;
+        parse(req, res, () => undefined);
+        return req.cookies as unknown;
+      },
+    });
+    next();
+  };
+}
 
 /** Builds the Express app without listening, so tests can mount it with supertest. */
 export function createApp({ config, db, logger, version = '0.1.0', store, jobs, payments }: AppDeps): Express {
@@ -66,28 +92,7 @@ export function createApp({ config, db, logger, version = '0.1.0', store, jobs, 
   app.disable('x-powered-by');
   if (config.TRUST_PROXY) app.set('trust proxy', 1);
 
-  app.use(
-    pinoHttp({
-      logger,
-      genReqId: (req, res) => {
-        const incoming = req.headers['x-request-id'];
-        const id = typeof incoming === 'string' && REQUEST_ID.test(incoming) ? incoming : randomUUID();
-        res.setHeader('X-Request-Id', id);
-        return id;
-      },
-      // One short line per request; headers and query strings stay out of the logs (cookies, codes).
-      serializers: {
-        req: (req: { id: unknown; method: string; url: string }) => ({
-          id: req.id,
-          method: req.method,
-          url: req.url.split('?')[0],
-        }),
-        res: (res: { statusCode: number }) => ({ statusCode: res.statusCode }),
-      },
-      customLogLevel: (_req, res, err) =>
-        err || res.statusCode >= 500 ? 'error' : res.statusCode >= 400 ? 'warn' : 'info',
-    }),
-  );
+  app.use(requestLog(logger, { slowReadMs: config.LOG_SLOW_READ_MS ?? 500 }));
   app.use(securityHeaders());
 
   const publicUrl = (config.PUBLIC_URL ?? 'http://127.0.0.1:4310').replace(/\/$/, '');
@@ -103,21 +108,30 @@ export function createApp({ config, db, logger, version = '0.1.0', store, jobs, 
 
   const csrf = doubleCsrf({
     getSecret: () => secrets,
-    getSessionIdentifier: (req) => req.sessionID ?? '',
+    getSessionIdentifier: (req) => req.session?.id ?? '',
     cookieName: CSRF_COOKIE,
     // Readable by the page (that is the point of the double submit); bound to the session by its HMAC.
     cookieOptions: { httpOnly: false, sameSite: 'lax', secure: secureCookies, path: '/' },
     getCsrfTokenFromRequest: (req) => req.headers['x-xsrf-token'] as string | undefined,
   });
 
-  /** The XSRF-TOKEN cookie the request carries was made for this session with one of our secrets. */
+  /**
+   * The XSRF-TOKEN cookie the request carries was made for this session with one of our secrets.
+   * A pair found valid stays valid (same secrets, same session), so it is checked once per process.
+   */
+  const validCsrfCookies = new Set<string>();
   const csrfCookieValid = (req: Request): boolean => {
     const current = req.cookies?.[CSRF_COOKIE] as unknown;
     if (typeof current !== 'string' || !current) return false;
+    const pair = `${req.session.id} ${current}`;
+    if (validCsrfCookies.has(pair)) return true;
     // The library checks a cookie against the header; here the cookie is checked against itself.
     const asked = Object.create(req) as Request;
     Object.defineProperty(asked, 'headers', { value: { ...req.headers, 'x-xsrf-token': current } });
-    return csrf.validateRequest(asked);
+    if (!csrf.validateRequest(asked)) return false;
+    if (validCsrfCookies.size >= 10_000) validCsrfCookies.clear();
+    validCsrfCookies.add(pair);
+    return true;
   };
 
   const oidc =
@@ -206,7 +220,7 @@ export function createApp({ config, db, logger, version = '0.1.0', store, jobs, 
   // Stripe signs the exact bytes it sends: that route keeps its raw body (express.json then skips it).
   api.use(STRIPE_WEBHOOK_PATH, express.raw({ type: () => true, limit: '1mb' }));
   api.use(express.json({ limit: '1mb' }));
-  api.use(cookieParser());
+  api.use(lazyCookies(cookieParser()));
   api.use(
     sessionMiddleware(db, {
       secrets,

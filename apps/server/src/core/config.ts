@@ -18,6 +18,8 @@ const configSchema = z
       .regex(/^postgres(ql)?:\/\//, 'must be a postgres:// URL'),
     DATABASE_POOL_MAX: z.coerce.number().int().min(1).max(100).default(10),
     LOG_LEVEL: z.enum(['fatal', 'error', 'warn', 'info', 'debug', 'trace', 'silent']).default('info'),
+    // A successful read (GET) is logged at info only when slower than this (ms); faster ones at debug.
+    LOG_SLOW_READ_MS: z.coerce.number().int().min(0).max(600_000).default(500),
     // GET /api/health answers from one check of the dependencies for this long (0: every call).
     HEALTH_MAX_AGE_MS: z.coerce.number().int().min(0).max(60_000).default(2000),
     CLIENT_DIST: z.string().optional(),
