@@ -117,7 +117,18 @@ const PAGE_SORT_COLUMNS: Record<ProjectListFilters['sort'], string> = {
   storeys: 'storeys',
 };
 
-export interface ListRow extends ProjectRow {
+export interface ListRow extends Pick<
+  ProjectRow,
+  | 'id'
+  | 'reference'
+  | 'name'
+  | 'client_organisation_id'
+  | 'org_name'
+  | 'site_address'
+  | 'storeys'
+  | 'archived_at'
+  | 'updated_at'
+> {
   current_key: string | null;
   current_state: string | null;
   late_stages: number;
@@ -131,7 +142,25 @@ export async function listProjects(
   caller: Caller,
   f: ProjectListFilters,
 ): Promise<{ rows: ListRow[]; total: number }> {
-  const base = visibleTo(projectsQuery(db, caller.firmId), caller);
+  // Only what a list item shows (not the design basis and other page fields): every matching row
+  // is carried through the sort and the count, not only the page.
+  const base = visibleTo(
+    db('projects as p')
+      .join('client_organisations as o', 'o.id', 'p.client_organisation_id')
+      .where('p.firm_id', caller.firmId)
+      .select(
+        'p.id',
+        'p.reference',
+        'p.name',
+        'p.client_organisation_id',
+        'o.name as org_name',
+        'p.site_address',
+        'p.storeys',
+        'p.archived_at',
+        'p.updated_at',
+      ),
+    caller,
+  );
   if (f.status === 'active') base.whereNull('p.archived_at');
   if (f.status === 'archived') base.whereNotNull('p.archived_at');
   if (f.clientOrganisationId) base.andWhere('p.client_organisation_id', f.clientOrganisationId);
