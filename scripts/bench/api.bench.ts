@@ -4,14 +4,17 @@
 // through the real middleware (logging, security headers, session, caller, access guard, CSRF
 // where used). Prints requests/s, p50, p99 and the ratio to bare Express; targets: /api/me >= 50 %,
 // the projects list >= 30 %, and no session-table write during the reads. BENCH_SECONDS changes
-// the length of each measurement. Exits 1 when a target is missed.
+// the length of each measurement; BENCH_EXPLAIN=1 prints the list query's plan; BENCH_ONLY measures only the targets whose name contains it.
+// Exits 1 when a target is missed.
 import { statSync } from 'node:fs';
 import { loadavg } from 'node:os';
 import autocannon from 'autocannon';
 import { createDb } from '../../apps/server/src/db/db';
 import { DEMO } from '../../seeds/demo';
 import { addBenchProjects } from './lib/bench-firm';
-import { bareExpressService, benchBundledApi, cpuSeconds, listenerPid, sessionCookie } from './lib/harness';
+import { bareExpressService, benchBundledApi, cpuSeconds, listenerPid } from './lib/harness';
+import { explainQueries } from './lib/explain';
+import { sessionCookie } from './lib/session-cookie';
 
 const SECONDS = Number(process.env.BENCH_SECONDS ?? 10);
 const CONNECTIONS = 100;
@@ -62,7 +65,11 @@ benchBundledApi(
     fastDatabase: false,
     extraPorts: ['bare'],
     // BENCH_PROFILE=1 writes a CPU profile of the API (open it in Chrome's DevTools) to tmp/.
-    apiFlags: process.env.BENCH_PROFILE ? ['--cpu-prof', '--cpu-prof-dir=tmp/bench-profiles'] : [],
+    // BENCH_NODE_FLAGS adds V8/Node flags to the API process (to try a setting before production takes it).
+    apiFlags: [
+      ...(process.env.BENCH_PROFILE ? ['--cpu-prof', '--cpu-prof-dir=tmp/bench-profiles'] : []),
+      ...(process.env.BENCH_NODE_FLAGS?.split(' ').filter(Boolean) ?? []),
+    ],
     apiEnv: (ctx) => ({
       NODE_ENV: 'production',
       DATABASE_URL: ctx.databaseUrl,
@@ -91,7 +98,8 @@ benchBundledApi(
   async (ctx) => {
     const db = createDb(ctx.databaseUrl, 2);
     try {
-      const cookie = await sessionCookie(db, ctx.secret, DEMO.users.principal);
+      // The session cookie and the XSRF-TOKEN cookie /api/me issues, both sent back as a browser does.
+      const { cookie } = await sessionCookie(ctx.apiUrl, db, ctx.secret, DEMO.users.principal);
       const base = ctx.apiUrl;
       const list = `${base}/api/projects?page=3&pageSize=25&sort=updatedAt&direction=desc&status=active&q=corrow`;
       const targets: Array<[string, string, number | null]> = [
@@ -102,6 +110,17 @@ benchBundledApi(
         ['project page data (/full)', `${base}/api/projects/${busyProject}/full`, null],
         ['activity log (50 of 400)', `${base}/api/projects/${busyProject}/activity`, null],
       ];
+      if (process.env.BENCH_EXPLAIN) {
+        const { listProjects } = await import('../../apps/server/src/projects/projects.repository');
+        const { loadCallerRow } = await import('../../apps/server/src/auth/caller.repository');
+        const { toCaller } = await import('../../apps/server/src/auth/session');
+        const { projectListQuerySchema } = await import('@trabeate/contracts');
+        const caller = toCaller((await loadCallerRow(db, DEMO.users.principal.id))!);
+        const filters = projectListQuerySchema.parse(Object.fromEntries(new URL(list).searchParams));
+        await explainQueries(db, 'Projects list query plans', [
+          ['projects list (page 3 of 25, sorted, filtered)', () => listProjects(db, caller, filters)],
+        ]);
+      }
       for (const [, url] of targets) {
         const res = await fetch(url, { headers: { cookie } });
         if (res.status !== 200) throw new Error(`${url} answered ${res.status}: ${(await res.text()).slice(0, 200)}`);
@@ -116,7 +135,12 @@ benchBundledApi(
         server: listenerPid(ctx.ports.bare),
       });
       const results: Array<[string, Figures, number | null]> = [];
-      for (const [name, url, target] of targets) results.push([name, await measure(url, api, cookie), target]);
+      // BENCH_ONLY=me (a part of a target's name) measures only the targets named, e.g. for a profile.
+      const only = process.env.BENCH_ONLY;
+      for (const [name, url, target] of targets) {
+        if (only && !name.includes(only)) continue;
+        results.push([name, await measure(url, api, cookie), target]);
+      }
       await new Promise((r) => setTimeout(r, 1500)); // PostgreSQL publishes table statistics about once a second
       const sessionRowWrites = (await sessionWrites(db)) - writesBefore;
 
