@@ -12,6 +12,7 @@ import * as m20261223000001 from './20261223000001_schemes';
 import * as m20261224000001d from './20261224000001_drawing_current_revision';
 import * as m20261224000001s from './20261224000001_stage_submissions';
 import * as m20261224000201 from './20261224000201_scheme_outputs';
+import * as m20261225000001 from './20261225000001_list_change_notices';
 
 /** Every migration, by name, in the order they run. Add new ones here as well as in the folder. */
 export const migrations: Record<string, Knex.Migration> = {
@@ -28,4 +29,5 @@ export const migrations: Record<string, Knex.Migration> = {
   '20261224000001_drawing_current_revision': m20261224000001d,
   '20261224000001_stage_submissions': m20261224000001s,
   '20261224000201_scheme_outputs': m20261224000201,
+  '20261225000001_list_change_notices': m20261225000001,
 };

@@ -1,6 +1,7 @@
 import { randomBytes } from 'node:crypto';
 import type { Express } from 'express';
 import { createApp, type AppDeps } from '../../apps/server/src/app';
+import { startChangeFeed, type ChangeFeed } from '../../apps/server/src/core/change-feed';
 import { createLogger } from '../../apps/server/src/core/logger';
 import type { Db } from '../../apps/server/src/db/db';
 import { seedDemo } from '../../seeds/demo';
@@ -22,6 +23,8 @@ export interface TestApp {
   store: ObjectStore;
   /** The mail queue; its worker runs only when `mail` was given. */
   jobs: Jobs;
+  /** The change feed the app listens with (unless `changes: false`). */
+  changes?: ChangeFeed;
   close: () => Promise<void>;
 }
 
@@ -43,6 +46,8 @@ export async function testApp(
     logger?: AppDeps['logger'];
     /** Run the mail worker against an SMTP server on this loopback port. */
     mail?: { smtpPort: number };
+    /** false: no change feed, so no list replies are kept (every read queries), as without main.ts. */
+    changes?: boolean;
   } = {},
 ): Promise<TestApp> {
   const { db, url, drop } = await freshDatabase();
@@ -57,7 +62,9 @@ export async function testApp(
     pollingIntervalSeconds: 0.5,
   });
   let identity: TestIdentity | undefined;
+  let changes: ChangeFeed | undefined;
   const close = async () => {
+    await changes?.close();
     await identity?.stop();
     await jobs.stop();
     await files.close();
@@ -76,6 +83,8 @@ export async function testApp(
     throw err;
   }
   const logger = opts.logger ?? createLogger(process.env.TEST_LOG_LEVEL ?? 'silent');
+  // As main.ts runs it: list replies kept until the database says the firm's lists changed.
+  if (opts.changes !== false) changes = await startChangeFeed(url, logger);
   const config: AppDeps['config'] = {
     TRUST_PROXY: false,
     PUBLIC_URL: TEST_PUBLIC_URL,
@@ -91,7 +100,7 @@ export async function testApp(
       : {}),
     ...opts.config,
   };
-  const app = createApp({ config, db, logger, store: files.store, jobs });
+  const app = createApp({ config, db, logger, store: files.store, jobs, changes });
   return {
     app,
     db,
@@ -99,6 +108,7 @@ export async function testApp(
     s3: files.s3,
     store: files.store,
     jobs,
+    changes,
     close,
   };
 }

@@ -5,13 +5,15 @@ import { randomBytes } from 'node:crypto';
 import cookieParser from 'cookie-parser';
 import { doubleCsrf } from 'csrf-csrf';
 import express, { type Express, type Request, type RequestHandler } from 'express';
-import { mountRoutes, route } from './access/registry';
+import { mountRoutes, route, SAFE_METHODS } from './access/registry';
 import { authRoutes } from './auth/auth.routes';
 import { OidcClient } from './auth/oidc';
 import { signInRateLimit } from './auth/rate-limit';
 import { loadCaller, sessionMiddleware } from './auth/session';
 import { outboxUrlOf, type AuthConfig, type Config, type PaymentsConfig } from './core/config';
 import { apiNotFound, errorHandler } from './core/errors';
+import type { ChangeFeed } from './core/change-feed';
+import { ReplyCache } from './core/reply-cache';
 import { requestLog } from './core/request-log';
 import { securityHeaders } from './core/security-headers';
 import type { Logger } from './core/logger';
@@ -61,6 +63,11 @@ export interface AppDeps {
   jobs?: Jobs;
   /** Card payments; built from the STRIPE_* settings when not given. */
   payments?: Payments;
+  /**
+   * Changes to firms' lists, heard from PostgreSQL (main.ts starts it); with it, projects list
+   * replies are kept until something in the firm's lists changes. Without it, every read queries.
+   */
+  changes?: ChangeFeed;
 }
 
 /** The cookie Angular's HttpClient reads and echoes as X-XSRF-TOKEN on every state change. */
@@ -87,7 +94,7 @@ function lazyCookies(parse: RequestHandler): RequestHandler {
 }
 
 /** Builds the Express app without listening, so tests can mount it with supertest. */
-export function createApp({ config, db, logger, version = '0.1.0', store, jobs, payments }: AppDeps): Express {
+export function createApp({ config, db, logger, version = '0.1.0', store, jobs, payments, changes }: AppDeps): Express {
   const app = express();
   app.disable('x-powered-by');
   if (config.TRUST_PROXY) app.set('trust proxy', 1);
@@ -189,7 +196,7 @@ export function createApp({ config, db, logger, version = '0.1.0', store, jobs, 
       linkSecret: secrets[0],
       notices,
     }),
-    ...projectRoutes(db),
+    ...projectRoutes(db, changes && new ReplyCache(changes, { maxEntries: 2000, maxAgeMs: 60_000 })),
     ...stageRoutes(db, notices),
     ...deliverableRoutes(db, store, config.UPLOAD_MAX_BYTES ?? 1024 * 1024 * 1024),
     ...activityRoutes(db),
@@ -231,6 +238,17 @@ export function createApp({ config, db, logger, version = '0.1.0', store, jobs, 
     }),
   );
   api.use(loadCaller(db, absoluteHours));
+  if (changes) {
+    // This process's own changes are known at once (the database's notice follows), so the next
+    // read of the person who made one already sees it.
+    api.use((req, res, next) => {
+      if (!SAFE_METHODS.has(req.method))
+        res.once('finish', () => {
+          if (req.caller) changes.changed(req.caller.firmId);
+        });
+      next();
+    });
+  }
   // Every API route, with its access rule; the authorization matrix test reads this list.
   app.locals['routes'] = mountRoutes(api, routes, { db, csrfValid: (req) => csrf.validateRequest(req) });
   api.use(apiNotFound);

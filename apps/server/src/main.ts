@@ -11,6 +11,7 @@ import { createObjectStore, objectStoreConfigFrom } from './storage';
 import { createLogger } from './core/logger';
 import { gracefulShutdown } from './core/shutdown';
 import { createDb } from './db/db';
+import { startChangeFeed } from './core/change-feed';
 
 async function main(): Promise<void> {
   let config;
@@ -48,12 +49,14 @@ async function main(): Promise<void> {
     const today = new Date().toISOString().slice(0, 10);
     logger.info({ sent: await sendOverdueReminders(db, reminderNotices, today) }, 'overdue invoice reminders queued');
   });
+  const changes = await startChangeFeed(config.DATABASE_URL, logger);
   const app = createApp({
     config: { ...config, SMTP_HOST: config.SMTP_HOST ?? LOCAL_DEFAULTS.SMTP_HOST },
     db,
     logger,
     store,
     jobs,
+    changes,
   });
   const server = createServer(app);
   server.listen(config.PORT, config.HOST, () => {
@@ -70,6 +73,7 @@ async function main(): Promise<void> {
     gracefulShutdown(server, config.SHUTDOWN_GRACE_MS, async () => {
       // A mail being sent finishes first; one not yet taken stays queued for another process.
       await jobs.stop();
+      await changes.close();
       store.close();
       await db.destroy();
     }).then(

@@ -40,7 +40,8 @@ export function mountRoutes(
   return routes.map(({ method, path, rule }) => ({ method, path, rule }));
 }
 
-const SAFE = new Set(['GET', 'HEAD', 'OPTIONS']);
+/** Methods that change nothing: no CSRF header needed. */
+export const SAFE_METHODS = new Set(['GET', 'HEAD', 'OPTIONS']);
 const UUID = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i;
 
 /**
@@ -52,7 +53,7 @@ export function guard(rule: Rule, { db, csrfValid }: GuardDeps): RequestHandler 
   return async (req, _res, next) => {
     // Any state change made with a signed-in session needs the CSRF header, whatever the rule.
     const signedIn = Boolean(req.session?.auth);
-    if (signedIn && !SAFE.has(req.method) && !csrfValid(req)) {
+    if (signedIn && !SAFE_METHODS.has(req.method) && !csrfValid(req)) {
       throw new HttpError(
         403,
         'csrf_failed',

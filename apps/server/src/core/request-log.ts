@@ -1,9 +1,9 @@
 import { randomUUID } from 'node:crypto';
 import type { RequestHandler } from 'express';
+import { SAFE_METHODS } from '../access/registry';
 import type { Logger } from './logger';
 
 const REQUEST_ID = /^[\w.:-]{1,128}$/;
-const READS = new Set(['GET', 'HEAD', 'OPTIONS']);
 
 export interface RequestLogOptions {
   /** A successful read slower than this (ms) is logged at info like a change; faster ones at debug. */
@@ -49,7 +49,7 @@ export function requestLog(logger: Logger, { slowReadMs }: RequestLogOptions): R
             ? 'error'
             : status >= 400
               ? 'warn'
-              : READS.has(line.method) && responseTime < slowReadMs
+              : SAFE_METHODS.has(line.method) && responseTime < slowReadMs
                 ? 'debug'
                 : 'info';
       if (!logger.isLevelEnabled(level)) return;

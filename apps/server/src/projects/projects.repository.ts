@@ -174,11 +174,14 @@ export async function listProjects(
         .orWhereILike('o.name', like),
     );
   }
-  // One round trip: the page with the total beside each row (a window count over the filtered
-  // set), then each of its projects' stage summary in one pass over that project's six stages.
+  // One round trip: the page (which stops reading once it has its rows, in the index's order when
+  // sorted by date), the total of the filtered set beside it as a count of its own (a window count
+  // made PostgreSQL carry every matching row), and each of the page's projects' stage summary in
+  // one pass over that project's six stages.
+  const total = base.clone().clearSelect().count('*');
   const page = base
     .clone()
-    .select(db.raw('count(*) over () as total_count'))
+    .select(db.raw('(?) as total_count', [total]))
     .orderBy([
       { column: SORT_COLUMNS[f.sort], order: f.direction },
       { column: 'p.id', order: 'asc' },

@@ -10,6 +10,7 @@ import {
 } from '@trabeate/contracts';
 import type { Db } from '../db/db';
 import { HttpError, notFound } from '../core/errors';
+import type { ReplyCache } from '../core/reply-cache';
 import { validate } from '../core/validate';
 import { route, type RouteDecl } from '../access/registry';
 import { type Caller } from '../access/policy';
@@ -21,13 +22,28 @@ const callerOf = (req: Request): Caller => req.caller as Caller;
 const projectParams = z.object({ projectId: z.uuid() });
 const memberParams = z.object({ projectId: z.uuid(), userId: z.uuid() });
 
-export function projectRoutes(db: Db): RouteDecl[] {
+/**
+ * @param lists replies of the projects list kept while nothing in the firm's lists changes (see
+ *   ReplyCache); without one every request reads the database.
+ */
+export function projectRoutes(db: Db, lists?: ReplyCache): RouteDecl[] {
   return [
     route('get', '/projects', 'signedIn', validate({ query: projectListQuerySchema }), async (req, res) => {
       const q = res.locals['query'] as ProjectListFilters;
-      const { rows, total } = await listProjects(db, callerOf(req), q);
+      const caller = callerOf(req);
+      // Principals see every project of the firm; anyone else what they are on (and may see).
+      const key = `${caller.role === 'principal' ? 'principal' : `${caller.role} ${caller.userId}`} ${JSON.stringify(q)}`;
+      const kept = lists?.get(caller.firmId, key);
+      if (kept !== undefined) {
+        res.type('json').send(kept);
+        return;
+      }
+      const generation = lists?.start(caller.firmId);
+      const { rows, total } = await listProjects(db, caller, q);
       const body: ProjectList = { items: rows.map(listItemOf), total, page: q.page, pageSize: q.pageSize };
-      res.json(body);
+      const text = JSON.stringify(body);
+      lists?.keep(caller.firmId, key, generation, text);
+      res.type('json').send(text);
     }),
     route('post', '/projects', 'principal', validate({ body: projectCreateSchema }), async (req, res) => {
       const page = await createProject(db, callerOf(req), req.body);
