@@ -115,7 +115,8 @@ benchBundledApi(
       const auth = await signedInCookies(ctx, db, DEMO.users.principal);
       const registerPath = `/api/projects/${PROJECT}/drawings?sort=date&direction=desc&stageKey=beam_framing&state=issued&page=1&pageSize=25`;
       const check = await fetch(`${ctx.apiUrl}${registerPath}`, { headers: { cookie: auth.cookie } });
-      const first = (await check.json()) as { total: number; items: unknown[] };
+      const firstBody = await check.text();
+      const first = JSON.parse(firstBody) as { total: number; items: unknown[] };
       if (check.status !== 200 || first.items.length === 0) throw new Error(`register answered ${check.status}`);
       await phases.end('signed in, one register page');
       // Each run also takes the API's CPU time per request: what a request costs the server (and
@@ -185,7 +186,7 @@ benchBundledApi(
         (r.apiCpuMs === undefined ? '' : `, API CPU ${r.apiCpuMs.toFixed(2)} ms/request`);
       console.log('\nRegister benchmark');
       console.log(
-        `  register             ${DRAWINGS} drawings x 5 revisions; first page: ${first.items.length} of ${first.total} (beam framing, issued, newest date first)`,
+        `  register             ${DRAWINGS} drawings x 5 revisions; first page: ${first.items.length} of ${first.total} (beam framing, issued, newest date first), reply ${(Buffer.byteLength(firstBody) / 1024).toFixed(1)} KiB`,
       );
       console.log(`  bare Express route   ${lat(bareResult)}`);
       console.log(`  register first page  ${lat(registerResult)}`);
@@ -341,7 +342,8 @@ function phaseRecorder(pid: number) {
       from = Date.now();
     },
     print(traceFile?: string) {
-      type Figure = 'rss' | 'heapTotal' | 'heapUsed' | 'external' | 'arrayBuffers' | 'newSpace';
+      type Figure =
+        'rss' | 'heapTotal' | 'heapUsed' | 'external' | 'arrayBuffers' | 'newSpace' | 'gcMs' | 'minorGcs' | 'majorGcs';
       type Sample = Record<Figure | 't', number> & { gc?: boolean };
       const samples: Sample[] =
         traceFile && existsSync(traceFile)
@@ -350,22 +352,28 @@ function phaseRecorder(pid: number) {
               .filter(Boolean)
               .map((l) => JSON.parse(l) as Sample)
           : [];
-      console.log('\nAPI memory by phase, MB (VmRSS at the end of the phase, VmHWM so far; traced: highest in phase)');
+      console.log(
+        '\nAPI memory by phase, MB (VmRSS at the end of the phase, VmHWM so far; traced: highest in phase; GC: pause time and collections in the phase)',
+      );
       const traced = samples.length > 0;
       console.log(
         `  ${'phase'.padEnd(40)} ${'VmRSS'.padStart(7)} ${'VmHWM'.padStart(7)}` +
           (traced
-            ? ` ${'rss'.padStart(7)} ${'heapTot'.padStart(7)} ${'heapUsed'.padStart(7)} ${'young'.padStart(7)} ${'extern'.padStart(7)} ${'arrBuf'.padStart(7)} samples`
+            ? ` ${'rss'.padStart(7)} ${'heapTot'.padStart(7)} ${'heapUsed'.padStart(7)} ${'young'.padStart(7)} ${'extern'.padStart(7)} ${'arrBuf'.padStart(7)} ${'GC ms'.padStart(7)} ${'minor'.padStart(6)} ${'major'.padStart(6)} samples`
             : ''),
       );
       for (const p of phases) {
         const inPhase = samples.filter((s) => s.t >= p.from && s.t <= p.to && !s.gc);
         const afterGc = samples.find((s) => s.gc && s.t >= p.to);
         const top = (k: Figure) => (inPhase.length ? Math.max(...inPhase.map((s) => s[k])) : undefined);
+        // Time in garbage collection during the phase: the running total at its end less at its start.
+        const at = (t: number, k: Figure) => samples.filter((s) => s.t <= t).at(-1)?.[k] ?? 0;
+        const during = (k: Figure, width: number) => (at(p.to, k) - at(p.from, k)).toFixed(0).padStart(width);
+        const gcMs = `${during('gcMs', 7)} ${during('minorGcs', 6)} ${during('majorGcs', 6)}`;
         console.log(
           `  ${p.name.padEnd(40)} ${mb(p.rss)} ${mb(p.hwm)}` +
             (traced
-              ? ` ${mb(top('rss'))} ${mb(top('heapTotal'))} ${mb(top('heapUsed'))} ${mb(top('newSpace'))} ${mb(top('external'))} ${mb(top('arrayBuffers'))} ${String(inPhase.length).padStart(7)}` +
+              ? ` ${mb(top('rss'))} ${mb(top('heapTotal'))} ${mb(top('heapUsed'))} ${mb(top('newSpace'))} ${mb(top('external'))} ${mb(top('arrayBuffers'))} ${gcMs} ${String(inPhase.length).padStart(7)}` +
                 (afterGc
                   ? ` kept after full GC: heapUsed ${mb(afterGc.heapUsed).trim()}, arrBuf ${mb(afterGc.arrayBuffers).trim()}`
                   : '')
