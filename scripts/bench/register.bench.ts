@@ -5,8 +5,11 @@
 // bundled server, so its memory is its own), beside reading the same objects straight from the
 // S3 fake. Targets: API peak RSS under 200 MB; ZIP throughput at least half the direct read.
 // BENCH_DRAWINGS, BENCH_ZIP_FILES and BENCH_ZIP_MIB make it smaller; BENCH_EXPLAIN=1 also prints
-// the register queries' plans. Exits 1 when a target is missed.
+// the register queries' plans. The API's memory is printed per phase (VmRSS from /proc);
+// BENCH_MEMORY_TRACE=1 adds what V8 holds (heap, young generation, buffers) sampled inside the
+// API. Exits 1 when a target is missed.
 import { randomUUID } from 'node:crypto';
+import { existsSync, readFileSync } from 'node:fs';
 import { request } from 'node:http';
 import autocannon from 'autocannon';
 import { s3Service } from '../lib/fake-services';
@@ -18,6 +21,7 @@ import { pdfLikeStream } from './lib/generate';
 import {
   bareExpressService,
   benchBundledApi,
+  cpuSeconds,
   listenerPid,
   rssOf,
   sessionCookie,
@@ -29,6 +33,10 @@ const ZIP_FILES = Number(process.env.BENCH_ZIP_FILES ?? 200);
 const ZIP_MIB = Number(process.env.BENCH_ZIP_MIB ?? 1000);
 const MiB = 1024 * 1024;
 const PROJECT = DEMO.projects.kestrel.id;
+// '1': sampled; 'gc': also all garbage collected at the end of each phase (which changes the peak).
+const MEMORY_TRACE = ['1', 'gc'].includes(process.env.BENCH_MEMORY_TRACE ?? '');
+const TRACE_GC = process.env.BENCH_MEMORY_TRACE === 'gc';
+const traceFile = `tmp/bench-register-memory-${process.pid}.jsonl`;
 
 const s3Env = (port: number) => ({
   S3_ENDPOINT: `http://127.0.0.1:${port}`,
@@ -44,6 +52,12 @@ benchBundledApi(
     name: 'register',
     fastDatabase: true,
     extraPorts: ['s3', 'bare'],
+    apiFlags: [
+      ...(MEMORY_TRACE ? ['--import', './scripts/bench/lib/memory-trace.mjs'] : []),
+      ...(TRACE_GC ? ['--expose-gc'] : []),
+      // Node flags for an investigation (BENCH_API_FLAGS='--cpu-prof --cpu-prof-dir=tmp/prof', say).
+      ...(process.env.BENCH_API_FLAGS?.split(' ').filter(Boolean) ?? []),
+    ],
     apiEnv: (ctx) => ({
       NODE_ENV: 'test',
       DATABASE_URL: ctx.databaseUrl,
@@ -52,6 +66,7 @@ benchBundledApi(
       ...s3Env(ctx.ports.s3),
       SMTP_HOST: '127.0.0.1',
       SMTP_PORT: '9',
+      ...(MEMORY_TRACE ? { BENCH_MEMORY_TRACE_FILE: traceFile } : {}),
     }),
     services: (ctx) => [s3Service({ port: ctx.ports.s3 }), bareExpressService(ctx.ports.bare, { items: [], total: 0 })],
   },
@@ -66,6 +81,8 @@ benchBundledApi(
     try {
       await store.ensureBucket();
       const apiPid = listenerPid(ctx.ports.api);
+      const phases = phaseRecorder(apiPid);
+      await phases.end('started (health check only)');
       const db = createDb(ctx.databaseUrl, 2);
 
       // 1. The register: DRAWINGS drawings, 5 revisions each (4 superseded, the 5th in some state).
@@ -98,15 +115,30 @@ benchBundledApi(
       const auth = await signedInCookies(ctx, db, DEMO.users.principal);
       const registerPath = `/api/projects/${PROJECT}/drawings?sort=date&direction=desc&stageKey=beam_framing&state=issued&page=1&pageSize=25`;
       const check = await fetch(`${ctx.apiUrl}${registerPath}`, { headers: { cookie: auth.cookie } });
-      const first = (await check.json()) as { total: number; items: unknown[] };
+      const firstBody = await check.text();
+      const first = JSON.parse(firstBody) as { total: number; items: unknown[] };
       if (check.status !== 200 || first.items.length === 0) throw new Error(`register answered ${check.status}`);
-      const load = (url: string, headers: Record<string, string> = {}) =>
-        autocannon({ url, connections: 10, duration: 10, headers });
-      const bareResult = await load(`http://127.0.0.1:${ctx.ports.bare}/bare`);
+      await phases.end('signed in, one register page');
+      // Each run also takes the API's CPU time per request: what a request costs the server (and
+      // its garbage collector), which other work on the machine changes much less than req/s.
+      const load = async (url: string, headers: Record<string, string> = {}) => {
+        const cpu0 = cpuSeconds(apiPid);
+        const result = await autocannon({ url, connections: 10, duration: 10, headers });
+        const served = result.requests.total;
+        return Object.assign(result, { apiCpuMs: served ? ((cpuSeconds(apiPid) - cpu0) * 1000) / served : 0 });
+      };
+      const bareResult = await autocannon({
+        url: `http://127.0.0.1:${ctx.ports.bare}/bare`,
+        connections: 10,
+        duration: 10,
+      });
+      await phases.end('bare route load (API idle)');
       const registerResult = await load(`${ctx.apiUrl}${registerPath}`, { cookie: auth.cookie });
+      await phases.end('register first page, 10 connections');
       // The page a register opens on: every drawing, by number, no filter.
       const defaultPath = `/api/projects/${PROJECT}/drawings?page=1&pageSize=25`;
       const defaultResult = await load(`${ctx.apiUrl}${defaultPath}`, { cookie: auth.cookie });
+      await phases.end('register by number, 10 connections');
 
       // 2. A transmittal of ZIP_FILES files totalling ZIP_MIB MiB, stored in the S3 fake.
       const fileBytes = Math.floor((ZIP_MIB * MiB) / ZIP_FILES);
@@ -131,6 +163,7 @@ benchBundledApi(
         for await (const c of o.body) directBytes += (c as Buffer).length;
       }
       const directSeconds = (performance.now() - t0) / 1000;
+      await phases.end('files stored, direct read (API idle)');
 
       const before = rssOf(apiPid).rss;
       let sampled = before;
@@ -143,15 +176,17 @@ benchBundledApi(
       );
       const zipSeconds = (performance.now() - t0) / 1000;
       clearInterval(sampler);
+      await phases.end('ZIP download');
       const peakMb = rssOf(apiPid).hwm / 1e6;
       if (zip.status !== 200) throw new Error(`the ZIP answered ${zip.status}`);
       const ratio = zip.bytes / zipSeconds / (directBytes / directSeconds);
 
-      const lat = (r: autocannon.Result) =>
-        `${r.requests.average.toFixed(0)} req/s, latency p50 ${r.latency.p50} ms, p99 ${r.latency.p99} ms, errors ${r.errors + r.non2xx}`;
+      const lat = (r: autocannon.Result & { apiCpuMs?: number }) =>
+        `${r.requests.average.toFixed(0)} req/s, latency p50 ${r.latency.p50} ms, p99 ${r.latency.p99} ms, errors ${r.errors + r.non2xx}` +
+        (r.apiCpuMs === undefined ? '' : `, API CPU ${r.apiCpuMs.toFixed(2)} ms/request`);
       console.log('\nRegister benchmark');
       console.log(
-        `  register             ${DRAWINGS} drawings x 5 revisions; first page: ${first.items.length} of ${first.total} (beam framing, issued, newest date first)`,
+        `  register             ${DRAWINGS} drawings x 5 revisions; first page: ${first.items.length} of ${first.total} (beam framing, issued, newest date first), reply ${(Buffer.byteLength(firstBody) / 1024).toFixed(1)} KiB`,
       );
       console.log(`  bare Express route   ${lat(bareResult)}`);
       console.log(`  register first page  ${lat(registerResult)}`);
@@ -166,6 +201,7 @@ benchBundledApi(
       console.log(
         `  API peak RSS         ${peakMb.toFixed(1)} MB (VmHWM; sampled ${(sampled / 1e6).toFixed(1)} MB, ${(before / 1e6).toFixed(1)} MB before; target < 200 MB)`,
       );
+      phases.print(MEMORY_TRACE ? traceFile : undefined);
       const ok = peakMb < 200 && ratio >= 0.5 && zip.bytes >= directBytes;
       console.log(ok ? '  result               targets met' : '  result               TARGET MISSED');
       return ok;
@@ -277,6 +313,76 @@ async function makeTransmittal(db: import('knex').Knex, store: ObjectStore, file
     await db('transmittal_items').insert({ transmittal_id: transmittalId, revision_id: revision.id, position: i });
   }
   return transmittalId;
+}
+
+interface Phase {
+  name: string;
+  from: number;
+  to: number;
+  rss: number;
+  hwm: number;
+}
+
+/**
+ * The API's memory at the end of each phase of the run (VmRSS, and VmHWM: the peak so far), and
+ * with a trace file (BENCH_MEMORY_TRACE=1) the highest of each figure V8 reports within the phase.
+ */
+function phaseRecorder(pid: number) {
+  const phases: Phase[] = [];
+  let from = Date.now();
+  const mb = (n: number | undefined) => (n === undefined ? '-' : (n / 1e6).toFixed(1)).padStart(7);
+  return {
+    async end(name: string) {
+      const { rss, hwm } = rssOf(pid);
+      phases.push({ name, from, to: Date.now(), rss, hwm });
+      if (TRACE_GC) {
+        process.kill(pid, 'SIGUSR2');
+        await new Promise((r) => setTimeout(r, 500));
+      }
+      from = Date.now();
+    },
+    print(traceFile?: string) {
+      type Figure =
+        'rss' | 'heapTotal' | 'heapUsed' | 'external' | 'arrayBuffers' | 'newSpace' | 'gcMs' | 'minorGcs' | 'majorGcs';
+      type Sample = Record<Figure | 't', number> & { gc?: boolean };
+      const samples: Sample[] =
+        traceFile && existsSync(traceFile)
+          ? readFileSync(traceFile, 'utf8')
+              .split('\n')
+              .filter(Boolean)
+              .map((l) => JSON.parse(l) as Sample)
+          : [];
+      console.log(
+        '\nAPI memory by phase, MB (VmRSS at the end of the phase, VmHWM so far; traced: highest in phase; GC: pause time and collections in the phase)',
+      );
+      const traced = samples.length > 0;
+      console.log(
+        `  ${'phase'.padEnd(40)} ${'VmRSS'.padStart(7)} ${'VmHWM'.padStart(7)}` +
+          (traced
+            ? ` ${'rss'.padStart(7)} ${'heapTot'.padStart(7)} ${'heapUsed'.padStart(7)} ${'young'.padStart(7)} ${'extern'.padStart(7)} ${'arrBuf'.padStart(7)} ${'GC ms'.padStart(7)} ${'minor'.padStart(6)} ${'major'.padStart(6)} samples`
+            : ''),
+      );
+      for (const p of phases) {
+        const inPhase = samples.filter((s) => s.t >= p.from && s.t <= p.to && !s.gc);
+        const afterGc = samples.find((s) => s.gc && s.t >= p.to);
+        const top = (k: Figure) => (inPhase.length ? Math.max(...inPhase.map((s) => s[k])) : undefined);
+        // Time in garbage collection during the phase: the running total at its end less at its start.
+        const at = (t: number, k: Figure) => samples.filter((s) => s.t <= t).at(-1)?.[k] ?? 0;
+        const during = (k: Figure, width: number) => (at(p.to, k) - at(p.from, k)).toFixed(0).padStart(width);
+        const gcMs = `${during('gcMs', 7)} ${during('minorGcs', 6)} ${during('majorGcs', 6)}`;
+        console.log(
+          `  ${p.name.padEnd(40)} ${mb(p.rss)} ${mb(p.hwm)}` +
+            (traced
+              ? ` ${mb(top('rss'))} ${mb(top('heapTotal'))} ${mb(top('heapUsed'))} ${mb(top('newSpace'))} ${mb(top('external'))} ${mb(top('arrayBuffers'))} ${gcMs} ${String(inPhase.length).padStart(7)}` +
+                (afterGc
+                  ? ` kept after full GC: heapUsed ${mb(afterGc.heapUsed).trim()}, arrBuf ${mb(afterGc.arrayBuffers).trim()}`
+                  : '')
+              : ''),
+        );
+      }
+      if (traced) console.log(`  (samples in ${traceFile}; young = V8's new space, both semi-spaces)`);
+    },
+  };
 }
 
 /** Reads a response to the end, counting bytes and holding none. */

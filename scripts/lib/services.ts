@@ -1,3 +1,4 @@
+import { API_NODE_FLAGS } from './api-node-flags';
 import { Cluster } from './postgres';
 import { httpOk, log, waitFor } from './proc';
 import { supervise, type Supervised } from './supervisor';
@@ -116,7 +117,7 @@ export function apiService(
   return {
     name: 'api',
     start: async () => {
-      const args = opts.bundle ? ['--enable-source-maps', opts.bundle] : ['--import', 'tsx', 'apps/server/src/main.ts'];
+      const args = opts.bundle ? [...API_NODE_FLAGS, opts.bundle] : ['--import', 'tsx', 'apps/server/src/main.ts'];
       child = supervise({
         name: 'api',
         args: [...EXIT_WITH_PARENT, ...args],

@@ -7,6 +7,7 @@ import { closeSync, openSync, readdirSync, readFileSync, readlinkSync } from 'no
 import type { Knex } from 'knex';
 import { Cluster } from '../../lib/postgres';
 import { databaseStep, freePort, postgresService, startAll, type Service } from '../../lib/services';
+import { API_NODE_FLAGS } from '../../lib/api-node-flags';
 import { httpOk, log, run, stopChild, waitFor } from '../../lib/proc';
 import { createDb } from '../../../apps/server/src/db/db';
 
@@ -82,7 +83,8 @@ export function benchBundledApi(spec: BundledApiBench, measure: (ctx: BenchConte
       stopApi = await startAll([
         nodeService(
           'api',
-          [...(spec.apiFlags ?? []), '--enable-source-maps', 'dist/server/main.js'],
+          // The production flags first: a bench's own (an investigation's) come later and win.
+          [...API_NODE_FLAGS, ...(spec.apiFlags ?? []), 'dist/server/main.js'],
           {
             ...spec.apiEnv(ctx),
             HOST: '127.0.0.1',

@@ -111,7 +111,7 @@ export async function registerCsv(db: Db, projectId: string, f: ExportFilters) {
 
 export async function registerPdf(db: Db, projectId: string, f: ExportFilters) {
   const { project, lines } = await registerLines(db, projectId, f);
-  const doc = newDocument({ Title: `${project.reference} drawing register` }, 'landscape');
+  const doc = await newDocument({ Title: `${project.reference} drawing register` }, 'landscape');
   doc.font('heading').fontSize(16).fillColor(INK).text('Drawing register');
   doc.font('body').fontSize(10).fillColor(MUTED).text(`${project.reference} · ${project.name}`);
   const filtered = [f.q && `search "${f.q}"`, f.stageKey && STAGE_TITLES[f.stageKey], f.state, f.suitability]

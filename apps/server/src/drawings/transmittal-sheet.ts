@@ -16,7 +16,7 @@ export interface SheetData {
 
 /** The transmittal sheet: who got which revisions, when and why. Returned whole (a page or two). */
 export async function transmittalSheet(d: SheetData): Promise<Buffer> {
-  const doc = newDocument({ Title: `Transmittal ${d.reference}`, Subject: d.projectName });
+  const doc = await newDocument({ Title: `Transmittal ${d.reference}`, Subject: d.projectName });
   doc.font('heading').fontSize(TYPE.caption).fillColor(ACCENT).text(d.firmName.toUpperCase(), { characterSpacing: 1 });
   doc.moveDown(0.3);
   doc.font('heading').fontSize(TYPE.h1).fillColor(INK).text(`Transmittal ${d.reference}`);

@@ -1,6 +1,6 @@
 import { readFileSync } from 'node:fs';
-import PDFDocument from 'pdfkit';
 import { STAGE_TITLES, type StageKey } from '@trabeate/contracts';
+import { loadPdfKit } from '../drawings/pdf';
 import { PRINT_COLOURS, PRINT_FONTS, PRINT_TYPE as TYPE, printDay } from '../look/print-look';
 import { formatMoney } from './money';
 
@@ -50,6 +50,7 @@ export function longDate(iso: string): string {
 
 export async function renderInvoicePdf(s: InvoiceSheet): Promise<Buffer> {
   const f = loadFonts();
+  const PDFDocument = await loadPdfKit();
   const doc = new PDFDocument({
     size: 'A4',
     margin: 56,

@@ -613,7 +613,7 @@ export async function calculationReport(
   d: ReportInput,
   progress: (done: number, total: number) => Promise<void> = async () => undefined,
 ): Promise<{ pdf: Buffer; pages: number }> {
-  const doc = newDocument({ Title: `Calculation report: ${d.schemeName} v${d.version}`, Subject: d.projectName });
+  const doc = await newDocument({ Title: `Calculation report: ${d.schemeName} v${d.version}`, Subject: d.projectName });
   // room for the caution above the body on every page
   doc.page.margins.top = 70;
   doc.on('pageAdded', () => {

@@ -1,5 +1,4 @@
-import { ACCENT, INK, MUTED, FONTS, printableText } from '../drawings/pdf';
-import PDFDocument from 'pdfkit';
+import { ACCENT, INK, MUTED, FONTS, loadPdfKit, printableText } from '../drawings/pdf';
 import type { PlanSheet, Primitive, Tone } from './plan-sheet';
 
 // The two renderings of one plan sheet geometry (plan-sheet.ts): SVG for the screen, PDF for the
@@ -41,7 +40,8 @@ export function sheetSvg(sheet: PlanSheet, title: string): string {
 }
 
 /** The sheet as a one-page PDF at true scale, with the fonts the other PDFs ship. */
-export function sheetPdf(sheet: PlanSheet, info: { Title: string; Subject: string }): Promise<Buffer> {
+export async function sheetPdf(sheet: PlanSheet, info: { Title: string; Subject: string }): Promise<Buffer> {
+  const PDFDocument = await loadPdfKit();
   const doc = new PDFDocument({
     size: [sheet.widthMm * PT_PER_MM, sheet.heightMm * PT_PER_MM],
     margin: 0,
