@@ -1,5 +1,5 @@
 // npm run bench:api: the bundled API with production settings, under autocannon (100 connections),
-// beside a bare Express route measured in the same run. A firm with 500 more projects and their
+// beside a bare Express route measured in the same run (before and after the API, averaged). A firm with 500 more projects and their
 // stages; a principal's session written as the session store keeps it, so every request goes
 // through the real middleware (logging, security headers, session, caller, access guard, CSRF
 // where used). Prints requests/s, p50, p99 and the ratio to bare Express; targets: /api/me >= 50 %,
@@ -65,10 +65,10 @@ benchBundledApi(
     fastDatabase: false,
     extraPorts: ['bare'],
     // BENCH_PROFILE=1 writes a CPU profile of the API (open it in Chrome's DevTools) to tmp/.
-    // BENCH_NODE_FLAGS adds V8/Node flags to the API process (to try a setting before production takes it).
+    // BENCH_API_FLAGS adds V8/Node flags to the API process (to try a setting before production takes it).
     apiFlags: [
       ...(process.env.BENCH_PROFILE ? ['--cpu-prof', '--cpu-prof-dir=tmp/bench-profiles'] : []),
-      ...(process.env.BENCH_NODE_FLAGS?.split(' ').filter(Boolean) ?? []),
+      ...(process.env.BENCH_API_FLAGS?.split(' ').filter(Boolean) ?? []),
     ],
     apiEnv: (ctx) => ({
       NODE_ENV: 'production',
@@ -131,9 +131,10 @@ benchBundledApi(
       await new Promise((r) => setTimeout(r, 2000));
       const writesBefore = await sessionWrites(db);
       const api = { server: listenerPid(ctx.ports.api), postgres: listenerPid(ctx.ports.postgres) };
-      const reference = await measure(`http://127.0.0.1:${ctx.ports.bare}/bare`, {
-        server: listenerPid(ctx.ports.bare),
-      });
+      // Bare Express is measured before and after the API's routes and the two are averaged, so a
+      // change in other work on the machine during the run weighs on both sides of each ratio.
+      const bare = { url: `http://127.0.0.1:${ctx.ports.bare}/bare`, pid: listenerPid(ctx.ports.bare) };
+      const bareBefore = await measure(bare.url, { server: bare.pid });
       const results: Array<[string, Figures, number | null]> = [];
       // BENCH_ONLY=me (a part of a target's name) measures only the targets named, e.g. for a profile.
       const only = process.env.BENCH_ONLY;
@@ -141,6 +142,8 @@ benchBundledApi(
         if (only && !name.includes(only)) continue;
         results.push([name, await measure(url, api, cookie), target]);
       }
+      const bareAfter = await measure(bare.url, { server: bare.pid });
+      const reference = meanOf(bareBefore, bareAfter);
       await new Promise((r) => setTimeout(r, 1500)); // PostgreSQL publishes table statistics about once a second
       const sessionRowWrites = (await sessionWrites(db)) - writesBefore;
 
@@ -154,7 +157,10 @@ benchBundledApi(
         console.log(
           `  ${name.padEnd(48)} ${f.rps.toFixed(0).padStart(6)} req/s  p50 ${String(f.p50).padStart(4)} ms  p99 ${String(f.p99).padStart(4)} ms  ${ratio}${f.non2xx || f.errors ? `  (${f.non2xx} non-2xx, ${f.errors} errors)` : ''}`,
         );
-      row('bare Express route', reference, '');
+      row('bare Express route (mean of before and after)', reference, '');
+      console.log(
+        `    bare before ${bareBefore.rps.toFixed(0)} req/s, after ${bareAfter.rps.toFixed(0)} req/s (the spread is the machine's)`,
+      );
       let ok = reference.non2xx === 0;
       for (const [name, f, target] of results) {
         const ratio = f.rps / reference.rps;
@@ -188,6 +194,20 @@ benchBundledApi(
     }
   },
 );
+
+/** The mean of two measurements of the same route. */
+function meanOf(a: Figures, b: Figures): Figures {
+  const mean = (x: number, y: number) => (x + y) / 2;
+  return {
+    rps: mean(a.rps, b.rps),
+    p50: mean(a.p50, b.p50),
+    p99: mean(a.p99, b.p99),
+    non2xx: a.non2xx + b.non2xx,
+    errors: a.errors + b.errors,
+    cpuMs: mean(a.cpuMs, b.cpuMs),
+    dbCpuMs: mean(a.dbCpuMs, b.dbCpuMs),
+  };
+}
 
 /** Inserts and updates of the session table so far, from PostgreSQL's table statistics. */
 async function sessionWrites(db: ReturnType<typeof createDb>): Promise<number> {

@@ -195,9 +195,20 @@ export function sessionMiddleware(db: Db, s: SessionSettings): RequestHandler {
     },
   };
   const refresh = refreshIdleExpiry(s.idleMinutes, s.touchSeconds);
+  // Cookie values whose signature was checked: a session's every request sends the same one.
+  const verified = new Map<string, string>();
+  const sessionIdOf = (value: string): string | undefined => {
+    const known = verified.get(value);
+    if (known !== undefined) return known;
+    const sid = unsignSessionId(value, s.secrets);
+    if (sid === undefined) return undefined;
+    if (verified.size >= 10_000) verified.clear();
+    verified.set(value, sid);
+    return sid;
+  };
   return (req, res, next) => {
     const value = sessionCookieValue(req.headers.cookie);
-    const sid = value === undefined ? undefined : unsignSessionId(value, s.secrets);
+    const sid = value === undefined ? undefined : sessionIdOf(value);
     if (sid === undefined) {
       req.session = new RequestSession(runtime, res, undefined, undefined);
       return next();
