@@ -249,20 +249,13 @@ export function refreshIdleExpiry(idleMinutes: number, touchSeconds: number): Re
  * invited gets access as soon as the invitation exists.
  */
 export function loadCaller(db: Db, absoluteHours: number): RequestHandler {
-  return async (req, _res, next) => {
-    const auth = req.session?.auth;
-    if (!auth) {
-      if (hasSessionCookie(req.headers.cookie)) {
-        req.sessionProblem = 'expired';
-        req.log?.info('session cookie matched no live session (expired, signed out or tampered)');
-      }
-      return next();
-    }
+  /** What needs the database: ending a session past its limit, a person to read or to bind. */
+  const slow = async (req: Parameters<RequestHandler>[0], auth: SessionAuth): Promise<void> => {
     if (Date.now() - auth.signedInAt > absoluteHours * 3_600_000) {
       req.log?.info({ userId: auth.userId }, 'session reached its absolute limit');
       await req.session.destroy();
       req.sessionProblem = 'expired';
-      return next();
+      return;
     }
     // Normally read with the session itself (sessionMiddleware); null there means no active person.
     const preloaded = req.preloadedCaller;
@@ -282,7 +275,23 @@ export function loadCaller(db: Db, absoluteHours: number): RequestHandler {
       }
     }
     if (user) req.caller = toCaller(user);
-    next();
+  };
+  // Synchronous for the usual request: a live session whose person came with it.
+  return (req, _res, next) => {
+    const auth = req.session?.auth;
+    if (!auth) {
+      if (hasSessionCookie(req.headers.cookie)) {
+        req.sessionProblem = 'expired';
+        req.log?.info('session cookie matched no live session (expired, signed out or tampered)');
+      }
+      return next();
+    }
+    const preloaded = req.preloadedCaller;
+    if (auth.userId && preloaded !== undefined && Date.now() - auth.signedInAt <= absoluteHours * 3_600_000) {
+      if (preloaded) req.caller = toCaller(preloaded);
+      return next();
+    }
+    slow(req, auth).then(() => next(), next);
   };
 }
 
