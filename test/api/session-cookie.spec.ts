@@ -1,5 +1,6 @@
 import { createHmac } from 'node:crypto';
 import { unsignSessionId } from '../../apps/server/src/auth/session';
+import { cookieValue } from '../../apps/server/src/core/cookies';
 
 // The cookie value is `s:<id>.<signature>`, the signature an HMAC-SHA256 of the id in base64
 // without padding (the form express-session's cookies have always had, so sessions made before
@@ -23,5 +24,16 @@ describe('session cookie signatures', () => {
     expect(unsignSessionId(`${good}A`, ['current'])).toBeUndefined();
     for (const bad of ['', 's:', 's:.', sid, `x:${sid}.abc`, good.slice(2)])
       expect(unsignSessionId(bad, ['current'])).toBeUndefined();
+  });
+
+  it('finds one cookie in a Cookie header as a browser sends it (RFC 6265 §5.4: "name=value; name=value")', () => {
+    const header = 'x-trabeate.sid=other; trabeate.sid=s%3Aabc.def; XSRF-TOKEN=t%2Bk; empty=';
+    expect(cookieValue(header, 'trabeate.sid')).toBe('s:abc.def');
+    expect(cookieValue(header, 'XSRF-TOKEN')).toBe('t+k');
+    expect(cookieValue('trabeate.sid=first; trabeate.sid=second', 'trabeate.sid')).toBe('first');
+    expect(cookieValue(header, 'missing')).toBeUndefined();
+    expect(cookieValue('x-trabeate.sid=other', 'trabeate.sid')).toBeUndefined();
+    expect(cookieValue('trabeate.sid=%E0%A4%A', 'trabeate.sid')).toBeUndefined();
+    expect(cookieValue(undefined, 'trabeate.sid')).toBeUndefined();
   });
 });

@@ -14,6 +14,7 @@ import { outboxUrlOf, type AuthConfig, type Config, type PaymentsConfig } from '
 import { apiNotFound, errorHandler } from './core/errors';
 import type { ChangeFeed } from './core/change-feed';
 import { ReplyCache } from './core/reply-cache';
+import { cookieValue } from './core/cookies';
 import { requestLog } from './core/request-log';
 import { securityHeaders } from './core/security-headers';
 import type { Logger } from './core/logger';
@@ -128,8 +129,8 @@ export function createApp({ config, db, logger, version = '0.1.0', store, jobs, 
    */
   const validCsrfCookies = new Set<string>();
   const csrfCookieValid = (req: Request): boolean => {
-    const current = req.cookies?.[CSRF_COOKIE] as unknown;
-    if (typeof current !== 'string' || !current) return false;
+    const current = cookieValue(req.headers.cookie, CSRF_COOKIE);
+    if (!current) return false;
     const pair = `${req.session.id} ${current}`;
     if (validCsrfCookies.has(pair)) return true;
     // The library checks a cookie against the header; here the cookie is checked against itself.

@@ -1,5 +1,6 @@
 import { createHmac, randomBytes, timingSafeEqual } from 'node:crypto';
 import type { RequestHandler, Response } from 'express';
+import { cookieValue } from '../core/cookies';
 import type { Db } from '../db/db';
 import type { Caller } from '../access/policy';
 import type { PendingSignIn, SessionAuth } from '../access/request';
@@ -136,19 +137,7 @@ export function unsignSessionId(value: string, secrets: string[]): string | unde
 
 /** The raw value of the session cookie in a Cookie header, if there is one. */
 function sessionCookieValue(header: string | undefined): string | undefined {
-  if (!header) return undefined;
-  let at = header.indexOf(`${SESSION_COOKIE}=`);
-  // Only at the start of a cookie pair ("x-trabeate.sid=" is another cookie).
-  while (at > 0 && header[at - 1] !== ' ' && header[at - 1] !== ';') at = header.indexOf(`${SESSION_COOKIE}=`, at + 1);
-  if (at < 0) return undefined;
-  const start = at + SESSION_COOKIE.length + 1;
-  const end = header.indexOf(';', start);
-  const raw = header.slice(start, end < 0 ? undefined : end).trim();
-  try {
-    return decodeURIComponent(raw);
-  } catch {
-    return undefined;
-  }
+  return cookieValue(header, SESSION_COOKIE);
 }
 
 /**
