@@ -219,7 +219,8 @@ export function authRoutes(d: AuthRouteDeps): RouteDecl[] {
           expiresAt: new Date(auth.signedInAt + d.absoluteHours * 3_600_000).toISOString(),
         },
       };
-      res.json(body);
+      // Asked on every page load and never stored (no-store), so no ETag is worked out for it.
+      res.type('json').end(JSON.stringify(body));
     }),
   ];
 }
