@@ -5,7 +5,7 @@ import type { Page } from 'playwright-core';
 import { DEMO } from '../../seeds/demo-data';
 import { DEMO_DRAWINGS } from '../../seeds/demo-drawings';
 import { DEMO_PASSWORD } from '../../seeds/identity';
-import { openBrowser, SCREENSHOTS } from '../support/browser';
+import { openBrowser, pageApi as api, SCREENSHOTS } from '../support/browser';
 import { testEnv } from '../support/env';
 
 // Launching Chromium and signing in share the machine with other runs: the setup gets a wider

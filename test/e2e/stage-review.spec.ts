@@ -3,7 +3,7 @@ import type { Locator, Page } from 'playwright-core';
 import { DEMO } from '../../seeds/demo-data';
 import { DEMO_SCHEMES } from '../../seeds/demo-schemes';
 import { DEMO_PASSWORD } from '../../seeds/identity';
-import { openBrowser, SCREENSHOTS } from '../support/browser';
+import { openBrowser, pageApi as api, SCREENSHOTS } from '../support/browser';
 import { testEnv } from '../support/env';
 
 // From check to invoice, as two people in two browsers: the engineer submits Column layout with a
@@ -37,22 +37,6 @@ describe('stage review from checks to the offered invoice, in Chromium', () => {
     await page.fill('input#password', DEMO_PASSWORD);
     await page.getByRole('button', { name: 'Sign in' }).click();
     await testId(page, 'user-name').filter({ hasText: user.name }).waitFor({ timeout: 20_000 });
-  }
-
-  /** One API call from the signed-in page, with the CSRF header the app sends. */
-  async function api(page: Page, method: string, url: string, body?: unknown): Promise<{ status: number; body: any }> {
-    return page.evaluate(
-      async ([m, u, b]) => {
-        const xsrf = decodeURIComponent(/(?:^|; )XSRF-TOKEN=([^;]+)/.exec(document.cookie)?.[1] ?? '');
-        const res = await fetch(u as string, {
-          method: m as string,
-          headers: { 'Content-Type': 'application/json', 'X-XSRF-TOKEN': xsrf },
-          body: b === undefined ? undefined : JSON.stringify(b),
-        });
-        return { status: res.status, body: res.status === 204 ? null : await res.json() };
-      },
-      [method, url, body] as const,
-    );
   }
 
   const stageState = (page: Page) => testId(page, 'stage-panel').locator('[data-testid="stage-state"]');

@@ -60,3 +60,27 @@ export async function openBrowser(options: { bypassCSP?: boolean } = {}): Promis
     },
   };
 }
+
+/**
+ * One API call from a signed-in page, with the CSRF header the app sends (for a test's set-up:
+ * what the person does is done through the page).
+ */
+export function pageApi(
+  page: Page,
+  method: string,
+  url: string,
+  body?: unknown,
+): Promise<{ status: number; body: any }> {
+  return page.evaluate(
+    async ([m, u, b]) => {
+      const xsrf = decodeURIComponent(/(?:^|; )XSRF-TOKEN=([^;]+)/.exec(document.cookie)?.[1] ?? '');
+      const res = await fetch(u as string, {
+        method: m as string,
+        headers: { 'Content-Type': 'application/json', 'X-XSRF-TOKEN': xsrf },
+        body: b === undefined ? undefined : JSON.stringify(b),
+      });
+      return { status: res.status, body: res.status === 204 ? null : await res.json() };
+    },
+    [method, url, body] as const,
+  );
+}
