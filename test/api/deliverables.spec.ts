@@ -142,6 +142,9 @@ describe('deliverables: streamed uploads to S3, versions, and downloads by role'
     expect(download.headers['content-disposition']).toBe(
       `attachment; filename="_CON.fdp.pdf"; filename*=UTF-8''_CON.fdp.pdf`,
     );
+    // A file is not a JSON reply: it carries helmet's full set, the page policy included.
+    expect(download.headers['content-security-policy']).toContain("default-src 'self'");
+    expect(download.headers['x-frame-options']).toBe('SAMEORIGIN');
     const accented = await uploadTo(tomas, 'beam_framing', tinyPdf(), 'Béton armé.pdf');
     expect(accented.body.fileName).toBe('Béton armé.pdf');
   });

@@ -6,7 +6,7 @@ import request from 'supertest';
 import { healthSchema, type Health } from '@trabeate/contracts';
 import { createApp, type AppDeps } from '../../apps/server/src/app';
 import { createLogger } from '../../apps/server/src/core/logger';
-import { HELMET_OPTIONS } from '../../apps/server/src/core/security-headers';
+import { HELMET_OPTIONS, JSON_REPLY_HEADERS, securityHeaders } from '../../apps/server/src/core/security-headers';
 import { createDb } from '../../apps/server/src/db/db';
 import { createObjectStore } from '../../apps/server/src/storage';
 import { FAKE_S3_CREDENTIALS } from '../../scripts/fakes/s3';
@@ -278,31 +278,77 @@ describe('GET /api/health', () => {
     expect(hostile.headers['x-request-id']).not.toBe('<script>');
   });
 
-  it('sends the same security headers as helmet itself does with our settings', async () => {
+  const securityHeaderNames = (res: request.Response) =>
+    Object.keys(res.headers)
+      .filter(
+        (h) =>
+          ![
+            'content-type',
+            'content-length',
+            'etag',
+            'date',
+            'connection',
+            'keep-alive',
+            'cache-control',
+            'x-request-id',
+          ].includes(h),
+      )
+      .sort();
+
+  it('answers JSON with the API set of security headers (OWASP REST Security Cheat Sheet, "Security Headers")', async () => {
+    const actual = await request(t.app).get('/api/health');
+    expect(securityHeaderNames(actual)).toEqual(JSON_REPLY_HEADERS.map(([h]) => h.toLowerCase()).sort());
+    // Each of the cheat sheet's headers for every API response, with the values it gives.
+    expect(actual.headers['content-security-policy']).toContain("frame-ancestors 'none'");
+    expect(actual.headers['x-content-type-options']).toBe('nosniff');
+    expect(actual.headers['x-frame-options']).toBe('DENY');
+    expect(actual.headers['strict-transport-security']).toMatch(/^max-age=\d+/);
+    expect(actual.headers['content-type']).toMatch(/^application\/json/);
+    // An error reply is JSON too.
+    const missing = await request(t.app).get('/api/no-such-route');
+    expect(missing.status).toBe(404);
+    expect(securityHeaderNames(missing)).toEqual(securityHeaderNames(actual));
+  });
+
+  it('sends anything that is not JSON (pages, files, empty replies) with exactly the headers helmet itself sets', async () => {
+    const routes = (app: express.Express) => {
+      app.get('/page', (_req, res) => void res.type('html').send('<p>page</p>'));
+      app.get('/file', (_req, res) => {
+        res.setHeader('Content-Type', 'application/pdf');
+        res.write('%PDF-1.7 ');
+        res.end('%%EOF');
+      });
+      app.get('/empty', (_req, res) => void res.status(204).end());
+      app.get('/json', (_req, res) => void res.json({ ok: true }));
+    };
     const reference = express();
     reference.disable('x-powered-by');
     reference.use(helmet(HELMET_OPTIONS));
-    reference.get('/api/health', (_req, res) => void res.json({}));
-    const securityHeaderNames = (res: request.Response) =>
-      Object.keys(res.headers)
-        .filter(
-          (h) =>
-            !['content-type', 'content-length', 'etag', 'date', 'connection', 'cache-control', 'x-request-id'].includes(
-              h,
-            ),
-        )
-        .sort();
-    const expected = await request(reference).get('/api/health');
-    const actual = await request(t.app).get('/api/health');
-    const names = securityHeaderNames(expected);
-    expect(names.length).toBeGreaterThan(8);
-    expect(securityHeaderNames(actual)).toEqual(names);
-    for (const h of names) expect({ h, value: actual.headers[h] }).toEqual({ h, value: expected.headers[h] });
+    routes(reference);
+    const ours = express();
+    ours.disable('x-powered-by');
+    ours.use(securityHeaders(ours));
+    routes(ours);
+    for (const path of ['/page', '/file', '/empty']) {
+      const expected = await request(reference).get(path);
+      const actual = await request(ours).get(path);
+      const names = securityHeaderNames(expected);
+      expect(names.length).toBeGreaterThan(8);
+      expect({ path, names: securityHeaderNames(actual) }).toEqual({ path, names });
+      for (const h of names)
+        expect({ path, h, value: actual.headers[h] }).toEqual({ path, h, value: expected.headers[h] });
+    }
+    const json = await request(ours).get('/json');
+    expect(securityHeaderNames(json)).toEqual(JSON_REPLY_HEADERS.map(([h]) => h.toLowerCase()).sort());
+    // The prototype hook belongs to that app alone.
+    const other = express();
+    other.get('/page', (_req, res) => void res.type('html').send('<p>page</p>'));
+    expect((await request(other).get('/page')).headers['content-security-policy']).toBeUndefined();
   });
 
   it('sends security headers and hides the framework', async () => {
     const res = await request(t.app).get('/api/health');
-    expect(res.headers['content-security-policy']).toContain("default-src 'self'");
+    expect(res.headers['content-security-policy']).toContain("default-src 'none'");
     expect(res.headers['x-content-type-options']).toBe('nosniff');
     expect(res.headers['x-powered-by']).toBeUndefined();
   });

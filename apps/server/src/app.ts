@@ -101,7 +101,7 @@ export function createApp({ config, db, logger, version = '0.1.0', store, jobs, 
   if (config.TRUST_PROXY) app.set('trust proxy', 1);
 
   app.use(requestLog(logger, { slowReadMs: config.LOG_SLOW_READ_MS ?? 500 }));
-  app.use(securityHeaders());
+  app.use(securityHeaders(app));
 
   const publicUrl = (config.PUBLIC_URL ?? 'http://127.0.0.1:4310').replace(/\/$/, '');
   const secureCookies = publicUrl.startsWith('https:');

@@ -301,8 +301,7 @@ export interface UserRow {
 }
 
 export function toCaller(u: UserRow): Caller {
-  return {
-    ...(u.firm_name === undefined ? {} : { firmName: u.firm_name, clientOrganisationName: u.org_name ?? null }),
+  const caller: Caller = {
     userId: u.id,
     firmId: u.firm_id,
     email: u.email,
@@ -310,6 +309,12 @@ export function toCaller(u: UserRow): Caller {
     role: u.firm_role ?? 'client',
     clientOrganisationId: u.client_organisation_id,
   };
+  // Made on every signed-in request: no spread of a throwaway object.
+  if (u.firm_name !== undefined) {
+    caller.firmName = u.firm_name;
+    caller.clientOrganisationName = u.org_name ?? null;
+  }
+  return caller;
 }
 
 /** Ends every session of a person (access removed or role changed). */

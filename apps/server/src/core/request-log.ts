@@ -37,9 +37,9 @@ export function requestLog(logger: Logger, { slowReadMs }: RequestLogOptions): R
       enumerable: false,
       get: () => (child ??= logger.child({ req: line })),
     });
-    const done = () => {
-      res.off('finish', done);
-      res.off('close', done);
+    // 'close' follows 'finish' on every response Node sends, and comes alone when the client went
+    // away first (writableFinished tells which): one listener for both.
+    res.once('close', () => {
       const responseTime = Math.round(performance.now() - started);
       const status = res.statusCode;
       const level =
@@ -57,9 +57,7 @@ export function requestLog(logger: Logger, { slowReadMs }: RequestLogOptions): R
         { req: line, res: { statusCode: status }, responseTime },
         res.writableFinished ? 'request completed' : 'request aborted before the answer was sent',
       );
-    };
-    res.on('finish', done);
-    res.on('close', done);
+    });
     next();
   };
 }
