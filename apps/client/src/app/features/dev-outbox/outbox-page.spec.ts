@@ -77,6 +77,31 @@ describe('OutboxPage', () => {
     expect(el().querySelector('[data-testid="outbox-text"]')?.textContent).toBe('Plain notice 1');
   });
 
+  it('keeps the chosen message open through a refresh that brings newer mail, while it is still listed', async () => {
+    const first = [message(1, '2026-03-02T08:00:00.000Z'), message(2, '2026-03-02T09:30:00.000Z')];
+    reply(backend.expectOne(outboxRequest), outboxPageSchema, pageOf(first));
+    await settle();
+    (el().querySelectorAll('[data-testid="outbox-item"]')[1] as HTMLButtonElement).click();
+    await settle();
+    expect(el().querySelector('[data-testid="outbox-text"]')?.textContent).toBe('Plain notice 1');
+    (el().querySelector('[data-testid="outbox-refresh"]') as HTMLButtonElement).click();
+    TestBed.tick();
+    reply(
+      backend.expectOne(outboxRequest),
+      outboxPageSchema,
+      pageOf([...first, message(3, '2026-03-02T10:00:00.000Z')]),
+    );
+    await settle();
+    expect(el().querySelectorAll('[data-testid="outbox-item"]')).toHaveLength(3);
+    expect(el().querySelector('[data-testid="outbox-text"]')?.textContent).toBe('Plain notice 1');
+    // Once the chosen message has left the page, the newest opens.
+    (el().querySelector('[data-testid="outbox-refresh"]') as HTMLButtonElement).click();
+    TestBed.tick();
+    reply(backend.expectOne(outboxRequest), outboxPageSchema, pageOf([message(3, '2026-03-02T10:00:00.000Z')]));
+    await settle();
+    expect(el().querySelector('[data-testid="outbox-text"]')?.textContent).toBe('Plain notice 3');
+  });
+
   it('shows only the text when a message has no HTML part', async () => {
     reply(backend.expectOne(outboxRequest), outboxPageSchema, pageOf([message(1, '2026-03-02T08:00:00.000Z', null)]));
     await settle();

@@ -230,8 +230,15 @@ export class OutboxPage {
   protected readonly sorted = computed(() =>
     [...(this.shown()?.items ?? [])].sort((a, b) => b.receivedAt.localeCompare(a.receivedAt)),
   );
-  /** The newest message is open until another is chosen. */
-  protected readonly selectedId = linkedSignal(() => this.sorted()[0]?.id ?? null);
+  /**
+   * The newest message is open until another is chosen; a chosen message stays open through a
+   * refresh while it is still on the page (a refresh used to snap back to the newest).
+   */
+  protected readonly selectedId = linkedSignal<OutboxList['items'], string | null>({
+    source: this.sorted,
+    computation: (items, previous) =>
+      previous?.value && items.some((m) => m.id === previous.value) ? previous.value : (items[0]?.id ?? null),
+  });
   protected readonly selected = computed(() => this.sorted().find((m) => m.id === this.selectedId()));
   /**
    * Angular's sanitizer would strip the message's own styles; the sandbox and the policy in
