@@ -89,6 +89,7 @@ describe('sign-in faults: each gets a clear answer, a log line and no crash', ()
       .db('sessions')
       .whereRaw(`(sess::jsonb -> 'auth') ->> 'userId' = ?`, [DEMO.users.engineerA.id])
       .update({ expire: new Date(Date.now() - 1000) });
+    await t.settled();
     const res = await api.get('/api/me');
     expect(res.status).toBe(401);
     expect(res.body.error).toMatchObject({
@@ -111,6 +112,7 @@ describe('sign-in faults: each gets a clear answer, a log line and no crash', ()
       .db('sessions')
       .where({ sid: rows[0].sid })
       .update({ sess: JSON.stringify(sess) });
+    await t.settled();
     const res = await api.get('/api/projects');
     expect(res.status).toBe(401);
     expect(res.body.error.code).toBe('session_expired');
@@ -133,11 +135,12 @@ describe('sign-in faults: each gets a clear answer, a log line and no crash', ()
     expect(genuine.status).toBe(200);
   });
 
-  it('refuses someone whose access was removed, at once', async () => {
+  it('refuses someone whose access was removed, as soon as the database says so (a change made elsewhere)', async () => {
     const api = request.agent(t.app);
     await signIn(api, t.identity!, DEMO.users.engineerB.email);
     expect((await api.get('/api/projects')).status).toBe(200);
     await t.db('users').where({ id: DEMO.users.engineerB.id }).update({ disabled_at: new Date() });
+    await t.settled();
     const res = await api.get('/api/projects');
     expect(res.status).toBe(403);
     expect(res.body.error.code).toBe('no_access');

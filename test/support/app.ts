@@ -25,8 +25,16 @@ export interface TestApp {
   jobs: Jobs;
   /** The change feed the app listens with (unless `changes: false`). */
   changes?: ChangeFeed;
+  /**
+   * Waits until the app's change feed has heard every notice of changes committed before the call,
+   * as another API process's change is seen: for a test that writes to the database directly and
+   * then asks the app (a notice of its own, sent after them, arrives after them).
+   */
+  settled: () => Promise<void>;
   close: () => Promise<void>;
 }
+
+let syncNotices = 0;
 
 /** Short waits for tests; production uses DEFAULT_MAIL_RETRY (minutes, doubling). */
 export const TEST_MAIL_RETRY: RetryPolicy = { retryLimit: 5, retryDelay: 1, retryBackoff: false };
@@ -101,6 +109,17 @@ export async function testApp(
     ...opts.config,
   };
   const app = createApp({ config, db, logger, store: files.store, jobs, changes });
+  const settled = async () => {
+    if (!changes?.live()) return;
+    const key = `sync:${process.pid}:${++syncNotices}`;
+    const before = changes.generation(key);
+    await db.raw(`select pg_notify('trabeate_changes', ?)`, [key]);
+    const end = Date.now() + 10_000;
+    while (changes.generation(key) === before) {
+      if (Date.now() > end) throw new Error('the change feed did not hear its own notice within 10 s');
+      await new Promise((r) => setTimeout(r, 1));
+    }
+  };
   return {
     app,
     db,
@@ -109,6 +128,7 @@ export async function testApp(
     store: files.store,
     jobs,
     changes,
+    settled,
     close,
   };
 }

@@ -10,6 +10,7 @@ import { authRoutes } from './auth/auth.routes';
 import { OidcClient } from './auth/oidc';
 import { signInRateLimit } from './auth/rate-limit';
 import { loadCaller, sessionMiddleware } from './auth/session';
+import { EVERY_SESSION_KEY, SessionCache } from './auth/session-cache';
 import { outboxUrlOf, type AuthConfig, type Config, type PaymentsConfig } from './core/config';
 import { apiNotFound, errorHandler } from './core/errors';
 import type { ChangeFeed } from './core/change-feed';
@@ -230,21 +231,27 @@ export function createApp({ config, db, logger, version = '0.1.0', store, jobs, 
   api.use(express.json({ limit: '1mb' }));
   api.use(lazyCookies(cookieParser()));
   api.use(
-    sessionMiddleware(db, {
-      secrets,
-      idleMinutes: config.SESSION_IDLE_MINUTES ?? 60,
-      touchSeconds: config.SESSION_TOUCH_SECONDS ?? 300,
-      absoluteHours,
-      secureCookies,
-    }),
+    sessionMiddleware(
+      db,
+      {
+        secrets,
+        idleMinutes: config.SESSION_IDLE_MINUTES ?? 60,
+        touchSeconds: config.SESSION_TOUCH_SECONDS ?? 300,
+        absoluteHours,
+        secureCookies,
+      },
+      changes && new SessionCache(changes, { maxEntries: 5000, maxAgeMs: 60_000 }),
+    ),
   );
   api.use(loadCaller(db, absoluteHours));
   if (changes) {
     // This process's own changes are known at once (the database's notice follows), so the next
-    // read of the person who made one already sees it.
+    // read of the person who made one already sees it: their firm's lists, and the kept sessions
+    // (a change request may have changed a person, a role or a name they carry).
     api.use((req, res, next) => {
       if (!SAFE_METHODS.has(req.method))
         res.once('finish', () => {
+          changes.changed(EVERY_SESSION_KEY);
           if (req.caller) changes.changed(req.caller.firmId);
         });
       next();

@@ -31,12 +31,14 @@ export async function loadCallerRow(db: Db, userId: string): Promise<CallerRow |
 export interface SessionWithCaller {
   sess: unknown;
   caller: CallerRow | null;
+  /** When the row ends unless pushed forward (ms since 1970). */
+  expiresAt: number;
 }
 
 /** The session rows with these ids (live ones only), each with the active person it names. */
 async function loadSessionsWithCallers(db: Db, sids: string[]): Promise<Map<string, SessionWithCaller>> {
   const { rows } = await db.raw(
-    `select s.sid, s.sess, to_jsonb(c) as caller
+    `select s.sid, s.sess, s.expire, to_jsonb(c) as caller
      from sessions s
      left join lateral (
        select u.id, u.firm_id, u.email, u.display_name, u.firm_role, u.client_organisation_id,
@@ -52,9 +54,9 @@ async function loadSessionsWithCallers(db: Db, sids: string[]): Promise<Map<stri
     sids,
   );
   return new Map(
-    (rows as Array<{ sid: string; sess: unknown; caller: CallerRow | null }>).map((r) => [
+    (rows as Array<{ sid: string; sess: unknown; expire: Date; caller: CallerRow | null }>).map((r) => [
       r.sid,
-      { sess: r.sess, caller: r.caller ?? null },
+      { sess: r.sess, caller: r.caller ?? null, expiresAt: r.expire.getTime() },
     ]),
   );
 }
@@ -74,10 +76,10 @@ export interface SessionLoader {
 /**
  * loadSessionWithCaller for a busy server: the lookups asked for while the event loop handles one
  * round of arriving requests go to PostgreSQL together, as one query by primary key, and while
- * `maxInFlight` such queries are running, new lookups wait for the next one. Every request still
- * reads its session and person from the database after it arrived (nothing is kept between
- * requests); what is shared is the round trip, which under load was the largest cost of a
- * signed-in read (one socket write and one PostgreSQL statement per request).
+ * `maxInFlight` such queries are running, new lookups wait for the next one. Each lookup reads
+ * the database after its request arrived; what is shared is the round trip, which under load was
+ * the largest cost of a signed-in read (one socket write and one PostgreSQL statement per
+ * request). Keeping rows between requests is SessionCache's job, and only with a live change feed.
  */
 export function sessionLoader(db: Db, { maxInFlight = 2, maxBatch = 200 } = {}): SessionLoader {
   type Waiter = { sid: string; resolve: (v: SessionWithCaller | undefined) => void; reject: (e: unknown) => void };

@@ -5,7 +5,8 @@ import type { Db } from '../db/db';
 import type { Caller } from '../access/policy';
 import type { PendingSignIn, SessionAuth } from '../access/request';
 import { bindAccount } from '../people/people.repository';
-import { loadCallerRow, sessionLoader } from './caller.repository';
+import { loadCallerRow, sessionLoader, type SessionWithCaller } from './caller.repository';
+import type { SessionCache } from './session-cache';
 
 export const SESSION_COOKIE = 'trabeate.sid';
 
@@ -145,15 +146,17 @@ function sessionCookieValue(header: string | undefined): string | undefined {
  * signed cookie. A read request writes nothing: the idle expiry moves forward only every
  * `touchSeconds` (see refreshIdleExpiry). The session row and the person it names are read in one
  * query, shared by the requests arriving together (see sessionLoader); the person goes on the
- * request for loadCaller.
+ * request for loadCaller. With a `cache` (a live change feed), a row read once is used again until
+ * PostgreSQL's notice says it or its person changed (SessionCache).
  */
-export function sessionMiddleware(db: Db, s: SessionSettings): RequestHandler {
+export function sessionMiddleware(db: Db, s: SessionSettings, cache?: SessionCache): RequestHandler {
   const sessions = sessionLoader(db);
   const idleMs = s.idleMinutes * 60_000;
   const runtime: SessionRuntime = {
     idleMs,
     idleExpiry: () => new Date(Date.now() + idleMs),
     write: async (sid, sess, expires) => {
+      cache?.forget(sid);
       await db.raw(
         `insert into sessions (sid, sess, expire) values (?, ?::json, ?)
          on conflict (sid) do update set sess = excluded.sess, expire = excluded.expire`,
@@ -161,6 +164,7 @@ export function sessionMiddleware(db: Db, s: SessionSettings): RequestHandler {
       );
     },
     remove: async (sid) => {
+      cache?.forget(sid);
       await db('sessions').where({ sid }).del();
     },
     sendCookie: (res, sid, expires) => {
@@ -195,6 +199,22 @@ export function sessionMiddleware(db: Db, s: SessionSettings): RequestHandler {
     verified.set(value, sid);
     return sid;
   };
+  const use = (
+    req: Parameters<RequestHandler>[0],
+    res: Response,
+    next: Parameters<RequestHandler>[2],
+    sid: string,
+    found: SessionWithCaller | undefined,
+  ) => {
+    if (!found) {
+      req.session = new RequestSession(runtime, res, undefined, undefined);
+      return next();
+    }
+    const stored = (typeof found.sess === 'string' ? JSON.parse(found.sess) : found.sess) as StoredSession;
+    req.session = new RequestSession(runtime, res, sid, stored);
+    req.preloadedCaller = found.caller;
+    refresh(req, res, next);
+  };
   return (req, res, next) => {
     const value = sessionCookieValue(req.headers.cookie);
     const sid = value === undefined ? undefined : sessionIdOf(value);
@@ -202,15 +222,13 @@ export function sessionMiddleware(db: Db, s: SessionSettings): RequestHandler {
       req.session = new RequestSession(runtime, res, undefined, undefined);
       return next();
     }
+    // A session kept since PostgreSQL last said it changed: no query, no promise.
+    const kept = cache?.get(sid);
+    if (kept) return use(req, res, next, sid, kept);
+    const started = cache?.start(sid);
     sessions.load(sid).then((found) => {
-      if (!found) {
-        req.session = new RequestSession(runtime, res, undefined, undefined);
-        return next();
-      }
-      const stored = (typeof found.sess === 'string' ? JSON.parse(found.sess) : found.sess) as StoredSession;
-      req.session = new RequestSession(runtime, res, sid, stored);
-      req.preloadedCaller = found.caller;
-      refresh(req, res, next);
+      if (found) cache?.keep(sid, started, found);
+      use(req, res, next, sid, found);
     }, next);
   };
 }

@@ -4,9 +4,10 @@ import type { Logger } from './logger';
 export const CHANGE_CHANNEL = 'trabeate_changes';
 
 /**
- * What this process knows of changes to each firm's lists: a number per firm that moves on every
- * change (`generation`), heard from PostgreSQL's notices (see the list_change_notices migration)
- * and from this process's own writes (`changed`, at once, before the notice arrives). A reply kept
+ * What this process knows of changes: a number per key that moves on every change (`generation`),
+ * heard from PostgreSQL's notices and from this process's own writes (`changed`, at once, before
+ * the notice arrives). Keys are firm ids for the firm's lists (the list_change_notices migration),
+ * and `session:<bucket>` or `sessions` for kept sessions (session_change_notices, SessionCache). A reply kept
  * with the number it was made under is current while the number has not moved. While the feed is
  * not listening (starting, connection lost), `live` is false and nothing may be served from a cache.
  */
