@@ -23,6 +23,7 @@ import { DayPipe } from '../../shared/dates/app-dates';
 import { toIsoDay } from '../../shared/dates/firm-date-adapter';
 import { formErrorFocus } from '../../shared/forms/form-error-focus';
 import { formatMinor, parseMajor } from './money';
+import { StackOnPhone } from '../../shared/stacked-table/stack-on-phone';
 
 /** A share typed as a percentage with up to two decimals ("12.5"), kept as basis points. */
 const toBp = (v: string): number | null => {
@@ -59,6 +60,7 @@ type SharesForm = FormGroup<Record<StageKey, FormControl<string>>>;
 @Component({
   selector: 'tb-fee-agreement-form',
   imports: [
+    StackOnPhone,
     DayPipe,
     ReactiveFormsModule,
     MatButton,

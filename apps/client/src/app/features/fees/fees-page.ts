@@ -42,6 +42,7 @@ import { InvoicePanel } from './invoice-panel';
 import { INVOICE_STATE_LABELS, InvoiceStateTag } from './invoice-state';
 import { ReceivablesChart } from './receivables-chart';
 import { formatMinor } from './money';
+import { StackOnPhone } from '../../shared/stacked-table/stack-on-phone';
 
 type SortKey = NonNullable<InvoiceListQuery['sort']>;
 type StateFilter = NonNullable<InvoiceListQuery['state']>;
@@ -56,6 +57,7 @@ const STATES: readonly StateFilter[] = ['draft', 'issued', 'part_paid', 'paid', 
 @Component({
   selector: 'tb-fees-page',
   imports: [
+    StackOnPhone,
     DayPipe,
     EmptyState,
     FeeAgreementForm,

@@ -16,6 +16,7 @@ import { DayPipe } from '../../shared/dates/app-dates';
 import { formErrorFocus } from '../../shared/forms/form-error-focus';
 import { fromIsoDay, toIsoDay } from '../../shared/dates/firm-date-adapter';
 import { formatMinor, parseMajor } from './money';
+import { StackOnPhone } from '../../shared/stacked-table/stack-on-phone';
 
 const LINE_KINDS: Array<{ value: Exclude<LineKind, 'credit'>; label: string }> = [
   { value: 'stage_fee', label: 'Stage fee' },
@@ -35,6 +36,7 @@ type LineForm = FormGroup<{
 @Component({
   selector: 'tb-invoice-panel',
   imports: [
+    StackOnPhone,
     DayPipe,
     ReactiveFormsModule,
     MatButton,

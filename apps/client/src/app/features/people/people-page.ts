@@ -29,6 +29,7 @@ import { Notice } from '../../core/notice';
 import { ConfirmDialog, type ConfirmData } from '../../shared/confirm-dialog/confirm-dialog';
 import { InviteDialog, type InviteDialogData } from './invite-dialog';
 import { DayPipe, DayTimePipe } from '../../shared/dates/app-dates';
+import { StackOnPhone } from '../../shared/stacked-table/stack-on-phone';
 
 /** The most projects the invite dialog offers (the API's largest page). */
 export const INVITE_PROJECT_PAGE = 100;
@@ -43,6 +44,7 @@ const STATUS_LABELS: Record<Person['status'], string> = {
 @Component({
   selector: 'tb-people-page',
   imports: [
+    StackOnPhone,
     DayPipe,
     DayTimePipe,
     MatButton,

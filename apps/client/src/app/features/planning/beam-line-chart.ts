@@ -1,5 +1,6 @@
 import { ChangeDetectionStrategy, Component, computed, input } from '@angular/core';
 import type { BeamLineDiagram } from '@trabeate/structural';
+import { StackOnPhone } from '../../shared/stacked-table/stack-on-phone';
 
 export type ChartKind = 'moment' | 'shear';
 
@@ -22,6 +23,7 @@ let nextId = 0;
  * support. A table of the same values follows for those who do not read the drawing.
  */
 @Component({
+  imports: [StackOnPhone],
   selector: 'tb-beam-line-chart',
   template: `
     @let g = geometry();
@@ -72,7 +74,7 @@ let nextId = 0;
     </figure>
     <details class="values">
       <summary>{{ kind() === 'moment' ? 'Moment' : 'Shear' }} values as a table</summary>
-      <table class="tb-dense-table" [attr.data-testid]="kind() + '-values'">
+      <table tbStackOnPhone class="tb-dense-table" [attr.data-testid]="kind() + '-values'">
         <thead>
           <tr>
             <th scope="col" class="tb-figure">Distance (m)</th>

@@ -28,6 +28,7 @@ import {
   workableForOverlap,
   type FootingChoice,
 } from './footing-options-model';
+import { StackOnPhone } from '../../shared/stacked-table/stack-on-phone';
 
 export const REASON_MAX = 2000;
 
@@ -42,6 +43,7 @@ const notBlank = (c: AbstractControl<string>) => (c.value.trim() ? null : { blan
 @Component({
   selector: 'tb-footing-options',
   imports: [
+    StackOnPhone,
     DecimalPipe,
     MatButton,
     MatError,

@@ -1,6 +1,7 @@
 import { ChangeDetectionStrategy, Component, computed, input, signal } from '@angular/core';
 import { DEFAULT_LOCALE } from '@trabeate/dates';
 import { StateMarker, type MarkerShape, type MarkerTone } from '../../shared/state-marker/state-marker';
+import { StackOnPhone } from '../../shared/stacked-table/stack-on-phone';
 
 /** One column of a schedule: the row key it shows, its heading, and whether it holds figures. */
 export interface ScheduleColumn {
@@ -21,9 +22,9 @@ export type ScheduleRow = Record<string, string | number | null>;
  */
 @Component({
   selector: 'tb-results-table',
-  imports: [StateMarker],
+  imports: [StackOnPhone, StateMarker],
   template: `
-    <table class="tb-dense-table schedule" [attr.aria-label]="caption()" [attr.data-testid]="testId()">
+    <table tbStackOnPhone class="tb-dense-table schedule" [attr.aria-label]="caption()" [attr.data-testid]="testId()">
       <thead>
         <tr>
           @for (c of columns(); track c.key) {

@@ -29,6 +29,7 @@ import { errorMessage } from '../../core/auth/api-error';
 import { Notice } from '../../core/notice';
 import { asYouType, fieldErrorText } from '../../shared/forms/field-errors';
 import { SchemesApi, schemesUrl } from './schemes-api';
+import { StackOnPhone } from '../../shared/stacked-table/stack-on-phone';
 
 type SortKey = NonNullable<SchemeListQuery['sort']>;
 type Status = NonNullable<SchemeListQuery['status']>;
@@ -41,6 +42,7 @@ const nameControl = (value = '') =>
 @Component({
   selector: 'tb-schemes-page',
   imports: [
+    StackOnPhone,
     DatePipe,
     MatButton,
     MatCell,

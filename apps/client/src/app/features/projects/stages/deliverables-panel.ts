@@ -11,6 +11,7 @@ import { Notice } from '../../../core/notice';
 import { formatBytes } from '../project-labels';
 import { ProjectsApi, stageUrl } from '../projects-api';
 import { DayTimePipe } from '../../../shared/dates/app-dates';
+import { StackOnPhone } from '../../../shared/stacked-table/stack-on-phone';
 
 export interface DeliverableGroup {
   readonly fileName: string;
@@ -48,7 +49,7 @@ interface Progress {
 /** A stage's deliverable files: versions, sizes and SHA-256, with a drop area for new ones. */
 @Component({
   selector: 'tb-deliverables-panel',
-  imports: [CdkCopyToClipboard, DayTimePipe, MatButton, MatIconButton, MatIcon, MatProgressBar],
+  imports: [StackOnPhone, CdkCopyToClipboard, DayTimePipe, MatButton, MatIconButton, MatIcon, MatProgressBar],
   template: `
     <section aria-labelledby="deliverables-heading" data-testid="deliverables">
       <h3 id="deliverables-heading">Deliverables</h3>
@@ -102,7 +103,7 @@ interface Progress {
                 <mat-icon aria-hidden="true">description</mat-icon><strong>{{ g.fileName }}</strong>
                 <span class="muted">{{ g.versions.length === 1 ? '1 version' : g.versions.length + ' versions' }}</span>
               </div>
-              <table class="versions">
+              <table tbStackOnPhone class="versions">
                 <thead>
                   <tr>
                     <th scope="col">Version</th>
