@@ -216,6 +216,39 @@ describe('the principal by keyboard alone', () => {
     await page.screenshot({ path: path.join(SCREENSHOTS, 'keyboard-stage.png') });
     expect(browser.outside).toEqual([]);
   });
+
+  it('creates a project: a failed save puts focus on the first field in error and says how many, then it saves', async () => {
+    await page.goto(`${base}/projects/new`);
+    await page.locator('[data-testid="project-form"]').waitFor({ timeout: 20_000 });
+    await page.waitForLoadState('networkidle');
+    const toSave = await tabTo(page, (f) => f.testId === 'save-project', 80);
+    await page.keyboard.press('Enter');
+    await page.waitForFunction(() => document.activeElement?.getAttribute('data-testid') === 'field-reference', null, {
+      timeout: 20_000,
+    });
+    // Reference, name and client are empty: the count goes to screen readers through the live region.
+    await page
+      .locator('.cdk-live-announcer-element')
+      .filter({ hasText: '3 fields need attention.' })
+      .waitFor({ state: 'attached', timeout: 10_000 });
+    const reference = `E2E-KBN-${Date.now().toString(36).toUpperCase()}`;
+    await page.keyboard.type(reference);
+    await page.keyboard.press('Tab');
+    await page.keyboard.type(`Marrowgate Depot ${reference}`);
+    await page.keyboard.press('Tab');
+    expect((await focused(page)).testId).toBe('field-clientOrganisationId');
+    // On a closed select the arrow keys choose the next option.
+    await page.keyboard.press('ArrowDown');
+    const toSaveAgain = await tabTo(page, (f) => f.testId === 'save-project', 80);
+    expect(unringed([...toSave.stops, ...toSaveAgain.stops])).toEqual([]);
+    await page.keyboard.press('Enter');
+    await page.waitForURL(/\/projects\/[0-9a-f-]{36}$/, { timeout: 20_000 });
+    await page
+      .locator('h1')
+      .filter({ hasText: `Marrowgate Depot ${reference}` })
+      .waitFor({ timeout: 20_000 });
+    expect(browser.outside).toEqual([]);
+  });
 });
 
 describe('the client by keyboard alone', () => {
