@@ -6,6 +6,11 @@ import {
   clearFootingChoice,
   cycle,
   deleteSelection,
+  deleteVertex,
+  insertVertex,
+  moveVertex,
+  selectVertex,
+  togglePropertyLine,
   editorKey,
   moveColumnTo,
   moveSelection,
@@ -191,5 +196,116 @@ describe('plan editor model', () => {
     ]);
     const again = redo(redo(back));
     expect(again.doc).toBe(cleared.doc);
+  });
+
+  describe('plot boundary', () => {
+    // The demo plot: corners (0,0) (14.5,0) (14.5,18) (0,18); property lines on side 0 (south,
+    // corner 1 to 2) and side 3 (west, corner 4 back to 1).
+    const sides = (s: ReturnType<typeof start>) => {
+      const { vertices: v, propertyLines } = s.doc.boundary;
+      return propertyLines.map((k) => [v[k], v[(k + 1) % v.length]]);
+    };
+
+    it('moves a corner to a point as one undo step, keeping it chosen and to the millimetre', () => {
+      const s = moveVertex(selectVertex(start(), 2), 2, { x: 15.00049, y: 18.2 });
+      expect(s.doc.boundary.vertices[2]).toEqual({ x: 15, y: 18.2 });
+      expect(s.part).toEqual({ kind: 'vertex', index: 2 });
+      expect(s.past).toHaveLength(1);
+      expect(undo(s).doc.boundary.vertices[2]).toEqual({ x: 14.5, y: 18 });
+      expect(moveVertex(s, 2, { x: 15, y: 18.2 })).toBe(s);
+    });
+
+    it('choosing a corner lets go of the chosen columns, and choosing a column lets go of the corner', () => {
+      const s = selectVertex(select(start(), 'A1'), 1);
+      expect([s.selection, s.part]).toEqual([[], { kind: 'vertex', index: 1 }]);
+      expect(select(s, 'A1').part).toBeNull();
+    });
+
+    it('adds a corner in the middle of a side; both halves of a property line stay property lines and later marks move up', () => {
+      const s = insertVertex(start(), 0);
+      expect(s.doc.boundary.vertices).toEqual([
+        { x: 0, y: 0 },
+        { x: 7.25, y: 0 },
+        { x: 14.5, y: 0 },
+        { x: 14.5, y: 18 },
+        { x: 0, y: 18 },
+      ]);
+      expect(s.doc.boundary.propertyLines).toEqual([0, 1, 4]);
+      // the same pieces of the outline are marked as before: the south side and the west side
+      expect(sides(s)).toEqual([
+        [
+          { x: 0, y: 0 },
+          { x: 7.25, y: 0 },
+        ],
+        [
+          { x: 7.25, y: 0 },
+          { x: 14.5, y: 0 },
+        ],
+        [
+          { x: 0, y: 18 },
+          { x: 0, y: 0 },
+        ],
+      ]);
+      expect(s.part).toEqual({ kind: 'vertex', index: 1 });
+      // on the closing side the new corner goes last, and the closing side's mark splits too
+      const closing = insertVertex(start(), 3);
+      expect(closing.doc.boundary.vertices[4]).toEqual({ x: 0, y: 9 });
+      expect(closing.doc.boundary.propertyLines).toEqual([0, 3, 4]);
+    });
+
+    it('deletes a corner, joining its two sides, and keeps every mark on the same piece of the outline', () => {
+      // corner 3 (14.5, 18) joins the east and north sides, neither a property line
+      const s = deleteVertex(start(), 2);
+      expect(s.doc.boundary.vertices).toHaveLength(3);
+      expect(sides(s)).toEqual([
+        [
+          { x: 0, y: 0 },
+          { x: 14.5, y: 0 },
+        ],
+        [
+          { x: 0, y: 18 },
+          { x: 0, y: 0 },
+        ],
+      ]);
+      expect(s.doc.boundary.propertyLines).toEqual([0, 2]);
+      // never below three corners
+      expect(deleteVertex(s, 0)).toBe(s);
+      // after an added corner, deleting it again gives back the outline and its marks
+      const back = deleteVertex(insertVertex(start(), 1), 2);
+      expect(back.doc.boundary).toEqual(start().doc.boundary);
+    });
+
+    it('deleting the first corner joins the closing side to the first; a joined side stays a property line if either half was', () => {
+      const s = deleteVertex(insertVertex(start(), 1), 0);
+      // corners now (14.5,0) (14.5,9) (14.5,18) (0,18); the joined side (0,18)→(14.5,0) joins two property lines
+      expect(s.doc.boundary.vertices[0]).toEqual({ x: 14.5, y: 0 });
+      expect(s.doc.boundary.propertyLines).toEqual([3]);
+      expect(sides(s)).toEqual([
+        [
+          { x: 0, y: 18 },
+          { x: 14.5, y: 0 },
+        ],
+      ]);
+      // corner 2 joins the south side (a property line) and the east side (not): the joined side stays marked
+      expect(deleteVertex(start(), 1).doc.boundary.propertyLines).toEqual([0, 2]);
+      // every result is still a boundary the contract accepts
+      expect(() => schemeSchema.parse(s.doc)).not.toThrow();
+    });
+
+    it('marks and unmarks a side as a property line, each as one undo step', () => {
+      const on = togglePropertyLine(start(), 1);
+      expect(on.doc.boundary.propertyLines).toEqual([0, 1, 3]);
+      const off = togglePropertyLine(on, 0);
+      expect(off.doc.boundary.propertyLines).toEqual([1, 3]);
+      expect(off.past).toHaveLength(2);
+      expect(undo(off).doc.boundary.propertyLines).toEqual([0, 1, 3]);
+      expect(togglePropertyLine(off, 9)).toBe(off);
+    });
+
+    it('undo of an added corner lets go of the corner that is gone', () => {
+      const s = insertVertex(start(), 3);
+      expect(s.part).toEqual({ kind: 'vertex', index: 4 });
+      expect(undo(s).part).toBeNull();
+    });
   });
 });

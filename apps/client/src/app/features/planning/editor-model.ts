@@ -5,11 +5,21 @@ import type { SchemeDocument } from '@trabeate/contracts';
 // (next step) only turns pointer and key events into these calls.
 
 type Column = SchemeDocument['columns'][number];
+type Pt = { x: number; y: number };
+
+/**
+ * A chosen part of the plan that is not a column: a vertex of the plot boundary (by index) or a
+ * secondary beam (by id). Columns stay in `selection` (several can be chosen at once); a part is
+ * chosen on its own, so choosing one lets go of the columns and the other way round.
+ */
+export type PlanPart = { kind: 'vertex'; index: number } | { kind: 'secondary'; id: string };
 
 export interface EditorState {
   readonly doc: SchemeDocument;
   /** ids of the selected columns, in the order chosen */
   readonly selection: readonly string[];
+  /** the chosen boundary vertex or secondary beam, when no column is chosen */
+  readonly part?: PlanPart | null;
   readonly past: readonly SchemeDocument[];
   readonly future: readonly SchemeDocument[];
 }
@@ -19,28 +29,53 @@ export const HISTORY_LIMIT = 200;
 /** Plan coordinates are kept to the millimetre. */
 const mm = (v: number) => Math.round(v * 1000) / 1000;
 
-export const startEditing = (doc: SchemeDocument): EditorState => ({ doc, selection: [], past: [], future: [] });
+export const startEditing = (doc: SchemeDocument): EditorState => ({
+  doc,
+  selection: [],
+  part: null,
+  past: [],
+  future: [],
+});
 
-/** Applies a change as one undo step; a change that alters nothing leaves the history alone. */
-function commit(s: EditorState, doc: SchemeDocument, selection = s.selection): EditorState {
-  if (doc === s.doc) return { ...s, selection };
+/**
+ * Applies a change as one undo step; a change that alters nothing leaves the history alone. A new
+ * column selection lets go of the chosen part.
+ */
+function commit(
+  s: EditorState,
+  doc: SchemeDocument,
+  selection = s.selection,
+  part: PlanPart | null = selection === s.selection ? (s.part ?? null) : null,
+): EditorState {
+  if (doc === s.doc) return { ...s, selection, part };
   const past = [...s.past, s.doc].slice(-HISTORY_LIMIT);
-  return { doc, selection, past, future: [] };
+  return { doc, selection, part, past, future: [] };
 }
 
 export function undo(s: EditorState): EditorState {
   if (!s.past.length) return s;
   const doc = s.past[s.past.length - 1];
-  return { doc, selection: keep(doc, s.selection), past: s.past.slice(0, -1), future: [s.doc, ...s.future] };
+  return {
+    doc,
+    selection: keep(doc, s.selection),
+    part: keepPart(doc, s.part),
+    past: s.past.slice(0, -1),
+    future: [s.doc, ...s.future],
+  };
 }
 
 export function redo(s: EditorState): EditorState {
   if (!s.future.length) return s;
   const [doc, ...future] = s.future;
-  return { doc, selection: keep(doc, s.selection), past: [...s.past, s.doc], future };
+  return { doc, selection: keep(doc, s.selection), part: keepPart(doc, s.part), past: [...s.past, s.doc], future };
 }
 
 const keep = (doc: SchemeDocument, ids: readonly string[]) => ids.filter((id) => doc.columns.some((c) => c.id === id));
+const keepPart = (doc: SchemeDocument, p: PlanPart | null | undefined): PlanPart | null => {
+  if (!p) return null;
+  if (p.kind === 'vertex') return p.index < doc.boundary.vertices.length ? p : null;
+  return doc.secondaryBeams.some((b) => b.id === p.id) ? p : null;
+};
 
 export interface SnapOptions {
   /** how far a point may jump to a grid line or another column, m */
@@ -136,9 +171,10 @@ export function deleteSelection(s: EditorState): EditorState {
 /** Selects one column, or adds it to / removes it from the selection (`extend`, as with Shift). */
 export function select(s: EditorState, id: string, extend = false): EditorState {
   if (!s.doc.columns.some((c) => c.id === id)) return s;
-  if (!extend) return { ...s, selection: [id] };
+  if (!extend) return { ...s, selection: [id], part: null };
   return {
     ...s,
+    part: null,
     selection: s.selection.includes(id) ? s.selection.filter((x) => x !== id) : [...s.selection, id],
   };
 }
@@ -295,4 +331,75 @@ export function clearFootingChoice(s: EditorState, columnId: string): EditorStat
   const list = s.doc.footingChoices ?? [];
   if (!list.some((c) => c.columnId === columnId)) return s;
   return commit(s, { ...s.doc, footingChoices: list.filter((c) => c.columnId !== columnId) });
+}
+
+// The plot boundary. Property lines are kept as segment indices (segment k runs from vertex k to
+// vertex k + 1, the last one closing the outline back to vertex 0), so every change of the
+// vertices renumbers them to keep each mark on the same piece of the outline.
+
+/** A boundary keeps at least three vertices: fewer is no outline at all. */
+export const MIN_BOUNDARY_VERTICES = 3;
+
+/** Chooses a boundary vertex (letting go of any columns). */
+export function selectVertex(s: EditorState, index: number): EditorState {
+  if (index < 0 || index >= s.doc.boundary.vertices.length) return s;
+  return { ...s, selection: [], part: { kind: 'vertex', index } };
+}
+
+/** Moves boundary vertex `index` to a point (plan m, already snapped) as one undo step. */
+export function moveVertex(s: EditorState, index: number, p: Pt): EditorState {
+  const vs = s.doc.boundary.vertices;
+  const v = vs[index];
+  if (!v || (v.x === mm(p.x) && v.y === mm(p.y))) return s;
+  const vertices = vs.map((w, i) => (i === index ? { x: mm(p.x), y: mm(p.y) } : w));
+  return commit(s, { ...s.doc, boundary: { ...s.doc.boundary, vertices } }, [], { kind: 'vertex', index });
+}
+
+/**
+ * Adds a vertex on segment `segment` (at its middle unless a point is given) and chooses it. The
+ * two halves of a property line are both property lines; later segments move up by one.
+ */
+export function insertVertex(s: EditorState, segment: number, at?: Pt): EditorState {
+  const { vertices: vs, propertyLines } = s.doc.boundary;
+  const n = vs.length;
+  if (segment < 0 || segment >= n) return s;
+  const a = vs[segment];
+  const b = vs[(segment + 1) % n];
+  const p = at ?? { x: (a.x + b.x) / 2, y: (a.y + b.y) / 2 };
+  const vertices = [...vs.slice(0, segment + 1), { x: mm(p.x), y: mm(p.y) }, ...vs.slice(segment + 1)];
+  const lines = propertyLines.flatMap((k) => (k < segment ? [k] : k === segment ? [k, k + 1] : [k + 1]));
+  return commit(s, { ...s.doc, boundary: { vertices, propertyLines: lines } }, [], {
+    kind: 'vertex',
+    index: segment + 1,
+  });
+}
+
+/**
+ * Removes boundary vertex `index` (never below three vertices). Its two segments become one, which
+ * is a property line when either of them was: a mark is taken off by the engineer, never silently
+ * (a lost property line would hide the footing checks at that boundary).
+ */
+export function deleteVertex(s: EditorState, index: number): EditorState {
+  const { vertices: vs, propertyLines } = s.doc.boundary;
+  const n = vs.length;
+  if (n <= MIN_BOUNDARY_VERTICES || index < 0 || index >= n) return s;
+  const vertices = vs.filter((_, i) => i !== index);
+  const before = (index - 1 + n) % n; // the segment ending at the vertex
+  const marked = new Set(propertyLines);
+  // old segment k (k ≠ index) becomes k - 1 past the removed vertex; `before` carries the merged one
+  const renumber = (k: number) => (k > index ? k - 1 : k);
+  const lines = new Set<number>();
+  for (const k of marked) if (k !== index && k !== before) lines.add(renumber(k));
+  if (marked.has(index) || marked.has(before)) lines.add(renumber(before));
+  return commit(s, { ...s.doc, boundary: { vertices, propertyLines: [...lines].sort((p, q) => p - q) } }, [], null);
+}
+
+/** Marks segment `segment` as a property line, or takes the mark off, as one undo step. */
+export function togglePropertyLine(s: EditorState, segment: number): EditorState {
+  const { vertices, propertyLines } = s.doc.boundary;
+  if (segment < 0 || segment >= vertices.length) return s;
+  const lines = propertyLines.includes(segment)
+    ? propertyLines.filter((k) => k !== segment)
+    : [...propertyLines, segment].sort((p, q) => p - q);
+  return commit(s, { ...s.doc, boundary: { vertices, propertyLines: lines } });
 }

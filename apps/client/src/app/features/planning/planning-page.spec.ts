@@ -280,6 +280,40 @@ describe('PlanningPage', () => {
     expect(text('spacing-error')).toContain('“x” is not a number of metres');
   });
 
+  it('edits the plot boundary from its panel: marks a side, adds a corner and moves it by typed coordinates, and undo takes each back', async () => {
+    await open((req) => req.flush(detail()));
+    const sideMarks = () => all('[data-testid="side-property"] input').map((i) => (i as HTMLInputElement).checked);
+    expect(sideMarks()).toEqual([true, false, false, true]);
+    all('[data-testid="side-property"] input')[1].click();
+    await settle(10);
+    expect(all('[data-testid="property-line"]')).toHaveLength(3);
+    expect(all('[data-testid="property-line-label"]')).toHaveLength(3);
+    expect(text('save-state')).toContain('Unsaved changes');
+
+    all('[data-testid="side-add-corner"]')[0].click();
+    await settle(10);
+    expect(all('[data-testid="boundary-corner"]')).toHaveLength(5);
+    expect(sideMarks()).toEqual([true, true, true, false, true]);
+    expect(text('chosen-columns')).toContain('boundary corner 2');
+
+    await type('corner-y', '0'); // the first corner's y: unchanged, so no step
+    const ys = all('[data-testid="corner-y"]') as HTMLInputElement[];
+    ys[1].value = '-0.5';
+    ys[1].dispatchEvent(new Event('change'));
+    await settle(10);
+    expect(all('[data-vertex]')).toHaveLength(5);
+    expect(all('[data-vertex="1"]')[0].getAttribute('y')).toBe(String(box().minY + box().height + 0.5 - 0.22));
+
+    button('undo').click();
+    await settle(10);
+    button('undo').click();
+    await settle(10);
+    expect(all('[data-testid="boundary-corner"]')).toHaveLength(4);
+    button('undo').click();
+    await settle(10);
+    expect(sideMarks()).toEqual([true, false, false, true]);
+  });
+
   it('saves on top of the version it started from, and on a conflict saves the edits as a new scheme', async () => {
     await open((req) => req.flush(detail()));
     button('add-column').click();

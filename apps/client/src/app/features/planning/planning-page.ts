@@ -21,6 +21,7 @@ import {
 import { CAUTION, type SchemeResult } from '@trabeate/structural';
 import { errorMessage } from '../../core/auth/api-error';
 import { SEVERITY_LABELS, SOURCE_KIND_LABELS, numbersOf, ruleLabel } from './check-labels';
+import { BoundaryPanel } from './boundary-panel';
 import { FootingOptions } from './footing-options';
 import type { FootingChoice } from './footing-options-model';
 import {
@@ -39,12 +40,18 @@ import {
   redo,
   deleteSelection,
   updateColumn,
+  deleteVertex,
+  insertVertex,
+  moveVertex,
+  selectVertex,
+  togglePropertyLine,
   type ColumnPatch,
   type EditorState,
+  type PlanPart,
 } from './editor-model';
 import type { AnalyseRequest, PlanWorkerPort } from './plan-protocol';
 import { createPlanWorker } from './plan-worker-factory';
-import { PlanView, type ColumnDrop, type ColumnPick } from './plan-view';
+import { PlanView, type ColumnDrop, type ColumnPick, type VertexDrop } from './plan-view';
 import { ResultsPanel } from './results-panel';
 import { SchemesApi, schemeUrl } from './schemes-api';
 import { SchemeOutputs } from './scheme-outputs';
@@ -62,6 +69,7 @@ export const KEY_STEP_M = 0.05;
 @Component({
   selector: 'tb-planning-page',
   imports: [
+    BoundaryPanel,
     DatePipe,
     FootingOptions,
     MatButton,
@@ -127,6 +135,20 @@ export class PlanningPage {
     const e = this.editor();
     if (!e || e.selection.length !== 1) return null;
     return e.doc.columns.find((c) => c.id === e.selection[0]) ?? null;
+  });
+  /** the chosen boundary vertex or secondary beam */
+  protected readonly part = computed(() => this.editor()?.part ?? null);
+  protected readonly chosenVertex = computed(() => {
+    const p = this.part();
+    return p?.kind === 'vertex' ? p.index : null;
+  });
+  /** what is chosen, in words, for the plan's live line */
+  protected readonly chosenText = computed(() => {
+    const e = this.editor();
+    const p = e?.part;
+    if (p?.kind === 'vertex') return `Chosen: boundary corner ${p.index + 1}`;
+    if (p?.kind === 'secondary') return `Chosen: secondary beam ${p.id}`;
+    return e?.selection.length ? `Chosen: ${e.selection.join(', ')}` : 'Nothing chosen.';
   });
   /** the column whose footing options are open (from the inspector), or null */
   protected readonly footingFocus = signal<{ columnId: string } | null>(null);
@@ -267,6 +289,33 @@ export class PlanningPage {
     if (!c) return;
     if (e.selection.includes(d.id) && e.selection.length > 1) this.apply(moveSelection(e, d.x - c.x, d.y - c.y));
     else this.apply(moveColumnTo(select(e, d.id), d.id, d));
+  }
+
+  protected pickPart(p: PlanPart): void {
+    const e = this.editor();
+    if (!e) return;
+    if (p.kind === 'vertex') this.editor.set(selectVertex(e, p.index));
+    else this.editor.set({ ...e, selection: [], part: p });
+  }
+
+  protected vertexDropped(d: VertexDrop): void {
+    const e = this.editor();
+    if (e) this.apply(moveVertex(e, d.index, d));
+  }
+
+  protected insertVertex(segment: number): void {
+    const e = this.editor();
+    if (e) this.apply(insertVertex(e, segment));
+  }
+
+  protected deleteVertex(index: number): void {
+    const e = this.editor();
+    if (e) this.apply(deleteVertex(e, index));
+  }
+
+  protected toggleProperty(segment: number): void {
+    const e = this.editor();
+    if (e) this.apply(togglePropertyLine(e, segment));
   }
 
   protected key(ev: KeyboardEvent): void {
