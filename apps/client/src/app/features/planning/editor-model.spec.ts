@@ -11,6 +11,11 @@ import {
   moveVertex,
   selectVertex,
   togglePropertyLine,
+  addSecondaryBeam,
+  deleteSecondaryBeam,
+  moveSecondary,
+  selectSecondary,
+  updateSecondaryBeam,
   editorKey,
   moveColumnTo,
   moveSelection,
@@ -306,6 +311,49 @@ describe('plan editor model', () => {
       const s = insertVertex(start(), 3);
       expect(s.part).toEqual({ kind: 'vertex', index: 4 });
       expect(undo(s).part).toBeNull();
+    });
+  });
+
+  describe('secondary beams', () => {
+    // the demo has SB1 from (4.4, 6.2) to (8.6, 6.2), between grid lines B and C
+    const sb = (s: ReturnType<typeof start>, id: string) => s.doc.secondaryBeams.find((b) => b.id === id);
+
+    it('adds a beam between two pressed points, each end snapped like a column and the beam straightened along x or y', () => {
+      // ends near grid C (8.6) and grid D (12.8), the second a little off the first's y
+      const s = addSecondaryBeam(start(), { x: 8.55, y: 10.3 }, { x: 12.74, y: 10.41 }, 0.1);
+      expect(sb(s, 'SB2')).toEqual({ id: 'SB2', start: { x: 8.6, y: 10.3 }, end: { x: 12.8, y: 10.3 } });
+      expect(s.part).toEqual({ kind: 'secondary', id: 'SB2' });
+      expect(s.past).toHaveLength(1);
+      // mostly along y: it runs along y from the first end
+      const v = addSecondaryBeam(start(), { x: 2.0, y: 0.25 }, { x: 2.3, y: 4.15 }, 0.1);
+      expect(sb(v, 'SB2')).toEqual({ id: 'SB2', start: { x: 2.0, y: 0.2 }, end: { x: 2.0, y: 4.2 } });
+      // two presses on one spot are no beam
+      const same = start();
+      expect(addSecondaryBeam(same, { x: 3, y: 3 }, { x: 3.05, y: 3.02 }, 0)).toBe(same);
+      // the result is a document the contract accepts
+      expect(() => schemeSchema.parse(s.doc)).not.toThrow();
+    });
+
+    it('never reuses an id', () => {
+      let s = addSecondaryBeam(start(), { x: 0.2, y: 2 }, { x: 4.4, y: 2 }, 0);
+      s = deleteSecondaryBeam(s, 'SB1');
+      s = addSecondaryBeam(s, { x: 0.2, y: 3 }, { x: 4.4, y: 3 }, 0);
+      expect(s.doc.secondaryBeams.map((b) => b.id)).toEqual(['SB2', 'SB3']);
+    });
+
+    it('changes the ends by typed coordinates, moves the whole beam and deletes it, each as one undo step', () => {
+      let s = selectSecondary(start(), 'SB1');
+      s = updateSecondaryBeam(s, 'SB1', { end: { x: 7.00049, y: 6.2 } });
+      expect(sb(s, 'SB1')?.end).toEqual({ x: 7, y: 6.2 });
+      expect(updateSecondaryBeam(s, 'SB1', { end: { x: 7, y: 6.2 } })).toBe(s);
+      s = moveSecondary(s, 'SB1', 0, 0.5);
+      expect(sb(s, 'SB1')).toMatchObject({ start: { x: 4.4, y: 6.7 }, end: { x: 7, y: 6.7 } });
+      s = deleteSecondaryBeam(s, 'SB1');
+      expect(s.doc.secondaryBeams).toEqual([]);
+      expect(s.part).toBeNull();
+      expect(s.past).toHaveLength(3);
+      const back = undo(undo(s));
+      expect(sb(back, 'SB1')?.end).toEqual({ x: 7, y: 6.2 });
     });
   });
 });

@@ -403,3 +403,77 @@ export function togglePropertyLine(s: EditorState, segment: number): EditorState
     : [...propertyLines, segment].sort((p, q) => p - q);
   return commit(s, { ...s.doc, boundary: { vertices, propertyLines: lines } });
 }
+
+// Secondary beams: beams that frame into other beams. The engine takes only beams parallel to x
+// or to y, longer than 0.1 m (libs/structural validateScheme), so the editor makes each one so.
+
+type SecondaryBeam = SchemeDocument['secondaryBeams'][number];
+/** the engine's shortest secondary beam, m (libs/structural validate.ts) */
+export const SECONDARY_MIN_M = 0.1;
+
+/** Chooses a secondary beam (letting go of any columns). */
+export function selectSecondary(s: EditorState, id: string): EditorState {
+  if (!s.doc.secondaryBeams.some((b) => b.id === id)) return s;
+  return { ...s, selection: [], part: { kind: 'secondary', id } };
+}
+
+/** Why a beam between two points cannot be a secondary beam, or null when it can. */
+export function secondaryProblem(a: Pt, b: Pt): string | null {
+  if (Math.hypot(b.x - a.x, b.y - a.y) < SECONDARY_MIN_M) return 'A secondary beam is longer than 0.1 m.';
+  return null;
+}
+
+/** Straightens a beam to run along x or y, whichever it runs more along; the start stays put. */
+export function straighten(a: Pt, b: Pt): { start: Pt; end: Pt } {
+  const start = { x: mm(a.x), y: mm(a.y) };
+  const end = Math.abs(b.x - a.x) >= Math.abs(b.y - a.y) ? { x: mm(b.x), y: start.y } : { x: start.x, y: mm(b.y) };
+  return { start, end };
+}
+
+/**
+ * Adds a secondary beam from `a` to `b` (plan m): each end snapped like a column (to grid lines and
+ * columns within the tolerance), then straightened along x or y. A beam too short to be one adds
+ * nothing. The new beam is chosen.
+ */
+export function addSecondaryBeam(s: EditorState, a: Pt, b: Pt, toleranceM: number): EditorState {
+  const sa = snap(s.doc, a, { toleranceM });
+  const sb = snap(s.doc, b, { toleranceM });
+  const { start, end } = straighten(sa, sb);
+  if (secondaryProblem(start, end)) return s;
+  const used = new Set(s.doc.secondaryBeams.map((x) => x.id));
+  let n = s.doc.secondaryBeams.length + 1;
+  while (used.has(`SB${n}`)) n++;
+  const beam: SecondaryBeam = { id: `SB${n}`, start, end };
+  return commit(s, { ...s.doc, secondaryBeams: [...s.doc.secondaryBeams, beam] }, [], {
+    kind: 'secondary',
+    id: beam.id,
+  });
+}
+
+/**
+ * Sets a secondary beam's ends to typed coordinates as one undo step. Typed values are the
+ * engineer's own: they are kept to the millimetre but not snapped or straightened (the engine
+ * names a slanted beam as an input problem).
+ */
+export function updateSecondaryBeam(s: EditorState, id: string, ends: { start?: Pt; end?: Pt }): EditorState {
+  const old = s.doc.secondaryBeams.find((b) => b.id === id);
+  if (!old) return s;
+  const start = ends.start ? { x: mm(ends.start.x), y: mm(ends.start.y) } : old.start;
+  const end = ends.end ? { x: mm(ends.end.x), y: mm(ends.end.y) } : old.end;
+  if (start.x === old.start.x && start.y === old.start.y && end.x === old.end.x && end.y === old.end.y) return s;
+  const secondaryBeams = s.doc.secondaryBeams.map((b) => (b.id === id ? { ...b, start, end } : b));
+  return commit(s, { ...s.doc, secondaryBeams }, [], { kind: 'secondary', id });
+}
+
+/** Moves a whole secondary beam by (dx, dy) m as one undo step. */
+export function moveSecondary(s: EditorState, id: string, dx: number, dy: number): EditorState {
+  const b = s.doc.secondaryBeams.find((x) => x.id === id);
+  if (!b || (dx === 0 && dy === 0)) return s;
+  const shift = (p: Pt) => ({ x: p.x + dx, y: p.y + dy });
+  return updateSecondaryBeam(s, id, { start: shift(b.start), end: shift(b.end) });
+}
+
+export function deleteSecondaryBeam(s: EditorState, id: string): EditorState {
+  if (!s.doc.secondaryBeams.some((b) => b.id === id)) return s;
+  return commit(s, { ...s.doc, secondaryBeams: s.doc.secondaryBeams.filter((b) => b.id !== id) }, [], null);
+}

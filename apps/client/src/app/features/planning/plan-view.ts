@@ -30,6 +30,12 @@ export interface ColumnDrop {
   x: number;
   y: number;
 }
+/** A tap on the plan: where, in plan m, and the snap tolerance there (the columns' pixels at this zoom), m. */
+export interface PlanTap {
+  x: number;
+  y: number;
+  toleranceM: number;
+}
 /** The end of a boundary vertex's drag: its new (snapped) position, plan m. */
 export interface VertexDrop {
   index: number;
@@ -253,8 +259,8 @@ export class PlanView {
   /** a boundary vertex or secondary beam was pressed without a drag */
   readonly pickPart = output<PlanPart>();
   readonly placeVertex = output<VertexDrop>();
-  /** a press and release on the plan itself (not on an element, no pan), at a plan point in m */
-  readonly tap = output<Pt>();
+  /** a press and release on the plan itself (not on an element, no pan): the plan point, m, and how far it may snap */
+  readonly tap = output<PlanTap>();
 
   protected readonly chosenIds = computed(() => new Set(this.selection()));
   protected readonly zoom = signal(1);
@@ -430,7 +436,12 @@ export class PlanView {
 
   protected startPan(e: PointerEvent): void {
     if (this.drag || e.button !== 0) return;
-    this.tapAt = { x: e.clientX, y: e.clientY, pointerId: e.pointerId, plan: this.toPlan(e) };
+    this.tapAt = {
+      x: e.clientX,
+      y: e.clientY,
+      pointerId: e.pointerId,
+      plan: { ...this.toPlan(e), toleranceM: SNAP_PX * this.metresPerPixel(e) },
+    };
     if (this.zoom() === ZOOM_MIN) return;
     const g = this.geometry().box;
     const c = this.centre() ?? { x: g.minX + g.width / 2, y: g.minY + g.height / 2 };
@@ -490,7 +501,7 @@ export class PlanView {
     this.pan = null;
   }
 
-  private tapAt: { x: number; y: number; pointerId: number; plan: Pt } | null = null;
+  private tapAt: { x: number; y: number; pointerId: number; plan: PlanTap } | null = null;
 
   private dragVertex(drag: Drag, index: number, raw: Pt, e: PointerEvent): void {
     const vs = this.document().boundary.vertices;

@@ -129,7 +129,9 @@ describe('PlanningPage', () => {
   it('filters the list by severity and by rule', async () => {
     await open((req) => req.flush(detail()));
     const loader = TestbedHarnessEnvironment.loader(harness.fixture);
-    const [severity, rule] = await loader.getAllHarnesses(MatSelectHarness);
+    // found by their own marks: the editor's panels hold selects of their own before these
+    const severity = await loader.getHarness(MatSelectHarness.with({ selector: '[data-testid="severity-filter"]' }));
+    const rule = await loader.getHarness(MatSelectHarness.with({ selector: '[data-testid="rule-filter"]' }));
     await severity.open();
     await severity.clickOptions({ text: 'Must fix' });
     await settle();
@@ -312,6 +314,41 @@ describe('PlanningPage', () => {
     button('undo').click();
     await settle(10);
     expect(sideMarks()).toEqual([true, false, false, true]);
+  });
+
+  it('places a secondary beam by two presses on the plan, snapped, and highlights a beam that a check names', async () => {
+    await open((req) => req.flush(detail()));
+    expect(all('[data-secondary]').map((g) => g.getAttribute('data-secondary'))).toEqual(['SB1']);
+    button('secondary-place').click();
+    await settle();
+    expect(text('secondary-placing')).toContain('where the beam starts');
+    // two presses near grid C (8.6) and grid D (12.8) at y about 10.3
+    pointer(svg(), 'pointerdown', 8.55, 10.3);
+    pointer(svg(), 'pointerup', 8.55, 10.3);
+    await settle();
+    pointer(svg(), 'pointerdown', 12.75, 10.35);
+    pointer(svg(), 'pointerup', 12.75, 10.35);
+    await settle(10);
+    expect(all('[data-secondary]').map((g) => g.getAttribute('data-secondary'))).toEqual(['SB1', 'SB2']);
+    expect(text('chosen-columns')).toContain('secondary beam SB2');
+    const at = (i: number) => (all('[data-testid="secondary-at"]')[i] as HTMLInputElement).value;
+    const from = (i: number) => (all('[data-testid="secondary-from"]')[i] as HTMLInputElement).value;
+    const to = (i: number) => (all('[data-testid="secondary-to"]')[i] as HTMLInputElement).value;
+    expect([at(1), from(1), to(1)]).toEqual(['10.3', '8.6', '12.8']);
+
+    // SB1 cut short of grid C: it no longer lands on a beam line at its east end, which the engine names
+    const ends = all('[data-testid="secondary-to"]') as HTMLInputElement[];
+    ends[0].value = '7';
+    ends[0].dispatchEvent(new Event('change'));
+    const unsupported = () => all('[data-testid="check"]').find((c) => c.textContent?.includes('secondary beam SB1'));
+    for (let i = 0; i < 50 && !unsupported(); i++) await settle(20);
+    unsupported()!.click();
+    await settle();
+    expect(all('[data-secondary].hl').map((g) => g.getAttribute('data-secondary'))).toEqual(['SB1']);
+
+    all('[data-testid="secondary-delete"]')[1].click();
+    await settle(10);
+    expect(all('[data-secondary]')).toHaveLength(1);
   });
 
   it('saves on top of the version it started from, and on a conflict saves the edits as a new scheme', async () => {

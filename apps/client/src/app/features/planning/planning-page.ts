@@ -22,6 +22,7 @@ import { CAUTION, type SchemeResult } from '@trabeate/structural';
 import { errorMessage } from '../../core/auth/api-error';
 import { SEVERITY_LABELS, SOURCE_KIND_LABELS, numbersOf, ruleLabel } from './check-labels';
 import { BoundaryPanel } from './boundary-panel';
+import { SecondaryBeamsPanel, type PlacingStep, type SecondaryEnds } from './secondary-beams-panel';
 import { FootingOptions } from './footing-options';
 import type { FootingChoice } from './footing-options-model';
 import {
@@ -45,13 +46,17 @@ import {
   moveVertex,
   selectVertex,
   togglePropertyLine,
+  addSecondaryBeam,
+  deleteSecondaryBeam,
+  selectSecondary,
+  updateSecondaryBeam,
   type ColumnPatch,
   type EditorState,
   type PlanPart,
 } from './editor-model';
 import type { AnalyseRequest, PlanWorkerPort } from './plan-protocol';
 import { createPlanWorker } from './plan-worker-factory';
-import { PlanView, type ColumnDrop, type ColumnPick, type VertexDrop } from './plan-view';
+import { PlanView, type ColumnDrop, type ColumnPick, type PlanTap, type VertexDrop } from './plan-view';
 import { ResultsPanel } from './results-panel';
 import { SchemesApi, schemeUrl } from './schemes-api';
 import { SchemeOutputs } from './scheme-outputs';
@@ -84,6 +89,7 @@ export const KEY_STEP_M = 0.05;
     ResultsPanel,
     RouterLink,
     SchemeOutputs,
+    SecondaryBeamsPanel,
   ],
   templateUrl: './planning-page.html',
   styleUrls: ['../../shared/page/page.scss', './planning-page.scss'],
@@ -142,6 +148,13 @@ export class PlanningPage {
     const p = this.part();
     return p?.kind === 'vertex' ? p.index : null;
   });
+  protected readonly chosenSecondary = computed(() => {
+    const p = this.part();
+    return p?.kind === 'secondary' ? p.id : null;
+  });
+  /** placing a secondary beam by two presses on the plan: the step, and the first press */
+  protected readonly placing = signal<PlacingStep>('off');
+  private placeStart: PlanTap | null = null;
   /** what is chosen, in words, for the plan's live line */
   protected readonly chosenText = computed(() => {
     const e = this.editor();
@@ -296,6 +309,46 @@ export class PlanningPage {
     if (!e) return;
     if (p.kind === 'vertex') this.editor.set(selectVertex(e, p.index));
     else this.editor.set({ ...e, selection: [], part: p });
+  }
+
+  protected togglePlacing(): void {
+    this.placeStart = null;
+    this.placing.set(this.placing() === 'off' ? 'start' : 'off');
+  }
+
+  /** a press on the plan: while placing a secondary beam, its first and then its second end */
+  protected tapped(t: PlanTap): void {
+    const e = this.editor();
+    if (!e || this.placing() === 'off') return;
+    if (this.placing() === 'start' || !this.placeStart) {
+      this.placeStart = t;
+      this.placing.set('end');
+      return;
+    }
+    const a = this.placeStart;
+    this.placeStart = null;
+    this.placing.set('off');
+    this.apply(addSecondaryBeam(e, a, t, Math.max(a.toleranceM, t.toleranceM)));
+  }
+
+  protected addSecondary(b: SecondaryEnds): void {
+    const e = this.editor();
+    if (e) this.apply(addSecondaryBeam(e, b.start, b.end, 0));
+  }
+
+  protected updateSecondary(b: Required<SecondaryEnds>): void {
+    const e = this.editor();
+    if (e) this.apply(updateSecondaryBeam(e, b.id, b));
+  }
+
+  protected removeSecondary(id: string): void {
+    const e = this.editor();
+    if (e) this.apply(deleteSecondaryBeam(e, id));
+  }
+
+  protected chooseSecondary(id: string): void {
+    const e = this.editor();
+    if (e) this.editor.set(selectSecondary(e, id));
   }
 
   protected vertexDropped(d: VertexDrop): void {
