@@ -356,4 +356,47 @@ describe('plan editor model', () => {
       expect(sb(back, 'SB1')?.end).toEqual({ x: 7, y: 6.2 });
     });
   });
+
+  describe('keyboard over every part of the plan', () => {
+    const key = (s: ReturnType<typeof start>, k: string, shiftKey = false) => editorKey(s, { key: k, shiftKey }, 0.05)!;
+
+    it('Tab goes through the columns, then the boundary corners, then the secondary beams, and past the last lets go', () => {
+      let s = start();
+      const seen: string[] = [];
+      for (let i = 0; i < 19 + 4 + 1; i++) {
+        s = key(s, 'Tab');
+        seen.push(s.part ? (s.part.kind === 'vertex' ? `corner ${s.part.index}` : s.part.id) : s.selection.join());
+      }
+      expect(seen.slice(0, 2)).toEqual(['A1', 'B1']);
+      expect(seen.slice(18)).toEqual(['D5', 'corner 0', 'corner 1', 'corner 2', 'corner 3', 'SB1']);
+      const out = key(s, 'Tab');
+      expect([out.selection, out.part]).toEqual([[], null]);
+      // Shift+Tab from nothing comes in at the last, and before the first lets go
+      expect(key(start(), 'Tab', true).part).toEqual({ kind: 'secondary', id: 'SB1' });
+      const first = key(start(), 'Tab');
+      expect(key(first, 'Tab', true).selection).toEqual([]);
+    });
+
+    it('with nothing chosen an arrow chooses the first element (right, down) or the last (left, up), moving nothing', () => {
+      const s = start();
+      const right = key(s, 'ArrowRight');
+      expect(right.selection).toEqual(['A1']);
+      expect(right.doc).toBe(s.doc);
+      expect(key(s, 'ArrowUp').part).toEqual({ kind: 'secondary', id: 'SB1' });
+    });
+
+    it('arrows move a chosen corner or secondary beam by the step, Delete removes it, Escape lets go', () => {
+      let s = key(selectVertex(start(), 2), 'ArrowUp', true);
+      expect(s.doc.boundary.vertices[2]).toEqual({ x: 14.5, y: 18.5 });
+      s = key(s, 'Delete');
+      expect(s.doc.boundary.vertices).toHaveLength(3);
+      expect(key(selectVertex(s, 0), 'Delete').doc).toBe(s.doc); // three corners stay
+      let b = key(selectSecondary(start(), 'SB1'), 'ArrowLeft');
+      expect(b.doc.secondaryBeams[0]).toMatchObject({ start: { x: 4.35, y: 6.2 }, end: { x: 8.55, y: 6.2 } });
+      expect(key(b, 'Escape').part).toBeNull();
+      b = key(b, 'Backspace');
+      expect(b.doc.secondaryBeams).toEqual([]);
+      expect(undo(b).doc.secondaryBeams).toHaveLength(1);
+    });
+  });
 });

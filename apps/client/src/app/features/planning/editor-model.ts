@@ -179,13 +179,78 @@ export function select(s: EditorState, id: string, extend = false): EditorState 
   };
 }
 
-/** The next (or previous) column in plan order (by y, then x), from the last one selected. */
+type Chosen = { kind: 'column'; id: string } | PlanPart;
+
+/**
+ * Everything the keyboard can reach, in the order Tab goes: the columns in plan order (by y, then
+ * x), then the boundary corners in their order, then the secondary beams as the scheme lists them.
+ */
+function tabOrder(doc: SchemeDocument): Chosen[] {
+  return [
+    ...[...doc.columns].sort((a, b) => a.y - b.y || a.x - b.x).map((c): Chosen => ({ kind: 'column', id: c.id })),
+    ...doc.boundary.vertices.map((_, index): Chosen => ({ kind: 'vertex', index })),
+    ...doc.secondaryBeams.map((b): Chosen => ({ kind: 'secondary', id: b.id })),
+  ];
+}
+
+const sameChosen = (a: Chosen, b: Chosen | null) =>
+  !!b && a.kind === b.kind && (a.kind === 'vertex' ? a.index === (b as typeof a).index : a.id === (b as typeof a).id);
+
+function current(s: EditorState): Chosen | null {
+  if (s.part) return s.part;
+  const id = s.selection[s.selection.length - 1];
+  return id === undefined ? null : { kind: 'column', id };
+}
+
+function choose(s: EditorState, c: Chosen): EditorState {
+  return c.kind === 'column' ? { ...s, selection: [c.id], part: null } : { ...s, selection: [], part: c };
+}
+
+/** Whether anything (a column or another part) is chosen. */
+export const hasChoice = (s: EditorState): boolean => s.selection.length > 0 || !!s.part;
+
+/**
+ * The next (or previous) element in Tab order from the one chosen last, wrapping round; with
+ * nothing chosen, the first (or last).
+ */
 export function cycle(s: EditorState, backwards = false): EditorState {
-  const order = [...s.doc.columns].sort((a, b) => a.y - b.y || a.x - b.x);
+  const order = tabOrder(s.doc);
   if (!order.length) return s;
-  const at = order.findIndex((c) => c.id === s.selection[s.selection.length - 1]);
+  const now = current(s);
+  const at = order.findIndex((c) => sameChosen(c, now));
   const next = at < 0 ? (backwards ? order.length - 1 : 0) : (at + (backwards ? -1 : 1) + order.length) % order.length;
-  return { ...s, selection: [order[next].id] };
+  return choose(s, order[next]);
+}
+
+/**
+ * Tab: like cycle, but past the last element (or before the first, with Shift) it lets go of
+ * everything, so the page can let the focus leave the plan instead of trapping it.
+ */
+function tab(s: EditorState, backwards: boolean): EditorState {
+  const order = tabOrder(s.doc);
+  const now = current(s);
+  const at = order.findIndex((c) => sameChosen(c, now));
+  if (at >= 0 && (backwards ? at === 0 : at === order.length - 1)) return { ...s, selection: [], part: null };
+  return cycle(s, backwards);
+}
+
+/** Moves what is chosen by (dx, dy) m: the columns, a boundary corner or a secondary beam. */
+function moveChosen(s: EditorState, dx: number, dy: number): EditorState {
+  if (!hasChoice(s)) return cycle(s, dx < 0 || dy > 0); // nothing chosen: an arrow chooses first
+  const p = s.part;
+  if (p?.kind === 'vertex') {
+    const v = s.doc.boundary.vertices[p.index];
+    return v ? moveVertex(s, p.index, { x: v.x + dx, y: v.y + dy }) : s;
+  }
+  if (p?.kind === 'secondary') return moveSecondary(s, p.id, dx, dy);
+  return moveSelection(s, dx, dy);
+}
+
+function deleteChosen(s: EditorState): EditorState {
+  const p = s.part;
+  if (p?.kind === 'vertex') return deleteVertex(s, p.index);
+  if (p?.kind === 'secondary') return deleteSecondaryBeam(s, p.id);
+  return deleteSelection(s);
 }
 
 export interface KeyInput {
@@ -196,10 +261,13 @@ export interface KeyInput {
 }
 
 /**
- * The keyboard: arrows move the selection by `stepM` (ten times with Shift); Delete or Backspace
- * deletes it; Tab and Shift+Tab cycle through the columns; Insert (or "n") adds a column one step
- * east of the last selected; Ctrl/⌘+Z undoes, Ctrl/⌘+Shift+Z or Ctrl+Y redoes; Escape clears the
- * selection. Returns null for a key the editor does not use (the browser keeps it).
+ * The keyboard: arrows move what is chosen (columns, a boundary corner or a secondary beam) by
+ * `stepM` (ten times with Shift), and with nothing chosen choose the first element (Right, Down)
+ * or the last (Left, Up); Delete or Backspace deletes what is chosen (a corner only while three
+ * remain); Tab and Shift+Tab go through the columns, then the boundary corners, then the secondary
+ * beams, and past the end let go of everything; Insert (or "n") adds a column one step east of the
+ * last selected; Ctrl/⌘+Z undoes, Ctrl/⌘+Shift+Z or Ctrl+Y redoes; Escape lets go. Returns null
+ * for a key the editor does not use (the browser keeps it).
  */
 export function editorKey(s: EditorState, e: KeyInput, stepM: number): EditorState | null {
   const mod = e.ctrlKey || e.metaKey;
@@ -209,20 +277,20 @@ export function editorKey(s: EditorState, e: KeyInput, stepM: number): EditorSta
   if (mod) return null;
   switch (e.key) {
     case 'ArrowLeft':
-      return moveSelection(s, -step, 0);
+      return moveChosen(s, -step, 0);
     case 'ArrowRight':
-      return moveSelection(s, step, 0);
+      return moveChosen(s, step, 0);
     case 'ArrowUp':
-      return moveSelection(s, 0, step); // plan y runs up the screen
+      return moveChosen(s, 0, step); // plan y runs up the screen
     case 'ArrowDown':
-      return moveSelection(s, 0, -step);
+      return moveChosen(s, 0, -step);
     case 'Delete':
     case 'Backspace':
-      return deleteSelection(s);
+      return deleteChosen(s);
     case 'Tab':
-      return cycle(s, e.shiftKey);
+      return tab(s, !!e.shiftKey);
     case 'Escape':
-      return { ...s, selection: [] };
+      return { ...s, selection: [], part: null };
     case 'Insert':
     case 'n': {
       const from = s.doc.columns.find((c) => c.id === s.selection[s.selection.length - 1]);

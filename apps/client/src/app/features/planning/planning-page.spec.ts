@@ -263,6 +263,35 @@ describe('PlanningPage', () => {
     expect(tab.defaultPrevented).toBe(false);
   });
 
+  it('reaches existing columns, corners and beams from the keyboard with nothing chosen first, and says which keys do what', async () => {
+    await open((req) => req.flush(detail()));
+    const editor = el().querySelector<HTMLElement>('[data-testid="plan-editor"]')!;
+    const press = async (init: KeyboardEventInit) => {
+      const ev = new KeyboardEvent('keydown', { bubbles: true, cancelable: true, ...init });
+      editor.dispatchEvent(ev);
+      await settle(10);
+      return ev;
+    };
+    expect(text('chosen-columns')).toContain('Nothing chosen');
+    expect((await press({ key: 'Tab' })).defaultPrevented).toBe(true);
+    expect(text('chosen-columns')).toContain('A1');
+    await press({ key: 'Escape' });
+    expect((await press({ key: 'ArrowLeft' })).defaultPrevented).toBe(true);
+    expect(text('chosen-columns')).toContain('secondary beam SB1');
+    expect(all('[data-secondary].sel').map((g) => g.getAttribute('data-secondary'))).toEqual(['SB1']);
+    await press({ key: 'Tab', shiftKey: true });
+    expect(text('chosen-columns')).toContain('boundary corner 4');
+    expect(all('[data-vertex].sel').map((r) => r.getAttribute('data-vertex'))).toEqual(['3']);
+    // past the last element Tab lets go and leaves the focus to the browser
+    await press({ key: 'Tab' });
+    const out = await press({ key: 'Tab' });
+    expect(out.defaultPrevented).toBe(false);
+    expect(text('chosen-columns')).toContain('Nothing chosen');
+    const help = text('key-help');
+    for (const words of ['Tab', 'Shift+Tab', 'boundary corners', 'secondary beams', 'Delete', 'Escape', 'Ctrl+Z'])
+      expect(help).toContain(words);
+  });
+
   it('rebuilds the lettered grid from a typed spacing list, and says what is wrong with a bad list', async () => {
     await open((req) => req.flush(detail()));
     await type('spacing-x', '4.2 4.2 3.6 3');

@@ -50,6 +50,7 @@ import {
   deleteSecondaryBeam,
   selectSecondary,
   updateSecondaryBeam,
+  hasChoice,
   type ColumnPatch,
   type EditorState,
   type PlanPart,
@@ -371,13 +372,24 @@ export class PlanningPage {
     if (e) this.apply(togglePropertyLine(e, segment));
   }
 
+  /** set by Escape: the next Tab with nothing chosen leaves the plan rather than choosing again */
+  private tabLeaves = false;
+
+  protected planFocused(): void {
+    this.tabLeaves = false;
+  }
+
   protected key(ev: KeyboardEvent): void {
     const e = this.editor();
     if (!e || !this.canEdit()) return;
-    // Tab cycles through the columns only while one is chosen: Escape clears the choice, so Tab
-    // then leaves the plan as usual (the plan never traps the keyboard).
-    if (ev.key === 'Tab' && !e.selection.length) return;
-    if (this.apply(editorKey(e, ev, KEY_STEP_M))) ev.preventDefault();
+    // The plan never traps the keyboard: after Escape, Tab leaves it; Tab past the last element
+    // (Shift+Tab before the first) lets go of everything and the focus moves on as usual.
+    if (ev.key === 'Tab' && !hasChoice(e) && this.tabLeaves) return;
+    const next = editorKey(e, ev, KEY_STEP_M);
+    if (!this.apply(next)) return;
+    this.tabLeaves = ev.key === 'Escape';
+    if (ev.key === 'Tab' && next && !hasChoice(next)) return;
+    ev.preventDefault();
   }
 
   protected addAtCentre(): void {
