@@ -16,6 +16,9 @@ import {
   moveSecondary,
   selectSecondary,
   updateSecondaryBeam,
+  addStair,
+  deleteStair,
+  updateStair,
   editorKey,
   moveColumnTo,
   moveSelection,
@@ -398,5 +401,19 @@ describe('plan editor model', () => {
       expect(b.doc.secondaryBeams).toEqual([]);
       expect(undo(b).doc.secondaryBeams).toHaveLength(1);
     });
+  });
+
+  it('adds, changes and removes stair flights, each as one undo step, never reusing an id', () => {
+    let s = addStair(start(), { riserMm: 165, treadMm: 280, risers: 10, widthM: 1.2, use: 'other' });
+    expect(s.doc.stairs.map((f) => f.id)).toEqual(['ST1', 'ST2']);
+    s = updateStair(s, 'ST2', { riserMm: 150 });
+    expect(s.doc.stairs[1]).toEqual({ id: 'ST2', riserMm: 150, treadMm: 280, risers: 10, widthM: 1.2, use: 'other' });
+    expect(updateStair(s, 'ST2', { riserMm: 150 })).toBe(s);
+    s = deleteStair(s, 'ST1');
+    s = addStair(s, { riserMm: 170, treadMm: 260, risers: 9, widthM: 1, use: 'residential' });
+    expect(s.doc.stairs.map((f) => f.id)).toEqual(['ST2', 'ST3']);
+    expect(s.past).toHaveLength(4);
+    expect(undo(undo(s)).doc.stairs.map((f) => f.id)).toEqual(['ST1', 'ST2']);
+    expect(() => schemeSchema.parse(s.doc)).not.toThrow();
   });
 });

@@ -545,3 +545,30 @@ export function deleteSecondaryBeam(s: EditorState, id: string): EditorState {
   if (!s.doc.secondaryBeams.some((b) => b.id === id)) return s;
   return commit(s, { ...s.doc, secondaryBeams: s.doc.secondaryBeams.filter((b) => b.id !== id) }, [], null);
 }
+
+// Stair flights: geometry only (riser, tread, number of risers, width, use); the engine checks
+// each against the code family's limits.
+
+type StairFlight = SchemeDocument['stairs'][number];
+
+/** Adds a flight under a free id (ST1, ST2, …) as one undo step. */
+export function addStair(s: EditorState, flight: Omit<StairFlight, 'id'>): EditorState {
+  const used = new Set(s.doc.stairs.map((f) => f.id));
+  let n = s.doc.stairs.length + 1;
+  while (used.has(`ST${n}`)) n++;
+  return commit(s, { ...s.doc, stairs: [...s.doc.stairs, { id: `ST${n}`, ...flight }] });
+}
+
+/** Changes one flight's geometry or use as one undo step (nothing changed: no step). */
+export function updateStair(s: EditorState, id: string, patch: Partial<Omit<StairFlight, 'id'>>): EditorState {
+  const old = s.doc.stairs.find((f) => f.id === id);
+  if (!old) return s;
+  const next: StairFlight = { ...old, ...patch, id };
+  if ((Object.keys(next) as (keyof StairFlight)[]).every((k) => next[k] === old[k])) return s;
+  return commit(s, { ...s.doc, stairs: s.doc.stairs.map((f) => (f.id === id ? next : f)) });
+}
+
+export function deleteStair(s: EditorState, id: string): EditorState {
+  if (!s.doc.stairs.some((f) => f.id === id)) return s;
+  return commit(s, { ...s.doc, stairs: s.doc.stairs.filter((f) => f.id !== id) });
+}

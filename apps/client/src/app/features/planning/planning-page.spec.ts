@@ -292,6 +292,25 @@ describe('PlanningPage', () => {
       expect(help).toContain(words);
   });
 
+  it("edits a stair flight in its panel and the engine's stair check follows the new riser", async () => {
+    await open((req) => req.flush(detail()));
+    const riserCheck = () => all('[data-testid="check"]').find((c) => c.textContent?.includes('ST1: riser'));
+    expect(riserCheck()).toBeUndefined();
+    button('stair-edit').click();
+    await settle();
+    await type('stair-riser', '200');
+    button('stair-save').click();
+    await settle(10);
+    expect(text('stairs-panel')).toContain('ST1: 9 risers of 200 mm');
+    // a residential riser is at most 190 mm under the National Building Code of India 2016 (from memory);
+    // the demo's code family is IS 456, so 200 mm must now fail
+    for (let i = 0; i < 50 && !riserCheck(); i++) await settle(20);
+    expect(riserCheck()?.textContent).toContain('ST1: riser 200 mm (at most 190 mm)');
+    button('undo').click();
+    await settle(10);
+    expect(text('stairs-panel')).toContain('ST1: 9 risers of 170 mm');
+  });
+
   it('rebuilds the lettered grid from a typed spacing list, and says what is wrong with a bad list', async () => {
     await open((req) => req.flush(detail()));
     await type('spacing-x', '4.2 4.2 3.6 3');

@@ -22,6 +22,7 @@ import { CAUTION, type SchemeResult } from '@trabeate/structural';
 import { errorMessage } from '../../core/auth/api-error';
 import { SEVERITY_LABELS, SOURCE_KIND_LABELS, numbersOf, ruleLabel } from './check-labels';
 import { BoundaryPanel } from './boundary-panel';
+import { StairsPanel, type FlightDraft } from './stairs-panel';
 import { SecondaryBeamsPanel, type PlacingStep, type SecondaryEnds } from './secondary-beams-panel';
 import { FootingOptions } from './footing-options';
 import type { FootingChoice } from './footing-options-model';
@@ -51,6 +52,9 @@ import {
   selectSecondary,
   updateSecondaryBeam,
   hasChoice,
+  addStair,
+  deleteStair,
+  updateStair,
   type ColumnPatch,
   type EditorState,
   type PlanPart,
@@ -91,6 +95,7 @@ export const KEY_STEP_M = 0.05;
     RouterLink,
     SchemeOutputs,
     SecondaryBeamsPanel,
+    StairsPanel,
   ],
   templateUrl: './planning-page.html',
   styleUrls: ['../../shared/page/page.scss', './planning-page.scss'],
@@ -350,6 +355,18 @@ export class PlanningPage {
   protected chooseSecondary(id: string): void {
     const e = this.editor();
     if (e) this.editor.set(selectSecondary(e, id));
+  }
+
+  protected saveStair(f: FlightDraft): void {
+    const e = this.editor();
+    if (!e) return;
+    const { id, ...flight } = f;
+    this.apply(id ? updateStair(e, id, flight) : addStair(e, flight));
+  }
+
+  protected removeStair(id: string): void {
+    const e = this.editor();
+    if (e) this.apply(deleteStair(e, id));
   }
 
   protected vertexDropped(d: VertexDrop): void {
