@@ -13,6 +13,7 @@ import {
   type SchemeDetail,
 } from '@trabeate/contracts';
 import { demoSchemeVariant } from '@trabeate/structural';
+import { reply } from '../../../testing/api-replies';
 import { planGeometry } from './plan-geometry';
 import { PlanningPage } from './planning-page';
 
@@ -439,9 +440,12 @@ describe('PlanningPage', () => {
     button('history-toggle').click();
     await settle();
     const at = (v: number) => ({ ...detail().current, version: v, restoredFrom: null });
-    backend
-      .expectOne(`${URL}/versions?pageSize=50`)
-      .flush(schemeVersionListSchema.parse({ items: [at(3), at(2), at(1)], total: 3, page: 1, pageSize: 50 }));
+    reply(backend.expectOne(`${URL}/versions?page=1&pageSize=25`), schemeVersionListSchema, {
+      items: [at(3), at(2), at(1)],
+      total: 3,
+      page: 1,
+      pageSize: 25,
+    });
     await settle();
     const rows = all('[data-testid="version"]');
     expect(rows.map((r) => r.querySelector('.v')?.textContent)).toEqual(['Version 3', 'Version 2', 'Version 1']);
@@ -455,16 +459,60 @@ describe('PlanningPage', () => {
     backend
       .expectOne(URL)
       .flush({ ...detail(SCHEME, 4), current: { ...detail().current, version: 4, restoredFrom: 1 } });
-    backend.expectOne(`${URL}/versions?pageSize=50`).flush(
-      schemeVersionListSchema.parse({
-        items: [{ ...at(4), restoredFrom: 1 }, at(3), at(2), at(1)],
-        total: 4,
-        page: 1,
-        pageSize: 50,
-      }),
-    );
+    reply(backend.expectOne(`${URL}/versions?page=1&pageSize=25`), schemeVersionListSchema, {
+      items: [{ ...at(4), restoredFrom: 1 }, at(3), at(2), at(1)],
+      total: 4,
+      page: 1,
+      pageSize: 25,
+    });
     await settle(10);
     expect(text('scheme-lead')).toContain('Version 4');
     expect(all('[data-testid="version"]')[0].textContent).toContain('brought back version 1');
+  });
+
+  it('pages the saves through the server: every save can be reached, not only the newest page', async () => {
+    await open((req) => req.flush(detail(SCHEME, 60)));
+    button('history-toggle').click();
+    await settle();
+    const at = (v: number) => ({ ...detail().current, version: v, restoredFrom: null });
+    const versions = (from: number, n: number) => Array.from({ length: n }, (_, i) => at(from - i));
+    reply(backend.expectOne(`${URL}/versions?page=1&pageSize=25`), schemeVersionListSchema, {
+      items: versions(60, 25),
+      total: 60,
+      page: 1,
+      pageSize: 25,
+    });
+    await settle();
+    // the paginator's own buttons, clicked directly: a harness waits for the page to be stable, which
+    // it is not while the next page's request waits for its answer here
+    const range = () => el().querySelector('.mat-mdc-paginator-range-label')?.textContent?.trim();
+    const go = (which: 'next' | 'previous' | 'last') =>
+      el().querySelector<HTMLButtonElement>(`.mat-mdc-paginator-navigation-${which}`)!.click();
+    expect(range()).toBe('1 – 25 of 60');
+    go('last');
+    await settle();
+    reply(backend.expectOne(`${URL}/versions?page=3&pageSize=25`), schemeVersionListSchema, {
+      items: versions(10, 10),
+      total: 60,
+      page: 3,
+      pageSize: 25,
+    });
+    await settle();
+    const rows = all('[data-testid="version"]');
+    expect(rows).toHaveLength(10);
+    expect(rows[9].querySelector('.v')?.textContent).toBe('Version 1');
+    expect(range()).toBe('51 – 60 of 60');
+
+    go('previous');
+    await settle();
+    reply(backend.expectOne(`${URL}/versions?page=2&pageSize=25`), schemeVersionListSchema, {
+      items: versions(35, 25),
+      total: 60,
+      page: 2,
+      pageSize: 25,
+    });
+    await settle();
+    expect(all('[data-testid="version"]')[0].querySelector('.v')?.textContent).toBe('Version 35');
+    expect(range()).toBe('26 – 50 of 60');
   });
 });

@@ -1,4 +1,3 @@
-import { DatePipe } from '@angular/common';
 import { HttpErrorResponse, httpResource } from '@angular/common/http';
 import { ChangeDetectionStrategy, Component, DestroyRef, computed, effect, inject, input, signal } from '@angular/core';
 import { MatButton } from '@angular/material/button';
@@ -8,6 +7,7 @@ import { MatIcon } from '@angular/material/icon';
 import { MatProgressSpinner } from '@angular/material/progress-spinner';
 import { MatSelect } from '@angular/material/select';
 import { MatInput } from '@angular/material/input';
+import { MatPaginator, type PageEvent } from '@angular/material/paginator';
 import { Router, RouterLink } from '@angular/router';
 import {
   schemeConflictSchema,
@@ -20,6 +20,7 @@ import {
 } from '@trabeate/contracts';
 import { CAUTION, type SchemeResult } from '@trabeate/structural';
 import { errorMessage } from '../../core/auth/api-error';
+import { DayTimePipe } from '../../shared/dates/app-dates';
 import { SEVERITY_LABELS, SOURCE_KIND_LABELS, numbersOf, ruleLabel } from './check-labels';
 import { BoundaryPanel } from './boundary-panel';
 import { StairsPanel, type FlightDraft } from './stairs-panel';
@@ -80,7 +81,7 @@ export const KEY_STEP_M = 0.05;
   selector: 'tb-planning-page',
   imports: [
     BoundaryPanel,
-    DatePipe,
+    DayTimePipe,
     FootingOptions,
     MatButton,
     MatFormField,
@@ -88,6 +89,7 @@ export const KEY_STEP_M = 0.05;
     MatInput,
     MatLabel,
     MatOption,
+    MatPaginator,
     MatProgressSpinner,
     MatSelect,
     PlanView,
@@ -138,8 +140,15 @@ export class PlanningPage {
   /** the report and plan sheet of the version this session started from */
   protected readonly outputsOpen = signal(false);
   protected readonly historyBusy = signal(false);
+  /** the page of saves shown, newest first (the server pages them: a long-lived scheme has hundreds) */
+  protected readonly historyPage = signal({ page: 1, pageSize: 25 });
+  protected readonly historySizes = [10, 25, 50, 100];
   protected readonly history = httpResource(
-    () => (this.historyOpen() ? `${schemeUrl(this.projectId(), this.schemeId())}/versions?pageSize=50` : undefined),
+    () => {
+      if (!this.historyOpen()) return undefined;
+      const { page, pageSize } = this.historyPage();
+      return `${schemeUrl(this.projectId(), this.schemeId())}/versions?page=${page}&pageSize=${pageSize}`;
+    },
     { parse: (body) => schemeVersionListSchema.parse(body) },
   );
 
@@ -262,6 +271,17 @@ export class PlanningPage {
     this.waiting = null;
     this.busy = true;
     this.worker.post(request);
+  }
+
+  protected historyPaged(e: PageEvent): void {
+    this.historyPage.set({ page: e.pageIndex + 1, pageSize: e.pageSize });
+  }
+
+  /** after a save or a restore the newest saves are what matters: back to the first page */
+  private showNewestSaves(): void {
+    const p = this.historyPage();
+    if (p.page === 1) this.history.reload();
+    else this.historyPage.set({ ...p, page: 1 });
   }
 
   protected choose(index: number): void {
@@ -503,7 +523,7 @@ export class PlanningPage {
       this.savedDoc.set(e.doc);
       this.openedVersion.set(null);
       this.conflict.set(null);
-      if (this.historyOpen()) this.history.reload();
+      if (this.historyOpen()) this.showNewestSaves();
     } catch (err) {
       const c =
         err instanceof HttpErrorResponse && err.status === 409 ? schemeConflictSchema.safeParse(err.error) : null;
@@ -558,7 +578,7 @@ export class PlanningPage {
     try {
       await this.api.restoreVersion(this.projectId(), this.schemeId(), version);
       this.scheme.reload();
-      this.history.reload();
+      this.showNewestSaves();
     } catch (err) {
       this.saveError.set(errorMessage(err, 'That version could not be restored.'));
     } finally {
