@@ -246,7 +246,8 @@ function moveChosen(s: EditorState, dx: number, dy: number): EditorState {
   return moveSelection(s, dx, dy);
 }
 
-function deleteChosen(s: EditorState): EditorState {
+/** Deletes what is chosen: the selected columns, a boundary corner (while more than three remain) or a secondary beam. */
+export function deleteChosen(s: EditorState): EditorState {
   const p = s.part;
   if (p?.kind === 'vertex') return deleteVertex(s, p.index);
   if (p?.kind === 'secondary') return deleteSecondaryBeam(s, p.id);

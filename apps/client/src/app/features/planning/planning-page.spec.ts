@@ -355,6 +355,14 @@ describe('PlanningPage', () => {
     expect(all('[data-vertex]')).toHaveLength(5);
     expect(all('[data-vertex="1"]')[0].getAttribute('y')).toBe(String(box().minY + box().height + 0.5 - 0.22));
 
+    // the toolbar's Delete removes the chosen corner as well as chosen columns
+    expect(button('delete-columns').disabled).toBe(false);
+    button('delete-columns').click();
+    await settle(10);
+    expect(all('[data-testid="boundary-corner"]')).toHaveLength(4);
+    expect(button('delete-columns').disabled).toBe(true);
+    button('undo').click();
+    await settle(10);
     button('undo').click();
     await settle(10);
     button('undo').click();

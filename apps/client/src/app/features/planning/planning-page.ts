@@ -41,7 +41,7 @@ import {
   startEditing,
   undo,
   redo,
-  deleteSelection,
+  deleteChosen,
   updateColumn,
   deleteVertex,
   insertVertex,
@@ -170,6 +170,10 @@ export class PlanningPage {
   /** placing a secondary beam by two presses on the plan: the step, and the first press */
   protected readonly placing = signal<PlacingStep>('off');
   private placeStart: PlanTap | null = null;
+  protected readonly anythingChosen = computed(() => {
+    const e = this.editor();
+    return !!e && hasChoice(e);
+  });
   /** what is chosen, in words, for the plan's live line */
   protected readonly chosenText = computed(() => {
     const e = this.editor();
@@ -441,7 +445,7 @@ export class PlanningPage {
 
   protected deleteChosen(): void {
     const e = this.editor();
-    if (e) this.apply(deleteSelection(e));
+    if (e) this.apply(deleteChosen(e));
   }
 
   protected undo(): void {
