@@ -235,6 +235,36 @@ describe('schemes: create, duplicate, rename, archive, save, history and restore
     expect((await principal.get(`${base}/${scheme.id}/versions/9`)).status).toBe(404);
   });
 
+  it('pages the saves newest first: page and pageSize checked by the contract, the total on every page', async () => {
+    const scheme = await create('Paging study');
+    for (let v = 1; v <= 4; v++) {
+      const doc = { ...scheme.document, stairs: scheme.document.stairs.map((f) => ({ ...f, risers: 8 + v })) };
+      const res = await send(engineer, 'put', `${base}/${scheme.id}/document`, { baseVersion: v, document: doc });
+      expect(res.status).toBe(200);
+    }
+    const page = async (query: string) => {
+      const res = await principal.get(`${base}/${scheme.id}/versions?${query}`);
+      expect(res.status).toBe(200);
+      return schemeVersionListSchema.parse(res.body);
+    };
+    const first = await page('page=1&pageSize=2');
+    expect([first.items.map((v) => v.version), first.total, first.page, first.pageSize]).toEqual([[5, 4], 5, 1, 2]);
+    const last = await page('page=3&pageSize=2');
+    expect([last.items.map((v) => v.version), last.total, last.page]).toEqual([[1], 5, 3]);
+    // beyond the last page: nothing on it, and the total still says how many there are
+    const beyond = await page('page=4&pageSize=2');
+    expect([beyond.items, beyond.total]).toEqual([[], 5]);
+    // without a query: the contract's defaults (page 1 of 25)
+    const plain = await page('');
+    expect([plain.items.length, plain.page, plain.pageSize]).toEqual([5, 1, 25]);
+
+    for (const bad of ['page=0', 'pageSize=0', 'pageSize=101', 'page=two', 'pageSize=2.5']) {
+      const res = await principal.get(`${base}/${scheme.id}/versions?${bad}`);
+      expect([bad, res.status]).toEqual([bad, 400]);
+      expect(res.body.error.code).toEqual(expect.any(String));
+    }
+  });
+
   it('renames and archives; an archived scheme leaves the active list and refuses saves until restored', async () => {
     const scheme = await create('Rename study');
     const renamed = await send(engineer, 'patch', `${base}/${scheme.id}`, { name: 'Transfer-beam study' });

@@ -21,6 +21,20 @@ import type { PlanGeometry } from './plan-geometry';
           [attr.y2]="b0.minY + b0.height - s.b.y"
           [attr.data-testid]="s.property ? 'property-line' : 'plot-edge'"
         />
+        @if (s.property) {
+          <!-- words as well as a line style: a property line never rests on the look of a line alone -->
+          <svg:text
+            class="property-label"
+            [attr.x]="(s.a.x + s.b.x) / 2 - b0.minX"
+            [attr.y]="b0.minY + b0.height - (s.a.y + s.b.y) / 2"
+            [attr.transform]="labelTurn(s, b0)"
+            text-anchor="middle"
+            dy="-0.2"
+            data-testid="property-line-label"
+          >
+            property line
+          </svg:text>
+        }
       }
     </svg:g>
     <svg:g class="grid">
@@ -79,6 +93,15 @@ import type { PlanGeometry } from './plan-geometry';
       stroke-width: 3px;
       stroke-dasharray: 10 3 2 3;
     }
+    .property-label {
+      font:
+        italic 600 0.4px 'Atkinson Hyperlegible',
+        sans-serif;
+      fill: var(--mat-sys-on-surface);
+      paint-order: stroke;
+      stroke: var(--mat-sys-surface-container-lowest);
+      stroke-width: 0.12px;
+    }
     .grid line {
       stroke: var(--mat-sys-outline);
       stroke-width: 0.75px;
@@ -115,4 +138,14 @@ export class PlanBaseLayer {
   readonly geometry = input.required<PlanGeometry>();
   /** ids drawn highlighted (the chosen check's elements) */
   readonly lit = input<ReadonlySet<string>>(new Set());
+
+  /** turns a property line's label to run along it, kept readable (never upside down) */
+  protected labelTurn(s: { a: { x: number; y: number }; b: { x: number; y: number } }, b0: PlanGeometry['box']) {
+    let deg = (Math.atan2(-(s.b.y - s.a.y), s.b.x - s.a.x) * 180) / Math.PI;
+    if (deg > 90) deg -= 180;
+    if (deg < -90) deg += 180;
+    const cx = (s.a.x + s.b.x) / 2 - b0.minX;
+    const cy = b0.minY + b0.height - (s.a.y + s.b.y) / 2;
+    return `rotate(${Math.round(deg * 10) / 10} ${cx} ${cy})`;
+  }
 }

@@ -2,7 +2,8 @@ import { TestBed, type ComponentFixture } from '@angular/core/testing';
 import { schemeDetailSchema, type SchemeDocument } from '@trabeate/contracts';
 import { demoSchemeVariant } from '@trabeate/structural';
 import { planGeometry } from './plan-geometry';
-import { PlanView, type ColumnDrop } from './plan-view';
+import type { PlanPart } from './editor-model';
+import { PlanView, type ColumnDrop, type VertexDrop } from './plan-view';
 
 // The demo variant (no B3), parsed by the contract as the API would send it.
 const doc = (): SchemeDocument =>
@@ -104,5 +105,76 @@ describe('PlanView while a column is dragged', () => {
     fixture.detectChanges();
     expect(dims()).toContain('4.00 m');
     expect(q('.moving')).toBeNull();
+  });
+});
+
+describe('PlanView: the boundary and secondary beams', () => {
+  let fixture: ComponentFixture<PlanView>;
+  const d = doc();
+  const box = planGeometry(d).box;
+  const el = () => fixture.nativeElement as HTMLElement;
+  const q = (sel: string) => el().querySelector<SVGElement>(sel);
+  const pointer = (target: Element, type: string, x: number, y: number) =>
+    target.dispatchEvent(
+      new PointerEvent(type, {
+        bubbles: true,
+        pointerId: 1,
+        button: 0,
+        clientX: x - box.minX,
+        clientY: box.minY + box.height - y,
+      }),
+    );
+
+  beforeEach(() => {
+    fixture = TestBed.createComponent(PlanView);
+    fixture.componentRef.setInput('document', d);
+    fixture.componentRef.setInput('editable', true);
+    fixture.detectChanges();
+  });
+
+  it('names each property line in words beside its line style, not by the look of the line alone', () => {
+    expect(el().querySelectorAll('[data-testid="property-line"]')).toHaveLength(2);
+    const labels = Array.from(el().querySelectorAll('[data-testid="property-line-label"]'));
+    expect(labels.map((t) => t.textContent?.trim())).toEqual(['property line', 'property line']);
+  });
+
+  it('drags a boundary corner with the columns’ snapping and drops it where it snapped', () => {
+    const drops: VertexDrop[] = [];
+    const picks: PlanPart[] = [];
+    fixture.componentInstance.placeVertex.subscribe((v) => drops.push(v));
+    fixture.componentInstance.pickPart.subscribe((p) => picks.push(p));
+    // corner 2 stands at (14.5, 0); near grid D (x 12.8) it snaps to it (10 px at 50 px per metre in jsdom)
+    pointer(q('[data-vertex="1"]')!, 'pointerdown', 14.5, 0);
+    pointer(q('[data-testid="plan"]')!, 'pointermove', 12.72, 1.0);
+    fixture.detectChanges();
+    expect(q('[data-testid="moving-vertex"]')).not.toBeNull();
+    expect(q('[data-testid="snap-note"]')?.textContent).toContain('on grid D');
+    pointer(q('[data-testid="plan"]')!, 'pointerup', 12.72, 1.0);
+    fixture.detectChanges();
+    expect(drops).toEqual([{ index: 1, x: 12.8, y: 1 }]);
+    expect(picks).toEqual([]);
+    expect(q('[data-testid="moving-vertex"]')).toBeNull();
+
+    // a press without a move chooses the corner
+    pointer(q('[data-vertex="3"]')!, 'pointerdown', 0, 18);
+    pointer(q('[data-testid="plan"]')!, 'pointerup', 0, 18);
+    expect(picks).toEqual([{ kind: 'vertex', index: 3 }]);
+  });
+
+  it('draws each secondary beam with its id, chooses it by a press and shows it chosen', () => {
+    const picks: PlanPart[] = [];
+    fixture.componentInstance.pickPart.subscribe((p) => picks.push(p));
+    expect(q('[data-testid="secondary-label"]')?.textContent?.trim()).toBe('SB1');
+    pointer(q('[data-secondary="SB1"]')!, 'pointerdown', 6, 6.2);
+    expect(picks).toEqual([{ kind: 'secondary', id: 'SB1' }]);
+    fixture.componentRef.setInput('part', { kind: 'secondary', id: 'SB1' });
+    fixture.detectChanges();
+    expect(q('[data-secondary="SB1"]')?.classList.contains('sel')).toBe(true);
+  });
+
+  it('without editing rights there are no corner handles to drag', () => {
+    fixture.componentRef.setInput('editable', false);
+    fixture.detectChanges();
+    expect(el().querySelectorAll('[data-vertex]')).toHaveLength(0);
   });
 });

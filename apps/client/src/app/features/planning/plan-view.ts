@@ -2,11 +2,12 @@ import { ChangeDetectionStrategy, Component, computed, input, output, signal } f
 import { MatIconButton } from '@angular/material/button';
 import { MatIcon } from '@angular/material/icon';
 import type { SchemeCheck, SchemeDocument } from '@trabeate/contracts';
-import { snap } from './editor-model';
+import { snap, type PlanPart } from './editor-model';
 import { PlanBaseLayer } from './plan-base-layer';
 import { PlanColumnLayer } from './plan-column-layer';
 import { planGeometry, type PlanGeometry, type Pt } from './plan-geometry';
 import { PlanMarkerLayer, type Marker } from './plan-marker-layer';
+import { PlanPartLayer } from './plan-part-layer';
 
 /** spacing of markers that share a spot, m on the plan */
 const MARKER_STEP_M = 0.95;
@@ -29,9 +30,23 @@ export interface ColumnDrop {
   x: number;
   y: number;
 }
+/** A tap on the plan: where, in plan m, and the snap tolerance there (the columns' pixels at this zoom), m. */
+export interface PlanTap {
+  x: number;
+  y: number;
+  toleranceM: number;
+}
+/** The end of a boundary vertex's drag: its new (snapped) position, plan m. */
+export interface VertexDrop {
+  index: number;
+  x: number;
+  y: number;
+}
 
 interface Drag {
   id: string;
+  /** the boundary vertex being dragged, when it is one rather than a column */
+  vertex?: number;
   pointerId: number;
   start: Pt;
   from: Pt;
@@ -90,6 +105,16 @@ interface Pan {
     >
       <g tbPlanBaseLayer [geometry]="g" [lit]="lit()"></g>
       <g
+        tbPlanPartLayer
+        [boundary]="document().boundary"
+        [secondaryBeams]="document().secondaryBeams"
+        [box]="g.box"
+        [part]="part()"
+        [lit]="lit()"
+        [editable]="editable()"
+        (press)="grabPart($event.event, $event.part)"
+      ></g>
+      <g
         tbPlanColumnLayer
         [columns]="document().columns"
         [box]="g.box"
@@ -113,6 +138,14 @@ interface Pan {
               [attr.data-moving-column]="c.id"
             />
           }
+        </g>
+      }
+      @if (vertexDrag(); as v) {
+        <!-- the dragged corner with its two segments; the outline itself moves on the drop -->
+        <g class="moving-vertex" aria-hidden="true" data-testid="moving-vertex">
+          <line [attr.x1]="X(v.prev.x)" [attr.y1]="Y(v.prev.y)" [attr.x2]="X(v.x)" [attr.y2]="Y(v.y)" />
+          <line [attr.x1]="X(v.x)" [attr.y1]="Y(v.y)" [attr.x2]="X(v.next.x)" [attr.y2]="Y(v.next.y)" />
+          <rect [attr.x]="X(v.x) - 0.22" [attr.y]="Y(v.y) - 0.22" width="0.44" height="0.44" />
         </g>
       }
       @if (dimensions().length) {
@@ -140,7 +173,7 @@ interface Pan {
     </svg>
     <p class="snap-note" aria-live="polite" data-testid="snap-note">{{ snapNote() }}</p>
   `,
-  imports: [MatIcon, MatIconButton, PlanBaseLayer, PlanColumnLayer, PlanMarkerLayer],
+  imports: [MatIcon, MatIconButton, PlanBaseLayer, PlanColumnLayer, PlanMarkerLayer, PlanPartLayer],
   styles: `
     :host {
       display: block;
@@ -165,6 +198,17 @@ interface Pan {
       stroke-width: 2px;
       stroke-dasharray: 3 2;
       vector-effect: non-scaling-stroke;
+      cursor: grabbing;
+    }
+    .moving-vertex line,
+    .moving-vertex rect {
+      stroke: var(--mat-sys-on-surface);
+      stroke-width: 2px;
+      stroke-dasharray: 3 2;
+      vector-effect: non-scaling-stroke;
+    }
+    .moving-vertex rect {
+      fill: var(--mat-sys-primary);
       cursor: grabbing;
     }
     .dims line {
@@ -210,6 +254,13 @@ export class PlanView {
   readonly editable = input(false);
   readonly pick = output<ColumnPick>();
   readonly place = output<ColumnDrop>();
+  /** the chosen boundary vertex or secondary beam */
+  readonly part = input<PlanPart | null>(null);
+  /** a boundary vertex or secondary beam was pressed without a drag */
+  readonly pickPart = output<PlanPart>();
+  readonly placeVertex = output<VertexDrop>();
+  /** a press and release on the plan itself (not on an element, no pan): the plan point, m, and how far it may snap */
+  readonly tap = output<PlanTap>();
 
   protected readonly chosenIds = computed(() => new Set(this.selection()));
   protected readonly zoom = signal(1);
@@ -226,6 +277,8 @@ export class PlanView {
     return o ? `translate(${o.x} ${-o.y})` : null;
   });
   protected readonly snapNote = signal('');
+  /** while a boundary vertex is dragged: where it is now (snapped) and its two neighbours */
+  protected readonly vertexDrag = signal<{ index: number; x: number; y: number; prev: Pt; next: Pt } | null>(null);
   private drag: Drag | null = null;
   private pan: Pan | null = null;
 
@@ -355,8 +408,41 @@ export class PlanView {
     this.drag.start = this.toPlan(e);
   }
 
+  /** A press on a vertex starts a drag like a column's; a press on a secondary beam chooses it. */
+  protected grabPart(e: PointerEvent, part: PlanPart): void {
+    if (!this.editable() || e.button !== 0) return;
+    e.stopPropagation();
+    if (part.kind === 'secondary') {
+      this.pickPart.emit(part);
+      return;
+    }
+    const v = this.document().boundary.vertices[part.index];
+    if (!v) return;
+    const svg = (e.currentTarget as Element | null)?.closest?.('svg') as SVGSVGElement | null;
+    const m = svg?.getScreenCTM?.();
+    const screen = m && m.a ? { inverse: m.inverse(), metresPerPixel: 1 / m.a } : null;
+    this.drag = {
+      id: `corner ${part.index + 1}`,
+      vertex: part.index,
+      pointerId: e.pointerId,
+      start: { x: 0, y: 0 },
+      from: { x: v.x, y: v.y },
+      moved: false,
+      moving: [],
+      screen,
+    };
+    this.drag.start = this.toPlan(e);
+  }
+
   protected startPan(e: PointerEvent): void {
-    if (this.drag || e.button !== 0 || this.zoom() === ZOOM_MIN) return;
+    if (this.drag || e.button !== 0) return;
+    this.tapAt = {
+      x: e.clientX,
+      y: e.clientY,
+      pointerId: e.pointerId,
+      plan: { ...this.toPlan(e), toleranceM: SNAP_PX * this.metresPerPixel(e) },
+    };
+    if (this.zoom() === ZOOM_MIN) return;
     const g = this.geometry().box;
     const c = this.centre() ?? { x: g.minX + g.width / 2, y: g.minY + g.height / 2 };
     this.pan = { pointerId: e.pointerId, start: { x: e.clientX, y: e.clientY }, from: c };
@@ -367,6 +453,10 @@ export class PlanView {
       const p = this.toPlan(e);
       const raw = { x: this.drag.from.x + p.x - this.drag.start.x, y: this.drag.from.y + p.y - this.drag.start.y };
       const moving = this.drag.moving;
+      if (this.drag.vertex !== undefined) {
+        this.dragVertex(this.drag, this.drag.vertex, raw, e);
+        return;
+      }
       if (!this.lifted()) {
         const ids = new Set(moving);
         this.lifted.set(this.document().columns.filter((c) => ids.has(c.id)));
@@ -390,6 +480,13 @@ export class PlanView {
 
   protected pointerUp(e: PointerEvent): void {
     const d = this.drag;
+    if (d && e.pointerId === d.pointerId && d.vertex !== undefined) {
+      const v = this.vertexDrag();
+      this.cancel();
+      if (d.moved && v) this.placeVertex.emit({ index: v.index, x: v.x, y: v.y });
+      else this.pickPart.emit({ kind: 'vertex', index: d.vertex });
+      return;
+    }
     if (d && e.pointerId === d.pointerId) {
       const o = this.offset();
       this.cancel();
@@ -397,7 +494,25 @@ export class PlanView {
       else this.pick.emit({ id: d.id, extend: e.shiftKey || e.ctrlKey || e.metaKey });
       return;
     }
+    const t = this.tapAt;
+    this.tapAt = null;
+    // a press that did not travel (a pan moves it) is a tap on the plan
+    if (t && t.pointerId === e.pointerId && Math.hypot(e.clientX - t.x, e.clientY - t.y) < 4) this.tap.emit(t.plan);
     this.pan = null;
+  }
+
+  private tapAt: { x: number; y: number; pointerId: number; plan: PlanTap } | null = null;
+
+  private dragVertex(drag: Drag, index: number, raw: Pt, e: PointerEvent): void {
+    const vs = this.document().boundary.vertices;
+    const s = snap(this.document(), raw, {
+      toleranceM: SNAP_PX * (drag.screen?.metresPerPixel ?? this.metresPerPixel(e)),
+    });
+    drag.moved ||= s.x !== drag.from.x || s.y !== drag.from.y;
+    const n = vs.length;
+    this.vertexDrag.set({ index, x: s.x, y: s.y, prev: vs[(index - 1 + n) % n], next: vs[(index + 1) % n] });
+    const to = [s.snappedX, s.snappedY].filter(Boolean).join(' and ');
+    this.snapNote.set(`${drag.id} at x ${s.x.toFixed(2)} m, y ${s.y.toFixed(2)} m${to ? `, on ${to}` : ''}`);
   }
 
   protected cancel(): void {
@@ -405,6 +520,7 @@ export class PlanView {
     this.pan = null;
     this.offset.set(null);
     this.lifted.set(null);
+    this.vertexDrag.set(null);
     this.snapNote.set('');
   }
 

@@ -1,4 +1,3 @@
-import { DatePipe } from '@angular/common';
 import { HttpErrorResponse, httpResource } from '@angular/common/http';
 import { ChangeDetectionStrategy, Component, DestroyRef, computed, effect, inject, input, signal } from '@angular/core';
 import { MatButton } from '@angular/material/button';
@@ -8,6 +7,7 @@ import { MatIcon } from '@angular/material/icon';
 import { MatProgressSpinner } from '@angular/material/progress-spinner';
 import { MatSelect } from '@angular/material/select';
 import { MatInput } from '@angular/material/input';
+import { MatPaginator, type PageEvent } from '@angular/material/paginator';
 import { Router, RouterLink } from '@angular/router';
 import {
   schemeConflictSchema,
@@ -20,7 +20,11 @@ import {
 } from '@trabeate/contracts';
 import { CAUTION, type SchemeResult } from '@trabeate/structural';
 import { errorMessage } from '../../core/auth/api-error';
+import { DayTimePipe } from '../../shared/dates/app-dates';
 import { SEVERITY_LABELS, SOURCE_KIND_LABELS, numbersOf, ruleLabel } from './check-labels';
+import { BoundaryPanel } from './boundary-panel';
+import { StairsPanel, type FlightDraft } from './stairs-panel';
+import { SecondaryBeamsPanel, type PlacingStep, type SecondaryEnds } from './secondary-beams-panel';
 import { FootingOptions } from './footing-options';
 import type { FootingChoice } from './footing-options-model';
 import {
@@ -37,14 +41,28 @@ import {
   startEditing,
   undo,
   redo,
-  deleteSelection,
+  deleteChosen,
   updateColumn,
+  deleteVertex,
+  insertVertex,
+  moveVertex,
+  selectVertex,
+  togglePropertyLine,
+  addSecondaryBeam,
+  deleteSecondaryBeam,
+  selectSecondary,
+  updateSecondaryBeam,
+  hasChoice,
+  addStair,
+  deleteStair,
+  updateStair,
   type ColumnPatch,
   type EditorState,
+  type PlanPart,
 } from './editor-model';
 import type { AnalyseRequest, PlanWorkerPort } from './plan-protocol';
 import { createPlanWorker } from './plan-worker-factory';
-import { PlanView, type ColumnDrop, type ColumnPick } from './plan-view';
+import { PlanView, type ColumnDrop, type ColumnPick, type PlanTap, type VertexDrop } from './plan-view';
 import { ResultsPanel } from './results-panel';
 import { SchemesApi, schemeUrl } from './schemes-api';
 import { SchemeOutputs } from './scheme-outputs';
@@ -62,7 +80,8 @@ export const KEY_STEP_M = 0.05;
 @Component({
   selector: 'tb-planning-page',
   imports: [
-    DatePipe,
+    BoundaryPanel,
+    DayTimePipe,
     FootingOptions,
     MatButton,
     MatFormField,
@@ -70,12 +89,15 @@ export const KEY_STEP_M = 0.05;
     MatInput,
     MatLabel,
     MatOption,
+    MatPaginator,
     MatProgressSpinner,
     MatSelect,
     PlanView,
     ResultsPanel,
     RouterLink,
     SchemeOutputs,
+    SecondaryBeamsPanel,
+    StairsPanel,
   ],
   templateUrl: './planning-page.html',
   styleUrls: ['../../shared/page/page.scss', './planning-page.scss'],
@@ -118,8 +140,15 @@ export class PlanningPage {
   /** the report and plan sheet of the version this session started from */
   protected readonly outputsOpen = signal(false);
   protected readonly historyBusy = signal(false);
+  /** the page of saves shown, newest first (the server pages them: a long-lived scheme has hundreds) */
+  protected readonly historyPage = signal({ page: 1, pageSize: 25 });
+  protected readonly historySizes = [10, 25, 50, 100];
   protected readonly history = httpResource(
-    () => (this.historyOpen() ? `${schemeUrl(this.projectId(), this.schemeId())}/versions?pageSize=50` : undefined),
+    () => {
+      if (!this.historyOpen()) return undefined;
+      const { page, pageSize } = this.historyPage();
+      return `${schemeUrl(this.projectId(), this.schemeId())}/versions?page=${page}&pageSize=${pageSize}`;
+    },
     { parse: (body) => schemeVersionListSchema.parse(body) },
   );
 
@@ -127,6 +156,31 @@ export class PlanningPage {
     const e = this.editor();
     if (!e || e.selection.length !== 1) return null;
     return e.doc.columns.find((c) => c.id === e.selection[0]) ?? null;
+  });
+  /** the chosen boundary vertex or secondary beam */
+  protected readonly part = computed(() => this.editor()?.part ?? null);
+  protected readonly chosenVertex = computed(() => {
+    const p = this.part();
+    return p?.kind === 'vertex' ? p.index : null;
+  });
+  protected readonly chosenSecondary = computed(() => {
+    const p = this.part();
+    return p?.kind === 'secondary' ? p.id : null;
+  });
+  /** placing a secondary beam by two presses on the plan: the step, and the first press */
+  protected readonly placing = signal<PlacingStep>('off');
+  private placeStart: PlanTap | null = null;
+  protected readonly anythingChosen = computed(() => {
+    const e = this.editor();
+    return !!e && hasChoice(e);
+  });
+  /** what is chosen, in words, for the plan's live line */
+  protected readonly chosenText = computed(() => {
+    const e = this.editor();
+    const p = e?.part;
+    if (p?.kind === 'vertex') return `Chosen: boundary corner ${p.index + 1}`;
+    if (p?.kind === 'secondary') return `Chosen: secondary beam ${p.id}`;
+    return e?.selection.length ? `Chosen: ${e.selection.join(', ')}` : 'Nothing chosen.';
   });
   /** the column whose footing options are open (from the inspector), or null */
   protected readonly footingFocus = signal<{ columnId: string } | null>(null);
@@ -223,6 +277,17 @@ export class PlanningPage {
     this.worker.post(request);
   }
 
+  protected historyPaged(e: PageEvent): void {
+    this.historyPage.set({ page: e.pageIndex + 1, pageSize: e.pageSize });
+  }
+
+  /** after a save or a restore the newest saves are what matters: back to the first page */
+  private showNewestSaves(): void {
+    const p = this.historyPage();
+    if (p.page === 1) this.history.reload();
+    else this.historyPage.set({ ...p, page: 1 });
+  }
+
   protected choose(index: number): void {
     this.selected.set(this.selected() === index ? null : index);
   }
@@ -269,13 +334,103 @@ export class PlanningPage {
     else this.apply(moveColumnTo(select(e, d.id), d.id, d));
   }
 
+  protected pickPart(p: PlanPart): void {
+    const e = this.editor();
+    if (!e) return;
+    if (p.kind === 'vertex') this.editor.set(selectVertex(e, p.index));
+    else this.editor.set({ ...e, selection: [], part: p });
+  }
+
+  protected togglePlacing(): void {
+    this.placeStart = null;
+    this.placing.set(this.placing() === 'off' ? 'start' : 'off');
+  }
+
+  /** a press on the plan: while placing a secondary beam, its first and then its second end */
+  protected tapped(t: PlanTap): void {
+    const e = this.editor();
+    if (!e || this.placing() === 'off') return;
+    if (this.placing() === 'start' || !this.placeStart) {
+      this.placeStart = t;
+      this.placing.set('end');
+      return;
+    }
+    const a = this.placeStart;
+    this.placeStart = null;
+    this.placing.set('off');
+    this.apply(addSecondaryBeam(e, a, t, Math.max(a.toleranceM, t.toleranceM)));
+  }
+
+  protected addSecondary(b: SecondaryEnds): void {
+    const e = this.editor();
+    if (e) this.apply(addSecondaryBeam(e, b.start, b.end, 0));
+  }
+
+  protected updateSecondary(b: Required<SecondaryEnds>): void {
+    const e = this.editor();
+    if (e) this.apply(updateSecondaryBeam(e, b.id, b));
+  }
+
+  protected removeSecondary(id: string): void {
+    const e = this.editor();
+    if (e) this.apply(deleteSecondaryBeam(e, id));
+  }
+
+  protected chooseSecondary(id: string): void {
+    const e = this.editor();
+    if (e) this.editor.set(selectSecondary(e, id));
+  }
+
+  protected saveStair(f: FlightDraft): void {
+    const e = this.editor();
+    if (!e) return;
+    const { id, ...flight } = f;
+    this.apply(id ? updateStair(e, id, flight) : addStair(e, flight));
+  }
+
+  protected removeStair(id: string): void {
+    const e = this.editor();
+    if (e) this.apply(deleteStair(e, id));
+  }
+
+  protected vertexDropped(d: VertexDrop): void {
+    const e = this.editor();
+    if (e) this.apply(moveVertex(e, d.index, d));
+  }
+
+  protected insertVertex(segment: number): void {
+    const e = this.editor();
+    if (e) this.apply(insertVertex(e, segment));
+  }
+
+  protected deleteVertex(index: number): void {
+    const e = this.editor();
+    if (e) this.apply(deleteVertex(e, index));
+  }
+
+  protected toggleProperty(segment: number): void {
+    const e = this.editor();
+    if (e) this.apply(togglePropertyLine(e, segment));
+  }
+
+  /** set by Escape: the next Tab with nothing chosen leaves the plan rather than choosing again */
+  private tabLeaves = false;
+
+  protected planFocused(): void {
+    this.tabLeaves = false;
+  }
+
   protected key(ev: KeyboardEvent): void {
     const e = this.editor();
     if (!e || !this.canEdit()) return;
-    // Tab cycles through the columns only while one is chosen: Escape clears the choice, so Tab
-    // then leaves the plan as usual (the plan never traps the keyboard).
-    if (ev.key === 'Tab' && !e.selection.length) return;
-    if (this.apply(editorKey(e, ev, KEY_STEP_M))) ev.preventDefault();
+    // The plan never traps the keyboard: after Escape, Tab leaves it; Tab past the last element
+    // (Shift+Tab before the first) lets go of everything and the focus moves on as usual.
+    if (ev.key === 'Tab' && !hasChoice(e) && this.tabLeaves) return;
+    const next = editorKey(e, ev, KEY_STEP_M);
+    if (!this.apply(next)) return;
+    this.tabLeaves = ev.key === 'Escape';
+    if (ev.key === 'Tab' && next && !hasChoice(next)) return;
+    ev.preventDefault();
   }
 
   protected addAtCentre(): void {
@@ -290,7 +445,7 @@ export class PlanningPage {
 
   protected deleteChosen(): void {
     const e = this.editor();
-    if (e) this.apply(deleteSelection(e));
+    if (e) this.apply(deleteChosen(e));
   }
 
   protected undo(): void {
@@ -372,7 +527,7 @@ export class PlanningPage {
       this.savedDoc.set(e.doc);
       this.openedVersion.set(null);
       this.conflict.set(null);
-      if (this.historyOpen()) this.history.reload();
+      if (this.historyOpen()) this.showNewestSaves();
     } catch (err) {
       const c =
         err instanceof HttpErrorResponse && err.status === 409 ? schemeConflictSchema.safeParse(err.error) : null;
@@ -427,7 +582,7 @@ export class PlanningPage {
     try {
       await this.api.restoreVersion(this.projectId(), this.schemeId(), version);
       this.scheme.reload();
-      this.history.reload();
+      this.showNewestSaves();
     } catch (err) {
       this.saveError.set(errorMessage(err, 'That version could not be restored.'));
     } finally {
