@@ -7,10 +7,10 @@ import {
   type SchemeReport,
   type SchemeVersion,
 } from '@trabeate/contracts';
-import { CAUTION, ENGINE_VERSION } from '@trabeate/structural';
+import { CAUTION, ENGINE_VERSION, type SchemeResult } from '@trabeate/structural';
 import { DEMO } from '../../seeds/demo';
 import { DEMO_FOOTING_CHOICE, DEMO_SCHEMES } from '../../seeds/demo-schemes';
-import { printable } from '../../apps/server/src/look/print-look';
+import { PRINT_COLOURS, printable } from '../../apps/server/src/look/print-look';
 import { FOOTING_OPTION_LABELS } from '@trabeate/contracts';
 import { DEMO_DRAWINGS } from '../../seeds/demo-drawings';
 import { testApp, type TestApp } from '../support/app';
@@ -174,6 +174,75 @@ describe('scheme outputs: calculation report, plan sheet, registering the sheet'
       .length;
     expect(columnShapes).toBe(v.document.columns.length);
     expect(body).toContain('>PROPERTY LINE<');
+  });
+
+  it('draws the footing the engineer chose at a property line instead of the plain pad, labelled, in the SVG and the PDF', async () => {
+    // Scheme A records a strap for D4 (tied to C4); scheme B records no choice.
+    const v = stored[DEMO_SCHEMES.full.id];
+    // the stored results as the engine wrote them (the contract leaves their inner shapes open)
+    const results = v.results as unknown as SchemeResult;
+    const option = results.footings.boundary.find((o) => o.columnId === DEMO_FOOTING_CHOICE.columnId)!;
+    expect(option.interiorColumnId).toBe('C4');
+    const strap = option.strap!;
+    const k = 1000 / 200; // sheet mm per plan m at 1:200
+    const svgOf = async (schemeId: string) =>
+      ((await binary(principal.get(`${at(schemeId)}/sheet.svg?size=A3&scale=200`))).body as Buffer).toString('utf8');
+    const boxes = (svg: string, attrs: RegExp) =>
+      [...svg.matchAll(/<polygon points="([^"]+)"([^>]*)\/>/g)]
+        .filter((m) => attrs.test(m[2]))
+        .map((m) => {
+          const pts = m[1].split(' ').map((p) => p.split(',').map(Number));
+          const xs = pts.map((p) => p[0]);
+          const ys = pts.map((p) => p[1]);
+          return { x0: Math.min(...xs), x1: Math.max(...xs), y0: Math.min(...ys), y1: Math.max(...ys) };
+        });
+    const chosenStyle = new RegExp(`stroke="${PRINT_COLOURS.accent}" stroke-width="0.35" stroke-dasharray="2 1"`);
+    const padStyle = new RegExp(`stroke="${PRINT_COLOURS.ink}" stroke-width="0.25" stroke-dasharray="2 1"`);
+
+    const svg = await svgOf(DEMO_SCHEMES.full.id);
+    const chosen = boxes(svg, chosenStyle);
+    // exterior pad, strap and interior pad
+    expect(chosen).toHaveLength(3);
+    const size = (b: (typeof chosen)[number]) => [b.x1 - b.x0, b.y1 - b.y0].sort((a, b) => a - b);
+    const close = (a: number, b: number) => Math.abs(a - b) < 0.05;
+    const exterior = chosen.find((b) => {
+      const [short, long] = size(b);
+      const want = [strap.exteriorLengthM * k, strap.exteriorWidthM * k].sort((a, b) => a - b);
+      return close(short, want[0]) && close(long, want[1]);
+    });
+    expect(exterior).toBeDefined();
+    expect(chosen.some((b) => size(b).every((side) => close(side, strap.interiorSideM * k)))).toBe(true);
+    // The exterior pad of a strap footing sits against the property line (the point of the
+    // option: common practice, no source): one of its edges lies on the line D4 faces.
+    const lines = [
+      ...svg.matchAll(
+        new RegExp(
+          `<line x1="([\\d.]+)" y1="([\\d.]+)" x2="([\\d.]+)" y2="([\\d.]+)" stroke="${PRINT_COLOURS.accent}" stroke-width="0.7"`,
+          'g',
+        ),
+      ),
+    ].map((m) => m.slice(1, 5).map(Number));
+    const onLine = lines.some(
+      ([x1, , x2]) => (close(x1, x2) && close(x1, exterior!.x0)) || (close(x1, x2) && close(x1, exterior!.x1)),
+    );
+    const onRow = lines.some(
+      ([, y1, , y2]) => (close(y1, y2) && close(y1, exterior!.y0)) || (close(y1, y2) && close(y1, exterior!.y1)),
+    );
+    expect(onLine || onRow).toBe(true);
+    // D4's and C4's plain pads give way to the chosen footing; every other column keeps its own
+    const pads = results.sizes.footings.filter((f) => f.adoptedSideM > 0).length;
+    expect(boxes(svg, padStyle)).toHaveLength(pads - 2);
+    expect(svg).toContain('>D4: Strap to an interior column (chosen)<');
+
+    // scheme B: no choice recorded, so only the plain pads
+    const plain = await svgOf(DEMO_SCHEMES.fewer.id);
+    expect(boxes(plain, chosenStyle)).toHaveLength(0);
+    expect(plain).not.toContain('(chosen)');
+
+    const pdf = await binary(principal.get(`${at(DEMO_SCHEMES.full.id)}/sheet.pdf?size=A3&scale=200`));
+    expect(squash((await pdfParse(pdf.body as Buffer)).text)).toContain(
+      squash('D4: Strap to an interior column (chosen)'),
+    );
   });
 
   it('refuses a scale at which the plan does not fit the sheet, naming the smallest that fits', async () => {
