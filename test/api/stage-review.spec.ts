@@ -64,7 +64,7 @@ describe('stage review: the check gate, justifications and the decision by versi
     });
     projectId = created.body.id;
     await send(principal, 'put', `/api/projects/${projectId}/members/${DEMO.users.fenwickContact.id}`);
-    for (const key of ['column_layout', 'design_basis'] as const)
+    for (const key of ['column_layout', 'design_basis', 'beam_framing', 'foundations'] as const)
       await send(principal, 'patch', stagePath(key), { assigneeId: DEMO.users.engineerA.id });
     const agreement = await send(principal, 'put', `/api/projects/${projectId}/fee-agreement`, {
       basis: 'lump_sum',
@@ -268,4 +268,46 @@ describe('stage review: the check gate, justifications and the decision by versi
     const entry = log.items.find((a) => a.action === 'stage.approved')!;
     expect(entry.summary).toBe(`${DEMO.users.principal.name} approved Column layout (Full grid, version 1)`);
   });
+  // Beam framing and Foundations rest on a scheme too (SCHEME_STAGE_KEYS): the same gate applies.
+  it.each(['beam_framing', 'foundations'] as const)(
+    '%s is gated the same way: 409 naming the unjustified error check, accepted with its justification, the version recorded',
+    async (key) => {
+      expect((await move(tomas, key, { action: 'start' })).status).toBe(200);
+      // the newest save of the scheme with one error (an earlier test saves it again)
+      const { version } = (await t
+        .db('scheme_versions')
+        .where({ scheme_id: withError })
+        .max('version as version')
+        .first()) as { version: number };
+      const refused = await move(tomas, key, { action: 'submit', scheme: { schemeId: withError, version } });
+      expect(refused.status).toBe(409);
+      const [only] = errorChecks;
+      expect(refused.body.error.message).toContain(`${only.ruleId} @ ${only.elements.join(', ')}`);
+      expect(refused.body.error.message).toContain(`version ${version}`);
+      expect(Object.keys(refused.body.error.fields)).toEqual([checkKey(only)]);
+      expect(await state(key)).toBe('in_progress');
+      expect(await t.db('stage_submissions').where({ project_id: projectId, stage_key: key })).toHaveLength(0);
+
+      const accepted = await move(tomas, key, {
+        action: 'submit',
+        scheme: { schemeId: withError, version },
+        justifications: justification(`Answered for ${key}: transfer beam carries B3.`),
+      });
+      expect(accepted.status).toBe(200);
+      expect(stageSchema.parse(accepted.body).state).toBe('under_review');
+      const rows = await t.db('stage_submissions').where({ project_id: projectId, stage_key: key });
+      expect(rows).toHaveLength(1);
+      expect(rows[0]).toMatchObject({
+        scheme_id: withError,
+        scheme_version: version,
+        submitted_by: DEMO.users.engineerA.id,
+      });
+      expect(rows[0].justifications).toEqual([
+        { ruleId: only.ruleId, elements: only.elements, text: `Answered for ${key}: transfer beam carries B3.` },
+      ]);
+      const [latest] = await submissions(key);
+      expect(latest.scheme).toMatchObject({ id: withError, version });
+      expect(latest.justifications).toHaveLength(1);
+    },
+  );
 });
