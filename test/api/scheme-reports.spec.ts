@@ -18,7 +18,12 @@ import { send, signedInAs, until } from '../support/agents';
 
 // pdf-parse 1.1.1's index runs a debug self-test when required directly; its library file does not.
 // eslint-disable-next-line @typescript-eslint/no-require-imports
-const pdfParse = require('pdf-parse/lib/pdf-parse.js') as (b: Buffer) => Promise<{ text: string; numpages: number }>;
+const pdfParse = require('pdf-parse/lib/pdf-parse.js') as (
+  b: Buffer,
+  options?: {
+    pagerender?: (page: { getTextContent: () => Promise<{ items: { str: string }[] }> }) => Promise<string>;
+  },
+) => Promise<{ text: string; numpages: number }>;
 
 jest.setTimeout(90_000);
 
@@ -35,6 +40,32 @@ const binary = (req: ReturnType<TestAgent['get']>) =>
 
 // Text extraction joins words differently from how they were laid out: compare without whitespace.
 const squash = (s: string) => s.replace(/\s+/g, '');
+
+/** The text of each page, in page order (pdf-parse renders pages one after another). */
+async function pageTexts(pdf: Buffer): Promise<string[]> {
+  const pages: string[] = [];
+  await pdfParse(pdf, {
+    pagerender: async (page) => {
+      const content = await page.getTextContent();
+      const text = content.items.map((i) => i.str).join(' ');
+      pages.push(text);
+      return text;
+    },
+  });
+  return pages;
+}
+
+// The words the report must give each kind of source (the brief: every check names its source and
+// whether it is a design code or common practice).
+const KIND_IN_WORDS: Record<string, string> = {
+  code: 'design code',
+  practice: 'common practice',
+  memory: 'from memory',
+  derived: 'derived',
+  project: 'set for this project',
+};
+const f0 = (v: number) => v.toFixed(0);
+const f2 = (v: number) => v.toFixed(2);
 
 describe('scheme outputs: calculation report, plan sheet, registering the sheet', () => {
   let t: TestApp;
@@ -76,7 +107,8 @@ describe('scheme outputs: calculation report, plan sheet, registering the sheet'
     const file = await binary(agent.get(`/api/projects/${KESTREL}/scheme-reports/${report.id}/file`));
     expect(file.status).toBe(200);
     expect(file.headers['content-type']).toBe('application/pdf');
-    return pdfParse(file.body as Buffer);
+    const pdf = file.body as Buffer;
+    return { ...(await pdfParse(pdf)), pdf };
   }
 
   it.each([
@@ -87,31 +119,76 @@ describe('scheme outputs: calculation report, plan sheet, registering the sheet'
     async (_name, scheme) => {
       const report = await finished(engineer, await send(engineer, 'post', `${at(scheme.id)}/reports`, {}));
       expect(report).toMatchObject({ state: 'done', failure: null, progress: { done: 8, total: 8 } });
-      const { text, numpages } = await reportText(engineer, report);
+      const { text, numpages, pdf } = await reportText(engineer, report);
       expect(numpages).toBe(report.pages);
       const flat = squash(text);
       const v = stored[scheme.id];
-      // design basis as saved (Kestrel Yard's: EN 1992, 30 MPa, 180 kPa, 7 storeys of 3.1 m)
+      const results = v.results as unknown as SchemeResult;
+      const b = v.document.basis;
+      // design basis as saved (Kestrel Yard's: EN 1992, 30 MPa, 180 kPa, 7 storeys of 3.1 m), each
+      // value beside its label and with its unit
       expect(text).toContain('EN1992');
-      expect(flat).toContain(squash(`${v.document.basis.concreteMPa} MPa`));
-      expect(flat).toContain(squash(`${v.document.basis.bearingPressureKPa} kPa`));
-      expect(flat).toContain(squash(`${v.document.basis.storeys} × ${v.document.basis.storeyHeightM} m`));
-      // a failing check in full, with its source
+      for (const [label, value] of [
+        ['Concrete strength', `${b.concreteMPa} MPa`],
+        ['Reinforcement yield strength', `${b.steelMPa} MPa`],
+        ['Imposed load, floors', `${b.imposedKPa} kPa`],
+        ['Superimposed dead load', `${b.superimposedDeadKPa} kPa`],
+        ['Wall load on beams', `${b.wallLoadKNPerM} kN/m`],
+        ['Allowable bearing pressure', `${b.bearingPressureKPa} kPa`],
+        ['Founding depth', `${b.foundingDepthM} m`],
+        ['Storeys × storey height', `${b.storeys} × ${b.storeyHeightM} m`],
+        ['Beam width', `${b.beamWidthMm} mm`],
+      ])
+        expect(flat).toContain(squash(`${label} ${value}`));
+      // a failing check in full: rule, severity, finding, value against limit, source and its kind
       const failing = v.results.checks[0];
       expect(failing).toBeDefined();
-      expect(flat).toContain(squash(failing.ruleId));
-      expect(flat).toContain(squash(printable(failing.source)).slice(0, 40));
-      // schedules: every column mark, and the beam members
-      for (const c of v.document.columns) expect(text).toContain(c.label);
+      const source = printable(failing.source);
+      const kind = KIND_IN_WORDS[failing.sourceKind];
+      const sourced = source.toLowerCase().includes(kind) ? source : `${source} (${kind})`;
+      expect(flat).toContain(squash(`${failing.ruleId} ${failing.severity} ${printable(failing.message)}`));
+      expect(flat).toContain(
+        squash(
+          `${failing.value.toFixed(1)} ${failing.unit}, ${failing.sense === 'max' ? 'at most' : 'at least'} ${failing.limit.toFixed(1)} ${sourced}`,
+        ),
+      );
+      // schedules: a full row of each, from the stored results
       expect(flat).toContain('Columnschedule');
       expect(flat).toContain('Beamschedule');
       expect(flat).toContain('Footingschedule');
+      for (const c of v.document.columns) expect(text).toContain(c.label);
+      const col = v.document.columns[0];
+      const load = results.loads.columns.find((l) => l.columnId === col.id)!;
+      const size = results.sizes.columns.find((l) => l.columnId === col.id)!;
+      expect(flat).toContain(
+        squash(
+          `${col.label} ${f2(col.x)}, ${f2(col.y)} ${col.widthMm} × ${col.depthMm}${col.orientationDeg === 90 ? ' (turned)' : ''} ${f0(load.factoredKN[0])} ${f0(size.providedCapacityKN)} ${f2(size.utilisation[0])} ${f0(size.requiredSideMm[0])}`,
+        ),
+      );
+      const beam = results.sizes.beams[0];
+      expect(flat).toContain(
+        squash(
+          `${beam.memberId} ${f2(beam.spanM)} ${beam.condition} ${f0(beam.widthMm)} ${beam.designMomentKNm.toFixed(1)} ${f0(beam.fromSpanDepthMm)}, ${f0(beam.fromMomentMm)} ${f0(beam.adoptedDepthMm)} ${beam.governs}`,
+        ),
+      );
+      const pad = results.sizes.footings[0];
+      const padColumn = v.document.columns.find((c) => c.id === pad.columnId)!;
+      expect(flat).toContain(
+        squash(
+          `${padColumn.label} ${f0(pad.serviceKN)} ${f2(pad.areaM2)} ${f2(pad.adoptedSideM)} ${f2(pad.thicknessM)} ${f0(pad.factoredPressureKPa)}`,
+        ),
+      );
       expect(flat).toContain(squash(`engine ${ENGINE_VERSION}`));
-      // the caution and the footer on every page
-      expect(flat.split('PRELIMINARY.').length - 1).toBe(numpages);
-      expect(flat.split(squash(CAUTION.slice(0, 60))).length - 1).toBe(numpages);
-      for (let p = 1; p <= numpages; p++) expect(flat).toContain(squash(`version 1 · page ${p} of ${numpages}`));
-      expect(flat).toContain(squash(scheme.name));
+      // the caution and the footer (project, scheme, version, page n of m) on every page, each page read alone
+      const pages = await pageTexts(pdf);
+      expect(pages).toHaveLength(numpages);
+      const row = await t.db('projects').where({ id: KESTREL }).first('reference', 'name');
+      const project = `${row.reference} ${row.name}`;
+      pages.forEach((page, i) => {
+        const onPage = squash(page);
+        expect(onPage).toContain(squash(`PRELIMINARY. ${CAUTION}`));
+        expect(onPage).toContain(squash(`${project} · ${scheme.name} · version 1 · page ${i + 1} of ${numpages}`));
+      });
       // the beam lines are drawn from the engine's envelope diagram, not the simplified fallback
       expect(flat).toContain('Envelopesofthefactoredloadarrangements');
       expect(flat).not.toContain('(simplifieddiagram)');
