@@ -1,6 +1,7 @@
 import type TestAgent from 'supertest/lib/agent';
 import type { Response } from 'supertest';
 import {
+  drawingSchema,
   planSheetRegisteredSchema,
   schemeReportSchema,
   schemeVersionSchema,
@@ -348,6 +349,23 @@ describe('scheme outputs: calculation report, plan sheet, registering the sheet'
     expect(out.revision.files).toEqual([expect.objectContaining({ role: 'pdf' })]);
     const row = await t.db('drawing_revisions').where({ id: out.revision.id }).first();
     expect(row).toMatchObject({ scheme_id: DEMO_SCHEMES.fewer.id, scheme_version: 1 });
+    // the description and the reply name the scheme and the version the sheet came from
+    const origin = `Column layout from scheme ${DEMO_SCHEMES.fewer.name}, version 1`;
+    expect(out.revision.description).toBe(origin);
+    expect(out.revision.fromScheme).toEqual({ id: DEMO_SCHEMES.fewer.id, name: DEMO_SCHEMES.fewer.name, version: 1 });
+    // and so does the register's own reply, where a revision uploaded by hand has none
+    const drawing = drawingSchema.parse(
+      (await principal.get(`/api/projects/${KESTREL}/drawings/${out.drawingId}`)).body,
+    );
+    const [sheetRevision, ...older] = drawing.revisions;
+    expect(sheetRevision).toMatchObject({ id: out.revision.id, description: origin });
+    expect(sheetRevision.fromScheme).toEqual({
+      id: DEMO_SCHEMES.fewer.id,
+      name: DEMO_SCHEMES.fewer.name,
+      version: 1,
+    });
+    expect(older.length).toBeGreaterThan(0);
+    for (const r of older) expect(r.fromScheme).toBeNull();
     // the stored PDF carries the drawing number and revision in its title panel
     const file = await binary(
       principal.get(`/api/projects/${KESTREL}/revisions/${out.revision.id}/files/${out.revision.files[0].id}/download`),
@@ -368,6 +386,24 @@ describe('scheme outputs: calculation report, plan sheet, registering the sheet'
       action: 'check',
     });
     expect([200, 201]).toContain(checked.status);
+    // Once out, a client contact sees the revision but not the scheme behind it (schemes are the firm's).
+    const approved = await send(
+      principal,
+      'post',
+      `/api/projects/${KESTREL}/revisions/${out.revision.id}/transitions`,
+      {
+        action: 'approve',
+      },
+    );
+    expect(approved.status).toBe(200);
+    await t
+      .db('drawing_revisions')
+      .where({ id: out.revision.id })
+      .update({ state: 'issued', issued_at: t.db.fn.now() });
+    const seenByClient = drawingSchema
+      .parse((await client.get(`/api/projects/${KESTREL}/drawings/${out.drawingId}`)).body)
+      .revisions.find((r) => r.id === out.revision.id);
+    expect(seenByClient).toMatchObject({ state: 'issued', fromScheme: null });
   });
 
   it("registers the sheet on a new drawing with the register's next number", async () => {
@@ -376,10 +412,14 @@ describe('scheme outputs: calculation report, plan sheet, registering the sheet'
       size: 'A2',
       scale: 100,
       newDrawing: { title: 'Column layout, scheme A', stageKey: 'column_layout' },
+      description: 'First layout for the architect.',
     });
     expect(res.status).toBe(201);
     const out = planSheetRegisteredSchema.parse(res.body);
     if (proposed?.number) expect(out.drawingNumber).toBe(proposed.number);
+    expect(out.revision.description).toBe(
+      `First layout for the architect. Column layout from scheme ${DEMO_SCHEMES.full.name}, version 1`,
+    );
     expect(out.revision).toMatchObject({ code: 'P01', state: 'draft' });
     const drawing = await t.db('drawings').where({ id: out.drawingId }).first();
     expect(drawing).toMatchObject({ sheet_size: 'A2', scale: '1:100', stage_key: 'column_layout' });

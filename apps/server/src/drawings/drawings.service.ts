@@ -121,6 +121,10 @@ export function revisionOf(caller: Caller, r: RevisionRow, files: RevisionFileRo
     checkedBy: r.checked_by ? { id: r.checked_by, displayName: r.checked_name! } : null,
     approvedBy: r.approved_by ? { id: r.approved_by, displayName: r.approved_name! } : null,
     issuedAt: r.issued_at ? new Date(r.issued_at).toISOString() : null,
+    fromScheme:
+      r.scheme_id && r.scheme_version !== null && !outOnly(caller)
+        ? { id: r.scheme_id, name: r.scheme_name ?? '', version: r.scheme_version }
+        : null,
     files: files.map(fileOf),
     allowedActions: (['check', 'approve'] as const).filter((a) => revisionRefusal(caller, r, a, hasPdf) === null),
   };

@@ -167,7 +167,7 @@ export async function registerSheet(
   version: number,
   body: z.output<typeof planSheetRegisterSchema>,
 ): Promise<PlanSheetRegistered> {
-  await facts(db, projectId, schemeId, version);
+  const origin = await facts(db, projectId, schemeId, version);
   let drawingId = body.drawingId;
   let number: string;
   let title: string | undefined;
@@ -215,7 +215,13 @@ export async function registerSheet(
     {
       suitability: body.suitability,
       purpose: body.purpose,
-      description: body.description || `Plan sheet from ${schemeId.slice(0, 8)} version ${version}`,
+      // the register names where the sheet came from, whatever else the engineer wrote
+      description: [
+        body.description.replace(/[.\s]+$/, ''),
+        `Column layout from scheme ${origin.scheme_name}, version ${version}`,
+      ]
+        .filter(Boolean)
+        .join('. '),
       date: new Date().toISOString().slice(0, 10),
     },
     { schemeId, schemeVersion: version },
