@@ -4,6 +4,7 @@ import {
   checkKey,
   schemeResultsSchema,
   stageSchema,
+  schemeReportSchema,
   stageSubmissionListSchema,
   type StageKey,
 } from '@trabeate/contracts';
@@ -11,7 +12,7 @@ import { DEMO } from '../../seeds/demo';
 import { DEMO_SCHEMES, kestrelSchemes } from '../../seeds/demo-schemes';
 import { insertNewScheme } from '../../apps/server/src/schemes/schemes.service';
 import { testApp, type TestApp } from '../support/app';
-import { send, signedInAs } from '../support/agents';
+import { send, signedInAs, until } from '../support/agents';
 
 jest.setTimeout(30_000);
 
@@ -197,6 +198,7 @@ describe('stage review: the check gate, justifications and the decision by versi
       version: 1,
       currentVersion: 1,
       changedSinceSubmitted: false,
+      report: null,
     });
     // The summary counts what the save stored (error_count there also counts input problems: none here).
     const counts = await t.db('scheme_versions').where({ scheme_id: withError, version: 1 }).first();
@@ -310,4 +312,49 @@ describe('stage review: the check gate, justifications and the decision by versi
       expect(latest.justifications).toHaveLength(1);
     },
   );
+  it('links the review to a report already written for the submitted version, not to one of another version', async () => {
+    const [submitted] = await submissions('beam_framing');
+    const version = submitted.scheme!.version;
+    expect(version).toBeGreaterThan(1);
+    expect(submitted.scheme!.report).toBeNull();
+    const written = async (v: number) => {
+      const created = await send(
+        tomas,
+        'post',
+        `/api/projects/${projectId}/schemes/${withError}/versions/${v}/reports`,
+        {},
+      );
+      expect(created.status).toBe(202);
+      const id = schemeReportSchema.parse(created.body).id;
+      let state = 'queued';
+      // a deadline for a loaded shared machine, not a speed check
+      await until(
+        'the report job',
+        async () => {
+          state = schemeReportSchema.parse(
+            (await tomas.get(`/api/projects/${projectId}/scheme-reports/${id}`)).body,
+          ).state;
+          return state === 'done' || state === 'failed';
+        },
+        120_000,
+      );
+      expect(state).toBe('done');
+      return id;
+    };
+    // a report of an earlier version is not the submitted version's
+    await written(version - 1);
+    expect((await submissions('beam_framing'))[0].scheme!.report).toBeNull();
+    const id = await written(version);
+    const [linked] = await submissions('beam_framing');
+    expect(linked.scheme!.report).toMatchObject({
+      id,
+      fileUrl: `/api/projects/${projectId}/scheme-reports/${id}/file`,
+    });
+    expect(linked.scheme!.report!.pages).toBeGreaterThan(0);
+    const file = await principal.get(linked.scheme!.report!.fileUrl);
+    expect(file.status).toBe(200);
+    expect(file.headers['content-type']).toBe('application/pdf');
+    // the other stage submitted with the same version links the same report
+    expect((await submissions('foundations'))[0].scheme!.report).toMatchObject({ id });
+  });
 });
