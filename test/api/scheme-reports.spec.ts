@@ -1,3 +1,4 @@
+import { createHash } from 'node:crypto';
 import type TestAgent from 'supertest/lib/agent';
 import type { Response } from 'supertest';
 import {
@@ -423,6 +424,79 @@ describe('scheme outputs: calculation report, plan sheet, registering the sheet'
     expect(out.revision).toMatchObject({ code: 'P01', state: 'draft' });
     const drawing = await t.db('drawings').where({ id: out.drawingId }).first();
     expect(drawing).toMatchObject({ sheet_size: 'A2', scale: '1:100', stage_key: 'column_layout' });
+  });
+
+  it("the stored sheet's title panel carries the register's checker and approver once the revision is checked and approved", async () => {
+    const res = await send(principal, 'post', `${at(DEMO_SCHEMES.full.id)}/sheet/revisions`, {
+      size: 'A3',
+      scale: 200,
+      newDrawing: { title: 'Column layout for checking', stageKey: 'column_layout' },
+    });
+    expect(res.status).toBe(201);
+    const { revision } = planSheetRegisteredSchema.parse(res.body);
+    const stored = async () => {
+      const r = drawingSchema
+        .parse((await principal.get(`/api/projects/${KESTREL}/drawings/${revision.drawingId}`)).body)
+        .revisions.find((x) => x.id === revision.id)!;
+      const [pdf] = r.files;
+      const file = await binary(principal.get(pdf.downloadUrl));
+      expect(file.status).toBe(200);
+      const bytes = file.body as Buffer;
+      // the register's SHA-256 is the file's own: the file was replaced, not altered behind the register
+      expect(createHash('sha256').update(bytes).digest('hex')).toBe(pdf.sha256);
+      return { revision: r, flat: squash((await pdfParse(bytes)).text) };
+    };
+    const principalName = squash(DEMO.users.principal.name);
+    const checkerName = squash(DEMO.users.engineerA.name);
+    const registered = await stored();
+    expect(registered.flat).toContain(`Drawn${principalName}`);
+    expect(registered.flat).toContain('Checked—Approved—');
+
+    const checked = await send(engineer, 'post', `/api/projects/${KESTREL}/revisions/${revision.id}/transitions`, {
+      action: 'check',
+    });
+    expect(checked.status).toBe(200);
+    const afterCheck = await stored();
+    expect(afterCheck.revision.checkedBy?.displayName).toBe(DEMO.users.engineerA.name);
+    expect(afterCheck.flat).toContain(`Drawn${principalName}Checked${checkerName}Approved—`);
+    expect(afterCheck.revision.files[0].sha256).not.toBe(registered.revision.files[0].sha256);
+
+    const approved = await send(principal, 'post', `/api/projects/${KESTREL}/revisions/${revision.id}/transitions`, {
+      action: 'approve',
+    });
+    expect(approved.status).toBe(200);
+    const afterApproval = await stored();
+    expect(afterApproval.flat).toContain(`Drawn${principalName}Checked${checkerName}Approved${principalName}`);
+    // the same sheet otherwise: its number, revision and scheme
+    expect(afterApproval.flat).toContain(squash(`${revision.code}`));
+    expect(afterApproval.flat).toContain(squash(`${DEMO_SCHEMES.full.name}, version 1`));
+    // one PDF on the revision, the replaced objects gone from the register
+    expect(await t.db('revision_files').where({ revision_id: revision.id })).toHaveLength(1);
+  });
+
+  it('refuses to check a plan sheet while file storage is down (503), leaving the draft and its PDF as they were', async () => {
+    const res = await send(principal, 'post', `${at(DEMO_SCHEMES.fewer.id)}/sheet/revisions`, {
+      size: 'A3',
+      scale: 200,
+      newDrawing: { title: 'Column layout, storage outage', stageKey: 'column_layout' },
+    });
+    expect(res.status).toBe(201);
+    const { revision } = planSheetRegisteredSchema.parse(res.body);
+    const before = await t.db('revision_files').where({ revision_id: revision.id }).first();
+    await t.s3.halt();
+    try {
+      const refused = await send(engineer, 'post', `/api/projects/${KESTREL}/revisions/${revision.id}/transitions`, {
+        action: 'check',
+      });
+      expect(refused.status).toBe(503);
+    } finally {
+      await t.s3.resume();
+    }
+    expect(await t.db('drawing_revisions').where({ id: revision.id }).first()).toMatchObject({
+      state: 'draft',
+      checked_by: null,
+    });
+    expect(await t.db('revision_files').where({ revision_id: revision.id }).first()).toEqual(before);
   });
 
   it('refuses registering at a scale that does not fit, creating no drawing', async () => {
