@@ -460,6 +460,9 @@ describe('scheme outputs: calculation report, plan sheet, registering the sheet'
     expect(afterCheck.revision.checkedBy?.displayName).toBe(DEMO.users.engineerA.name);
     expect(afterCheck.flat).toContain(`Drawn${principalName}Checked${checkerName}Approved—`);
     expect(afterCheck.revision.files[0].sha256).not.toBe(registered.revision.files[0].sha256);
+    expect(Date.parse(afterCheck.revision.files[0].uploadedAt)).toBeGreaterThan(
+      Date.parse(registered.revision.files[0].uploadedAt),
+    );
 
     const approved = await send(principal, 'post', `/api/projects/${KESTREL}/revisions/${revision.id}/transitions`, {
       action: 'approve',

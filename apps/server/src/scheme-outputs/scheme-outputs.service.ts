@@ -350,7 +350,13 @@ export async function restampSheet(
   try {
     await trx('revision_files')
       .where({ id: file.id })
-      .update({ object_key: key, size_bytes: pdf.length, sha256: createHash('sha256').update(pdf).digest('hex') });
+      .update({
+        object_key: key,
+        size_bytes: pdf.length,
+        sha256: createHash('sha256').update(pdf).digest('hex'),
+        // when these bytes were stored, so the register does not date them to the registration
+        uploaded_at: trx.fn.now(),
+      });
   } catch (err) {
     await store.remove(key).catch(() => undefined);
     throw err;
