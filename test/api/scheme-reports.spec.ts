@@ -312,6 +312,9 @@ describe('scheme outputs: calculation report, plan sheet, registering the sheet'
     const pads = results.sizes.footings.filter((f) => f.adoptedSideM > 0).length;
     expect(boxes(svg, padStyle)).toHaveLength(pads - 2);
     expect(svg).toContain('>D4: Strap to an interior column (chosen)<');
+    // the words sit below the outlines they name, not across them
+    const labelY = Number(/<text x="[\d.]+" y="([\d.]+)"[^>]*>D4: Strap/.exec(svg)![1]);
+    expect(labelY).toBeGreaterThan(Math.max(...chosen.map((b) => b.y1)));
 
     // scheme B: no choice recorded, so only the plain pads
     const plain = await svgOf(DEMO_SCHEMES.fewer.id);

@@ -515,13 +515,14 @@ export function buildPlanSheet(
       tone: 'muted',
     });
   }
-  // the chosen footings' words, below the plan point they belong to
+  // the chosen footings' words, just below their outlines (clear of the grid line through them)
   const colLabel = new Map(doc.columns.map((c) => [c.id, c.label]));
   for (const o of chosen.outlines) {
-    const [x, y] = o.labelAt;
+    const [x] = o.labelAt;
+    const below = Math.max(...o.points.map(([, y]) => py(y)));
     text(
       px(x),
-      py(y) + 5,
+      below + 3,
       `${colLabel.get(o.columnId) ?? o.columnId}: ${FOOTING_OPTION_LABELS[o.option]} (chosen)`,
       1.9,
       {
