@@ -14,6 +14,7 @@ import * as m20261224000001s from './20261224000001_stage_submissions';
 import * as m20261224000201 from './20261224000201_scheme_outputs';
 import * as m20261225000001 from './20261225000001_list_change_notices';
 import * as m20261227000001 from './20261227000001_session_change_notices';
+import * as m20261228000201 from './20261228000201_plan_sheet_paper';
 
 /** Every migration, by name, in the order they run. Add new ones here as well as in the folder. */
 export const migrations: Record<string, Knex.Migration> = {
@@ -32,4 +33,5 @@ export const migrations: Record<string, Knex.Migration> = {
   '20261224000201_scheme_outputs': m20261224000201,
   '20261225000001_list_change_notices': m20261225000001,
   '20261227000001_session_change_notices': m20261227000001,
+  '20261228000201_plan_sheet_paper': m20261228000201,
 };

@@ -4,6 +4,7 @@ import {
   checkKey,
   schemeResultsSchema,
   stageSchema,
+  schemeReportSchema,
   stageSubmissionListSchema,
   type StageKey,
 } from '@trabeate/contracts';
@@ -11,7 +12,7 @@ import { DEMO } from '../../seeds/demo';
 import { DEMO_SCHEMES, kestrelSchemes } from '../../seeds/demo-schemes';
 import { insertNewScheme } from '../../apps/server/src/schemes/schemes.service';
 import { testApp, type TestApp } from '../support/app';
-import { send, signedInAs } from '../support/agents';
+import { send, signedInAs, until } from '../support/agents';
 
 jest.setTimeout(30_000);
 
@@ -64,7 +65,7 @@ describe('stage review: the check gate, justifications and the decision by versi
     });
     projectId = created.body.id;
     await send(principal, 'put', `/api/projects/${projectId}/members/${DEMO.users.fenwickContact.id}`);
-    for (const key of ['column_layout', 'design_basis'] as const)
+    for (const key of ['column_layout', 'design_basis', 'beam_framing', 'foundations'] as const)
       await send(principal, 'patch', stagePath(key), { assigneeId: DEMO.users.engineerA.id });
     const agreement = await send(principal, 'put', `/api/projects/${projectId}/fee-agreement`, {
       basis: 'lump_sum',
@@ -197,6 +198,7 @@ describe('stage review: the check gate, justifications and the decision by versi
       version: 1,
       currentVersion: 1,
       changedSinceSubmitted: false,
+      report: null,
     });
     // The summary counts what the save stored (error_count there also counts input problems: none here).
     const counts = await t.db('scheme_versions').where({ scheme_id: withError, version: 1 }).first();
@@ -267,5 +269,92 @@ describe('stage review: the check gate, justifications and the decision by versi
     const log = activityListSchema.parse((await principal.get(`/api/projects/${projectId}/activity`)).body);
     const entry = log.items.find((a) => a.action === 'stage.approved')!;
     expect(entry.summary).toBe(`${DEMO.users.principal.name} approved Column layout (Full grid, version 1)`);
+  });
+  // Beam framing and Foundations rest on a scheme too (SCHEME_STAGE_KEYS): the same gate applies.
+  it.each(['beam_framing', 'foundations'] as const)(
+    '%s is gated the same way: 409 naming the unjustified error check, accepted with its justification, the version recorded',
+    async (key) => {
+      expect((await move(tomas, key, { action: 'start' })).status).toBe(200);
+      // the newest save of the scheme with one error (an earlier test saves it again)
+      const { version } = (await t
+        .db('scheme_versions')
+        .where({ scheme_id: withError })
+        .max('version as version')
+        .first()) as { version: number };
+      const refused = await move(tomas, key, { action: 'submit', scheme: { schemeId: withError, version } });
+      expect(refused.status).toBe(409);
+      const [only] = errorChecks;
+      expect(refused.body.error.message).toContain(`${only.ruleId} @ ${only.elements.join(', ')}`);
+      expect(refused.body.error.message).toContain(`version ${version}`);
+      expect(Object.keys(refused.body.error.fields)).toEqual([checkKey(only)]);
+      expect(await state(key)).toBe('in_progress');
+      expect(await t.db('stage_submissions').where({ project_id: projectId, stage_key: key })).toHaveLength(0);
+
+      const accepted = await move(tomas, key, {
+        action: 'submit',
+        scheme: { schemeId: withError, version },
+        justifications: justification(`Answered for ${key}: transfer beam carries B3.`),
+      });
+      expect(accepted.status).toBe(200);
+      expect(stageSchema.parse(accepted.body).state).toBe('under_review');
+      const rows = await t.db('stage_submissions').where({ project_id: projectId, stage_key: key });
+      expect(rows).toHaveLength(1);
+      expect(rows[0]).toMatchObject({
+        scheme_id: withError,
+        scheme_version: version,
+        submitted_by: DEMO.users.engineerA.id,
+      });
+      expect(rows[0].justifications).toEqual([
+        { ruleId: only.ruleId, elements: only.elements, text: `Answered for ${key}: transfer beam carries B3.` },
+      ]);
+      const [latest] = await submissions(key);
+      expect(latest.scheme).toMatchObject({ id: withError, version });
+      expect(latest.justifications).toHaveLength(1);
+    },
+  );
+  it('links the review to a report already written for the submitted version, not to one of another version', async () => {
+    const [submitted] = await submissions('beam_framing');
+    const version = submitted.scheme!.version;
+    expect(version).toBeGreaterThan(1);
+    expect(submitted.scheme!.report).toBeNull();
+    const written = async (v: number) => {
+      const created = await send(
+        tomas,
+        'post',
+        `/api/projects/${projectId}/schemes/${withError}/versions/${v}/reports`,
+        {},
+      );
+      expect(created.status).toBe(202);
+      const id = schemeReportSchema.parse(created.body).id;
+      let state = 'queued';
+      // a deadline for a loaded shared machine, not a speed check
+      await until(
+        'the report job',
+        async () => {
+          state = schemeReportSchema.parse(
+            (await tomas.get(`/api/projects/${projectId}/scheme-reports/${id}`)).body,
+          ).state;
+          return state === 'done' || state === 'failed';
+        },
+        120_000,
+      );
+      expect(state).toBe('done');
+      return id;
+    };
+    // a report of an earlier version is not the submitted version's
+    await written(version - 1);
+    expect((await submissions('beam_framing'))[0].scheme!.report).toBeNull();
+    const id = await written(version);
+    const [linked] = await submissions('beam_framing');
+    expect(linked.scheme!.report).toMatchObject({
+      id,
+      fileUrl: `/api/projects/${projectId}/scheme-reports/${id}/file`,
+    });
+    expect(linked.scheme!.report!.pages).toBeGreaterThan(0);
+    const file = await principal.get(linked.scheme!.report!.fileUrl);
+    expect(file.status).toBe(200);
+    expect(file.headers['content-type']).toBe('application/pdf');
+    // the other stage submitted with the same version links the same report
+    expect((await submissions('foundations'))[0].scheme!.report).toMatchObject({ id });
   });
 });

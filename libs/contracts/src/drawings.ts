@@ -160,6 +160,11 @@ export const revisionSchema = z.object({
   checkedBy: personRef.nullable(),
   approvedBy: personRef.nullable(),
   issuedAt: z.iso.datetime().nullable(),
+  /**
+   * The scheme version a plan sheet revision was drawn from (null for a revision uploaded by
+   * hand, and always null for client contacts: schemes are the firm's own work).
+   */
+  fromScheme: z.object({ id, name: z.string(), version: z.number().int().min(1) }).nullable(),
   files: z.array(revisionFileSchema),
   /** What the caller may do to it now (the server decides; the client only shows them). */
   allowedActions: z.array(revisionActionSchema),

@@ -52,6 +52,16 @@ export const stageSubmissionSchema = z.object({
       /** The scheme's latest save now; newer than `version` means it changed since submission. */
       currentVersion: z.number().int().min(1),
       changedSinceSubmitted: z.boolean(),
+      /** The newest calculation report already written for the submitted version, if any. */
+      report: z
+        .object({
+          id,
+          pages: z.number().int().positive().nullable(),
+          finishedAt: z.iso.datetime(),
+          /** GET it for the PDF */
+          fileUrl: z.string(),
+        })
+        .nullable(),
     })
     .nullable(),
   checks: checkSummarySchema.nullable(),

@@ -190,6 +190,9 @@ export interface RevisionRow {
   approved_by: string | null;
   approved_name: string | null;
   issued_at: Date | null;
+  scheme_id: string | null;
+  scheme_name: string | null;
+  scheme_version: number | null;
 }
 
 export function revisionsQuery(db: Q) {
@@ -197,6 +200,7 @@ export function revisionsQuery(db: Q) {
     .join('users as dn', 'dn.id', 'r.drawn_by')
     .leftJoin('users as ck', 'ck.id', 'r.checked_by')
     .leftJoin('users as ap', 'ap.id', 'r.approved_by')
+    .leftJoin('schemes as sc', 'sc.id', 'r.scheme_id')
     .select(
       'r.id',
       'r.drawing_id',
@@ -216,6 +220,9 @@ export function revisionsQuery(db: Q) {
       'r.approved_by',
       'ap.display_name as approved_name',
       'r.issued_at',
+      'r.scheme_id',
+      'sc.name as scheme_name',
+      'r.scheme_version',
     );
 }
 

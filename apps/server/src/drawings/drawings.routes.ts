@@ -36,6 +36,7 @@ import {
   writeSettings,
 } from './drawings.service';
 import { registerCsv, registerPdf } from './register-export';
+import { restampSheet } from '../scheme-outputs/scheme-outputs.service';
 
 const callerOf = (req: Request): Caller => req.caller as Caller;
 const projectParams = z.object({ projectId: z.uuid() });
@@ -199,6 +200,8 @@ export function drawingRoutes(db: Db, store: ObjectStore | undefined, maxBytes: 
             req.project!.id,
             String(req.params['revisionId']),
             req.body.action,
+            // a plan sheet drawn from a scheme takes the checker's and approver's names into its PDF
+            store ? (trx, id) => restampSheet(trx, store, id) : undefined,
           ),
         );
       },

@@ -121,6 +121,10 @@ export function revisionOf(caller: Caller, r: RevisionRow, files: RevisionFileRo
     checkedBy: r.checked_by ? { id: r.checked_by, displayName: r.checked_name! } : null,
     approvedBy: r.approved_by ? { id: r.approved_by, displayName: r.approved_name! } : null,
     issuedAt: r.issued_at ? new Date(r.issued_at).toISOString() : null,
+    fromScheme:
+      r.scheme_id && r.scheme_version !== null && !outOnly(caller)
+        ? { id: r.scheme_id, name: r.scheme_name ?? '', version: r.scheme_version }
+        : null,
     files: files.map(fileOf),
     allowedActions: (['check', 'approve'] as const).filter((a) => revisionRefusal(caller, r, a, hasPdf) === null),
   };
@@ -267,8 +271,8 @@ export async function registerRevision(
   projectId: string,
   drawingId: string,
   body: RevisionCreate,
-  /** the scheme version a generated plan sheet was drawn from (scheme-outputs) */
-  origin?: { schemeId: string; schemeVersion: number },
+  /** the scheme version a generated plan sheet was drawn from, and its paper (scheme-outputs) */
+  origin?: { schemeId: string; schemeVersion: number; sheetSize: string; sheetScale: number },
 ): Promise<Revision> {
   const id = await db.transaction(async (trx) => {
     await refuseArchived(trx, projectId);
@@ -304,7 +308,14 @@ export async function registerRevision(
         description: body.description,
         revision_date: body.date,
         drawn_by: caller.userId,
-        ...(origin ? { scheme_id: origin.schemeId, scheme_version: origin.schemeVersion } : {}),
+        ...(origin
+          ? {
+              scheme_id: origin.schemeId,
+              scheme_version: origin.schemeVersion,
+              sheet_size: origin.sheetSize,
+              sheet_scale: origin.sheetScale,
+            }
+          : {}),
       })
       .returning('id');
     await insertActivity(trx, {
@@ -362,14 +373,22 @@ export async function patchRevision(
   return readRevision(db, caller, projectId, id);
 }
 
+/**
+ * Called inside a check or approval's transaction, after the revision row changed: a generated
+ * drawing draws itself again with the new names (scheme-outputs' plan sheet). What it returns runs
+ * once the change has committed (removing the file it replaced).
+ */
+export type RevisionRestamp = (trx: Knex.Transaction, revisionId: string) => Promise<(() => Promise<void>) | void>;
+
 export async function transitionRevision(
   db: Db,
   caller: Caller,
   projectId: string,
   id: string,
   action: RevisionAction,
+  restamp?: RevisionRestamp,
 ): Promise<Revision> {
-  await db.transaction(async (trx) => {
+  const afterCommit = await db.transaction(async (trx) => {
     await refuseArchived(trx, projectId);
     const r = await lockRevision(trx, projectId, id);
     if (!r) throw notFound('No revision with this id.');
@@ -393,7 +412,9 @@ export async function transitionRevision(
       objectId: id,
       summary: `${caller.displayName} ${action === 'check' ? 'checked' : 'approved'} revision ${r.code} of drawing ${drawing.number}`,
     });
+    return restamp ? await restamp(trx, id) : undefined;
   });
+  if (afterCommit) await afterCommit();
   return readRevision(db, caller, projectId, id);
 }
 

@@ -1,6 +1,6 @@
 import type { PlanSheetSize, SchemeDocument } from '@trabeate/contracts';
 import type { SchemeResult } from '@trabeate/structural';
-import { PLAN_SCALES } from '@trabeate/contracts';
+import { FOOTING_OPTION_LABELS, PLAN_SCALES } from '@trabeate/contracts';
 
 // The plan sheet of a scheme's column layout, as a list of drawing primitives in sheet
 // millimetres (origin at the top left, y downwards). The PDF (sheet-pdf.ts) and the SVG
@@ -108,7 +108,151 @@ function planExtent(doc: SchemeDocument, results: SchemeResult): Extent {
     xs.push(c.x - f.adoptedSideM / 2, c.x + f.adoptedSideM / 2);
     ys.push(c.y - f.adoptedSideM / 2, c.y + f.adoptedSideM / 2);
   }
+  for (const o of chosenFootings(doc, results).outlines)
+    for (const [x, y] of o.points) {
+      xs.push(x);
+      ys.push(y);
+    }
   return { minX: Math.min(...xs), maxX: Math.max(...xs), minY: Math.min(...ys), maxY: Math.max(...ys) };
+}
+
+type Pt = [number, number];
+
+/** The outline of a footing the engineer chose, in plan m, with its words for the sheet. */
+export interface ChosenOutline {
+  columnId: string;
+  option: keyof typeof FOOTING_OPTION_LABELS;
+  /** closed outlines, plan m (a strap footing has three: exterior pad, strap, interior pad) */
+  shapes: Pt[][];
+  /** every point of the shapes, for the sheet's extent */
+  points: Pt[];
+  /** where the words go, plan m */
+  labelAt: Pt;
+  /** a moved column's section at its new place, when the choice is to move it */
+  movedColumn: Pt[] | null;
+}
+
+const unit = (x: number, y: number): Pt => {
+  const l = Math.hypot(x, y) || 1;
+  return [x / l, y / l];
+};
+
+/**
+ * The chosen footing at each column with a recorded choice (scheme.footingChoices), drawn from the
+ * sizes the engine stored for that option: a strap's exterior pad against the line, the strap and
+ * the interior pad; a combined footing from the line past the interior column; the moved column
+ * with its own pad at the new place; one combined footing under two overlapping pads. Lengths run
+ * along the line from the column to its interior neighbour (the engine sizes them so), widths
+ * across it. `covered` are the columns whose plain isolated pad the chosen outline replaces. A
+ * choice the stored results no longer offer (a stale one) draws nothing: the plain pad stays.
+ */
+export function chosenFootings(
+  doc: SchemeDocument,
+  results: SchemeResult,
+): { outlines: ChosenOutline[]; covered: Set<string> } {
+  const outlines: ChosenOutline[] = [];
+  const covered = new Set<string>();
+  const col = new Map(doc.columns.map((c) => [c.id, c]));
+  const pads = new Map((results.sizes?.footings ?? []).map((f) => [f.columnId, f.adoptedSideM]));
+  const v = doc.boundary.vertices;
+  const centre: Pt = [v.reduce((s, p) => s + p.x, 0) / v.length, v.reduce((s, p) => s + p.y, 0) / v.length];
+  const square = (x: number, y: number, side: number): Pt[] => {
+    const h = side / 2;
+    return [
+      [x - h, y - h],
+      [x + h, y - h],
+      [x + h, y + h],
+      [x - h, y + h],
+    ];
+  };
+  for (const choice of doc.footingChoices ?? []) {
+    const c = col.get(choice.columnId);
+    if (!c) continue;
+    // A band along axis u from s0 to s1 (m from `from`), half-widths w0 at s0 and w1 at s1.
+    const band = (from: Pt, u: Pt, s0: number, s1: number, w0: number, w1 = w0): Pt[] => {
+      const n: Pt = [-u[1], u[0]];
+      const at = (s: number, w: number): Pt => [from[0] + u[0] * s + n[0] * w, from[1] + u[1] * s + n[1] * w];
+      return [at(s0, -w0), at(s1, -w1), at(s1, w1), at(s0, w0)];
+    };
+    let shapes: Pt[][] = [];
+    let labelAt: Pt = [c.x, c.y];
+    let movedColumn: Pt[] | null = null;
+    const these: string[] = [c.id];
+    if (choice.option === 'combinedOverlap' || choice.option === 'isolated') {
+      const o = results.footings.combined.find((k) => k.columnIds.includes(c.id));
+      const a = o && col.get(o.columnIds[0]);
+      const b = o && col.get(o.columnIds[1]);
+      if (!o || !a || !b) continue;
+      these.push(a.id, b.id);
+      if (choice.option === 'isolated')
+        shapes = [a, b].filter((k) => (pads.get(k.id) ?? 0) > 0).map((k) => square(k.x, k.y, pads.get(k.id)!));
+      else {
+        const u = unit(b.x - a.x, b.y - a.y);
+        const mid = o.resultantFromFirstM;
+        shapes = [band([a.x, a.y], u, mid - o.lengthM / 2, mid + o.lengthM / 2, o.adoptedWidthM / 2)];
+      }
+      labelAt = [(a.x + b.x) / 2, (a.y + b.y) / 2];
+    } else {
+      const o = results.footings.boundary.find((k) => k.columnId === c.id);
+      if (!o) continue;
+      const inner = o.interiorColumnId ? col.get(o.interiorColumnId) : undefined;
+      // along the cross wall toward the interior column; without one, away from the line into the plot
+      let u: Pt;
+      if (inner) u = unit(inner.x - c.x, inner.y - c.y);
+      else {
+        const p = v[o.propertyLine];
+        const q = v[(o.propertyLine + 1) % v.length];
+        const t = unit(q.x - p.x, q.y - p.y);
+        const n: Pt = [-t[1], t[0]];
+        const side = (centre[0] - p.x) * n[0] + (centre[1] - p.y) * n[1];
+        u = side >= 0 ? n : [-n[0], -n[1]];
+      }
+      const d = o.distanceToLineM;
+      const from: Pt = [c.x, c.y];
+      if (choice.option === 'shift') {
+        const np = o.shift.newPosition;
+        const side = pads.get(c.id) ?? 0;
+        if (side > 0) shapes = [square(np.x, np.y, side)];
+        const [bx, by] = c.orientationDeg === 90 ? [c.depthMm, c.widthMm] : [c.widthMm, c.depthMm];
+        movedColumn = [
+          [np.x - bx / 2000, np.y - by / 2000],
+          [np.x + bx / 2000, np.y - by / 2000],
+          [np.x + bx / 2000, np.y + by / 2000],
+          [np.x - bx / 2000, np.y + by / 2000],
+        ];
+        labelAt = [np.x, np.y];
+      } else if (choice.option === 'strap' && o.strap && inner && o.spacingM !== null) {
+        const st = o.strap;
+        const half = (doc.basis.beamWidthMm ?? 300) / 2000;
+        shapes = [
+          band(from, u, -d, st.exteriorLengthM - d, st.exteriorWidthM / 2),
+          band(from, u, st.exteriorLengthM - d, o.spacingM - st.interiorSideM / 2, half),
+          square(inner.x, inner.y, st.interiorSideM),
+        ];
+        these.push(inner.id);
+      } else if (choice.option === 'combinedRectangular' && o.combinedRectangular && inner) {
+        const r = o.combinedRectangular;
+        shapes = [band(from, u, -d, r.lengthM - d, r.adoptedWidthM / 2)];
+        these.push(inner.id);
+      } else if (choice.option === 'combinedTrapezoidal' && o.combinedTrapezoidal && inner) {
+        const r = o.combinedTrapezoidal;
+        shapes = [band(from, u, -d, r.lengthM - d, r.widthAtFirstM / 2, r.widthAtFarM / 2)];
+        these.push(inner.id);
+      } else continue;
+      if (choice.option !== 'shift' && inner) labelAt = [(c.x + inner.x) / 2, (c.y + inner.y) / 2];
+    }
+    if (!shapes.length) continue;
+    for (const id of these) covered.add(id);
+    outlines.push({
+      columnId: c.id,
+      option: choice.option,
+      shapes,
+      points: [...shapes.flat(), ...(movedColumn ?? [])],
+      labelAt,
+      movedColumn,
+    });
+  }
+  return { outlines, covered };
 }
 
 /** The drawing area of a sheet (inside the frame, left of the title panel), mm. */
@@ -149,8 +293,8 @@ export function wrap(text: string, chars: number): string[] {
 
 /**
  * Builds the sheet: frame, plot boundary with its property lines, grid lines with bubbles and
- * dimension chains, columns drawn to size with their marks and sections, isolated footing
- * outlines from the stored results, scale bar, north point and the title panel.
+ * dimension chains, columns drawn to size with their marks and sections, footing outlines (the
+ * chosen footing where the engineer recorded one, else the isolated pad from the stored results), scale bar, north point and the title panel.
  * Plan coordinates are m with y to the north; the sheet is drawn with north up.
  */
 export function buildPlanSheet(
@@ -303,11 +447,33 @@ export function buildPlanSheet(
     text(chainX - 1, (a + b) / 2, mm(ys[i + 1].y! - ys[i].y!), 2, { anchor: 'middle', rotate: 90 });
   }
 
-  // footing outlines (isolated pads as sized from the results), under the columns
+  // footing outlines under the columns: the footing the engineer chose where there is a choice,
+  // else the isolated pad as sized from the results
+  const chosen = chosenFootings(doc, results);
   const footings = new Map((results.sizes?.footings ?? []).map((f) => [f.columnId, f]));
+  for (const o of chosen.outlines) {
+    for (const shape of o.shapes)
+      out.push({
+        kind: 'poly',
+        points: shape.map(([x, y]) => [px(x), py(y)]),
+        width: 0.35,
+        tone: 'accent',
+        closed: true,
+        dash: [2, 1],
+      });
+    if (o.movedColumn)
+      out.push({
+        kind: 'poly',
+        points: o.movedColumn.map(([x, y]) => [px(x), py(y)]),
+        width: 0.25,
+        tone: 'accent',
+        closed: true,
+        dash: [0.8, 0.6],
+      });
+  }
   for (const c of doc.columns) {
     const f = footings.get(c.id);
-    if (!f || !(f.adoptedSideM > 0)) continue;
+    if (!f || !(f.adoptedSideM > 0) || chosen.covered.has(c.id)) continue;
     const h = f.adoptedSideM / 2;
     out.push({
       kind: 'poly',
@@ -344,10 +510,27 @@ export function buildPlanSheet(
     const lx = px(c.x + hx) + 1.2;
     const ly = py(c.y + hy) - 1;
     text(lx, ly, c.label, 2.5, { bold: true });
-    const f = footings.get(c.id);
+    const f = chosen.covered.has(c.id) ? undefined : footings.get(c.id);
     text(lx, ly + 3, `${c.widthMm}×${c.depthMm}${f ? ` · F ${f.adoptedSideM.toFixed(1)} m sq.` : ''}`, 1.8, {
       tone: 'muted',
     });
+  }
+  // the chosen footings' words, just below their outlines (clear of the grid line through them)
+  const colLabel = new Map(doc.columns.map((c) => [c.id, c.label]));
+  for (const o of chosen.outlines) {
+    const [x] = o.labelAt;
+    const below = Math.max(...o.points.map(([, y]) => py(y)));
+    text(
+      px(x),
+      below + 3,
+      `${colLabel.get(o.columnId) ?? o.columnId}: ${FOOTING_OPTION_LABELS[o.option]} (chosen)`,
+      1.9,
+      {
+        anchor: 'middle',
+        bold: true,
+        tone: 'accent',
+      },
+    );
   }
 
   // scale bar: five equal parts of a round length in metres, alternately filled

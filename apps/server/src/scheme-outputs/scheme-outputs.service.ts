@@ -1,7 +1,10 @@
 import { createHash, randomUUID } from 'node:crypto';
 import { Readable } from 'node:stream';
+import type { Knex } from 'knex';
 import type { z } from 'zod';
 import {
+  PLAN_SCALES,
+  planSheetSizeSchema,
   STAGE_TITLES,
   type planSheetRegisterSchema,
   type PlanSheetRegistered,
@@ -45,7 +48,12 @@ export const REPORT_QUEUE = 'scheme.report';
 
 const iso = (d: Date | string | null) => (d ? new Date(d).toISOString() : null);
 
-async function facts(db: Db, projectId: string, schemeId: string, version: number): Promise<VersionFacts> {
+async function facts(
+  db: Db | Knex.Transaction,
+  projectId: string,
+  schemeId: string,
+  version: number,
+): Promise<VersionFacts> {
   const f = await versionFacts(db, projectId, schemeId, version);
   if (!f) throw notFound(`No version ${version} of this scheme in this project.`);
   return f;
@@ -74,12 +82,17 @@ export interface SheetTitle {
   revision: string;
   suitability: string;
   drawnBy: string;
+  /** the register's names once the revision is checked and approved; blank before */
+  checkedBy?: string;
+  approvedBy?: string;
   title?: string;
+  /** the revision's date, in the firm's format; today for a preview */
+  date?: string;
 }
 
 /** The plan sheet geometry of one saved version; a 400 names the smallest scale that fits. */
 export async function planSheet(
-  db: Db,
+  db: Db | Knex.Transaction,
   projectId: string,
   schemeId: string,
   version: number,
@@ -99,9 +112,9 @@ export async function planSheet(
       revision: t.revision,
       suitability: t.suitability,
       drawnBy: t.drawnBy,
-      checkedBy: '',
-      approvedBy: '',
-      date: formatDay(new Date()),
+      checkedBy: t.checkedBy ?? '',
+      approvedBy: t.approvedBy ?? '',
+      date: t.date ?? formatDay(new Date()),
       scheme: `${f.scheme_name}, version ${version}`,
       engineVersion: f.engine_version,
       caution: CAUTION,
@@ -167,7 +180,7 @@ export async function registerSheet(
   version: number,
   body: z.output<typeof planSheetRegisterSchema>,
 ): Promise<PlanSheetRegistered> {
-  await facts(db, projectId, schemeId, version);
+  const origin = await facts(db, projectId, schemeId, version);
   let drawingId = body.drawingId;
   let number: string;
   let title: string | undefined;
@@ -177,12 +190,14 @@ export async function registerSheet(
     number = d.number;
     title = d.title;
   } else number = (await proposeNumber(db, caller, projectId)).number;
+  const revisionDate = new Date().toISOString().slice(0, 10);
   const sheetTitle = (code: string): SheetTitle => ({
     drawingNumber: number,
     revision: code,
     suitability: body.suitability,
     drawnBy: caller.displayName,
     title: title ?? body.newDrawing?.title,
+    date: formatDay(revisionDate),
   });
   // Drawn once before anything is created, so a refused scale leaves the register as it was.
   await planSheet(db, projectId, schemeId, version, body.size, body.scale, sheetTitle('P01'));
@@ -215,10 +230,16 @@ export async function registerSheet(
     {
       suitability: body.suitability,
       purpose: body.purpose,
-      description: body.description || `Plan sheet from ${schemeId.slice(0, 8)} version ${version}`,
-      date: new Date().toISOString().slice(0, 10),
+      // the register names where the sheet came from, whatever else the engineer wrote
+      description: [
+        body.description.replace(/[.\s]+$/, ''),
+        `Column layout from scheme ${origin.scheme_name}, version ${version}`,
+      ]
+        .filter(Boolean)
+        .join('. '),
+      date: revisionDate,
     },
-    { schemeId, schemeVersion: version },
+    { schemeId, schemeVersion: version, sheetSize: body.size, sheetScale: body.scale },
   );
   const key = `drawings/${projectId}/${revision.id}/${randomUUID()}`;
   try {
@@ -244,6 +265,104 @@ export async function registerSheet(
     schemeId,
     version,
     revision: await readRevision(db, caller, projectId, revision.id),
+  };
+}
+
+/**
+ * Draws a registered plan sheet again inside a check's or an approval's transaction, so that its
+ * title panel carries the names the register now holds (drawn, checked, approved) and the stored
+ * PDF never says less than the register does. The sheet is drawn from the same scheme version on
+ * the same paper; only the names differ. The new PDF is stored under a new key before the change
+ * commits (storage down: the check is refused and nothing changes), its row takes the new key,
+ * size and SHA-256, and the returned step removes the replaced object once the change has
+ * committed. A revision not drawn from a scheme is left as it is.
+ */
+export async function restampSheet(
+  trx: Knex.Transaction,
+  store: ObjectStore,
+  revisionId: string,
+): Promise<(() => Promise<void>) | void> {
+  const r = await trx('drawing_revisions as r')
+    .join('drawings as d', 'd.id', 'r.drawing_id')
+    .join('users as dn', 'dn.id', 'r.drawn_by')
+    .leftJoin('users as ck', 'ck.id', 'r.checked_by')
+    .leftJoin('users as ap', 'ap.id', 'r.approved_by')
+    .where('r.id', revisionId)
+    .first<
+      | {
+          project_id: string;
+          scheme_id: string | null;
+          scheme_version: number | null;
+          sheet_size: string | null;
+          sheet_scale: number | null;
+          code: string;
+          suitability: string;
+          revision_date: string;
+          number: string;
+          title: string;
+          drawing_size: string;
+          drawing_scale: string;
+          drawn_name: string;
+          checked_name: string | null;
+          approved_name: string | null;
+        }
+      | undefined
+    >(
+      'r.project_id',
+      'r.scheme_id',
+      'r.scheme_version',
+      'r.sheet_size',
+      'r.sheet_scale',
+      'r.code',
+      'r.suitability',
+      trx.raw(`to_char(r.revision_date, 'YYYY-MM-DD') as revision_date`),
+      'd.number',
+      'd.title',
+      'd.sheet_size as drawing_size',
+      'd.scale as drawing_scale',
+      'dn.display_name as drawn_name',
+      'ck.display_name as checked_name',
+      'ap.display_name as approved_name',
+    );
+  if (!r?.scheme_id || r.scheme_version === null) return;
+  const file = await trx('revision_files')
+    .where({ revision_id: revisionId, role: 'pdf' })
+    .forUpdate()
+    .first<{ id: string; object_key: string } | undefined>('id', 'object_key');
+  if (!file) return;
+  // Sheets registered before their paper was kept with the revision: the drawing's own size and scale.
+  const size = planSheetSizeSchema.safeParse(r.sheet_size ?? r.drawing_size);
+  const scale = r.sheet_scale ?? Number(/^1:(\d+)$/.exec(r.drawing_scale)?.[1]);
+  if (!size.success || !(PLAN_SCALES as readonly number[]).includes(scale)) return;
+  const { sheet, title } = await planSheet(trx, r.project_id, r.scheme_id, r.scheme_version, size.data, scale, {
+    drawingNumber: r.number,
+    revision: r.code,
+    suitability: r.suitability,
+    drawnBy: r.drawn_name,
+    checkedBy: r.checked_name ?? '',
+    approvedBy: r.approved_name ?? '',
+    title: r.title,
+    date: formatDay(r.revision_date),
+  });
+  const pdf = await sheetPdf(sheet, { Title: title, Subject: r.number });
+  const key = `drawings/${r.project_id}/${revisionId}/${randomUUID()}`;
+  await store.putStream(key, Readable.from([pdf]), { contentType: 'application/pdf' });
+  try {
+    await trx('revision_files')
+      .where({ id: file.id })
+      .update({
+        object_key: key,
+        size_bytes: pdf.length,
+        sha256: createHash('sha256').update(pdf).digest('hex'),
+        // when these bytes were stored, so the register does not date them to the registration
+        uploaded_at: trx.fn.now(),
+      });
+  } catch (err) {
+    await store.remove(key).catch(() => undefined);
+    throw err;
+  }
+  return async () => {
+    await store.remove(file.object_key).catch(() => undefined);
   };
 }
 

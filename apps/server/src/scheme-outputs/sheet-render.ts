@@ -51,6 +51,8 @@ export async function sheetPdf(sheet: PlanSheet, info: { Title: string; Subject:
   doc.registerFont('heading', FONTS.bold);
   printableText(doc);
   const u = (v: number) => v * PT_PER_MM;
+  // pdfkit 0.20 takes a whole pattern as an array; its published types know only one length
+  const dashPattern = doc.dash.bind(doc) as unknown as (pattern: number[], options: object) => unknown;
   for (const p of sheet.primitives) {
     doc.save();
     if (p.kind === 'text') {
@@ -66,7 +68,9 @@ export async function sheetPdf(sheet: PlanSheet, info: { Title: string; Subject:
       doc.text(p.text, u(p.x) + dx, u(p.y) - ascent, { lineBreak: false });
     } else {
       doc.lineWidth(u(p.width));
-      if ('dash' in p && p.dash) doc.dash(u(p.dash[0]), { space: u(p.dash[1] ?? p.dash[0]) });
+      // the whole pattern (a property line is dash-dot), as the SVG's stroke-dasharray has it; every
+      // primitive sits in its own save/restore, and a solid one undashes, so no dash outlives its stroke
+      if ('dash' in p && p.dash) dashPattern(p.dash.map(u), {});
       else doc.undash();
       if (p.kind === 'line') doc.moveTo(u(p.x1), u(p.y1)).lineTo(u(p.x2), u(p.y2)).stroke(COLOURS[p.tone]);
       else if (p.kind === 'circle') {

@@ -228,7 +228,27 @@ interface SubmissionRow {
   invoice_currency: string | null;
 }
 
-const submissionOf = (r: SubmissionRow): StageSubmission => ({
+/** The newest finished report of one scheme version, as the review links it. */
+interface ReportLink {
+  id: string;
+  project_id: string;
+  scheme_id: string;
+  scheme_version: number;
+  pages: number | null;
+  finished_at: Date;
+}
+
+const reportLinkOf = (f: ReportLink | undefined) =>
+  f
+    ? {
+        id: f.id,
+        pages: f.pages,
+        finishedAt: new Date(f.finished_at).toISOString(),
+        fileUrl: `/api/projects/${f.project_id}/scheme-reports/${f.id}/file`,
+      }
+    : null;
+
+const submissionOf = (r: SubmissionRow, reports: Map<string, ReportLink>): StageSubmission => ({
   id: r.id,
   stageKey: r.stage_key,
   submittedAt: new Date(r.submitted_at).toISOString(),
@@ -242,6 +262,7 @@ const submissionOf = (r: SubmissionRow): StageSubmission => ({
           version: r.scheme_version,
           currentVersion: r.current_version ?? r.scheme_version,
           changedSinceSubmitted: (r.current_version ?? r.scheme_version) > r.scheme_version,
+          report: reportLinkOf(reports.get(`${r.scheme_id}/${r.scheme_version}`)),
         }
       : null,
   checks: r.check_summary,
@@ -303,5 +324,24 @@ export async function listSubmissions(db: Q, projectId: string, key: StageKey): 
       'i.total_minor as invoice_total',
       'i.currency as invoice_currency',
     );
-  return { items: rows.map(submissionOf) };
+  // The review links a report already written for the submitted version (the newest finished one),
+  // so the principal need not generate another.
+  const versions = rows.filter((r) => r.scheme_id && r.scheme_version).map((r) => [r.scheme_id!, r.scheme_version!]);
+  const reports = new Map<string, ReportLink>();
+  if (versions.length) {
+    const found: ReportLink[] = await db('scheme_reports')
+      .where({ project_id: projectId, state: 'done' })
+      .whereNotNull('object_key')
+      .whereIn(['scheme_id', 'scheme_version'], versions)
+      .orderBy([
+        { column: 'finished_at', order: 'desc' },
+        { column: 'id', order: 'desc' },
+      ])
+      .select('id', 'project_id', 'scheme_id', 'scheme_version', 'pages', 'finished_at');
+    for (const f of found) {
+      const k = `${f.scheme_id}/${f.scheme_version}`;
+      if (!reports.has(k)) reports.set(k, f);
+    }
+  }
+  return { items: rows.map((r) => submissionOf(r, reports)) };
 }

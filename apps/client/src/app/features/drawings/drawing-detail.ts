@@ -13,6 +13,7 @@ import {
   signal,
 } from '@angular/core';
 import { FormBuilder, ReactiveFormsModule, Validators } from '@angular/forms';
+import { RouterLink } from '@angular/router';
 import { MatButton } from '@angular/material/button';
 import { MatOption } from '@angular/material/core';
 import { MatError, MatFormField, MatHint, MatLabel } from '@angular/material/form-field';
@@ -50,6 +51,7 @@ const today = (): Date | null => fromIsoDay(new Date().toISOString().slice(0, 10
   selector: 'tb-drawing-detail',
   imports: [
     DayPipe,
+    RouterLink,
     DayTimePipe,
     StateMarker,
     ReactiveFormsModule,
@@ -108,6 +110,13 @@ const today = (): Date | null => fromIsoDay(new Date().toISOString().slice(0, 10
               </div>
               @if (r.description) {
                 <p class="desc">{{ r.description }}</p>
+              }
+              @if (r.fromScheme; as s) {
+                <p class="from-scheme muted" data-testid="revision-from-scheme">
+                  Plan sheet drawn from
+                  <a [routerLink]="['/projects', projectId(), 'schemes', s.id]">{{ s.name }}</a>, version
+                  {{ s.version }}
+                </p>
               }
               <p class="people muted">
                 Drawn by {{ r.drawnBy.displayName }}

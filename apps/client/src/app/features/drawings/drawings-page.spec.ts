@@ -60,6 +60,7 @@ const revision = (over: object = {}) => ({
   checkedBy: null,
   approvedBy: null,
   issuedAt: null,
+  fromScheme: null,
   files: [
     {
       id: '00000000-0000-4000-8000-000000000801',
@@ -275,6 +276,28 @@ describe('DrawingsPage', () => {
       .flush({ ...transmittal, myAcknowledgement: { acknowledgedAt: '2026-03-03T08:00:00.000Z' } });
     await settle();
     expect(el().querySelector('[data-testid="acknowledge"]')).toBeNull();
+  });
+
+  it('shows the scheme and version a plan sheet revision was drawn from, linked, and nothing for one uploaded by hand', async () => {
+    const SCHEME = '00000000-0000-4000-8000-000000000901';
+    await open(`/drawings?drawing=${DRAWING}`, 'engineer');
+    registerRequest().flush(drawingListSchema.parse({ items: [listItem()], total: 1, page: 1, pageSize: 25 }));
+    backend.expectOne(`/api/projects/${PROJECT}/transmittals`).flush(transmittalListSchema.parse([]));
+    const sheet = revision({
+      id: '00000000-0000-4000-8000-000000000702',
+      code: 'P02',
+      description: 'Column layout from scheme Wide bays, version 3',
+      fromScheme: { id: SCHEME, name: 'Wide bays', version: 3 },
+    });
+    const byHand = revision({ state: 'superseded', allowedActions: [] });
+    backend
+      .expectOne(`/api/projects/${PROJECT}/drawings/${DRAWING}`)
+      .flush(drawingSchema.parse({ ...listItem(), revisions: [sheet, byHand], canRegisterRevision: false }));
+    await settle();
+    const origins = el().querySelectorAll('[data-testid="revision-from-scheme"]');
+    expect(origins).toHaveLength(1);
+    expect(origins[0].textContent?.replace(/\s+/g, ' ').trim()).toBe('Plan sheet drawn from Wide bays, version 3');
+    expect(origins[0].querySelector('a')?.getAttribute('href')).toBe(`/projects/${PROJECT}/schemes/${SCHEME}`);
   });
 
   it('proposes the next number, but never over a number the engineer typed while it was on its way', async () => {

@@ -23,7 +23,14 @@ function submission(extra: Partial<StageSubmission> = {}): StageSubmission {
     submittedAt: '2026-03-02T08:00:00.000Z',
     submittedBy: ENGINEER,
     comment: 'Courtyard column left out.',
-    scheme: { id: SCHEME_ID, name: 'Courtyard grid', version: 3, currentVersion: 3, changedSinceSubmitted: false },
+    scheme: {
+      id: SCHEME_ID,
+      name: 'Courtyard grid',
+      version: 3,
+      currentVersion: 3,
+      changedSinceSubmitted: false,
+      report: null,
+    },
     checks: {
       engineVersion: '1.0.0',
       errors: 1,
@@ -110,12 +117,52 @@ describe('StageReview', () => {
     expect(text('review-changed')).toBeNull();
   });
 
+  it('links the report already written for the submitted version, and offers none when there is none', async () => {
+    const REPORT_ID = '00000000-0000-4000-8000-000000000971';
+    const fileUrl = `/api/projects/${PROJECT_ID}/scheme-reports/${REPORT_ID}/file`;
+    await open();
+    reply(backend.expectOne(URL), stageSubmissionListSchema, {
+      items: [
+        submission({
+          scheme: {
+            id: SCHEME_ID,
+            name: 'Courtyard grid',
+            version: 3,
+            currentVersion: 3,
+            changedSinceSubmitted: false,
+            report: { id: REPORT_ID, pages: 9, finishedAt: '2026-03-02T08:05:00.000Z', fileUrl },
+          },
+        }),
+      ],
+    });
+    await settle();
+    const link = el().querySelector<HTMLAnchorElement>('[data-testid="review-report-link"]')!;
+    expect(link.getAttribute('href')).toBe(fileUrl);
+    expect(link.textContent?.replace(/\s+/g, ' ').trim()).toBe('Calculation report of version 3');
+    expect(text('review-report')).toContain('9 pages');
+
+    fixture.destroy();
+    TestBed.resetTestingModule();
+    await open();
+    reply(backend.expectOne(URL), stageSubmissionListSchema, { items: [submission()] });
+    await settle();
+    expect(el().querySelector('[data-testid="review-report-link"]')).toBeNull();
+    expect(text('review-no-report')).toContain('No calculation report of version 3 yet');
+  });
+
   it('marks a scheme saved again since submission as changed, naming the version it is at now', async () => {
     await open();
     reply(backend.expectOne(URL), stageSubmissionListSchema, {
       items: [
         submission({
-          scheme: { id: SCHEME_ID, name: 'Courtyard grid', version: 3, currentVersion: 5, changedSinceSubmitted: true },
+          scheme: {
+            id: SCHEME_ID,
+            name: 'Courtyard grid',
+            version: 3,
+            currentVersion: 5,
+            changedSinceSubmitted: true,
+            report: null,
+          },
         }),
       ],
     });
