@@ -1,4 +1,3 @@
-import { DatePipe } from '@angular/common';
 import { HttpErrorResponse, httpResource } from '@angular/common/http';
 import { ChangeDetectionStrategy, Component, DestroyRef, computed, effect, inject, input, signal } from '@angular/core';
 import { MatButton } from '@angular/material/button';
@@ -48,6 +47,7 @@ import { PlanView, type ColumnDrop, type ColumnPick } from './plan-view';
 import { ResultsPanel } from './results-panel';
 import { SchemesApi, schemeUrl } from './schemes-api';
 import { SchemeOutputs } from './scheme-outputs';
+import { DayTimePipe } from '../../shared/dates/app-dates';
 
 type SeverityFilter = CheckSeverity | 'all';
 
@@ -62,7 +62,7 @@ export const KEY_STEP_M = 0.05;
 @Component({
   selector: 'tb-planning-page',
   imports: [
-    DatePipe,
+    DayTimePipe,
     FootingOptions,
     MatButton,
     MatFormField,

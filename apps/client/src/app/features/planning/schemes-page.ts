@@ -1,4 +1,3 @@
-import { DatePipe } from '@angular/common';
 import { HttpParams, httpResource } from '@angular/common/http';
 import { ChangeDetectionStrategy, Component, computed, inject, input, signal } from '@angular/core';
 import { FormControl, FormGroup, ReactiveFormsModule, Validators } from '@angular/forms';
@@ -28,6 +27,7 @@ import { schemeListSchema, type SchemeListItem, type SchemeListQuery } from '@tr
 import { errorMessage } from '../../core/auth/api-error';
 import { Notice } from '../../core/notice';
 import { asYouType, fieldErrorText } from '../../shared/forms/field-errors';
+import { DayTimePipe } from '../../shared/dates/app-dates';
 import { SchemesApi, schemesUrl } from './schemes-api';
 
 type SortKey = NonNullable<SchemeListQuery['sort']>;
@@ -41,7 +41,7 @@ const nameControl = (value = '') =>
 @Component({
   selector: 'tb-schemes-page',
   imports: [
-    DatePipe,
+    DayTimePipe,
     MatButton,
     MatCell,
     MatCellDef,
