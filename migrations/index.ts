@@ -13,6 +13,7 @@ import * as m20261224000001d from './20261224000001_drawing_current_revision';
 import * as m20261224000001s from './20261224000001_stage_submissions';
 import * as m20261224000201 from './20261224000201_scheme_outputs';
 import * as m20261225000001 from './20261225000001_list_change_notices';
+import * as m20261228000301 from './20261228000301_firm_date_settings';
 
 /** Every migration, by name, in the order they run. Add new ones here as well as in the folder. */
 export const migrations: Record<string, Knex.Migration> = {
@@ -30,4 +31,5 @@ export const migrations: Record<string, Knex.Migration> = {
   '20261224000001_stage_submissions': m20261224000001s,
   '20261224000201_scheme_outputs': m20261224000201,
   '20261225000001_list_change_notices': m20261225000001,
+  '20261228000301_firm_date_settings': m20261228000301,
 };

@@ -9,7 +9,6 @@ import {
   type SchemeReport,
   type StageKey,
 } from '@trabeate/contracts';
-import { formatDay, formatDayTime } from '@trabeate/dates';
 import { CAUTION, type SchemeResult } from '@trabeate/structural';
 import type { Db } from '../db/db';
 import { HttpError, notFound } from '../core/errors';
@@ -26,6 +25,8 @@ import {
   recordFile,
   registerRevision,
 } from '../drawings/drawings.service';
+import { datesOf, firmToday } from '../firms/firms.repository';
+import { printDay, printDayTime } from '../look/print-look';
 import { storedDocument } from '../schemes/scheme-document';
 import { buildPlanSheet, SheetDoesNotFit, type PlanSheet } from './plan-sheet';
 import { sheetPdf, sheetSvg } from './sheet-render';
@@ -101,7 +102,7 @@ export async function planSheet(
       drawnBy: t.drawnBy,
       checkedBy: '',
       approvedBy: '',
-      date: formatDay(new Date()),
+      date: printDay(new Date(), datesOf(f)),
       scheme: `${f.scheme_name}, version ${version}`,
       engineVersion: f.engine_version,
       caution: CAUTION,
@@ -216,7 +217,7 @@ export async function registerSheet(
       suitability: body.suitability,
       purpose: body.purpose,
       description: body.description || `Plan sheet from ${schemeId.slice(0, 8)} version ${version}`,
-      date: new Date().toISOString().slice(0, 10),
+      date: await firmToday(db, caller.firmId),
     },
     { schemeId, schemeVersion: version },
   );
@@ -304,13 +305,13 @@ export async function runReport(db: Db, store: ObjectStore, reportId: string): P
         projectName: f.project_name,
         schemeName: f.scheme_name,
         version: r.scheme_version,
-        savedAt: formatDayTime(f.saved_at, { timeZone: 'UTC' }) + ' UTC',
+        savedAt: printDayTime(f.saved_at, datesOf(f)),
         savedBy: f.saved_by ?? 'someone no longer here',
         engineVersion: f.engine_version,
         document: storedDocument(f.document),
         results: f.results as SchemeResult,
         footingChoices: footingChoicesOf(f.document),
-        generatedOn: formatDay(new Date()),
+        generatedOn: printDay(new Date(), datesOf(f)),
         caution: CAUTION,
       },
       async (done) => updateReport(db, r.id, { sections_done: done }),
