@@ -6,6 +6,7 @@ import { send, signedInAs } from '../support/agents';
 import { startFakeSmtp, tinyPdf } from '../support/fakes';
 import type { FakeSmtp } from '../../scripts/fakes/smtp';
 import { approvedRevision, binary, pdfText } from '../support/drawings';
+import { firmToday } from '../../apps/server/src/firms/firms.repository';
 
 jest.setTimeout(60_000);
 
@@ -93,5 +94,22 @@ describe("the firm's date locale and time zone", () => {
 
     const mail = await smtp.waitFor((m) => m.to.includes(OUTSIDE));
     expect(mail.text).toContain(`work until ${inIndia(row.links_expire_at)} IST.`);
+  });
+
+  it('dates an invoice or payment made now with the day where the firm is, not the day in UTC', async () => {
+    // IANA tz database: Pacific/Kiritimati is UTC+14 and Pacific/Pago_Pago UTC-11, neither with
+    // daylight saving, so at any moment their dates differ, and each is UTC's date moved by its offset.
+    const dayAt = (hours: number) => new Date(Date.now() + hours * 3_600_000).toISOString().slice(0, 10);
+    const todayIn = async (zone: string, hours: number) => {
+      await t.db('firms').where({ id: DEMO.firm.id }).update({ time_zone: zone });
+      const before = dayAt(hours);
+      const got = await firmToday(t.db, DEMO.firm.id);
+      expect([before, dayAt(hours)]).toContain(got);
+      return got;
+    };
+    const east = await todayIn('Pacific/Kiritimati', 14);
+    const west = await todayIn('Pacific/Pago_Pago', -11);
+    expect(east).not.toBe(west);
+    await t.db('firms').where({ id: DEMO.firm.id }).update({ time_zone: 'Europe/London' });
   });
 });
