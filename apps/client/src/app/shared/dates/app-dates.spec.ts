@@ -25,7 +25,7 @@ class DatesProbe {
 describe("screen dates follow the firm's settings from /api/me", () => {
   let backend: HttpTestingController;
 
-  async function signedInWith(dateLocale: string, timeZone: string) {
+  async function signedInWith(dateLocale: string, timeZone: string, beforeRender = () => {}) {
     TestBed.configureTestingModule({
       providers: [provideHttpClient(), provideHttpClientTesting(), provideFirmDates()],
     });
@@ -34,6 +34,7 @@ describe("screen dates follow the firm's settings from /api/me", () => {
     const me = grantedMe('engineer');
     reply(backend.expectOne('/api/me'), meSchema, { ...me, firm: { ...me.firm, dateLocale, timeZone } });
     await loaded;
+    beforeRender();
     const fixture = TestBed.createComponent(DatesProbe);
     fixture.detectChanges();
     const text = (id: string) =>
@@ -76,5 +77,18 @@ describe("screen dates follow the firm's settings from /api/me", () => {
     await loaded;
     expect(toIsoDay(adapter.parse('12/11/2026', null))).toBe('2026-12-11');
     expect(adapter.getMonthNames('long')[0]).toBe('January');
+  });
+
+  it("falls back to en-GB in London where this browser does not know the firm's zone, instead of failing", async () => {
+    // An older browser whose tz data lacks the zone: its list is all this browser would know.
+    let list: jest.SpyInstance | undefined;
+    try {
+      const { text } = await signedInWith('en-IN', 'Asia/Kolkata', () => {
+        list = jest.spyOn(Intl, 'supportedValuesOf').mockReturnValue(['Europe/London', 'UTC']);
+      });
+      expect(text('at')).toBe('1 Dec 2026, 20:00');
+    } finally {
+      list?.mockRestore();
+    }
   });
 });

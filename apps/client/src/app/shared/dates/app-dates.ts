@@ -1,16 +1,39 @@
 import { InjectionToken, Pipe, PipeTransform, inject, type Provider } from '@angular/core';
-import { DEFAULT_FIRM_DATES, formatDay, formatDayTime, waitedFor, type FirmDateSettings } from '@trabeate/dates';
+import {
+  DEFAULT_FIRM_DATES,
+  formatDay,
+  formatDayTime,
+  isSupportedLocale,
+  isSupportedTimeZone,
+  waitedFor,
+  type FirmDateSettings,
+} from '@trabeate/dates';
 import { Session } from '../../core/auth/session';
 
 /**
  * The firm's date language (its locale and IANA time zone), read when a date is written: it comes
  * with GET /api/me, which the guards wait for before any page is drawn, and changes when the
- * principal saves new settings (the session is read again). en-GB in Europe/London until then.
+ * principal saves new settings (the session is read again). en-GB in Europe/London until then, and
+ * where this browser's Intl lacks the firm's locale or zone (an older browser's tz data): a
+ * RangeError there would blank every page with a date on it.
  */
 export const FIRM_DATES = new InjectionToken<() => FirmDateSettings>('FIRM_DATES', {
   factory: () => {
     const session = inject(Session);
-    return () => session.firm() ?? DEFAULT_FIRM_DATES;
+    let seen: FirmDateSettings | null = null;
+    let usable = DEFAULT_FIRM_DATES;
+    return () => {
+      const firm = session.firm();
+      if (firm !== seen) {
+        // Checked once per settings read, not on every date written.
+        seen = firm;
+        usable =
+          firm && isSupportedLocale(firm.dateLocale) && isSupportedTimeZone(firm.timeZone)
+            ? { dateLocale: firm.dateLocale, timeZone: firm.timeZone }
+            : DEFAULT_FIRM_DATES;
+      }
+      return usable;
+    };
   },
 });
 
