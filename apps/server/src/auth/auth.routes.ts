@@ -189,8 +189,9 @@ export function authRoutes(d: AuthRouteDeps): RouteDecl[] {
         res.json(body);
         return;
       }
-      // The names come with the caller (one query per request); look them up only if absent. The
-      // firm's date settings are read here only: GET /api/me is asked once per page load.
+      // The organisation's name comes with the caller (one query per request); look it up only if
+      // absent. The firm's row is read here for its date settings, which only this reply carries:
+      // GET /api/me is asked once per page load, not on every request.
       const [firm, org] = await Promise.all([
         d
           .db('firms')
