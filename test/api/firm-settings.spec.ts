@@ -96,6 +96,17 @@ describe("the firm's date locale and time zone", () => {
     expect(mail.text).toContain(`work until ${inIndia(row.links_expire_at)} IST.`);
   });
 
+  it('writes the drawing register export in the firm locale', async () => {
+    await send(principal, 'put', '/api/firm-settings', { dateLocale: 'de-DE', timeZone: 'Europe/Berlin' });
+    const res = await tomas.get(`/api/projects/${kestrel}/drawings/export.csv?q=S-301`);
+    expect(res.status).toBe(200);
+    const line = res.text.split('\r\n').find((l) => l.startsWith('"S-301"'))!;
+    // German short month names as CLDR writes them (from memory): "Dez.", "Jan.", "März", "Mai" …
+    const day = String.raw`\d{1,2}\. (Jan\.|Feb\.|März|Apr\.|Mai|Juni|Juli|Aug\.|Sept\.|Okt\.|Nov\.|Dez\.) \d{4}`;
+    expect(line).toMatch(new RegExp(`"${day}","P01 S2 ${day} [^"]+\\(for information\\)"$`));
+    await send(principal, 'put', '/api/firm-settings', { dateLocale: 'en-GB', timeZone: 'Europe/London' });
+  });
+
   it('dates an invoice or payment made now with the day where the firm is, not the day in UTC', async () => {
     // IANA tz database: Pacific/Kiritimati is UTC+14 and Pacific/Pago_Pago UTC-11, neither with
     // daylight saving, so at any moment their dates differ, and each is UTC's date moved by its offset.
