@@ -107,6 +107,15 @@ describe("the firm's date locale and time zone", () => {
     await send(principal, 'put', '/api/firm-settings', { dateLocale: 'en-GB', timeZone: 'Europe/London' });
   });
 
+  it('every zone the settings accept is one PostgreSQL can date in (firmToday asks it)', async () => {
+    const zones = [...Intl.supportedValuesOf('timeZone'), 'UTC', 'Asia/Kolkata'];
+    const refused: string[] = [];
+    for (const zone of zones) {
+      await t.db.raw(`select (now() at time zone ?)::date`, [zone]).catch(() => refused.push(zone));
+    }
+    expect(refused).toEqual([]);
+  });
+
   it('dates an invoice or payment made now with the day where the firm is, not the day in UTC', async () => {
     // IANA tz database: Pacific/Kiritimati is UTC+14 and Pacific/Pago_Pago UTC-11, neither with
     // daylight saving, so at any moment their dates differ, and each is UTC's date moved by its offset.
