@@ -15,6 +15,7 @@ import * as m20261224000201 from './20261224000201_scheme_outputs';
 import * as m20261225000001 from './20261225000001_list_change_notices';
 import * as m20261227000001 from './20261227000001_session_change_notices';
 import * as m20261228000201 from './20261228000201_plan_sheet_paper';
+import * as m20261228000301 from './20261228000301_firm_date_settings';
 
 /** Every migration, by name, in the order they run. Add new ones here as well as in the folder. */
 export const migrations: Record<string, Knex.Migration> = {
@@ -34,4 +35,5 @@ export const migrations: Record<string, Knex.Migration> = {
   '20261225000001_list_change_notices': m20261225000001,
   '20261227000001_session_change_notices': m20261227000001,
   '20261228000201_plan_sheet_paper': m20261228000201,
+  '20261228000301_firm_date_settings': m20261228000301,
 };

@@ -398,6 +398,13 @@ const MATRIX: Record<string, Entry> = {
     path: '/drawing-settings',
     expect: { ...signedIn(200), projectClient: 403, otherClient: 403 },
   },
+  // The firm's date language: the principal's own page; everyone else reads it in GET /me.
+  'GET /firm-settings': { path: '/firm-settings', expect: principalOnly(200) },
+  'PUT /firm-settings': {
+    path: '/firm-settings',
+    body: () => ({ dateLocale: 'en-GB', timeZone: 'Europe/London' }),
+    expect: principalOnly(200),
+  },
   'PUT /drawing-settings': {
     path: '/drawing-settings',
     body: () => ({ revisionScheme: 'iso19650', numberPattern: 'S-{seq:3}' }),

@@ -59,6 +59,7 @@ export const ROLES: Array<{
       { name: 'project-form', url: '/projects/new', ready: '[data-testid="project-form"]' },
       { name: 'project-edit', url: `${kestrel}/edit`, ready: '[data-testid="project-form"]' },
       { name: 'people', url: '/people', ready: 'main h1' },
+      { name: 'firm-dates', url: '/firm/settings', ready: '[data-testid="firm-dates-form"]' },
       { name: 'outbox', url: '/dev/outbox', ready: 'main h1' },
       { name: 'status', url: '/status', ready: '[data-testid="status-database"]' },
       ...WORK_PAGES,

@@ -13,7 +13,7 @@ const ROLES = [
     who: 'principal',
     user: DEMO.users.principal,
     roleLabel: 'Principal',
-    shown: ['nav-projects', 'nav-drawings', 'nav-fees', 'nav-people', 'nav-status'],
+    shown: ['nav-projects', 'nav-drawings', 'nav-fees', 'nav-people', 'nav-firm-dates', 'nav-status'],
     hidden: [] as string[],
   },
   {
@@ -21,14 +21,14 @@ const ROLES = [
     user: DEMO.users.engineerA,
     roleLabel: 'Engineer',
     shown: ['nav-projects', 'nav-drawings', 'nav-status'],
-    hidden: ['nav-fees', 'nav-people'],
+    hidden: ['nav-fees', 'nav-people', 'nav-firm-dates'],
   },
   {
     who: 'client',
     user: DEMO.users.fenwickContact,
     roleLabel: 'Client contact',
     shown: ['nav-projects', 'nav-drawings', 'nav-fees', 'nav-status'],
-    hidden: ['nav-people'],
+    hidden: ['nav-people', 'nav-firm-dates'],
   },
 ] as const;
 

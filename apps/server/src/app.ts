@@ -20,6 +20,7 @@ import { requestLog } from './core/request-log';
 import { securityHeaders } from './core/security-headers';
 import type { Logger } from './core/logger';
 import type { Db } from './db/db';
+import { firmRoutes } from './firms/firms.routes';
 import { healthHandler } from './health/health.routes';
 import { peopleRoutes } from './people/people.routes';
 import { projectRoutes } from './projects/projects.routes';
@@ -198,6 +199,7 @@ export function createApp({ config, db, logger, version = '0.1.0', store, jobs, 
       linkSecret: secrets[0],
       notices,
     }),
+    ...firmRoutes(db),
     ...projectRoutes(db, changes && new ReplyCache(changes, { maxEntries: 2000, maxAgeMs: 60_000 })),
     ...stageRoutes(db, notices),
     ...deliverableRoutes(db, store, config.UPLOAD_MAX_BYTES ?? 1024 * 1024 * 1024),

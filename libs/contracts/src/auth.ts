@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { firmDateSettingsSchema } from './firm';
 
 // Sign-in, people, invitations and project access. The server validates requests with these and
 // the client takes its types from them.
@@ -21,7 +22,8 @@ export const meGrantedSchema = z.object({
     role: roleSchema,
     clientOrganisation: orgRef.nullable(),
   }),
-  firm: z.object({ id, name: z.string() }),
+  /** The firm's date language: every date on screen follows it. */
+  firm: z.object({ id, name: z.string() }).extend(firmDateSettingsSchema.shape),
   session: z.object({ signedInAt: z.iso.datetime(), expiresAt: z.iso.datetime() }),
 });
 /** GET /api/me for someone the provider knows but Trabeate has not invited (the "no access yet" page). */

@@ -2,6 +2,7 @@
 // the server validates with it, the client takes its types with z.infer.
 export * from './health';
 export * from './auth';
+export * from './firm';
 export * from './scheme';
 export * from './projects';
 export * from './schemes';

@@ -1,4 +1,12 @@
-import { daysBetween, formatDay, formatDayTime, waitedFor } from './dates';
+import {
+  daysBetween,
+  formatDay,
+  formatDayTime,
+  isSupportedLocale,
+  isSupportedTimeZone,
+  waitedFor,
+  zoneLabel,
+} from './dates';
 
 describe('one date and time format', () => {
   it('writes a calendar day as day, short month and year in en-GB by default', () => {
@@ -30,5 +38,31 @@ describe('one date and time format', () => {
     expect(waitedFor('2026-12-20T08:00:00Z', now)).toBe('under a day');
     expect(waitedFor('2026-12-19T08:00:00Z', now)).toBe('1 day');
     expect(waitedFor('2026-12-10T08:00:00Z', now)).toBe('10 days');
+  });
+});
+
+describe("a firm's date settings", () => {
+  it('accepts locales Intl has date data for and refuses malformed or unknown tags', () => {
+    for (const ok of ['en-GB', 'en-US', 'de-DE', 'hi-IN']) expect(isSupportedLocale(ok)).toBe(true);
+    for (const bad of ['en_GB', 'zz', 'xx-YY', '', ' en-GB', 'not a locale'])
+      expect(isSupportedLocale(bad)).toBe(false);
+  });
+
+  it('accepts IANA zones under either of their names, and UTC; refuses the rest', () => {
+    // IANA tz database: Asia/Kolkata is the current name, Asia/Calcutta its older link.
+    for (const ok of ['Europe/London', 'Asia/Kolkata', 'Asia/Calcutta', 'America/New_York', 'UTC']) {
+      expect(isSupportedTimeZone(ok)).toBe(true);
+    }
+    for (const bad of ['Mars/Olympus', 'GMT+25', '', 'europe london', ' UTC'])
+      expect(isSupportedTimeZone(bad)).toBe(false);
+  });
+
+  it('names the zone an instant is written in: India is UTC+5:30 all year (no daylight saving)', () => {
+    const at = new Date('2026-12-01T09:05:00Z');
+    expect(formatDayTime(at, { timeZone: 'Asia/Kolkata' })).toBe('1 Dec 2026, 14:35');
+    expect(zoneLabel(at, { timeZone: 'Asia/Kolkata' })).toBe('GMT+5:30');
+    expect(zoneLabel(at, { timeZone: 'Europe/London' })).toBe('GMT');
+    expect(zoneLabel(new Date('2026-07-01T09:05:00Z'), { timeZone: 'Europe/London' })).toBe('BST');
+    expect(zoneLabel(at, { timeZone: 'UTC' })).toBe('UTC');
   });
 });

@@ -4,6 +4,56 @@
 
 export const DEFAULT_LOCALE = 'en-GB';
 
+/**
+ * The firm's zone until the principal sets one: the local time of the default locale's country,
+ * so a firm that never opens its settings reads times as its clock shows them (GMT in winter,
+ * BST in summer), not UTC.
+ */
+export const DEFAULT_TIME_ZONE = 'Europe/London';
+
+/** What a firm's dates follow: a BCP 47 locale and an IANA time zone. */
+export interface FirmDateSettings {
+  dateLocale: string;
+  timeZone: string;
+}
+
+export const DEFAULT_FIRM_DATES: FirmDateSettings = { dateLocale: DEFAULT_LOCALE, timeZone: DEFAULT_TIME_ZONE };
+
+/** A well-formed BCP 47 tag that this runtime's Intl has date data for ("en-GB", "hi-IN"). */
+export function isSupportedLocale(tag: string): boolean {
+  try {
+    return tag.trim() === tag && tag !== '' && Intl.DateTimeFormat.supportedLocalesOf([tag]).length === 1;
+  } catch {
+    return false; // malformed ("en_GB")
+  }
+}
+
+/**
+ * A zone Intl.supportedValuesOf('timeZone') lists, or one of its other IANA names: ICU lists one
+ * name per zone (Node 20 and Chrome list "Asia/Calcutta", Firefox "Asia/Kolkata"), and "UTC" is
+ * not listed at all, though every runtime formats in it.
+ */
+export function isSupportedTimeZone(zone: string): boolean {
+  if (zone.trim() !== zone || zone === '') return false;
+  const listed = new Set(Intl.supportedValuesOf('timeZone'));
+  if (listed.has(zone)) return true;
+  try {
+    const canonical = new Intl.DateTimeFormat('en', { timeZone: zone }).resolvedOptions().timeZone;
+    return listed.has(canonical) || canonical === 'UTC';
+  } catch {
+    return false; // not a zone at all
+  }
+}
+
+/** "GMT", "BST", "GMT+5:30", "UTC": the zone an instant is written in, as the locale names it. */
+export function zoneLabel(value: Date, opts: { locale?: string; timeZone: string }): string {
+  return (
+    new Intl.DateTimeFormat(opts.locale ?? DEFAULT_LOCALE, { timeZone: opts.timeZone, timeZoneName: 'short' })
+      .formatToParts(value)
+      .find((p) => p.type === 'timeZoneName')?.value ?? opts.timeZone
+  );
+}
+
 const DAY_ONLY = /^(\d{4})-(\d{2})-(\d{2})$/;
 
 export interface DateFormatOptions {

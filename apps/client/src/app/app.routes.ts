@@ -101,6 +101,12 @@ export const routes: Routes = [
     loadComponent: () => import('./features/fees/payment-return-page').then((m) => m.PaymentReturnPage),
   },
   {
+    path: 'firm/settings',
+    title: 'Dates and time · Trabeate',
+    canActivate: [signedInGuard, roleGuard('principal')],
+    loadComponent: () => import('./features/firm-settings/firm-settings-page').then((m) => m.FirmSettingsPage),
+  },
+  {
     path: 'people',
     title: 'People · Trabeate',
     canActivate: [signedInGuard, roleGuard('principal')],

@@ -1,8 +1,9 @@
 import { PURPOSE_LABELS, STAGE_TITLES, type Purpose } from '@trabeate/contracts';
 import type { Db } from '../db/db';
 import { allRegister, type DrawingListFilters } from './drawings.repository';
-import { formatDay, transmittalReference } from './format';
-import { footers, newDocument, table, toBuffer, MUTED, INK } from './pdf';
+import { datesOf } from '../firms/firms.repository';
+import { transmittalReference } from './format';
+import { footers, newDocument, printDay, table, toBuffer, MUTED, INK } from './pdf';
 
 type ExportFilters = Omit<DrawingListFilters, 'page' | 'pageSize'>;
 
@@ -30,7 +31,11 @@ interface RegisterLine {
 
 /** The register's rows (firm view: each drawing's newest revision) with every issue so far. */
 async function registerLines(db: Db, projectId: string, f: ExportFilters) {
-  const project = await db('projects').where({ id: projectId }).first('reference', 'name');
+  const project = await db('projects as p')
+    .join('firms as f', 'f.id', 'p.firm_id')
+    .where('p.id', projectId)
+    .first('p.reference', 'p.name', 'f.date_locale', 'f.time_zone');
+  const dates = datesOf(project);
   const rows = await allRegister(db, projectId, false, f);
   const issues: IssueRow[] = await db('drawing_revisions as r')
     .leftJoin('transmittal_items as ti', 'ti.revision_id', 'r.id')
@@ -53,11 +58,11 @@ async function registerLines(db: Db, projectId: string, f: ExportFilters) {
       revision: r.r_code ?? '',
       state: r.r_state ?? 'no revision',
       suitability: r.r_suitability ?? '',
-      dateOfIssue: lastIssue ? formatDay(lastIssue.issued_at) : '',
+      dateOfIssue: lastIssue ? printDay(lastIssue.issued_at, dates) : '',
       history: history
         .map(
           (i) =>
-            `${i.code} ${i.suitability} ${formatDay(i.issued_at)}${
+            `${i.code} ${i.suitability} ${printDay(i.issued_at, dates)}${
               i.transmittal_number ? ` ${transmittalReference(project.reference, i.transmittal_number)}` : ''
             } (${PURPOSE_LABELS[i.purpose].toLowerCase()})`,
         )
@@ -132,6 +137,6 @@ export async function registerPdf(db: Db, projectId: string, f: ExportFilters) {
     ],
     lines.map((l) => [l.number, l.title, l.revision, l.state, l.suitability, l.dateOfIssue, l.history]),
   );
-  footers(doc, `${project.reference} drawing register, made ${formatDay(new Date())}`);
+  footers(doc, `${project.reference} drawing register, made ${printDay(new Date(), datesOf(project))}`);
   return { fileName: `${project.reference} drawing register.pdf`, body: await toBuffer(doc) };
 }

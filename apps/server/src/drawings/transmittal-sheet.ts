@@ -1,8 +1,11 @@
 import { PURPOSE_LABELS, suitabilityMeaning, type Purpose } from '@trabeate/contracts';
+import type { FirmDateSettings } from '@trabeate/dates';
 import { ACCENT, footers, INK, MUTED, newDocument, printDay, printDayTime, table, toBuffer, TYPE } from './pdf';
 
 export interface SheetData {
   firmName: string;
+  /** The firm's locale and time zone: the issue time is written in them. */
+  dates: FirmDateSettings;
   projectReference: string;
   projectName: string;
   reference: string;
@@ -25,7 +28,7 @@ export async function transmittalSheet(d: SheetData): Promise<Buffer> {
 
   const facts: Array<[string, string]> = [
     ['Purpose of issue', PURPOSE_LABELS[d.purpose]],
-    ['Issued', `${printDayTime(d.issuedAt)} by ${d.issuedBy}`],
+    ['Issued', `${printDayTime(d.issuedAt, d.dates)} by ${d.issuedBy}`],
     ['Recipients', d.recipients.map((r) => (r.name ? `${r.name} <${r.email}>` : r.email)).join('\n')],
   ];
   for (const [label, value] of facts) {
@@ -60,7 +63,7 @@ export async function transmittalSheet(d: SheetData): Promise<Buffer> {
       i.code,
       `${i.suitability} ${suitabilityMeaning(i.suitability)}`,
       PURPOSE_LABELS[i.purpose],
-      printDay(i.date),
+      printDay(i.date, d.dates),
     ]),
   );
   doc.moveDown(1.2);

@@ -1,5 +1,6 @@
 import { readFileSync } from 'node:fs';
 import { STAGE_TITLES, type StageKey } from '@trabeate/contracts';
+import type { FirmDateSettings } from '@trabeate/dates';
 import { loadPdfKit } from '../drawings/pdf';
 import { PRINT_COLOURS, PRINT_FONTS, PRINT_TYPE as TYPE, printDay } from '../look/print-look';
 import { formatMoney } from './money';
@@ -25,6 +26,8 @@ export interface InvoiceSheet {
   dueOn: string;
   currency: string;
   firm: { name: string };
+  /** The firm's locale: the sheet's dates are written in it. */
+  dates: FirmDateSettings;
   client: { name: string; address: string | null; contactName: string };
   project: { reference: string; name: string };
   creditsNumber?: string | null;
@@ -43,9 +46,9 @@ export interface InvoiceSheet {
   paymentReference: string;
 }
 
-/** A calendar day in invoices, their mails and the activity log: as on screen, "2 Dec 2026" (libs/dates). */
-export function longDate(iso: string): string {
-  return printDay(iso);
+/** A calendar day in invoices, their mails and the activity log: as on screen, "2 Dec 2026" (libs/dates), in the firm's locale. */
+export function longDate(iso: string, dates: FirmDateSettings): string {
+  return printDay(iso, dates);
 }
 
 export async function renderInvoicePdf(s: InvoiceSheet): Promise<Buffer> {
@@ -91,8 +94,8 @@ export async function renderInvoicePdf(s: InvoiceSheet): Promise<Buffer> {
   if (s.reason) doc.font('body').fontSize(TYPE.body).text(`Reason: ${s.reason}`);
   doc.moveDown(0.5);
   doc.font('body').fontSize(TYPE.body);
-  doc.text(`Issued: ${longDate(s.issuedOn)}`);
-  if (s.kind === 'invoice') doc.text(`Due: ${longDate(s.dueOn)}`);
+  doc.text(`Issued: ${longDate(s.issuedOn, s.dates)}`);
+  if (s.kind === 'invoice') doc.text(`Due: ${longDate(s.dueOn, s.dates)}`);
   doc.moveDown();
   doc.font('bold').text('Billed to');
   doc.font('body').text(s.client.name);
@@ -171,7 +174,7 @@ export async function renderInvoicePdf(s: InvoiceSheet): Promise<Buffer> {
     doc
       .font('body')
       .text(
-        `Pay online from the Fees page in Trabeate, or by bank transfer quoting ${s.paymentReference} by ${longDate(s.dueOn)}.`,
+        `Pay online from the Fees page in Trabeate, or by bank transfer quoting ${s.paymentReference} by ${longDate(s.dueOn, s.dates)}.`,
         left,
         doc.y,
         { width },

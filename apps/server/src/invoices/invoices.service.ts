@@ -17,6 +17,7 @@ import { HttpError, notFound } from '../core/errors';
 import type { Notices } from '../notices/notices';
 import type { ObjectStore } from '../storage';
 import { lockProject } from '../projects/projects.repository';
+import { datesOf, firmToday } from '../firms/firms.repository';
 import { getAgreement } from '../fees/fees.repository';
 import { insertActivity } from '../activity/activity.repository';
 import { formatMoney, lineTax, totalsOf } from './money';
@@ -199,9 +200,9 @@ export async function updateDraft(
   return readInvoice(db, caller, projectId, id);
 }
 
-async function today(trx: Q): Promise<{ iso: string; year: number }> {
-  const { rows } = await trx.raw(`select to_char(current_date, 'YYYY-MM-DD') as iso`);
-  const iso: string = rows[0].iso;
+/** Today where the firm is: the date an invoice issued now carries, and its number's year. */
+async function today(trx: Q, firmId: string): Promise<{ iso: string; year: number }> {
+  const iso = await firmToday(trx, firmId);
   return { iso, year: Number(iso.slice(0, 4)) };
 }
 
@@ -247,6 +248,7 @@ async function invoicePdf(
     dueOn: inv.dueOn,
     currency: draft.currency.trim(),
     firm: { name: facts.firm_name },
+    dates: datesOf(facts),
     client: { name: facts.client_name, address: facts.client_address, contactName: inv.contactName },
     project: { reference: facts.reference, name: facts.name },
     lines: inv.lines.map((l) => ({
@@ -309,7 +311,15 @@ async function sheetFacts(trx: Q, projectId: string) {
     .join('client_organisations as o', 'o.id', 'p.client_organisation_id')
     .join('firms as f', 'f.id', 'p.firm_id')
     .where('p.id', projectId)
-    .first('p.reference', 'p.name', 'o.name as client_name', 'o.address as client_address', 'f.name as firm_name');
+    .first(
+      'p.reference',
+      'p.name',
+      'o.name as client_name',
+      'o.address as client_address',
+      'f.name as firm_name',
+      'f.date_locale',
+      'f.time_zone',
+    );
 }
 
 /**
@@ -334,7 +344,7 @@ export async function issueInvoice(deps: InvoiceDeps, caller: Caller, projectId:
       .first('total_minor', 'subtotal_minor', 'tax_minor', 'currency', 'tax_label');
     if (!lines.length || Number(draft.total_minor) <= 0)
       throw conflict('This draft has nothing to bill: add a line with an amount first.');
-    const { iso, year } = await today(trx);
+    const { iso, year } = await today(trx, caller.firmId);
     const seq = await nextNumber(trx, caller.firmId, 'invoice', year);
     const number = numberOf('INV', year, seq);
     const { rows } = await trx.raw(`select to_char(?::date + ?::int, 'YYYY-MM-DD') as due`, [
@@ -371,7 +381,7 @@ export async function issueInvoice(deps: InvoiceDeps, caller: Caller, projectId:
       action: 'invoice.issued',
       objectType: 'invoice',
       objectId: id,
-      summary: `Invoice ${number} issued for ${formatMoney(Number(draft.total_minor), currency)}, due ${longDate(dueOn)}`,
+      summary: `Invoice ${number} issued for ${formatMoney(Number(draft.total_minor), currency)}, due ${longDate(dueOn, datesOf(facts))}`,
       details: { number, totalMinor: Number(draft.total_minor), dueOn },
     });
     await notices.send(trx, {
@@ -383,7 +393,7 @@ export async function issueInvoice(deps: InvoiceDeps, caller: Caller, projectId:
         projectName: facts.name,
         number,
         total: formatMoney(Number(draft.total_minor), currency),
-        dueOn: longDate(dueOn),
+        dueOn: longDate(dueOn, datesOf(facts)),
         link: notices.link('/fees'),
       },
       attachments: [
@@ -479,7 +489,7 @@ export async function createCreditNote(
       throw conflict(
         `A credit note cannot exceed what the invoice still bills (${formatMoney(creditable, summary.currency)}).`,
       );
-    const { iso, year } = await today(trx);
+    const { iso, year } = await today(trx, caller.firmId);
     const seq = await nextNumber(trx, caller.firmId, 'credit_note', year);
     const number = numberOf('CN', year, seq);
     const [{ id: cid }] = await trx('invoices')
@@ -514,6 +524,7 @@ export async function createCreditNote(
       dueOn: iso,
       currency: summary.currency,
       firm: { name: facts.firm_name },
+      dates: datesOf(facts),
       client: { name: facts.client_name, address: facts.client_address, contactName: a?.contact_name ?? '' },
       project: { reference: facts.reference, name: facts.name },
       creditsNumber: original.number,
@@ -648,7 +659,7 @@ const BAND_OF = (daysLate: number): AgeBand =>
 
 /** What each client owes, in age bands by days past the due date (per currency: no conversion). */
 export async function receivables(db: Db, caller: Caller, asOf?: string): Promise<Receivables> {
-  const day = asOf ?? (await today(db)).iso;
+  const day = asOf ?? (await today(db, caller.firmId)).iso;
   const rows: Array<InvoiceRow & { days_late: number }> = await db
     .from(
       invoicesQuery(db, caller.firmId, day)

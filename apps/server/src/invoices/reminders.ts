@@ -1,6 +1,7 @@
 import type { Db } from '../db/db';
 import type { Notices } from '../notices/notices';
 import { formatMoney } from './money';
+import { datesOf } from '../firms/firms.repository';
 import { longDate } from './invoice-pdf';
 
 export const REMINDER_JOB = 'invoices.overdue-reminders';
@@ -38,6 +39,8 @@ export async function sendOverdueReminders(
       db.raw('(?::date - i.due_on) as days_late', [today]),
       'p.name as project_name',
       'f.name as firm_name',
+      'f.date_locale',
+      'f.time_zone',
       'u.display_name as contact_name',
       'u.email as contact_email',
     );
@@ -68,7 +71,7 @@ export async function sendOverdueReminders(
           projectName: inv.project_name,
           number: inv.number,
           due: formatMoney(due, inv.currency.trim()),
-          dueOn: longDate(inv.due_on),
+          dueOn: longDate(inv.due_on, datesOf(inv)),
           daysLate: Number(inv.days_late),
           link: notices.link('/fees'),
         },

@@ -1,4 +1,4 @@
-import { DEFAULT_LOCALE, formatDay, formatDayTime } from '@trabeate/dates';
+import { formatDay, formatDayTime, zoneLabel, type FirmDateSettings } from '@trabeate/dates';
 
 // Trabeate's look on paper and in mail, taken from the screens (apps/client/src/styles.scss and
 // styles/_palette.scss) so an invoice, a transmittal sheet and a notice read as the same product:
@@ -39,12 +39,22 @@ export const MAIL_FONTS = {
   figures: "'JetBrains Mono',ui-monospace,'Cascadia Mono',Menlo,Consolas,monospace",
 };
 
-/** A calendar day on paper and in mail, as on screen: "20 Dec 2026". */
-export const printDay = (value: string | Date): string => formatDay(value, { locale: DEFAULT_LOCALE });
+/**
+ * A day on paper and in mail, as on screen, in the firm's locale: "20 Dec 2026". A calendar day
+ * (YYYY-MM-DD) stays that day; an instant is the day it was in the firm's time zone.
+ */
+export const printDay = (value: string | Date, firm: FirmDateSettings): string =>
+  formatDay(value, { locale: firm.dateLocale, timeZone: firm.timeZone });
 
-/** An instant on paper and in mail: "20 Dec 2026, 14:05 UTC" (a sheet has no reader's time zone). */
-export const printDayTime = (value: Date | string): string =>
-  `${formatDayTime(value, { locale: DEFAULT_LOCALE, timeZone: 'UTC' })} UTC`;
+/**
+ * An instant on paper and in mail, in the firm's locale and time zone, with the zone named (a
+ * sheet travels to readers elsewhere): "20 Dec 2026, 14:05 GMT", "1 Dec 2026, 14:35 GMT+5:30".
+ */
+export const printDayTime = (value: Date | string, firm: FirmDateSettings): string => {
+  const opts = { locale: firm.dateLocale, timeZone: firm.timeZone };
+  const text = formatDayTime(value, opts);
+  return text && `${text} ${zoneLabel(new Date(value), opts)}`;
+};
 
 /**
  * The shipped faces carry the Latin subset only, so Greek letters and mathematical signs from the

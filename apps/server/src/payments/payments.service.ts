@@ -3,6 +3,7 @@ import Stripe from 'stripe';
 import type { CheckoutOutcome, CheckoutStart } from '@trabeate/contracts';
 import type { Db } from '../db/db';
 import type { Caller } from '../access/policy';
+import { datesOf, firmToday } from '../firms/firms.repository';
 import { HttpError, notFound } from '../core/errors';
 import type { Notices } from '../notices/notices';
 import { insertActivity } from '../activity/activity.repository';
@@ -129,8 +130,8 @@ export async function settlePaidSession(
   if (await trx('payments').where({ stripe_session_id: session.id }).first('id')) return 'already';
   if (session.currency.toUpperCase() !== started.currency.trim())
     throw new Error(`session ${session.id} was paid in ${session.currency}, not ${started.currency}`);
-  const { rows } = await trx.raw(`select to_char(current_date, 'YYYY-MM-DD') as today`);
-  const receivedOn: string = rows[0].today;
+  // The day the money arrived where the firm is (its books and the receipt say the same day).
+  const receivedOn = await firmToday(trx, inv.firm_id);
   const { overpaidMinor } = await applyPayment(trx, inv.firm_id, inv.project_id, started.invoice_id, {
     method: 'card',
     amountMinor: session.amount_total,
@@ -159,7 +160,7 @@ export async function settlePaidSession(
     ? await trx('users').where({ id: started.started_by }).first('email', 'display_name')
     : undefined;
   const agreement = await getAgreement(trx, inv.project_id);
-  const firm = await trx('firms').where({ id: inv.firm_id }).first('name');
+  const firm = await trx('firms').where({ id: inv.firm_id }).first('name', 'date_locale', 'time_zone');
   const receiptTo =
     payer ?? (agreement ? { email: agreement.contact_email, display_name: agreement.contact_name } : null);
   if (receiptTo)
@@ -172,7 +173,7 @@ export async function settlePaidSession(
         projectName: s.project.name,
         number: s.number ?? '',
         amount,
-        paidOn: longDate(receivedOn),
+        paidOn: longDate(receivedOn, datesOf(firm)),
         link: deps.notices.link('/fees'),
       },
     });

@@ -1,5 +1,4 @@
 import { createHash, createHmac, randomUUID } from 'node:crypto';
-import { formatDay } from '@trabeate/dates';
 import type { InvitationCreated, Person, PersonPatch, Role } from '@trabeate/contracts';
 import { invitationCreateSchema } from '@trabeate/contracts';
 import type { z } from 'zod';
@@ -10,6 +9,8 @@ import { endSessionsOf } from '../auth/session';
 import { listPeople } from './people.repository';
 import { insertActivity } from '../activity/activity.repository';
 import type { Notices } from '../notices/notices';
+import { datesOf } from '../firms/firms.repository';
+import { printDay } from '../look/print-look';
 
 export const hashToken = (token: string): string => createHash('sha256').update(token).digest('hex');
 
@@ -167,7 +168,7 @@ export async function invite(
       }
       const url = `${opts.publicUrl.replace(/\/$/, '')}/invitations/${invitationToken(opts.linkSecret, invitationId)}`;
       if (opts.notices) {
-        const firm = await trx('firms').where({ id: caller.firmId }).first('name');
+        const firm = await trx('firms').where({ id: caller.firmId }).first('name', 'date_locale', 'time_zone');
         // Queued in this transaction: an invitation that fails to save sends no mail.
         await opts.notices.send(trx, {
           to: input.email,
@@ -178,7 +179,7 @@ export async function invite(
             invitedBy: caller.displayName,
             role: ROLE_WORDS[input.role],
             link: url,
-            expiresOn: formatDay(expiresAt, { timeZone: 'UTC' }),
+            expiresOn: printDay(expiresAt, datesOf(firm)),
           },
         });
       }

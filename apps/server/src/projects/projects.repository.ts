@@ -79,6 +79,9 @@ export interface ProjectContext {
   client_organisation_id: string;
   archived_at: Date | null;
   firm_name: string;
+  /** The firm's date language (mails and PDFs write dates in it). */
+  date_locale: string;
+  time_zone: string;
 }
 
 /** Locks the project row for the transaction (edits, archiving and stage moves take turns). */
@@ -95,6 +98,8 @@ export async function lockProject(trx: Knex.Transaction, id: string): Promise<Pr
       'p.client_organisation_id',
       'p.archived_at',
       'f.name as firm_name',
+      'f.date_locale',
+      'f.time_zone',
     );
   if (!row) throw notFound('No project with this id.');
   return row;

@@ -29,6 +29,9 @@ export interface VersionFacts {
   project_reference: string;
   project_name: string;
   firm_name: string;
+  /** The firm's date language: outputs print their dates in it. */
+  date_locale: string;
+  time_zone: string;
   document: unknown;
   results: unknown;
   engine_version: string;
@@ -54,6 +57,8 @@ export async function versionFacts(
       'p.reference as project_reference',
       'p.name as project_name',
       'f.name as firm_name',
+      'f.date_locale',
+      'f.time_zone',
       'v.document',
       'v.results',
       'v.engine_version',

@@ -12,7 +12,6 @@ import {
   type SchemeReport,
   type StageKey,
 } from '@trabeate/contracts';
-import { formatDay, formatDayTime } from '@trabeate/dates';
 import { CAUTION, type SchemeResult } from '@trabeate/structural';
 import type { Db } from '../db/db';
 import { HttpError, notFound } from '../core/errors';
@@ -29,6 +28,8 @@ import {
   recordFile,
   registerRevision,
 } from '../drawings/drawings.service';
+import { datesOf, firmToday } from '../firms/firms.repository';
+import { printDay, printDayTime } from '../look/print-look';
 import { storedDocument } from '../schemes/scheme-document';
 import { buildPlanSheet, SheetDoesNotFit, type PlanSheet } from './plan-sheet';
 import { sheetPdf, sheetSvg } from './sheet-render';
@@ -86,8 +87,8 @@ export interface SheetTitle {
   checkedBy?: string;
   approvedBy?: string;
   title?: string;
-  /** the revision's date, in the firm's format; today for a preview */
-  date?: string;
+  /** the revision's day (YYYY-MM-DD), printed in the firm's format; today for a preview */
+  date?: string | Date;
 }
 
 /** The plan sheet geometry of one saved version; a 400 names the smallest scale that fits. */
@@ -114,7 +115,7 @@ export async function planSheet(
       drawnBy: t.drawnBy,
       checkedBy: t.checkedBy ?? '',
       approvedBy: t.approvedBy ?? '',
-      date: t.date ?? formatDay(new Date()),
+      date: printDay(t.date ?? new Date(), datesOf(f)),
       scheme: `${f.scheme_name}, version ${version}`,
       engineVersion: f.engine_version,
       caution: CAUTION,
@@ -190,14 +191,15 @@ export async function registerSheet(
     number = d.number;
     title = d.title;
   } else number = (await proposeNumber(db, caller, projectId)).number;
-  const revisionDate = new Date().toISOString().slice(0, 10);
+  // The firm's today, in its own time zone: the revision's date and the title block's.
+  const revisionDate = await firmToday(db, caller.firmId);
   const sheetTitle = (code: string): SheetTitle => ({
     drawingNumber: number,
     revision: code,
     suitability: body.suitability,
     drawnBy: caller.displayName,
     title: title ?? body.newDrawing?.title,
-    date: formatDay(revisionDate),
+    date: revisionDate,
   });
   // Drawn once before anything is created, so a refused scale leaves the register as it was.
   await planSheet(db, projectId, schemeId, version, body.size, body.scale, sheetTitle('P01'));
@@ -342,7 +344,7 @@ export async function restampSheet(
     checkedBy: r.checked_name ?? '',
     approvedBy: r.approved_name ?? '',
     title: r.title,
-    date: formatDay(r.revision_date),
+    date: r.revision_date,
   });
   const pdf = await sheetPdf(sheet, { Title: title, Subject: r.number });
   const key = `drawings/${r.project_id}/${revisionId}/${randomUUID()}`;
@@ -423,13 +425,13 @@ export async function runReport(db: Db, store: ObjectStore, reportId: string): P
         projectName: f.project_name,
         schemeName: f.scheme_name,
         version: r.scheme_version,
-        savedAt: formatDayTime(f.saved_at, { timeZone: 'UTC' }) + ' UTC',
+        savedAt: printDayTime(f.saved_at, datesOf(f)),
         savedBy: f.saved_by ?? 'someone no longer here',
         engineVersion: f.engine_version,
         document: storedDocument(f.document),
         results: f.results as SchemeResult,
         footingChoices: footingChoicesOf(f.document),
-        generatedOn: formatDay(new Date()),
+        generatedOn: printDay(new Date(), datesOf(f)),
         caution: CAUTION,
       },
       async (done) => updateReport(db, r.id, { sections_done: done }),

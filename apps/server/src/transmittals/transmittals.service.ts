@@ -17,7 +17,8 @@ import type { Notices } from '../notices/notices';
 import type { ObjectStore } from '../storage';
 import { filesOf, type RevisionFileRow } from '../drawings/drawings.repository';
 import { fileOf } from '../drawings/drawings.service';
-import { formatInstant, transmittalReference } from '../drawings/format';
+import { transmittalReference } from '../drawings/format';
+import { printDayTime } from '../look/print-look';
 import { transmittalSheet } from '../drawings/transmittal-sheet';
 import { linkQuery } from './signed-links';
 import {
@@ -254,8 +255,10 @@ export async function issueTransmittal(
       }
 
       const reference = transmittalReference(project.reference, number);
+      const dates = { dateLocale: project.date_locale, timeZone: project.time_zone };
       const sheet = await transmittalSheet({
         firmName: project.firm_name,
+        dates,
         projectReference: project.reference,
         projectName: project.name,
         reference,
@@ -332,7 +335,7 @@ export async function issueTransmittal(
             }),
             sheetLink: outside ? shared('sheet') : inApp(`/api/projects/${projectId}/transmittals/${id}/sheet`),
             zipLink: outside ? shared('zip') : inApp(`/api/projects/${projectId}/transmittals/${id}/zip`),
-            expiresOn: outside ? formatInstant(expires) : undefined,
+            expiresOn: outside ? printDayTime(expires, dates) : undefined,
             link: outside ? undefined : inApp(`/drawings?project=${projectId}&transmittal=${id}`),
           },
           // The sheet travels with the notice, so the record of what was sent stays with the recipient.

@@ -15,7 +15,12 @@ export function grantedMe(role: Role, name = 'Aster Pellow'): MeGranted {
       role,
       clientOrganisation: role === 'client' ? ORG : null,
     },
-    firm: { id: '00000000-0000-4000-8000-000000000001', name: 'Lintel & Pier Consulting' },
+    firm: {
+      id: '00000000-0000-4000-8000-000000000001',
+      name: 'Lintel & Pier Consulting',
+      dateLocale: 'en-GB',
+      timeZone: 'Europe/London',
+    },
     session: { signedInAt: '2026-03-02T08:00:00.000Z', expiresAt: '2026-03-02T20:00:00.000Z' },
   };
 }

@@ -86,12 +86,13 @@ describe('Shell', () => {
       expect(home?.getAttribute('href')).toBe('/');
     });
 
-    it('offers Projects, Drawings, Fees, People and System status', () => {
+    it('offers Projects, Drawings, Fees, People, Dates and time, and System status', () => {
       expect(navItems()).toEqual([
         ['nav-projects', 'Projects', '/projects'],
         ['nav-drawings', 'Drawings', '/drawings'],
         ['nav-fees', 'Fees', '/fees'],
         ['nav-people', 'People', '/people'],
+        ['nav-firm-dates', 'Dates and time', '/firm/settings'],
         ['nav-status', 'System status', '/status'],
       ]);
     });
@@ -152,6 +153,7 @@ describe('Shell', () => {
         ['nav-drawings', 'Drawings', '/drawings'],
         ['nav-fees', 'Fees', '/fees'],
         ['nav-people', 'People', '/people'],
+        ['nav-firm-dates', 'Dates and time', '/firm/settings'],
         ['nav-outbox', 'Outbox', '/dev/outbox'],
         ['nav-status', 'System status', '/status'],
       ]);

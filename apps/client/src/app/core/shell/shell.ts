@@ -60,6 +60,13 @@ export const NAV_BY_ROLE: Readonly<Record<Role, readonly NavLink[]>> = {
     DRAWINGS,
     { id: 'fees', path: '/fees', label: 'Fees', hint: 'Agreements and invoices', icon: 'receipt_long' },
     { id: 'people', path: '/people', label: 'People', hint: 'Staff, clients, invitations', icon: 'group' },
+    {
+      id: 'firm-dates',
+      path: '/firm/settings',
+      label: 'Dates and time',
+      hint: 'The firm date language',
+      icon: 'schedule',
+    },
     STATUS_LINK,
   ],
   engineer: [PROJECTS, DRAWINGS, STATUS_LINK],

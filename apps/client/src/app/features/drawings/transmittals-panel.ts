@@ -31,11 +31,17 @@ import { z } from 'zod';
 import { errorMessage } from '../../core/auth/api-error';
 import { Session } from '../../core/auth/session';
 import { DayTimePipe } from '../../shared/dates/app-dates';
+import { fieldCountText, formErrorFocus } from '../../shared/forms/form-error-focus';
 import { StateMarker } from '../../shared/state-marker/state-marker';
 import { DrawingsApi } from './drawings-api';
 
 const email = z.email();
 /** Outside addresses, one per line or separated by commas; every one must be an e-mail address. */
+/** "1 revision", "3 revisions": counted text for the list and the issue button. */
+export function revisionCount(n: number): string {
+  return n === 1 ? '1 revision' : `${n} revisions`;
+}
+
 function emailList(control: AbstractControl<string>): ValidationErrors | null {
   const bad = splitEmails(control.value).filter((e) => !email.safeParse(e).success);
   return bad.length ? { emails: bad.join(', ') } : null;
@@ -93,7 +99,9 @@ const splitEmails = (v: string) =>
               <button type="button" class="link" (click)="opened.set(t.id)" [attr.aria-expanded]="opened() === t.id">
                 <span class="mono">{{ t.reference }}</span>
               </button>
-              <span>{{ purposeLabel(t.purpose) }} · {{ t.issuedAt | tbDayTime }} · {{ t.itemCount }} revision(s)</span>
+              <span
+                >{{ purposeLabel(t.purpose) }} · {{ t.issuedAt | tbDayTime }} · {{ revisionsText(t.itemCount) }}</span
+              >
               @if (t.myAcknowledgement; as mine) {
                 <tb-state-marker
                   [shape]="mine.acknowledgedAt ? 'done' : 'wait'"
@@ -231,8 +239,11 @@ const splitEmails = (v: string) =>
               <textarea matInput formControlName="note" rows="2" maxlength="4000"></textarea>
             </mat-form-field>
             <button mat-flat-button type="submit" [disabled]="busy() || !canIssue()" data-testid="issue-submit">
-              Issue {{ chosen().size }} revision(s)
+              Issue {{ revisionsText(chosen().size) }}
             </button>
+            @if (invalidCount()) {
+              <span class="count" data-testid="issue-error-count">{{ countText(invalidCount()) }}</span>
+            }
           }
         </form>
       }
@@ -254,6 +265,10 @@ export class TransmittalsPanel {
   protected readonly busy = signal(false);
   protected readonly error = signal<string | null>(null);
   protected readonly purposes = PURPOSES;
+  private readonly reportInvalid = formErrorFocus();
+  protected readonly invalidCount = signal(0);
+  protected readonly countText = fieldCountText;
+  protected readonly revisionsText = revisionCount;
   protected readonly opened = signal<string | null>(null);
   private readonly openedId = computed(() => this.opened() ?? this.initial() ?? null);
 
@@ -319,7 +334,13 @@ export class TransmittalsPanel {
   }
 
   protected async issue(): Promise<void> {
-    if (this.form.invalid || !this.canIssue() || this.busy()) return;
+    if (!this.canIssue() || this.busy()) return;
+    if (this.form.invalid) {
+      // An address that is not one: focus goes to it and the count is announced, not left on the button.
+      this.invalidCount.set(this.reportInvalid(this.form));
+      return;
+    }
+    this.invalidCount.set(0);
     const v = this.form.getRawValue();
     await this.run(async () => {
       const t = await this.api.issue(this.projectId(), {

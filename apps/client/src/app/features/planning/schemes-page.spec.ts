@@ -1,3 +1,4 @@
+import { LiveAnnouncer } from '@angular/cdk/a11y';
 import { provideHttpClient } from '@angular/common/http';
 import { HttpTestingController, provideHttpClientTesting, type TestRequest } from '@angular/common/http/testing';
 import { ANIMATION_MODULE_TYPE, Component } from '@angular/core';
@@ -42,6 +43,7 @@ jest.setTimeout(30_000);
 describe('SchemesPage', () => {
   let harness: RouterTestingHarness;
   let backend: HttpTestingController;
+  let announced: string[];
   const el = () => harness.routeNativeElement as HTMLElement;
   const settle = async () => {
     await new Promise((r) => setTimeout(r, 0));
@@ -50,6 +52,7 @@ describe('SchemesPage', () => {
   const listRequest = (): TestRequest => backend.expectOne((r) => r.url === LIST && r.method === 'GET');
 
   async function open(data: SchemeList): Promise<void> {
+    announced = [];
     TestBed.configureTestingModule({
       providers: [
         provideRouter(
@@ -62,6 +65,7 @@ describe('SchemesPage', () => {
         provideHttpClient(),
         provideHttpClientTesting(),
         { provide: ANIMATION_MODULE_TYPE, useValue: 'NoopAnimations' },
+        { provide: LiveAnnouncer, useValue: { announce: async (m: string) => void announced.push(m) } },
       ],
     });
     backend = TestBed.inject(HttpTestingController);
@@ -148,5 +152,30 @@ describe('SchemesPage', () => {
   it('says so when the project has no schemes yet', async () => {
     await open(list(false, []));
     expect(el().querySelector('[data-testid="schemes-empty"]')?.textContent).toContain('No schemes yet');
+  });
+
+  it("after a failed create or rename, focus goes to that form's name field and the count is announced", async () => {
+    await open(list(true));
+    const create = el().querySelector<HTMLButtonElement>('[data-testid="create-scheme"]')!;
+    create.focus();
+    create.click();
+    await settle();
+    expect(document.activeElement).toBe(el().querySelector('[data-testid="new-name"]'));
+    expect(announced).toEqual(['1 field needs attention.']);
+
+    el().querySelector<HTMLButtonElement>('[data-testid="rename"]')!.click();
+    await settle();
+    const rename = el().querySelector<HTMLInputElement>('[data-testid="rename-input"]')!;
+    rename.value = '';
+    rename.dispatchEvent(new Event('input'));
+    await settle();
+    const save = el().querySelector<HTMLButtonElement>('form.rename button[type="submit"]')!;
+    save.focus();
+    save.click();
+    await settle();
+    // The empty create field above the table is in error too; the row being renamed keeps the focus.
+    expect(document.activeElement).toBe(rename);
+    expect(announced).toEqual(['1 field needs attention.', '1 field needs attention.']);
+    backend.expectNone((r) => r.method !== 'GET');
   });
 });

@@ -1,6 +1,5 @@
-import { DatePipe } from '@angular/common';
 import { HttpParams, httpResource } from '@angular/common/http';
-import { ChangeDetectionStrategy, Component, computed, inject, input, signal } from '@angular/core';
+import { ChangeDetectionStrategy, Component, ElementRef, computed, inject, input, signal } from '@angular/core';
 import { FormControl, FormGroup, ReactiveFormsModule, Validators } from '@angular/forms';
 import { MatButton } from '@angular/material/button';
 import { MatOption } from '@angular/material/core';
@@ -28,6 +27,8 @@ import { schemeListSchema, type SchemeListItem, type SchemeListQuery } from '@tr
 import { errorMessage } from '../../core/auth/api-error';
 import { Notice } from '../../core/notice';
 import { asYouType, fieldErrorText } from '../../shared/forms/field-errors';
+import { formErrorFocus } from '../../shared/forms/form-error-focus';
+import { DayTimePipe } from '../../shared/dates/app-dates';
 import { SchemesApi, schemesUrl } from './schemes-api';
 import { StackOnPhone } from '../../shared/stacked-table/stack-on-phone';
 
@@ -43,7 +44,7 @@ const nameControl = (value = '') =>
   selector: 'tb-schemes-page',
   imports: [
     StackOnPhone,
-    DatePipe,
+    DayTimePipe,
     MatButton,
     MatCell,
     MatCellDef,
@@ -111,6 +112,8 @@ export class SchemesPage {
   protected readonly renameName = nameControl();
   protected readonly renameForm = new FormGroup({ name: this.renameName });
   protected readonly busy = signal(false);
+  private readonly host = inject(ElementRef<HTMLElement>).nativeElement as HTMLElement;
+  private readonly reportInvalid = formErrorFocus();
   protected readonly errorText = fieldErrorText;
   protected readonly asYouType = asYouType;
 
@@ -154,7 +157,8 @@ export class SchemesPage {
 
   protected async create(): Promise<void> {
     if (this.newName.invalid) {
-      this.newName.markAsTouched();
+      // Focus goes to the name and the count is announced, rather than staying on the button.
+      this.reportInvalid(this.createForm, this.host.querySelector('[data-testid="create-form"]'));
       return;
     }
     const created = await this.write(
@@ -179,7 +183,7 @@ export class SchemesPage {
 
   protected async rename(s: SchemeListItem): Promise<void> {
     if (this.renameName.invalid) {
-      this.renameName.markAsTouched();
+      this.reportInvalid(this.renameForm, this.host.querySelector('form.rename'));
       return;
     }
     const done = await this.write(

@@ -1,13 +1,13 @@
 import { TestBed } from '@angular/core/testing';
 import { DateAdapter, MAT_NATIVE_DATE_FORMATS } from '@angular/material/core';
-import { FIRM_LOCALE } from './app-dates';
+import { provideFirmDateSettings } from './app-dates';
 import { fromIsoDay, provideFirmDates, toIsoDay } from './firm-date-adapter';
 
 describe('date fields in the firm locale', () => {
   const adapter = (locale?: string) => {
     TestBed.resetTestingModule();
     TestBed.configureTestingModule({
-      providers: [provideFirmDates(), ...(locale ? [{ provide: FIRM_LOCALE, useValue: locale }] : [])],
+      providers: [provideFirmDates(), ...(locale ? [provideFirmDateSettings({ dateLocale: locale })] : [])],
     });
     return TestBed.inject(DateAdapter<Date>);
   };

@@ -7,7 +7,7 @@ import {
   NativeDateAdapter,
 } from '@angular/material/core';
 import { formatDay } from '@trabeate/dates';
-import { FIRM_LOCALE } from './app-dates';
+import { FIRM_DATES } from './app-dates';
 
 /** A Date picked in the calendar (local midnight) as the API's calendar day, YYYY-MM-DD. */
 export function toIsoDay(d: Date | null | undefined): string {
@@ -29,9 +29,27 @@ export function fromIsoDay(v: string | null | undefined): Date | null {
  */
 @Injectable()
 export class FirmDateAdapter extends NativeDateAdapter {
-  private readonly firmLocale = inject(FIRM_LOCALE);
+  private readonly firmDates = inject(FIRM_DATES);
+
+  /** The firm's locale now (the principal may change it while the app is open). */
+  private get firmLocale(): string {
+    const locale = this.firmDates().dateLocale;
+    if (this.locale !== locale) this.setLocale(locale);
+    return locale;
+  }
+
+  override getMonthNames(style: 'long' | 'short' | 'narrow'): string[] {
+    void this.firmLocale;
+    return super.getMonthNames(style);
+  }
+
+  override getDayOfWeekNames(style: 'long' | 'short' | 'narrow'): string[] {
+    void this.firmLocale;
+    return super.getDayOfWeekNames(style);
+  }
 
   override format(date: Date, displayFormat: object): string {
+    void this.firmLocale;
     if (displayFormat === MAT_NATIVE_DATE_FORMATS.display.dateInput) {
       return formatDay(toIsoDay(date), { locale: this.firmLocale });
     }
@@ -76,7 +94,7 @@ export class FirmDateAdapter extends NativeDateAdapter {
 /** Date pickers in the firm's locale and the app's one format; in app.config.ts. */
 export function provideFirmDates(): Provider[] {
   return [
-    { provide: MAT_DATE_LOCALE, useFactory: () => inject(FIRM_LOCALE) },
+    { provide: MAT_DATE_LOCALE, useFactory: () => inject(FIRM_DATES)().dateLocale },
     { provide: DateAdapter, useClass: FirmDateAdapter },
     { provide: MAT_DATE_FORMATS, useValue: MAT_NATIVE_DATE_FORMATS },
   ];

@@ -25,16 +25,18 @@ export function fieldCountText(n: number): string {
  * What a failed submit does on every form: show every error, move focus to the first field in
  * error (not leave it on the button) and say how many there are to a screen reader.
  * Call `formErrorFocus()` in a component's field initialiser; call the result on a failed submit.
- * Returns the count, for a visible summary beside the button.
+ * Returns the count, for a visible summary beside the button. `within` narrows the search for the
+ * field to focus to one form's element, for a component with several forms (an empty create field
+ * above the table must not take the focus from the row being renamed).
  */
-export function formErrorFocus(): (form: AbstractControl) => number {
+export function formErrorFocus(): (form: AbstractControl, within?: Element | null) => number {
   const host = inject(ElementRef<HTMLElement>).nativeElement as HTMLElement;
   const announcer = inject(LiveAnnouncer);
-  return (form) => {
+  return (form, within) => {
     form.markAllAsTouched();
     const n = countInvalidFields(form);
     if (n > 0) {
-      firstInvalidField(host)?.focus();
+      firstInvalidField((within as HTMLElement | null | undefined) ?? host)?.focus();
       void announcer.announce(fieldCountText(n), 'assertive');
     }
     return n;

@@ -1,4 +1,4 @@
-import { ChangeDetectionStrategy, Component, inject } from '@angular/core';
+import { ChangeDetectionStrategy, Component, inject, signal } from '@angular/core';
 import { NonNullableFormBuilder, ReactiveFormsModule, Validators } from '@angular/forms';
 import { MatButton } from '@angular/material/button';
 import { ErrorStateMatcher } from '@angular/material/core';
@@ -13,6 +13,7 @@ import {
 import { MatError, MatFormField, MatHint, MatLabel } from '@angular/material/form-field';
 import { MatInput } from '@angular/material/input';
 import { asYouType, fieldErrorText } from '../../../shared/forms/field-errors';
+import { fieldCountText, formErrorFocus } from '../../../shared/forms/form-error-focus';
 
 export interface StageActionDialogData {
   readonly action: 'return' | 'reopen';
@@ -67,6 +68,9 @@ const notBlank = (c: { value: string }) => (c.value && !c.value.trim() ? { white
         </mat-form-field>
       </mat-dialog-content>
       <mat-dialog-actions align="end">
+        @if (invalidCount()) {
+          <span class="count" data-testid="action-error-count">{{ countText(invalidCount()) }}</span>
+        }
         <button mat-button type="button" [mat-dialog-close]="undefined">Cancel</button>
         <button mat-flat-button type="submit" data-testid="action-confirm">
           {{ data.action === 'return' ? 'Return the stage' : 'Reopen the stage' }}
@@ -79,6 +83,9 @@ const notBlank = (c: { value: string }) => (c.value && !c.value.trim() ? { white
       width: 100%;
       min-width: min(30rem, 80vw);
     }
+    .count {
+      margin-inline-end: auto;
+    }
   `,
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
@@ -86,6 +93,9 @@ export class StageActionDialog {
   protected readonly data = inject<StageActionDialogData>(MAT_DIALOG_DATA);
   private readonly ref = inject<MatDialogRef<StageActionDialog, string>>(MatDialogRef);
   protected readonly label = this.data.action === 'return' ? 'Comment' : 'Reason';
+  private readonly reportInvalid = formErrorFocus();
+  protected readonly invalidCount = signal(0);
+  protected readonly countText = fieldCountText;
   protected readonly form = inject(NonNullableFormBuilder).group({
     text: ['', [Validators.required, Validators.maxLength(4000), notBlank]],
   });
@@ -99,9 +109,11 @@ export class StageActionDialog {
 
   protected confirm(): void {
     if (this.form.invalid) {
-      this.form.markAllAsTouched();
+      // Focus goes to the text and the count is announced, rather than staying on the button.
+      this.invalidCount.set(this.reportInvalid(this.form));
       return;
     }
+    this.invalidCount.set(0);
     this.ref.close(this.form.controls.text.value.trim());
   }
 }

@@ -1,5 +1,6 @@
 import { provideHttpClient } from '@angular/common/http';
 import { HttpTestingController, provideHttpClientTesting } from '@angular/common/http/testing';
+import { LiveAnnouncer } from '@angular/cdk/a11y';
 import { ANIMATION_MODULE_TYPE } from '@angular/core';
 import { ComponentFixture, TestBed } from '@angular/core/testing';
 import { commentSchema } from '@trabeate/contracts';
@@ -12,6 +13,7 @@ const URL = `/api/projects/${PROJECT_ID}/stages/column_layout/comments`;
 describe('StageComments', () => {
   let fixture: ComponentFixture<StageComments>;
   let backend: HttpTestingController;
+  let announced: string[];
   const el = () => fixture.nativeElement as HTMLElement;
   const settle = async (ms = 0) => {
     await new Promise((r) => setTimeout(r, ms));
@@ -19,12 +21,14 @@ describe('StageComments', () => {
   };
 
   beforeEach(async () => {
+    announced = [];
     TestBed.configureTestingModule({
       imports: [StageComments],
       providers: [
         provideHttpClient(),
         provideHttpClientTesting(),
         { provide: ANIMATION_MODULE_TYPE, useValue: 'NoopAnimations' },
+        { provide: LiveAnnouncer, useValue: { announce: async (m: string) => void announced.push(m) } },
       ],
     });
     backend = TestBed.inject(HttpTestingController);
@@ -64,5 +68,18 @@ describe('StageComments', () => {
     await settle();
     expect(text.value).toBe('');
     expect(el().querySelector('mat-error')).toBeNull();
+  });
+
+  it('after an empty post, focus moves from the button to the comment box and the count is shown and announced', async () => {
+    const post = el().querySelector('[data-testid="comment-post"]') as HTMLButtonElement;
+    post.focus();
+    post.click();
+    await settle();
+    expect(document.activeElement).toBe(el().querySelector('[data-testid="comment-text"]'));
+    expect(el().querySelector('[data-testid="comment-error-count"]')?.textContent?.trim()).toBe(
+      '1 field needs attention.',
+    );
+    expect(announced).toEqual(['1 field needs attention.']);
+    backend.expectNone((r) => r.method === 'POST');
   });
 });

@@ -8,6 +8,7 @@ import { MatInput } from '@angular/material/input';
 import type { Comment, StageAction, StageKey } from '@trabeate/contracts';
 import { errorMessage } from '../../../core/auth/api-error';
 import { asYouType, fieldErrorText } from '../../../shared/forms/field-errors';
+import { fieldCountText, formErrorFocus } from '../../../shared/forms/form-error-focus';
 import { ProjectsApi, stageUrl } from '../projects-api';
 import { DayTimePipe } from '../../../shared/dates/app-dates';
 
@@ -61,6 +62,9 @@ const ACTION_NOTES: Readonly<Record<StageAction, string>> = {
           <button mat-stroked-button type="submit" data-testid="comment-post" [disabled]="posting()">
             {{ posting() ? 'Posting…' : 'Post' }}
           </button>
+          @if (invalidCount()) {
+            <span class="count" data-testid="comment-error-count">{{ countText(invalidCount()) }}</span>
+          }
           @if (postError()) {
             <p class="failure" role="alert">{{ postError() }}</p>
           }
@@ -119,6 +123,9 @@ const ACTION_NOTES: Readonly<Record<StageAction, string>> = {
     .text {
       flex: 1 1 20rem;
     }
+    .count {
+      align-self: center;
+    }
     .failure {
       flex-basis: 100%;
       margin: 0;
@@ -144,6 +151,9 @@ export class StageComments {
   });
   protected readonly posting = signal(false);
   protected readonly postError = signal('');
+  private readonly reportInvalid = formErrorFocus();
+  protected readonly invalidCount = signal(0);
+  protected readonly countText = fieldCountText;
 
   reload(): void {
     this.thread.reload();
@@ -167,9 +177,11 @@ export class StageComments {
   protected async post(): Promise<void> {
     if (this.posting()) return;
     if (this.form.invalid) {
-      this.form.markAllAsTouched();
+      // Focus goes to the comment box and the count is announced, rather than staying on Post.
+      this.invalidCount.set(this.reportInvalid(this.form));
       return;
     }
+    this.invalidCount.set(0);
     this.posting.set(true);
     this.postError.set('');
     try {

@@ -1,0 +1,38 @@
+import type { FirmDateSettings } from '@trabeate/dates';
+import type { Knex } from 'knex';
+import type { Db } from '../db/db';
+
+type Q = Db | Knex.Transaction;
+
+/** A row carrying the firm's date columns (selected as f.date_locale, f.time_zone). */
+export const datesOf = (row: { date_locale: string; time_zone: string }): FirmDateSettings => ({
+  dateLocale: row.date_locale,
+  timeZone: row.time_zone,
+});
+
+/** The firm's date language, as mails and PDFs write dates in it. */
+export async function firmDates(q: Q, firmId: string): Promise<FirmDateSettings> {
+  const row = await q('firms').where({ id: firmId }).first('date_locale', 'time_zone');
+  if (!row) throw new Error(`firm ${firmId} not found`);
+  return datesOf(row);
+}
+
+/**
+ * Today's date (YYYY-MM-DD) where the firm is: an invoice issued at 02:00 in Kolkata is dated that
+ * day, not the day before, which is still the date in UTC.
+ */
+export async function firmToday(q: Q, firmId: string): Promise<string> {
+  const { rows } = await q.raw(
+    `select to_char((now() at time zone f.time_zone)::date, 'YYYY-MM-DD') as today from firms f where f.id = ?`,
+    [firmId],
+  );
+  if (!rows.length) throw new Error(`firm ${firmId} not found`);
+  return rows[0].today as string;
+}
+
+export async function setFirmDates(q: Q, firmId: string, s: FirmDateSettings): Promise<FirmDateSettings> {
+  await q('firms')
+    .where({ id: firmId })
+    .update({ date_locale: s.dateLocale, time_zone: s.timeZone, updated_at: q.fn.now() });
+  return firmDates(q, firmId);
+}
