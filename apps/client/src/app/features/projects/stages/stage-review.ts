@@ -14,6 +14,7 @@ import { DayTimePipe } from '../../../shared/dates/app-dates';
 import { StateMarker } from '../../../shared/state-marker/state-marker';
 import { stageUrl } from '../projects-api';
 import { formatMinor } from '../../fees/money';
+import { StackOnPhone } from '../../../shared/stacked-table/stack-on-phone';
 
 /**
  * The review of a stage's latest submission, for the firm: the scheme version it rests on (and
@@ -24,7 +25,7 @@ import { formatMinor } from '../../fees/money';
  */
 @Component({
   selector: 'tb-stage-review',
-  imports: [DayTimePipe, MatButton, RouterLink, SchemeOutputs, StateMarker],
+  imports: [DayTimePipe, MatButton, RouterLink, SchemeOutputs, StackOnPhone, StateMarker],
   templateUrl: './stage-review.html',
   styleUrl: './stage-review.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
