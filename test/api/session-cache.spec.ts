@@ -105,11 +105,11 @@ describe('SessionCache', () => {
   });
 });
 
-/** The statements sent through the app's database while `fn` runs that read sessions. */
-async function sessionQueries(t: TestApp, fn: () => Promise<unknown>): Promise<number> {
+/** The statements sent through the app's database while `fn` runs that read sessions (or any, with `all`). */
+async function sessionQueries(t: TestApp, fn: () => Promise<unknown>, all = false): Promise<number> {
   let n = 0;
   const onQuery = (q: Knex.Sql) => {
-    if (/from sessions s/.test(q.sql)) n++;
+    if (all || /from sessions s/.test(q.sql)) n++;
   };
   t.db.on('query', onQuery);
   try {
@@ -133,10 +133,32 @@ describe('kept sessions in the app (a live change feed, as main.ts runs it)', ()
 
   it('reads a signed-in session from the database once, then answers from what it kept', async () => {
     await principal.get('/api/me');
-    const n = await sessionQueries(t, async () => {
-      for (let i = 0; i < 5; i++) expect((await principal.get('/api/me')).status).toBe(200);
-    });
+    const n = await sessionQueries(
+      t,
+      async () => {
+        for (let i = 0; i < 5; i++) expect((await principal.get('/api/me')).status).toBe(200);
+      },
+      true,
+    );
+    // No statement at all: the firm's names and date settings come with the kept caller.
     expect(n).toBe(0);
+  });
+
+  it("sees the firm's date settings changed elsewhere once the notice arrives", async () => {
+    const firmId = DEMO.firm.id;
+    const before = await t.db('firms').where({ id: firmId }).first('date_locale', 'time_zone');
+    expect((await principal.get('/api/me')).body.firm).toMatchObject({ timeZone: before.time_zone });
+    await t.db('firms').where({ id: firmId }).update({ date_locale: 'en-IN', time_zone: 'Asia/Kolkata' });
+    try {
+      await t.settled();
+      expect((await principal.get('/api/me')).body.firm).toMatchObject({
+        dateLocale: 'en-IN',
+        timeZone: 'Asia/Kolkata',
+      });
+    } finally {
+      await t.db('firms').where({ id: firmId }).update(before);
+      await t.settled();
+    }
   });
 
   it('sees a sign-out made by another process (its row deleted) once the notice arrives', async () => {

@@ -26,6 +26,9 @@ export interface Caller {
   /** Names loaded with the caller on each request (absent where a caller is built otherwise). */
   firmName?: string;
   clientOrganisationName?: string | null;
+  /** The firm's date settings, loaded with the names (GET /api/me carries them). */
+  firmDateLocale?: string;
+  firmTimeZone?: string;
 }
 
 /** The facts about one project that visibility depends on. */

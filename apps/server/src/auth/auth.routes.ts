@@ -189,20 +189,30 @@ export function authRoutes(d: AuthRouteDeps): RouteDecl[] {
         res.json(body);
         return;
       }
-      // The organisation's name comes with the caller (one query per request); look it up only if
-      // absent. The firm's row is read here for its date settings, which only this reply carries:
-      // GET /api/me is asked once per page load, not on every request.
-      const [firm, org] = await Promise.all([
-        d
-          .db('firms')
-          .where({ id: caller.firmId })
-          .first('id', 'name', 'date_locale as dateLocale', 'time_zone as timeZone'),
-        caller.clientOrganisationId
-          ? caller.firmName !== undefined
-            ? { id: caller.clientOrganisationId, name: caller.clientOrganisationName ?? '' }
-            : d.db('client_organisations').where({ id: caller.clientOrganisationId }).first('id', 'name')
-          : null,
-      ]);
+      // The names and the firm's date settings come with the caller (one query per request, kept
+      // between requests while nothing changes); look them up only if absent.
+      const [firm, org] =
+        caller.firmName !== undefined && caller.firmDateLocale && caller.firmTimeZone
+          ? [
+              {
+                id: caller.firmId,
+                name: caller.firmName,
+                dateLocale: caller.firmDateLocale,
+                timeZone: caller.firmTimeZone,
+              },
+              caller.clientOrganisationId
+                ? { id: caller.clientOrganisationId, name: caller.clientOrganisationName ?? '' }
+                : null,
+            ]
+          : await Promise.all([
+              d
+                .db('firms')
+                .where({ id: caller.firmId })
+                .first('id', 'name', 'date_locale as dateLocale', 'time_zone as timeZone'),
+              caller.clientOrganisationId
+                ? d.db('client_organisations').where({ id: caller.clientOrganisationId }).first('id', 'name')
+                : null,
+            ]);
       const body: Me = {
         access: 'granted',
         user: {

@@ -4,11 +4,13 @@ import type { UserRow } from './session';
 export interface CallerRow extends UserRow {
   firm_name: string;
   org_name: string | null;
+  firm_date_locale: string;
+  firm_time_zone: string;
 }
 
 /**
- * The person behind a session, with their firm's and organisation's names, in one query: it runs
- * on every signed-in request, and GET /api/me then needs nothing more.
+ * The person behind a session, with their firm's and organisation's names and the firm's date
+ * settings, in one query: it runs on every signed-in request, and GET /api/me then needs nothing more.
  */
 export async function loadCallerRow(db: Db, userId: string): Promise<CallerRow | undefined> {
   return db('users as u')
@@ -25,6 +27,8 @@ export async function loadCallerRow(db: Db, userId: string): Promise<CallerRow |
       'u.client_organisation_id',
       'f.name as firm_name',
       'o.name as org_name',
+      'f.date_locale as firm_date_locale',
+      'f.time_zone as firm_time_zone',
     );
 }
 
@@ -42,7 +46,8 @@ async function loadSessionsWithCallers(db: Db, sids: string[]): Promise<Map<stri
      from sessions s
      left join lateral (
        select u.id, u.firm_id, u.email, u.display_name, u.firm_role, u.client_organisation_id,
-              f.name as firm_name, o.name as org_name
+              f.name as firm_name, o.name as org_name,
+              f.date_locale as firm_date_locale, f.time_zone as firm_time_zone
        from users u
        join firms f on f.id = u.firm_id
        left join client_organisations o on o.id = u.client_organisation_id

@@ -316,6 +316,8 @@ export interface UserRow {
   /** Present when loaded with the names (loadCallerRow). */
   firm_name?: string;
   org_name?: string | null;
+  firm_date_locale?: string;
+  firm_time_zone?: string;
 }
 
 export function toCaller(u: UserRow): Caller {
@@ -331,6 +333,8 @@ export function toCaller(u: UserRow): Caller {
   if (u.firm_name !== undefined) {
     caller.firmName = u.firm_name;
     caller.clientOrganisationName = u.org_name ?? null;
+    caller.firmDateLocale = u.firm_date_locale;
+    caller.firmTimeZone = u.firm_time_zone;
   }
   return caller;
 }
