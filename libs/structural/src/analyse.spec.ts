@@ -279,6 +279,24 @@ describe('checks', () => {
     expect(msg[0].value).toBeGreaterThan(0.04);
   });
 
+  it('column schedule: the steel each storey needs in the given section, by IS 456 cl. 39.3 solved for Asc (hand formula, independent of the engine)', () => {
+    // four storeys, 400 × 400, M25, Fe 415: ρ = (Pu/Ag − 0.4 fck)/(0.67 fy − 0.4 fck), 0 when concrete alone carries Pu
+    const r = analyseScheme(gridScheme([0, 5, 10], [0, 5, 10], { storeys: 4 }));
+    const loads = r.loads.columns.find((x) => x.columnId === 'C1_1')!;
+    const sizes = r.sizes.columns.find((x) => x.columnId === 'C1_1')!;
+    const ag = 400 * 400;
+    const hand = loads.factoredKN.map((pu) => Math.max(0, ((pu * 1000) / ag - 0.4 * 25) / (0.67 * 415 - 0.4 * 25)));
+    expect(sizes.steelRatio).toHaveLength(4);
+    sizes.steelRatio.forEach((v, k) => expect(v).toBeCloseTo(hand[k], 6));
+    // the lowest storey carries most and needs steel; the storey under the roof needs none or less
+    expect(sizes.steelRatio[0]).toBeGreaterThan(0);
+    expect(sizes.steelRatio[0]).toBeGreaterThan(sizes.steelRatio[3]);
+    // the steel check reads the lowest storey's figure
+    const ninth = analyseScheme(gridScheme([0, 5, 10], [0, 5, 10], { storeys: 9 }));
+    const failed = ninth.checks.find((x) => x.ruleId === 'column.steel-ratio' && x.elements[0] === 'C1_1')!;
+    expect(failed.value).toBe(ninth.sizes.columns.find((x) => x.columnId === 'C1_1')!.steelRatio[0]);
+  });
+
   it('beam.depth reports the source kind of the limit that governs, per family', () => {
     // two-span lines along x (end spans), single spans along y (simply supported)
     const kinds = (family: 'IS456' | 'ACI318' | 'EN1992', depth: number, prefix: string) => {
