@@ -423,6 +423,26 @@ describe('comparison', () => {
     expect(c.summary[0]).toMatch(/1 column fewer/);
     expect(c.summary.join(' ')).toMatch(/beams \(\+/);
   });
+  it('counts the failed checks of each scheme by severity, in place of one total', () => {
+    const c = compareSchemes(demoScheme(), demoSchemeVariant());
+    const by = (s: ReturnType<typeof demoScheme>) => {
+      const failed = analyseScheme(s).checks.filter((x) => x.status === 'fail');
+      return {
+        error: failed.filter((x) => x.severity === 'error').length,
+        warning: failed.filter((x) => x.severity === 'warning').length,
+        info: failed.filter((x) => x.severity === 'info').length,
+      };
+    };
+    expect(c.checkCounts).toEqual({ a: by(demoScheme()), b: by(demoSchemeVariant()) });
+    const d = Object.fromEntries(c.differences.map((x) => [x.item, x]));
+    expect(d['failed checks']).toBeUndefined();
+    for (const [sev, item] of [
+      ['error', 'failed checks: errors'],
+      ['warning', 'failed checks: warnings'],
+      ['info', 'failed checks: notes'],
+    ] as const)
+      expect([d[item].a, d[item].b]).toEqual([c.checkCounts.a[sev], c.checkCounts.b[sev]]);
+  });
   it('the variant raises the point-load suggestion where the secondary beam lands in the long span', () => {
     const f = analyseScheme(demoSchemeVariant()).checks.filter(
       (x) => x.ruleId === 'beam.point-load-on-long-span' && x.status === 'fail',

@@ -7,6 +7,7 @@ import { RouterLink } from '@angular/router';
 import { schemeDetailSchema } from '@trabeate/contracts';
 import { CAUTION, type SchemeComparison } from '@trabeate/structural';
 import { errorMessage } from '../../core/auth/api-error';
+import { SEVERITY_LABELS } from './check-labels';
 import type { PlanWorkerPort } from './plan-protocol';
 import { createPlanWorker } from './plan-worker-factory';
 import { PlanView } from './plan-view';
@@ -31,6 +32,9 @@ export class ComparePage {
   readonly b = input<string>('');
 
   protected readonly caution = CAUTION;
+  protected readonly severityLabels = SEVERITY_LABELS;
+  /** the engine's severities, most serious first */
+  protected readonly severities = ['error', 'warning', 'info'] as const;
   // Nothing loads until both are named: one scheme alone has nothing to be compared with.
   private readonly pair = computed(() => (this.a() && this.b() ? [this.a(), this.b()] : null));
   protected readonly first = httpResource(() => this.pairUrl(0), {
