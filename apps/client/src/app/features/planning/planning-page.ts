@@ -31,6 +31,7 @@ import {
   moveSelection,
   parseSpacings,
   select,
+  setBasis,
   setFootingChoice,
   setGridSpacings,
   spacingsOf,
@@ -40,6 +41,7 @@ import {
   deleteSelection,
   updateColumn,
   type ColumnPatch,
+  type DesignBasis,
   type EditorState,
 } from './editor-model';
 import type { AnalyseRequest, PlanWorkerPort } from './plan-protocol';
@@ -48,6 +50,7 @@ import { PlanView, type ColumnDrop, type ColumnPick } from './plan-view';
 import { ResultsPanel } from './results-panel';
 import { SchemesApi, schemeUrl } from './schemes-api';
 import { SchemeOutputs } from './scheme-outputs';
+import { SchemeBasisPanel } from './scheme-basis-panel';
 
 type SeverityFilter = CheckSeverity | 'all';
 
@@ -76,6 +79,7 @@ export const KEY_STEP_M = 0.05;
     ResultsPanel,
     RouterLink,
     SchemeOutputs,
+    SchemeBasisPanel,
   ],
   templateUrl: './planning-page.html',
   styleUrls: ['../../shared/page/page.scss', './planning-page.scss'],
@@ -327,6 +331,12 @@ export class PlanningPage {
     queueMicrotask(() =>
       document.querySelector('[data-testid="footing-site-detail"]')?.scrollIntoView?.({ block: 'nearest' }),
     );
+  }
+
+  /** The basis panel's Apply: one undoable edit, after which the engine re-runs as on any edit. */
+  protected applyBasis(basis: DesignBasis): void {
+    const e = this.editor();
+    if (e) this.apply(setBasis(e, basis));
   }
 
   protected recordFooting(choice: FootingChoice): void {
