@@ -6,7 +6,7 @@
 // dropped document on screen. Targets: p95 frame interval ≤ 50 ms while dragging; checks within
 // 250 ms of the drop. Figures depend on the machine's load, printed beside them.
 // BENCH_DRAG_SECONDS sets the drag's length (default 4); BENCH_DROPS the number of drops timed
-// (default 3): the column goes to the middle of a bay and back, so each drop is a real change.
+// (default 3): the column goes to the middle of its span and back, so each drop is a real change.
 // Exits 1 when a target is missed.
 import { randomBytes } from 'node:crypto';
 import { mkdirSync, mkdtempSync, rmSync } from 'node:fs';
@@ -95,7 +95,7 @@ async function dragOnce(
   seconds: number,
   dx: number,
   dy: number,
-  drop: { x: number; y: number },
+  dropAt: () => Promise<{ x: number; y: number }>,
 ): Promise<number> {
   // A chosen column has its dimension lines drawn from its centre, over it: a press there lands
   // on a line, the editor never captures the pointer, and a release off the plan is lost (the
@@ -149,9 +149,8 @@ async function dragOnce(
     await page.mouse.move(x0 + dx * f, y0 + dy * f + (i % 7));
     await page.waitForTimeout(8);
   }
-  // Drop half a bay off, clear of grid lines and other columns (which would snap it back or onto
-  // another column, a scheme the engine refuses at once, not a drop worth timing).
-  await page.mouse.move(x0 + drop.x, y0 + drop.y);
+  const drop = await dropAt();
+  await page.mouse.move(drop.x, drop.y);
   await page.evaluate(() => (window.__bench.recording = false));
   await page.mouse.up();
   // A drop that changed nothing posts nothing: say so at once instead of waiting for checks.
@@ -271,25 +270,32 @@ async function main(): Promise<number> {
     const mid = doc.columns[Math.floor(doc.columns.length / 2) + 15];
     const svg = await page.locator('[data-testid="plan"]').boundingBox();
     if (!svg) throw new Error('no plan on screen');
-    // half a bay on screen, from the column to its diagonal neighbour (C15-15 → C16-16)
+    // Where each drop goes, on screen after the drag's scroll: out to the middle of the span along
+    // its row (the y grid line still holds it; a point nearer a line or column would snap back to
+    // where it was, or onto another column, a scheme the engine refuses at once, not a drop worth
+    // timing), then back to its own intersection, found between the columns above and below it.
     const [, gi, gj] = /^C(\d+)-(\d+)$/.exec(mid.id) ?? [];
+    const at = (di: number, dj: number) => `C${Number(gi) + di}-${Number(gj) + dj}`;
     const centre = async (id: string) => {
       const b = await page.locator(`[data-column="${id}"]`).boundingBox();
       if (!b) throw new Error(`column ${id} is not on screen`);
       return { x: b.x + b.width / 2, y: b.y + b.height / 2 };
     };
-    const [a, n] = [await centre(mid.id), await centre(`C${Number(gi) + 1}-${Number(gj) + 1}`)];
-    const halfBay = { x: (n.x - a.x) / 2, y: (n.y - a.y) / 2 };
+    const midSpan = async () => {
+      const [c, next] = [await centre(mid.id), await centre(at(1, 0))];
+      return { x: (c.x + next.x) / 2, y: c.y };
+    };
+    const home = async () => {
+      const [below, above] = [await centre(at(0, -1)), await centre(at(0, 1))];
+      return { x: (below.x + above.x) / 2, y: (below.y + above.y) / 2 };
+    };
     const drops: number[] = [];
     const frames: number[] = [];
     const loafs: BenchState['loafs'] = [];
     const longtasks: BenchState['longtasks'] = [];
     for (let i = 0; i < DROPS; i++) {
       await page.evaluate(() => Object.assign(window.__bench, { frames: [], loafs: [], longtasks: [] }));
-      // out to the middle of the bay, then back to the grid intersection, and so on
-      const sign = i % 2 === 0 ? 1 : -1;
-      const drop = { x: sign * halfBay.x, y: sign * halfBay.y };
-      drops.push(await dragOnce(page, mid.id, DRAG_SECONDS, svg.width / 5, svg.height / 8, drop));
+      drops.push(await dragOnce(page, mid.id, DRAG_SECONDS, svg.width / 5, svg.height / 8, i % 2 ? home : midSpan));
       const got = await page.evaluate(() => window.__bench);
       frames.push(...got.frames);
       loafs.push(...got.loafs);
