@@ -37,3 +37,13 @@ export const DEMO = {
     alder: { id: '0b8c2d1e-0000-4000-8000-000000000302', reference: 'SQ-2026-021' },
   },
 } as const;
+
+/**
+ * Invented unit rates in euros (concrete per m³, reinforcement per kg, formwork per m²), of a
+ * plausible order for the demo only; the projects' design bases carry them and new schemes start
+ * from them.
+ */
+export const DEMO_RATES = {
+  kestrel: { concretePerM3: 145, steelPerKg: 1.35, formworkPerM2: 32 },
+  alder: { concretePerM3: 150, steelPerKg: 1.4, formworkPerM2: 34 },
+} as const;

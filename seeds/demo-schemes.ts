@@ -3,7 +3,7 @@ import { schemeResultsSchema, schemeSchema, type SchemeDocument } from '@trabeat
 import { demoScheme, demoSchemeVariant, type Scheme } from '@trabeate/structural';
 import { insertNewScheme } from '../apps/server/src/schemes/schemes.service';
 import { summariseChecks } from '../apps/server/src/stages/stage-submissions';
-import { DEMO } from './demo-data';
+import { DEMO, DEMO_RATES } from './demo-data';
 
 // Kestrel Yard's two schemes: the engine's invented demo building, turned to sit on Kestrel
 // Yard's plot (neighbours on the north and east) and priced in the project's currency. Scheme A
@@ -13,9 +13,6 @@ export const DEMO_SCHEMES = {
   full: { id: '0b8c2d1e-0000-4000-8000-000000000401', name: 'Scheme A: full grid' },
   fewer: { id: '0b8c2d1e-0000-4000-8000-000000000402', name: 'Scheme B: one column fewer (C3 left out)' },
 } as const;
-
-// Invented unit rates in euros, of a plausible order for the demo only.
-const RATES = { currency: 'EUR', concretePerM3: 145, steelPerKg: 1.35, formworkPerM2: 32 };
 
 /**
  * Turns a scheme half a turn about the centre of its plot, so property lines on the south and
@@ -92,12 +89,23 @@ export const DEMO_FOOTING_CHOICE: SchemeDocument['footingChoices'][number] = {
     'Strap to C4: the survey of the neighbouring wall footing is not in yet, and a strap keeps the east pad clear of the line without moving D4 or shortening the bay.',
 };
 
-/** The two demo schemes as stored documents: the project's basis, storey height and currency. */
-export function kestrelSchemes(basis: { codeFamily: string; concreteMPa: number; bearingPressureKPa: number }) {
+interface DemoBasis {
+  codeFamily: string;
+  concreteMPa: number;
+  bearingPressureKPa: number;
+  rates?: { concretePerM3: number; steelPerKg: number; formworkPerM2: number };
+}
+
+/**
+ * The two demo schemes as stored documents: the project's basis, storey height, currency and unit
+ * rates (Kestrel Yard's invented demo rates where the basis has none).
+ */
+export function kestrelSchemes(basis: DemoBasis, currency = 'EUR') {
+  const { rates = DEMO_RATES.kestrel, ...rest } = basis;
   const dress = (s: Scheme): SchemeDocument =>
     schemeSchema.parse({
       ...turnedHalf(s),
-      basis: { ...s.basis, ...basis, storeyHeightM: 3.1, rates: RATES },
+      basis: { ...s.basis, ...rest, storeyHeightM: 3.1, rates: { currency, ...rates } },
     });
   const full = dress(demoScheme());
   return { full: { ...full, footingChoices: [DEMO_FOOTING_CHOICE] }, fewer: dress(demoSchemeVariant()) };
@@ -105,14 +113,18 @@ export function kestrelSchemes(basis: { codeFamily: string; concreteMPa: number;
 
 /** Adds Kestrel Yard's two schemes once (by their fixed ids); safe to run again. */
 export async function seedDemoSchemes(db: Knex): Promise<void> {
-  const project = await db('projects').where({ id: DEMO.projects.kestrel.id }).first('design_basis');
+  const project = await db('projects').where({ id: DEMO.projects.kestrel.id }).first('design_basis', 'currency');
   if (!project) return;
-  const basis = project.design_basis as { codeFamily: string; concreteMPa: number; bearingPressureKPa: number };
-  const docs = kestrelSchemes({
-    codeFamily: basis.codeFamily,
-    concreteMPa: basis.concreteMPa,
-    bearingPressureKPa: basis.bearingPressureKPa,
-  });
+  const basis = project.design_basis as DemoBasis;
+  const docs = kestrelSchemes(
+    {
+      codeFamily: basis.codeFamily,
+      concreteMPa: basis.concreteMPa,
+      bearingPressureKPa: basis.bearingPressureKPa,
+      rates: basis.rates,
+    },
+    String(project.currency).trim(),
+  );
   for (const key of ['full', 'fewer'] as const) {
     const fixed = DEMO_SCHEMES[key];
     if (await db('schemes').where({ id: fixed.id }).first('id')) continue;

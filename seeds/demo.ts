@@ -1,5 +1,5 @@
 import type { Knex } from 'knex';
-import { DEMO } from './demo-data';
+import { DEMO, DEMO_RATES } from './demo-data';
 import { seedIdentityAccounts } from './identity';
 import { seedDemoSchemes, seedDemoSubmission } from './demo-schemes';
 import { seedDemoDrawings } from './demo-drawings';
@@ -146,6 +146,7 @@ const DESIGN_BASIS = {
     superimposedDeadKPa: 1.5,
     bearingPressureKPa: 180,
     foundingDepthM: 1.5,
+    rates: DEMO_RATES.kestrel,
   },
   alder: {
     codeFamily: 'EN1992',
@@ -155,6 +156,7 @@ const DESIGN_BASIS = {
     superimposedDeadKPa: 1.2,
     bearingPressureKPa: 150,
     foundingDepthM: 1.2,
+    rates: DEMO_RATES.alder,
   },
 } as const;
 
@@ -166,6 +168,13 @@ async function seedDesignBasis(db: Knex): Promise<void> {
       .where({ id })
       .whereRaw(`design_basis ->> 'concreteMPa' is null`)
       .update({ design_basis: JSON.stringify(basis) });
+    // Seeded before projects carried unit rates: add the rates alone, keeping the rest as edited.
+    await db('projects')
+      .where({ id })
+      .whereRaw(`not (design_basis \\? 'rates')`)
+      .update({
+        design_basis: db.raw(`design_basis || jsonb_build_object('rates', ?::jsonb)`, [JSON.stringify(basis.rates)]),
+      });
   }
 }
 

@@ -7,6 +7,7 @@ import {
   type ProjectCreate,
 } from '@trabeate/contracts';
 import { DEMO } from '../../seeds/demo';
+import { DEMO_RATES } from '../../seeds/demo-data';
 import { testApp, type TestApp } from '../support/app';
 import { send, signedInAs } from '../support/agents';
 
@@ -73,6 +74,21 @@ describe('projects: create, edit, archive, list with paging and filters', () => 
         actor_id: DEMO.users.principal.id,
       }),
     ]);
+  });
+
+  it("keeps the project's unit rates with its design basis for the firm, and keeps them from the client", async () => {
+    const rates = { concretePerM3: 151, steelPerKg: 1.42, formworkPerM2: 29.5 };
+    const res = await send(principal, 'post', '/api/projects', project(9, { designBasis: { ...basis, rates } }));
+    expect(res.status).toBe(201);
+    const stored = await t.db('projects').where({ id: res.body.id }).first('design_basis');
+    expect(stored.design_basis.rates).toEqual(rates);
+    expect(projectPageSchema.parse(res.body)).toMatchObject({ designBasis: { rates }, currency: 'EUR' });
+    const kestrel = `/api/projects/${DEMO.projects.kestrel.id}/full`;
+    const asEngineer = projectPageSchema.parse((await engineer.get(kestrel)).body);
+    expect(asEngineer.designBasis?.rates).toEqual(DEMO_RATES.kestrel);
+    const asClient = projectPageSchema.parse((await client.get(kestrel)).body);
+    expect(asClient.designBasis).toMatchObject({ codeFamily: 'EN1992' });
+    expect(asClient.designBasis?.rates).toBeUndefined();
   });
 
   it('refuses a reference the firm already uses, naming the field', async () => {

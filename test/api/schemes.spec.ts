@@ -10,6 +10,7 @@ import {
 } from '@trabeate/contracts';
 import { ENGINE_VERSION } from '@trabeate/structural';
 import { DEMO } from '../../seeds/demo';
+import { DEMO_RATES } from '../../seeds/demo-data';
 import { DEMO_FOOTING_CHOICE, DEMO_SCHEMES } from '../../seeds/demo-schemes';
 import { testApp, type TestApp } from '../support/app';
 import { send, signedInAs } from '../support/agents';
@@ -73,7 +74,7 @@ describe('schemes: create, duplicate, rename, archive, save, history and restore
       bearingPressureKPa: 180,
       storeys: 7,
       storeyHeightM: 3.1,
-      rates: { currency: 'EUR' },
+      rates: { currency: 'EUR', ...DEMO_RATES.kestrel },
     });
     expect(scheme.document).toMatchObject({ id: scheme.id, name: 'Flat-slab study', columns: [] });
     const row = await t.db('scheme_versions').where({ scheme_id: scheme.id, version: 1 }).first();
@@ -83,6 +84,30 @@ describe('schemes: create, duplicate, rename, archive, save, history and restore
       author_id: DEMO.users.engineerA.id,
     });
     expect(row.results.caution).toMatch(/licensed structural engineer/);
+  });
+
+  it("starts a new scheme at the project's unit rates, as the principal last set them, in the project's currency", async () => {
+    const project = (await principal.get(`/api/projects/${KESTREL}/full`)).body;
+    const rates = { concretePerM3: 162.5, steelPerKg: 1.9, formworkPerM2: 41 };
+    const edit = await send(principal, 'patch', `/api/projects/${KESTREL}`, {
+      designBasis: { ...project.designBasis, rates },
+    });
+    expect(edit.status).toBe(200);
+    try {
+      const scheme = await create('Rates study');
+      expect(scheme.document.basis.rates).toEqual({ currency: 'EUR', ...rates });
+      // the demo schemes were priced too, so the comparison has costs to compare
+      const demo = schemeDetailSchema.parse((await engineer.get(`${base}/${DEMO_SCHEMES.fewer.id}`)).body);
+      expect(demo.document.basis.rates.concretePerM3).toBeGreaterThan(0);
+      // a negative rate is refused, naming the field
+      const bad = await send(principal, 'patch', `/api/projects/${KESTREL}`, {
+        designBasis: { ...project.designBasis, rates: { ...rates, steelPerKg: -1 } },
+      });
+      expect(bad.status).toBe(400);
+      expect(Object.keys(bad.body.error.fields ?? {})).toContain('body.designBasis.rates.steelPerKg');
+    } finally {
+      await send(principal, 'patch', `/api/projects/${KESTREL}`, { designBasis: project.designBasis });
+    }
   });
 
   it('saves the next version when nothing newer exists, and stores what the engine found in it', async () => {

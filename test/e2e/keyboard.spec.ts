@@ -226,10 +226,11 @@ describe('the principal by keyboard alone', () => {
     await page.waitForFunction(() => document.activeElement?.getAttribute('data-testid') === 'field-reference', null, {
       timeout: 20_000,
     });
-    // Reference, name and client are empty: the count goes to screen readers through the live region.
+    // Reference, name, client and the three unit rates are empty: the count goes to screen
+    // readers through the live region.
     await page
       .locator('.cdk-live-announcer-element')
-      .filter({ hasText: '3 fields need attention.' })
+      .filter({ hasText: '6 fields need attention.' })
       .waitFor({ state: 'attached', timeout: 10_000 });
     const reference = `E2E-KBN-${Date.now().toString(36).toUpperCase()}`;
     await page.keyboard.type(reference);
@@ -239,6 +240,15 @@ describe('the principal by keyboard alone', () => {
     expect((await focused(page)).testId).toBe('field-clientOrganisationId');
     // On a closed select the arrow keys choose the next option.
     await page.keyboard.press('ArrowDown');
+    // The firm's own unit rates, typed in (no starting values).
+    for (const [field, value] of [
+      ['field-concretePerM3', '135'],
+      ['field-steelPerKg', '1.15'],
+      ['field-formworkPerM2', '24'],
+    ]) {
+      await tabTo(page, (f) => f.testId === field, 40);
+      await page.keyboard.type(value);
+    }
     const toSaveAgain = await tabTo(page, (f) => f.testId === 'save-project', 80);
     expect(unringed([...toSave.stops, ...toSaveAgain.stops])).toEqual([]);
     await page.keyboard.press('Enter');

@@ -107,6 +107,10 @@ describe('a design stage from assignment to approval, in Chromium', () => {
     await testId(page, 'field-bearingPressureKPa').fill('9000');
     await page.getByText('Allowable bearing pressure can be at most 5000 kPa.').waitFor();
     await testId(page, 'field-bearingPressureKPa').fill('180');
+    // Unit rates have no starting values: the firm's own prices, typed in.
+    await testId(page, 'field-concretePerM3').fill('130');
+    await testId(page, 'field-steelPerKg').fill('1.2');
+    await testId(page, 'field-formworkPerM2').fill('28');
     await shot(page, '1-new-project-form');
     await testId(page, 'save-project').click();
 

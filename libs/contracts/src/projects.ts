@@ -9,7 +9,21 @@ const id = z.uuid();
 const isoDate = z.iso.date(); // YYYY-MM-DD
 const personRef = z.object({ id, displayName: z.string() });
 
-/** The design basis a project's schemes start from (SI units: MPa, kPa, m). */
+/**
+ * The project's unit rates for the cost of a scheme, in the project's currency (major units, so a
+ * rate per kg may have cents). The bounds are the scheme document's (unitRatesSchema).
+ */
+export const projectUnitRatesSchema = z.object({
+  concretePerM3: z.number().nonnegative().max(1e9),
+  steelPerKg: z.number().nonnegative().max(1e9),
+  formworkPerM2: z.number().nonnegative().max(1e9),
+});
+export type ProjectUnitRates = z.infer<typeof projectUnitRatesSchema>;
+
+/**
+ * The design basis a project's schemes start from (SI units: MPa, kPa, m). Unit rates are
+ * optional: projects set up before they were asked for have none, and their schemes start at zero.
+ */
 export const projectDesignBasisSchema = z.object({
   codeFamily: codeFamilySchema,
   concreteMPa: z.number().min(10).max(120),
@@ -18,6 +32,7 @@ export const projectDesignBasisSchema = z.object({
   superimposedDeadKPa: z.number().min(0).max(50),
   bearingPressureKPa: z.number().positive().max(5000),
   foundingDepthM: z.number().min(0).max(30),
+  rates: projectUnitRatesSchema.optional(),
 });
 export type ProjectDesignBasis = z.infer<typeof projectDesignBasisSchema>;
 
@@ -192,7 +207,10 @@ export const projectPageSchema = z.object({
   storeys: z.number().int(),
   storeyHeightM: z.number(),
   floorAreaM2: z.number().nullable(),
+  /** Unit rates are the firm's own prices: left out for the project's client. */
   designBasis: projectDesignBasisSchema.nullable(),
+  /** The project's currency, which the unit rates are in (money itself is under finance). */
+  currency: z.string(),
   archivedAt: z.iso.datetime().nullable(),
   /** Only for those who may see money. */
   finance: z.object({ estimatedCost: z.number().nullable(), currency: z.string() }).nullable(),

@@ -1,4 +1,14 @@
-import { demoScheme, demoSchemeVariant, LIMIT_KEYS, Scheme, SCHEME_LIMITS, validateScheme } from '@trabeate/structural';
+import {
+  codeDefaults,
+  demoScheme,
+  demoSchemeVariant,
+  LIMIT_KEYS,
+  Scheme,
+  SCHEME_LIMITS,
+  SOURCE_KINDS,
+  validateScheme,
+} from '@trabeate/structural';
+import { schemeCheckSchema, sourceKindSchema } from './schemes';
 import { SCHEME_DOCUMENT_LIMITS, schemeSchema, SchemeDocument } from './scheme';
 
 // The contract and the engine describe the same document: a parsed scheme is an engine scheme.
@@ -114,5 +124,29 @@ describe('scheme contract', () => {
       expect(r.error?.issues.map((i) => i.path)).toContainEqual(['columns']);
       expect(validateScheme({ ...s, columns: over }).map((p) => p.path)).toContain('columns');
     });
+  });
+
+  it('names the same source kinds as the engine, a handbook table among them, and carries one through a check', () => {
+    expect([...sourceKindSchema.options].sort()).toEqual([...SOURCE_KINDS].sort());
+    expect(sourceKindSchema.options).toContain('handbook');
+    // A limit read from a handbook table (the value here is illustrative, not a design value).
+    const limit = { value: 2, unit: 'm', source: 'a design handbook, its table of spans', kind: 'handbook' as const };
+    const parsed = schemeCheckSchema.parse({
+      ruleId: 'beam.span',
+      severity: 'warning',
+      status: 'fail',
+      elements: ['B1'],
+      message: 'span',
+      value: 2.5,
+      limit: limit.value,
+      unit: limit.unit,
+      sense: 'max',
+      source: limit.source,
+      sourceKind: limit.kind,
+    });
+    expect(parsed).toMatchObject({ sourceKind: 'handbook', source: limit.source });
+    // every default limit's kind is one the contract accepts
+    for (const family of ['IS456', 'ACI318', 'EN1992'] as const)
+      for (const l of Object.values(codeDefaults(family).limits)) expect(sourceKindSchema.options).toContain(l.kind);
   });
 });

@@ -108,7 +108,8 @@ export type SchemeDetail = z.infer<typeof schemeDetailSchema>;
 
 export const checkSeveritySchema = z.enum(['error', 'warning', 'info']);
 export type CheckSeverity = z.infer<typeof checkSeveritySchema>;
-export const sourceKindSchema = z.enum(['code', 'practice', 'memory', 'derived', 'project']);
+/** The engine's SOURCE_KINDS (scheme.spec.ts checks that both list the same). */
+export const sourceKindSchema = z.enum(['code', 'handbook', 'practice', 'memory', 'derived', 'project']);
 export type SourceKindValue = z.infer<typeof sourceKindSchema>;
 
 /** One planning check as the engine reports it (mirror of @trabeate/structural's Check). */

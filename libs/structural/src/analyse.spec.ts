@@ -279,6 +279,24 @@ describe('checks', () => {
     expect(msg[0].value).toBeGreaterThan(0.04);
   });
 
+  it('column schedule: the steel each storey needs in the given section, by IS 456 cl. 39.3 solved for Asc (hand formula, independent of the engine)', () => {
+    // four storeys, 400 × 400, M25, Fe 415: ρ = (Pu/Ag − 0.4 fck)/(0.67 fy − 0.4 fck), 0 when concrete alone carries Pu
+    const r = analyseScheme(gridScheme([0, 5, 10], [0, 5, 10], { storeys: 4 }));
+    const loads = r.loads.columns.find((x) => x.columnId === 'C1_1')!;
+    const sizes = r.sizes.columns.find((x) => x.columnId === 'C1_1')!;
+    const ag = 400 * 400;
+    const hand = loads.factoredKN.map((pu) => Math.max(0, ((pu * 1000) / ag - 0.4 * 25) / (0.67 * 415 - 0.4 * 25)));
+    expect(sizes.steelRatio).toHaveLength(4);
+    sizes.steelRatio.forEach((v, k) => expect(v).toBeCloseTo(hand[k], 6));
+    // the lowest storey carries most and needs steel; the storey under the roof needs none or less
+    expect(sizes.steelRatio[0]).toBeGreaterThan(0);
+    expect(sizes.steelRatio[0]).toBeGreaterThan(sizes.steelRatio[3]);
+    // the steel check reads the lowest storey's figure
+    const ninth = analyseScheme(gridScheme([0, 5, 10], [0, 5, 10], { storeys: 9 }));
+    const failed = ninth.checks.find((x) => x.ruleId === 'column.steel-ratio' && x.elements[0] === 'C1_1')!;
+    expect(failed.value).toBe(ninth.sizes.columns.find((x) => x.columnId === 'C1_1')!.steelRatio[0]);
+  });
+
   it('beam.depth reports the source kind of the limit that governs, per family', () => {
     // two-span lines along x (end spans), single spans along y (simply supported)
     const kinds = (family: 'IS456' | 'ACI318' | 'EN1992', depth: number, prefix: string) => {
@@ -404,6 +422,26 @@ describe('comparison', () => {
     expect(c.costDrivers[0].delta).toBeGreaterThan(0);
     expect(c.summary[0]).toMatch(/1 column fewer/);
     expect(c.summary.join(' ')).toMatch(/beams \(\+/);
+  });
+  it('counts the failed checks of each scheme by severity, in place of one total', () => {
+    const c = compareSchemes(demoScheme(), demoSchemeVariant());
+    const by = (s: ReturnType<typeof demoScheme>) => {
+      const failed = analyseScheme(s).checks.filter((x) => x.status === 'fail');
+      return {
+        error: failed.filter((x) => x.severity === 'error').length,
+        warning: failed.filter((x) => x.severity === 'warning').length,
+        info: failed.filter((x) => x.severity === 'info').length,
+      };
+    };
+    expect(c.checkCounts).toEqual({ a: by(demoScheme()), b: by(demoSchemeVariant()) });
+    const d = Object.fromEntries(c.differences.map((x) => [x.item, x]));
+    expect(d['failed checks']).toBeUndefined();
+    for (const [sev, item] of [
+      ['error', 'failed checks: errors'],
+      ['warning', 'failed checks: warnings'],
+      ['info', 'failed checks: notes'],
+    ] as const)
+      expect([d[item].a, d[item].b]).toEqual([c.checkCounts.a[sev], c.checkCounts.b[sev]]);
   });
   it('the variant raises the point-load suggestion where the secondary beam lands in the long span', () => {
     const f = analyseScheme(demoSchemeVariant()).checks.filter(

@@ -81,6 +81,12 @@ export interface ColumnSizes {
   requiredSideMm: number[];
   /** factored load / capacity of the given section */
   utilisation: number[];
+  /**
+   * steel the given section needs for each storey's factored load, as a fraction of the gross
+   * area: 0 where the concrete alone carries it, at most 1.5 × the code's maximum (beyond it the
+   * section is too small); the code's minimum is not applied here (its check says so)
+   */
+  steelRatio: number[];
 }
 
 export interface SchemeResult {
@@ -705,7 +711,7 @@ function sizeChecks(
   const maxRatio = limits.columnSteelRatioMax;
   for (const cs of colSizes) {
     const pu = cs.utilisation[0] * cs.providedCapacityKN;
-    const need = requiredSteelRatio(mat, cs.providedMm, pu, maxRatio.value);
+    const need = cs.steelRatio[0];
     const shown =
       need > maxRatio.value ? `more than ${(maxRatio.value * 100).toFixed(1)} %` : `${(need * 100).toFixed(2)} %`;
     const floor =
@@ -944,6 +950,8 @@ function columnPhase(
   const noLoad: [number, number] = [0, 0];
   const zeroR = { floor: noLoad, roof: noLoad };
   const minSide = limits.columnMinSideMm.value;
+  const mat = { family, fck, fy, alphaCc: b.alphaCc };
+  const maxSteel = limits.columnSteelRatioMax.value;
   for (const c of scheme.columns) {
     const r = colR.get(c.id) ?? zeroR;
     const sw = (c.widthMm / 1000) * (c.depthMm / 1000) * b.storeyHeightM * gamma;
@@ -970,6 +978,7 @@ function columnPhase(
       requiredAreaMm2: [],
       requiredSideMm: [],
       utilisation: [],
+      steelRatio: [],
     };
     const sizeFor = columnSizer(family, fck, fy, steel, minSide, provided, { alphaCc: b.alphaCc });
     for (let s = 1; s <= N; s++) {
@@ -987,6 +996,7 @@ function columnPhase(
       sizes.requiredAreaMm2.push(size.requiredAreaMm2);
       sizes.requiredSideMm.push(size.requiredSideMm);
       sizes.utilisation.push(size.utilisation);
+      sizes.steelRatio.push(requiredSteelRatio(mat, provided, pu, maxSteel));
     }
     columnRows.push(row);
     colSizes.push(sizes);

@@ -11,8 +11,13 @@ export const CAUTION =
   'Preliminary planning results only. The governing design code and local regulations apply; ' +
   'final analysis, design and sealing of the structure belong to a licensed structural engineer.';
 
-/** How a value is known: a standard, common practice (no published source), recalled from memory, derived, or set for the project. */
-export type SourceKind = 'code' | 'practice' | 'memory' | 'derived' | 'project';
+/**
+ * How a value is known: a standard's clause, a published design handbook's table, common practice
+ * (no published source), recalled from memory, derived, or set for the project. No default limit
+ * cites a handbook table yet; a value taken from one carries 'handbook' and names the table.
+ */
+export const SOURCE_KINDS = ['code', 'handbook', 'practice', 'memory', 'derived', 'project'] as const;
+export type SourceKind = (typeof SOURCE_KINDS)[number];
 
 export interface Limit {
   value: number;

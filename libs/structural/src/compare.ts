@@ -1,5 +1,6 @@
 // Two schemes side by side: the figures that differ and the member types that drive the cost.
 import { analyseScheme, SchemeResult } from './analyse';
+import type { Severity } from './checks';
 import { CAUTION } from './codes';
 import type { Scheme } from './model';
 import type { MemberType } from './quantities';
@@ -16,7 +17,21 @@ export interface SchemeComparison {
   costDrivers: { member: MemberType; a: number; b: number; delta: number }[];
   /** plain sentences naming what drives the difference */
   summary: string[];
+  /** failed checks of each scheme by severity (all zero when the schemes could not be compared) */
+  checkCounts: { a: Record<Severity, number>; b: Record<Severity, number> };
 }
+
+const NO_CHECKS = (): Record<Severity, number> => ({ error: 0, warning: 0, info: 0 });
+
+/** Failed checks of one result, counted by the engine's severities. */
+function failedBySeverity(r: SchemeResult): Record<Severity, number> {
+  const n = NO_CHECKS();
+  for (const c of r.checks) if (c.status === 'fail') n[c.severity]++;
+  return n;
+}
+
+/** Words for each severity in the figures' item names (the screens use their own labels). */
+const SEVERITY_ITEM: Record<Severity, string> = { error: 'errors', warning: 'warnings', info: 'notes' };
 
 const fmt = (v: number, d = 0) => v.toLocaleString('en-GB', { maximumFractionDigits: d, minimumFractionDigits: d });
 
@@ -44,6 +59,7 @@ export function compareResults(ra: SchemeResult, rb: SchemeResult): SchemeCompar
       differences: [],
       costDrivers: [],
       summary: ['Both arguments must be results of analyseScheme.'],
+      checkCounts: { a: NO_CHECKS(), b: NO_CHECKS() },
     };
   const base = {
     caution: CAUTION,
@@ -58,9 +74,11 @@ export function compareResults(ra: SchemeResult, rb: SchemeResult): SchemeCompar
       differences: [],
       costDrivers: [],
       summary: ['One of the schemes has input problems; fix them to compare.'],
+      checkCounts: { a: NO_CHECKS(), b: NO_CHECKS() },
     };
   const row = (item: string, unit: string, a: number, b: number) => ({ item, unit, a, b, delta: b - a });
   const maxCol = (r: SchemeResult) => r.sizes.columns.reduce((m, c) => Math.max(m, c.requiredSideMm[0] ?? 0), 0);
+  const checkCounts = { a: failedBySeverity(ra), b: failedBySeverity(rb) };
   const concrete = (r: SchemeResult, m: MemberType) => r.quantities.rows.find((x) => x.member === m)?.concreteM3 ?? 0;
   const differences = [
     row('columns', 'no.', ra.summary.columns, rb.summary.columns),
@@ -80,11 +98,8 @@ export function compareResults(ra: SchemeResult, rb: SchemeResult): SchemeCompar
       new Set(ra.footings.boundary.map((o) => o.columnId)).size,
       new Set(rb.footings.boundary.map((o) => o.columnId)).size,
     ),
-    row(
-      'failed checks',
-      'no.',
-      ra.checks.filter((c) => c.status === 'fail').length,
-      rb.checks.filter((c) => c.status === 'fail').length,
+    ...(['error', 'warning', 'info'] as const).map((sev) =>
+      row(`failed checks: ${SEVERITY_ITEM[sev]}`, 'no.', checkCounts.a[sev], checkCounts.b[sev]),
     ),
     row('cost', ra.cost.currency, ra.cost.total, rb.cost.total),
   ];
@@ -120,7 +135,7 @@ export function compareResults(ra: SchemeResult, rb: SchemeResult): SchemeCompar
           : '.'),
     );
   }
-  return { ...base, ok: true, differences, costDrivers, summary };
+  return { ...base, ok: true, differences, costDrivers, summary, checkCounts };
 }
 
 /** Analyses and compares two schemes (see compareResults). */

@@ -12,6 +12,7 @@ export {
   columnCapacityKN,
   LIMIT_KEYS,
   EN_ALPHA_CC_DEFAULT,
+  SOURCE_KINDS,
 } from './codes';
 export { StructuralInputError } from './errors';
 export type {

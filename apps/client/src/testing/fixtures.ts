@@ -15,6 +15,7 @@ export function aProjectPage(extra: Partial<ProjectPage> = {}): ProjectPage {
     storeyHeightM: 3,
     floorAreaM2: null,
     designBasis: null,
+    currency: 'EUR',
     archivedAt: null,
     finance: null,
     members: [],

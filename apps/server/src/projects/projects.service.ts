@@ -109,9 +109,16 @@ export async function projectPage(db: Db | Knex.Transaction, caller: Caller, id:
   );
   const basis = projectDesignBasisSchema.safeParse(row.design_basis);
   const archived = row.archived_at !== null;
+  // The unit rates are the firm's own prices, not the client's to see.
+  const designBasis = !basis.success
+    ? null
+    : detail.abilities.seeInternal
+      ? basis.data
+      : { ...basis.data, rates: undefined };
   return {
     ...detail,
-    designBasis: basis.success ? basis.data : null,
+    designBasis,
+    currency: row.currency.trim(),
     archivedAt: row.archived_at ? new Date(row.archived_at).toISOString() : null,
     stages: stages.map((s) => stageOf(s, caller, archived)),
     // An archived project is read-only for everyone until the principal restores it.

@@ -48,6 +48,7 @@ const sourced = (source: string, kind: string) => {
 };
 const KIND_WORDS: Record<string, string> = {
   code: 'design code',
+  handbook: 'handbook table',
   practice: 'common practice',
   memory: 'from memory',
   derived: 'derived',

@@ -103,10 +103,12 @@ export const STARTING_VALUES = {
   outline: { widthM: 20, depthM: 15 },
 } as const;
 
+const NO_RATES = { concretePerM3: 0, steelPerKg: 0, formworkPerM2: 0 } as const;
+
 /**
  * A new scheme from the project's design basis: the basis, storeys and storey height filled in,
- * a rectangular plot outline to redraw, no grid or columns yet, unit rates at zero in the
- * project's currency until the engineer enters them.
+ * a rectangular plot outline to redraw, no grid or columns yet, and the project's unit rates in
+ * its currency (zero for a project that has none yet, until the engineer enters them).
  */
 export function startingDocument(
   project: { storeys: number; storeyHeightM: number; currency: string; designBasis: ProjectDesignBasis },
@@ -124,7 +126,7 @@ export function startingDocument(
       storeys: project.storeys,
       storeyHeightM: project.storeyHeightM,
       beamWidthMm: STARTING_VALUES.beamWidthMm,
-      rates: { currency: project.currency, concretePerM3: 0, steelPerKg: 0, formworkPerM2: 0 },
+      rates: { currency: project.currency, ...(project.designBasis.rates ?? NO_RATES) },
     },
     boundary: {
       vertices: [

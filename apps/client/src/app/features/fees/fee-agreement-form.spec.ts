@@ -41,6 +41,7 @@ describe('FeeAgreementForm', () => {
       storeyHeightM: 3,
       floorAreaM2: null,
       designBasis: null,
+      currency: 'EUR',
       archivedAt: null,
       finance: { estimatedCost: null, currency: 'EUR' },
       members: [CONTACT],

@@ -10,6 +10,7 @@ export const SEVERITY_LABELS: Record<CheckSeverity, string> = {
 
 export const SOURCE_KIND_LABELS: Record<SourceKindValue, string> = {
   code: 'code clause',
+  handbook: 'handbook table',
   practice: 'common practice',
   memory: 'from memory',
   derived: 'derived',

@@ -5,7 +5,7 @@ import { TestBed } from '@angular/core/testing';
 import { provideRouter, withComponentInputBinding } from '@angular/router';
 import { RouterTestingHarness } from '@angular/router/testing';
 import { schemeDetailSchema, type SchemeDetail } from '@trabeate/contracts';
-import { demoScheme, demoSchemeVariant, type Scheme } from '@trabeate/structural';
+import { analyseScheme, demoScheme, demoSchemeVariant, type Scheme } from '@trabeate/structural';
 import { ComparePage } from './compare-page';
 
 // The first test compiles the page's templates, which takes seconds on a busy shared machine.
@@ -80,6 +80,41 @@ describe('ComparePage', () => {
     const cost = rows.find((r) => r[0] === 'cost')!;
     expect(cost[1]).toMatch(/^₹[\d,]+$/);
     expect(el().querySelector('[data-testid="caution"]')?.textContent).toMatch(/licensed structural engineer/);
+  });
+
+  it("counts each scheme's failed checks by the engine's severities, not as one number", async () => {
+    await open(`/projects/${PROJECT}/schemes/compare?a=${A}&b=${B}`);
+    backend.expectOne(`/api/projects/${PROJECT}/schemes/${A}`).flush(detail(A, 'Full grid', demoScheme()));
+    backend.expectOne(`/api/projects/${PROJECT}/schemes/${B}`).flush(detail(B, 'Without B3', demoSchemeVariant()));
+    await settle();
+    await settle(10);
+    // counted here from the engine's own results, independently of the comparison
+    const count = (doc: Scheme, sev: string) =>
+      analyseScheme(doc).checks.filter((c) => c.status === 'fail' && c.severity === sev).length;
+    const shown = (i: number) => {
+      const dd = el().querySelector(`[data-testid="check-counts-${i}"]`)!;
+      return Object.fromEntries(
+        Array.from(dd.querySelectorAll('[data-severity]')).map((e) => [
+          e.getAttribute('data-severity'),
+          e.textContent?.replace(/\s+/g, ' ').trim(),
+        ]),
+      );
+    };
+    for (const [i, doc] of [demoScheme(), demoSchemeVariant()].entries())
+      expect(shown(i)).toEqual({
+        error: `${count(doc, 'error')} Must fix`,
+        warning: `${count(doc, 'warning')} Worth a look`,
+        info: `${count(doc, 'info')} Note`,
+      });
+    // the variant's point load on the long span is among its failures, so the counts differ
+    expect(shown(1)).not.toEqual(shown(0));
+    const rows = Array.from(el().querySelectorAll('[data-testid="compare-table"] tbody tr')).map(
+      (r) => r.children[0].textContent?.trim() ?? '',
+    );
+    expect(rows).toEqual(
+      expect.arrayContaining(['failed checks: errors', 'failed checks: warnings', 'failed checks: notes']),
+    );
+    expect(rows).not.toContain('failed checks');
   });
 
   it('asks for two schemes when the address names fewer', async () => {

@@ -7,10 +7,12 @@ import { RouterLink } from '@angular/router';
 import { schemeDetailSchema } from '@trabeate/contracts';
 import { CAUTION, type SchemeComparison } from '@trabeate/structural';
 import { errorMessage } from '../../core/auth/api-error';
+import { SEVERITY_LABELS } from './check-labels';
 import type { PlanWorkerPort } from './plan-protocol';
 import { createPlanWorker } from './plan-worker-factory';
 import { PlanView } from './plan-view';
 import { schemeUrl } from './schemes-api';
+import { StackOnPhone } from '../../shared/stacked-table/stack-on-phone';
 
 const quantity = new Intl.NumberFormat('en-GB', { maximumFractionDigits: 1 });
 
@@ -20,7 +22,7 @@ const quantity = new Intl.NumberFormat('en-GB', { maximumFractionDigits: 1 });
  */
 @Component({
   selector: 'tb-compare-page',
-  imports: [MatButton, MatIcon, MatProgressSpinner, PlanView, RouterLink],
+  imports: [MatButton, MatIcon, MatProgressSpinner, PlanView, RouterLink, StackOnPhone],
   templateUrl: './compare-page.html',
   styleUrls: ['../../shared/page/page.scss', './compare-page.scss'],
   changeDetection: ChangeDetectionStrategy.OnPush,
@@ -31,6 +33,9 @@ export class ComparePage {
   readonly b = input<string>('');
 
   protected readonly caution = CAUTION;
+  protected readonly severityLabels = SEVERITY_LABELS;
+  /** the engine's severities, most serious first */
+  protected readonly severities = ['error', 'warning', 'info'] as const;
   // Nothing loads until both are named: one scheme alone has nothing to be compared with.
   private readonly pair = computed(() => (this.a() && this.b() ? [this.a(), this.b()] : null));
   protected readonly first = httpResource(() => this.pairUrl(0), {

@@ -25,6 +25,7 @@ import {
   parseSpacings,
   redo,
   select,
+  setBasis,
   setFootingChoice,
   setGridSpacings,
   snap,
@@ -415,5 +416,23 @@ describe('plan editor model', () => {
     expect(s.past).toHaveLength(4);
     expect(undo(undo(s)).doc.stairs.map((f) => f.id)).toEqual(['ST1', 'ST2']);
     expect(() => schemeSchema.parse(s.doc)).not.toThrow();
+  });
+
+  it('sets the design basis as one undo step, keeps the plan, and takes the same basis again as no step', () => {
+    const a = select(start(), 'A1');
+    const basis = { ...a.doc.basis, concreteMPa: 35, storeys: 5, rates: { ...a.doc.basis.rates, steelPerKg: 1.2 } };
+    const set = setBasis(a, basis);
+    expect(set.doc.basis).toEqual(basis);
+    expect(set.doc.columns).toBe(a.doc.columns);
+    expect(set.selection).toEqual(['A1']);
+    expect(set.past).toHaveLength(1);
+    // the same values in another key order, with an absent optional field spelled out, change nothing
+    const reordered = { ...Object.fromEntries(Object.entries(basis).reverse()), slabThicknessMm: undefined };
+    expect(setBasis(set, reordered as typeof basis)).toBe(set);
+    const back = undo(set);
+    expect(back.doc.basis).toEqual(a.doc.basis);
+    expect(redo(back).doc.basis).toEqual(basis);
+    // a later edit of the plan drops the redo of the basis, as any edit does
+    expect(moveSelection(back, 0.1, 0).future).toEqual([]);
   });
 });

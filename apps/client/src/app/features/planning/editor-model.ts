@@ -573,3 +573,29 @@ export function deleteStair(s: EditorState, id: string): EditorState {
   if (!s.doc.stairs.some((f) => f.id === id)) return s;
   return commit(s, { ...s.doc, stairs: s.doc.stairs.filter((f) => f.id !== id) });
 }
+
+export type DesignBasis = SchemeDocument['basis'];
+
+/** Key order does not matter; absent and undefined optional fields are the same. */
+const sameBasis = (a: DesignBasis, b: DesignBasis): boolean => {
+  const norm = (v: unknown): unknown =>
+    v && typeof v === 'object' && !Array.isArray(v)
+      ? Object.fromEntries(
+          Object.entries(v)
+            .filter(([, x]) => x !== undefined)
+            .sort(([p], [q]) => p.localeCompare(q))
+            .map(([k, x]) => [k, norm(x)]),
+        )
+      : v;
+  return JSON.stringify(norm(a)) === JSON.stringify(norm(b));
+};
+
+/**
+ * Replaces the scheme's design basis (code family, materials, loads, soil, storeys, unit rates) as
+ * one undo step; the same basis again is no step. Checked against the contract by the caller
+ * (the basis panel) before it gets here; the engine re-runs on the new document like any edit.
+ */
+export function setBasis(s: EditorState, basis: DesignBasis): EditorState {
+  if (sameBasis(s.doc.basis, basis)) return s;
+  return commit(s, { ...s.doc, basis });
+}

@@ -238,6 +238,24 @@ describe('PlanningPage', () => {
     expect(text('inspector')).toContain('from 100 to 3000');
   });
 
+  it("edits the scheme's basis in its panel: Apply is one edit the engine re-checks, and Ctrl+Z takes it back", async () => {
+    await open((req) => req.flush(detail()));
+    expect(text('scheme-lead')).toMatch(/7 storeys of\s+3 m/);
+    const checksBefore = el().querySelector('[data-testid="checks-pane"]')!.getAttribute('data-posted-seq');
+    await type('basis-storeys', '3');
+    await type('basis-storeyHeightM', '3.4');
+    button('basis-apply').click();
+    await settle(10);
+    expect(text('scheme-lead')).toMatch(/3 storeys of\s+3\.4 m/);
+    // the engine ran again on the new document
+    expect(el().querySelector('[data-testid="checks-pane"]')!.getAttribute('data-posted-seq')).not.toBe(checksBefore);
+    const editor = el().querySelector<HTMLElement>('[data-testid="plan-editor"]')!;
+    editor.dispatchEvent(new KeyboardEvent('keydown', { key: 'z', ctrlKey: true, bubbles: true, cancelable: true }));
+    await settle(10);
+    expect(text('scheme-lead')).toMatch(/7 storeys of\s+3 m/);
+    expect(el().querySelector<HTMLInputElement>('[data-testid="basis-storeys"]')!.value).toBe('7');
+  });
+
   it('works from the keyboard: a picked column moves by the step, Delete removes it, Ctrl+Z brings it back', async () => {
     await open((req) => req.flush(detail()));
     pointer(column('A1'), 'pointerdown', 0.2, 0.2);

@@ -35,6 +35,7 @@ import {
   moveSelection,
   parseSpacings,
   select,
+  setBasis,
   setFootingChoice,
   setGridSpacings,
   spacingsOf,
@@ -57,6 +58,7 @@ import {
   deleteStair,
   updateStair,
   type ColumnPatch,
+  type DesignBasis,
   type EditorState,
   type PlanPart,
 } from './editor-model';
@@ -66,6 +68,7 @@ import { PlanView, type ColumnDrop, type ColumnPick, type PlanTap, type VertexDr
 import { ResultsPanel } from './results-panel';
 import { SchemesApi, schemeUrl } from './schemes-api';
 import { SchemeOutputs } from './scheme-outputs';
+import { SchemeBasisPanel } from './scheme-basis-panel';
 
 type SeverityFilter = CheckSeverity | 'all';
 
@@ -98,6 +101,7 @@ export const KEY_STEP_M = 0.05;
     SchemeOutputs,
     SecondaryBeamsPanel,
     StairsPanel,
+    SchemeBasisPanel,
   ],
   templateUrl: './planning-page.html',
   styleUrls: ['../../shared/page/page.scss', './planning-page.scss'],
@@ -482,6 +486,12 @@ export class PlanningPage {
     queueMicrotask(() =>
       document.querySelector('[data-testid="footing-site-detail"]')?.scrollIntoView?.({ block: 'nearest' }),
     );
+  }
+
+  /** The basis panel's Apply: one undoable edit, after which the engine re-runs as on any edit. */
+  protected applyBasis(basis: DesignBasis): void {
+    const e = this.editor();
+    if (e) this.apply(setBasis(e, basis));
   }
 
   protected recordFooting(choice: FootingChoice): void {

@@ -154,11 +154,22 @@ describe('ResultsPanel', () => {
       n(a1.tributaryKN[0]),
     ]);
     expect(row('A1')[6]).toBe('230 × 500');
-    expect(row('A1')[10]).toContain(result.sizes.columns[0].utilisation[0] <= 1 ? 'Within' : 'Over');
+    const a1Sizes = result.sizes.columns.find((c) => c.columnId === 'A1')!;
+    const pct = (v: number) =>
+      (v * 100).toLocaleString('en-GB', { minimumFractionDigits: 2, maximumFractionDigits: 2 });
+    // the steel ratio has a column of its own, as a percentage with figures aligned
+    expect(all('[data-testid="column-schedule"] th')[10].textContent).toContain('Steel needed (%)');
+    expect(row('A1')[10]).toBe(pct(a1Sizes.steelRatio[0]));
+    const steelCell = all('[data-testid="column-schedule"] tbody tr')
+      .find((tr) => tr.querySelector('td')?.textContent?.trim() === 'A1')!
+      .querySelectorAll('td')[10];
+    expect(steelCell.classList).toContain('tb-figure');
+    expect(row('A1')[11]).toContain(a1Sizes.utilisation[0] <= 1 ? 'Within' : 'Over');
 
     pick('storey-select', '3');
     await settle();
     expect(row('A1')[3]).toBe(n(a1.factoredKN[2]));
+    expect(row('A1')[10]).toBe(pct(a1Sizes.steelRatio[2]));
 
     // sorting by factored load, then again for the other direction
     one('[data-testid="sort-factored"]').click();

@@ -169,6 +169,7 @@ export class ResultsPanel {
     { key: 'capacity', label: 'Capacity (kN)', numeric: true },
     { key: 'required', label: 'Square needed (mm)', numeric: true },
     { key: 'use', label: 'Load / capacity (%)', numeric: true },
+    { key: 'steel', label: 'Steel needed (%)', numeric: true, digits: 2 },
     { key: 'state', label: 'State', states: WITHIN },
   ];
   protected readonly columnRows = computed<ScheduleRow[]>(() => {
@@ -192,6 +193,7 @@ export class ResultsPanel {
         capacity: s?.providedCapacityKN ?? null,
         required: s?.requiredSideMm[k] ?? null,
         use: u * 100,
+        steel: s?.steelRatio[k] === undefined ? null : s.steelRatio[k] * 100,
         state: u <= 1 ? 'ok' : 'over',
       };
     });

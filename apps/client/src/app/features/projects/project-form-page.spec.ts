@@ -53,6 +53,9 @@ describe('ProjectFormPage', () => {
     await type('reference', 'QTH-2026/04');
     await type('name', 'Ferrow Lane apartments');
     fixture.componentInstance['form'].controls.clientOrganisationId.setValue(ORG.id);
+    await type('concretePerM3', '140');
+    await type('steelPerKg', '1.3');
+    await type('formworkPerM2', '30');
     await fixture.whenStable();
   }
 
@@ -80,6 +83,19 @@ describe('ProjectFormPage', () => {
     expect(errorBeside('storeys')).toBe('Storeys must be a whole number.');
     await type('currency', 'eur');
     expect(errorBeside('currency')).toBe('A three-letter currency code such as EUR.');
+  });
+
+  it('asks for unit rates in the project’s currency, none below zero, and none made up', async () => {
+    await open();
+    expect(input('concretePerM3').value).toBe('');
+    await type('steelPerKg', '-1');
+    expect(errorBeside('steelPerKg')).toBe('Reinforcement rate must be at least 0 EUR/kg.');
+    await type('currency', 'GBP');
+    await type('formworkPerM2', '');
+    expect(errorBeside('formworkPerM2')).toBe('Formwork rate is required.');
+    await type('steelPerKg', '1.1');
+    expect(errorBeside('steelPerKg')).toBeUndefined();
+    expect(input('steelPerKg').closest('mat-form-field')?.textContent).toContain('GBP/kg');
   });
 
   it('sends nothing while the form is invalid, and says what needs attention', async () => {
@@ -116,7 +132,13 @@ describe('ProjectFormPage', () => {
       storeys: 4,
       floorAreaM2: null,
       currency: 'EUR',
-      designBasis: { codeFamily: 'EN1992', concreteMPa: 30, steelMPa: 500, bearingPressureKPa: 150 },
+      designBasis: {
+        codeFamily: 'EN1992',
+        concreteMPa: 30,
+        steelMPa: 500,
+        bearingPressureKPa: 150,
+        rates: { concretePerM3: 140, steelPerKg: 1.3, formworkPerM2: 30 },
+      },
     });
     reply(req, projectPageSchema, aProjectPage({ id: PROJECT_ID, reference: 'QTH-2026/04' }), {
       status: 201,
@@ -166,6 +188,7 @@ describe('ProjectFormPage', () => {
         superimposedDeadKPa: 1,
         bearingPressureKPa: 200,
         foundingDepthM: 2,
+        rates: { concretePerM3: 120, steelPerKg: 0.95, formworkPerM2: 18 },
       },
     };
     await open(PROJECT_ID, project);
@@ -179,7 +202,7 @@ describe('ProjectFormPage', () => {
     expect(req.request.body).toMatchObject({
       name: 'Block one, revised',
       currency: 'GBP',
-      designBasis: { codeFamily: 'IS456', steelMPa: 415 },
+      designBasis: { codeFamily: 'IS456', steelMPa: 415, rates: { steelPerKg: 0.95 } },
     });
     reply(req, projectPageSchema, aProjectPage({ ...project, id: PROJECT_ID, name: 'Block one, revised' }));
     await settle();

@@ -23,6 +23,8 @@ const notBlank = (c: AbstractControl) =>
 // The limits mirror projectWriteSchema in libs/contracts (the server checks the same again).
 const REFERENCE = /^[A-Za-z0-9][A-Za-z0-9._/-]*$/;
 const CURRENCY = /^[A-Z]{3}$/;
+/** A unit rate: the bounds of projectUnitRatesSchema. */
+const RATE = [Validators.required, Validators.min(0), Validators.max(1e9)];
 
 /** Create or edit a project (principal). With `projectId` it edits; without, it creates. */
 @Component({
@@ -95,6 +97,12 @@ export class ProjectFormPage {
       superimposedDeadKPa: [1.5, [Validators.required, Validators.min(0), Validators.max(50)]],
       bearingPressureKPa: [150, [Validators.required, positive, Validators.max(5000)]],
       foundingDepthM: [1.5, [Validators.required, Validators.min(0), Validators.max(30)]],
+      // No starting rates: prices are the firm's own, and a made-up one would price every scheme.
+      rates: this.fb.group({
+        concretePerM3: this.fb.control<number | null>(null, RATE),
+        steelPerKg: this.fb.control<number | null>(null, RATE),
+        formworkPerM2: this.fb.control<number | null>(null, RATE),
+      }),
     }),
   });
 
@@ -124,6 +132,12 @@ export class ProjectFormPage {
     });
   }
 
+  /** The currency the rates are in, as typed, for their suffixes. */
+  protected rateUnit(per: string): string {
+    const c = this.form.controls.currency.value.trim();
+    return `${CURRENCY.test(c) ? c : '…'}/${per}`;
+  }
+
   protected err(path: string, label: string, unit = ''): string {
     return fieldErrorText(this.form.get(path), label, unit);
   }
@@ -143,7 +157,17 @@ export class ProjectFormPage {
     }
     this.saving.set(true);
     const v = this.form.getRawValue();
-    const body: ProjectCreate = { ...v, siteAddress: v.siteAddress.trim(), buildingUse: v.buildingUse.trim() };
+    const { concretePerM3, steelPerKg, formworkPerM2 } = v.designBasis.rates;
+    const body: ProjectCreate = {
+      ...v,
+      siteAddress: v.siteAddress.trim(),
+      buildingUse: v.buildingUse.trim(),
+      // required above, so none is null once the form is valid
+      designBasis: {
+        ...v.designBasis,
+        rates: { concretePerM3: concretePerM3 ?? 0, steelPerKg: steelPerKg ?? 0, formworkPerM2: formworkPerM2 ?? 0 },
+      },
+    };
     try {
       const id = this.projectId();
       if (id) {

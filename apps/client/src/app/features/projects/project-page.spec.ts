@@ -57,7 +57,9 @@ function project(manage: boolean, archivedAt: string | null = null): ProjectPage
       superimposedDeadKPa: 1.5,
       bearingPressureKPa: 150,
       foundingDepthM: 1.5,
+      rates: { concretePerM3: 145, steelPerKg: 1.35, formworkPerM2: 32 },
     },
+    currency: 'EUR',
     archivedAt,
     finance: null,
     members: [{ ...ENGINEER, role: 'engineer' }],
@@ -155,6 +157,20 @@ describe('ProjectPage', () => {
     answerPanel('column_layout');
     await settle();
     expect(el().querySelector('[data-testid="waiting-marker"]')).toBeNull();
+  });
+
+  it("shows the project's unit rates in its currency, and says when there are none", async () => {
+    await open(`/projects/${ID}`, project(true));
+    // en-GB, the firm's locale (Intl currency format)
+    expect(el().querySelector('[data-testid="unit-rates"]')?.textContent?.replace(/\s+/g, ' ').trim()).toBe(
+      'concrete €145.00/m³ · reinforcement €1.35/kg · formwork €32.00/m²',
+    );
+  });
+
+  it('says when a project has no unit rates yet', async () => {
+    const p = project(true);
+    await open(`/projects/${ID}`, { ...p, designBasis: { ...p.designBasis!, rates: undefined } });
+    expect(el().querySelector('[data-testid="unit-rates"]')?.textContent).toContain('Not set');
   });
 
   it('writes due dates in the one app format', async () => {

@@ -28,7 +28,7 @@ import { ActivityLog } from './activity-log';
 import { STAGE_ORDER, STATE_LABELS, STATE_MARKERS, codeFamilyLabel } from './project-labels';
 import { ProjectsApi, projectUrl } from './projects-api';
 import { StagePanel } from './stages/stage-panel';
-import { DayPipe, WaitedPipe } from '../../shared/dates/app-dates';
+import { DayPipe, FIRM_DATES, WaitedPipe } from '../../shared/dates/app-dates';
 import { StateMarker } from '../../shared/state-marker/state-marker';
 
 /** One project: its facts, its six stages as a row of bays, the chosen stage's panel, and the log. */
@@ -62,6 +62,7 @@ export class ProjectPage {
   private readonly notice = inject(Notice);
   private readonly session = inject(Session);
   private readonly router = inject(Router);
+  private readonly firmDates = inject(FIRM_DATES);
   /** Schemes are the firm's working files: the link shows for its staff only. */
   protected readonly firmStaff = computed(() => {
     const role = this.session.role();
@@ -98,6 +99,15 @@ export class ProjectPage {
   protected readonly stateLabels = STATE_LABELS;
   protected readonly markers = STATE_MARKERS;
   protected readonly familyLabel = codeFamilyLabel;
+
+  /** A unit rate in the project's currency, to the cent (rates per kg are small). */
+  protected rate(value: number, currency: string): string {
+    return new Intl.NumberFormat(this.firmDates().dateLocale, {
+      style: 'currency',
+      currency,
+      minimumFractionDigits: 2,
+    }).format(value);
+  }
   protected readonly busy = signal(false);
   private readonly activity = viewChild(ActivityLog);
 
