@@ -149,7 +149,8 @@ interface Pan {
         </g>
       }
       @if (dimensions().length) {
-        <g class="dims" data-testid="dimensions">
+        <!-- Labels only: a press on a dimension goes through to the column under it. -->
+        <g class="dims" data-testid="dimensions" pointer-events="none">
           @for (dm of dimensions(); track dm.key) {
             <line [attr.x1]="X(dm.a.x)" [attr.y1]="Y(dm.a.y)" [attr.x2]="X(dm.b.x)" [attr.y2]="Y(dm.b.y)" />
             <text
