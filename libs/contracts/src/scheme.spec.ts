@@ -110,6 +110,27 @@ describe('scheme contract', () => {
       expect(schemeSchema.safeParse(bad).error?.issues.map((i) => i.path)).toContainEqual(path);
       expect(validateScheme(bad).map((p) => p.path)).toContain(at);
     });
+    // [path, the smallest value the engine accepts, a value below it]
+    const floors: [(string | number)[], number, number][] = [
+      [['columns', 0, 'widthMm'], 100, 99],
+      [['columns', 0, 'depthMm'], 100, 99],
+      [['secondaryBeams', 0, 'widthMm'], 100, 99],
+      [['secondaryBeams', 0, 'depthMm'], 100, 99],
+      [['stairs', 0, 'riserMm'], 50, 49],
+      [['stairs', 0, 'treadMm'], 100, 99],
+      [['stairs', 0, 'widthM'], 0.5, 0.49],
+    ];
+    it.each(floors)('%j: the engine’s smallest value is accepted, one below is refused there', (path, min, below) => {
+      const at = enginePath(path);
+      const ok = withValue(path, min);
+      expect(
+        (schemeSchema.safeParse(ok).error?.issues ?? []).filter((i) => enginePath(i.path as never) === at),
+      ).toEqual([]);
+      expect(validateScheme(ok).filter((p) => p.path === at)).toEqual([]);
+      const bad = withValue(path, below);
+      expect(schemeSchema.safeParse(bad).error?.issues.map((i) => i.path)).toContainEqual(path);
+      expect(validateScheme(bad).map((p) => p.path)).toContain(at);
+    });
     it('has the engine’s limits on loads, coordinates and counts', () => {
       expect(SCHEME_DOCUMENT_LIMITS).toEqual(SCHEME_LIMITS);
     });

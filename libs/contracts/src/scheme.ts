@@ -89,8 +89,9 @@ export const columnSchema = z.object({
   label: z.string().min(1),
   x: coord,
   y: coord,
-  widthMm: positive.max(5000),
-  depthMm: positive.max(5000),
+  // the engine's smallest section side (libs/structural validateScheme): 100 mm
+  widthMm: z.number().min(100).max(5000),
+  depthMm: z.number().min(100).max(5000),
   orientationDeg: z.union([z.literal(0), z.literal(90)]),
 });
 
@@ -98,17 +99,18 @@ export const secondaryBeamSchema = z.object({
   id: z.string().min(1),
   start: pointSchema,
   end: pointSchema,
-  widthMm: positive.max(3000).optional(),
-  depthMm: positive.max(5000).optional(),
+  widthMm: z.number().min(100).max(3000).optional(),
+  depthMm: z.number().min(100).max(5000).optional(),
   carriesWall: z.boolean().optional(),
 });
 
 export const stairFlightSchema = z.object({
   id: z.string().min(1),
-  riserMm: positive.max(400),
-  treadMm: positive.max(1000),
+  // the engine's input bounds (validateScheme), so a form held to these never sends what it refuses
+  riserMm: z.number().min(50).max(400),
+  treadMm: z.number().min(100).max(1000),
   risers: z.number().int().min(1).max(100),
-  widthM: positive.max(20),
+  widthM: z.number().min(0.5).max(20),
   use: z.enum(['residential', 'other']),
 });
 

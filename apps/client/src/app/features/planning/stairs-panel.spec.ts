@@ -42,7 +42,8 @@ describe('StairsPanel', () => {
     type('stair-riser', '450');
     expect(q('stair-riser-error')?.textContent).toContain('The riser can be at most 400 mm.');
     type('stair-riser', '0');
-    expect(q('stair-riser-error')?.textContent).toContain('The riser must be more than 0 mm.');
+    // the engine's smallest riser (libs/structural validateScheme), carried by the contract
+    expect(q('stair-riser-error')?.textContent).toContain('The riser must be at least 50 mm.');
     type('stair-risers', '9.5');
     expect(q('stair-risers-error')?.textContent).toContain('The number of risers must be a whole number.');
     type('stair-risers', '');
