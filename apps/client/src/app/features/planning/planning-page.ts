@@ -76,6 +76,14 @@ type SeverityFilter = CheckSeverity | 'all';
 export const KEY_STEP_M = 0.05;
 
 /**
+ * A performance mark for bench:editor's drop → checks phases: posted to the engine's worker, its
+ * answer arrived (where the page has the User Timing API; jsdom has not). Negligible cost.
+ */
+function phaseMark(name: string, seq: number): void {
+  if (typeof performance.mark === 'function') performance.mark(name, { detail: seq });
+}
+
+/**
  * One scheme on its plan, with the engine's checks beside it, and the plan editor. The engine runs
  * in a Web Worker on every edit; the server runs it again on save and its stored results remain
  * the record.
@@ -243,6 +251,7 @@ export class PlanningPage {
 
   constructor() {
     this.worker.onReply = (reply) => {
+      phaseMark('tb-engine-replied', reply.seq);
       this.busy = false;
       this.sendWaiting();
       if (reply.seq !== this.seq) return; // an answer to an older edit
@@ -278,6 +287,7 @@ export class PlanningPage {
     const request = this.waiting;
     this.waiting = null;
     this.busy = true;
+    phaseMark('tb-engine-posted', request.seq);
     this.worker.post(request);
   }
 
