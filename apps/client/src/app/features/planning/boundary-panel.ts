@@ -4,8 +4,8 @@ import { MatCheckbox } from '@angular/material/checkbox';
 import { MatFormField, MatLabel } from '@angular/material/form-field';
 import { MatIcon } from '@angular/material/icon';
 import { MatInput } from '@angular/material/input';
-import { SCHEME_DOCUMENT_LIMITS, type SchemeDocument } from '@trabeate/contracts';
-import { MIN_BOUNDARY_VERTICES } from './editor-model';
+import type { SchemeDocument } from '@trabeate/contracts';
+import { MIN_BOUNDARY_VERTICES, PLAN_COORD_M, typedCoordinate } from './editor-model';
 import type { VertexDrop } from './plan-view';
 
 /**
@@ -174,10 +174,9 @@ export class BoundaryPanel {
 
   /** a typed coordinate: a number within the scheme's plan limits, else a message and no change */
   protected typed(index: number, axis: 'x' | 'y', text: string): void {
-    const v = Number(text);
-    const lim = SCHEME_DOCUMENT_LIMITS.coordM;
-    if (text.trim() === '' || !Number.isFinite(v) || Math.abs(v) > lim) {
-      this.error.set(`A corner coordinate is a number of metres between −${lim} and ${lim}.`);
+    const v = typedCoordinate(text);
+    if (v === null) {
+      this.error.set(`A corner coordinate is a number of metres between −${PLAN_COORD_M} and ${PLAN_COORD_M}.`);
       return;
     }
     this.error.set(null);

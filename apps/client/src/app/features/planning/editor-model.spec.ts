@@ -2,6 +2,10 @@ import { schemeSchema } from '@trabeate/contracts';
 import { demoSchemeVariant } from '@trabeate/structural';
 import {
   HISTORY_LIMIT,
+  PLAN_COORD_M,
+  SECTION_MM,
+  typedCoordinate,
+  typedNumber,
   addColumn,
   clearFootingChoice,
   cycle,
@@ -434,5 +438,24 @@ describe('plan editor model', () => {
     expect(redo(back).doc.basis).toEqual(basis);
     // a later edit of the plan drops the redo of the basis, as any edit does
     expect(moveSelection(back, 0.1, 0).future).toEqual([]);
+  });
+});
+
+describe('typed values', () => {
+  it('reads a typed number within its bounds, and nothing else, blank included', () => {
+    expect(typedNumber('4.25', 0, 10)).toBe(4.25);
+    expect(typedNumber(' 10 ', 0, 10)).toBe(10);
+    expect([
+      typedNumber('', 0, 10),
+      typedNumber('  ', 0, 10),
+      typedNumber('4,2', 0, 10),
+      typedNumber('11', 0, 10),
+    ]).toEqual([null, null, null, null]);
+  });
+
+  it('holds coordinates and section sides to the contract’s own limits (so the engine never refuses them)', () => {
+    expect(SECTION_MM).toEqual({ min: 100, max: 5000 });
+    expect(typedCoordinate(String(PLAN_COORD_M))).toBe(PLAN_COORD_M);
+    expect(typedCoordinate(String(-PLAN_COORD_M - 1))).toBeNull();
   });
 });

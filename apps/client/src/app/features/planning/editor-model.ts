@@ -1,4 +1,4 @@
-import type { SchemeDocument } from '@trabeate/contracts';
+import { SCHEME_DOCUMENT_LIMITS, columnSchema, type SchemeDocument } from '@trabeate/contracts';
 
 // The plan editor's model: pure operations on a scheme document, a bounded undo history and the
 // keyboard commands. No Angular here, so every rule is tested directly; the editor component
@@ -341,6 +341,22 @@ export function parseSpacings(text: string): { spacings: number[] } | { error: s
   }
   return { spacings };
 }
+
+/** A typed number between `min` and `max` (inclusive), or null for anything else (blank included). */
+export function typedNumber(text: string, min: number, max: number): number | null {
+  const v = Number(text);
+  return text.trim() === '' || !Number.isFinite(v) || v < min || v > max ? null : v;
+}
+
+/** The contract's plan coordinate bound (m) and section sides (mm): what a typed value must meet. */
+export const PLAN_COORD_M = SCHEME_DOCUMENT_LIMITS.coordM;
+export const SECTION_MM = {
+  min: columnSchema.shape.widthMm.minValue ?? 0,
+  max: columnSchema.shape.widthMm.maxValue ?? 0,
+};
+
+/** A typed plan coordinate in metres, within the contract's plan limits, or null. */
+export const typedCoordinate = (text: string): number | null => typedNumber(text, -PLAN_COORD_M, PLAN_COORD_M);
 
 /** The spacings between consecutive grid lines on one axis, in plan order. */
 export function spacingsOf(doc: SchemeDocument, axis: 'x' | 'y'): number[] {

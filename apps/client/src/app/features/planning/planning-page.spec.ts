@@ -235,7 +235,8 @@ describe('PlanningPage', () => {
     // dimensions to its neighbours along its row and line: B2 is 4 m below (grid 2 at y 4.2)
     expect(all('[data-testid="dimension"]').map((d) => d.textContent?.trim())).toContain('4.00 m');
     await type('col-width', '50');
-    expect(text('inspector')).toContain('from 100 to 3000');
+    // the contract's section bounds, which are the engine's (columns 100 to 5000 mm)
+    expect(text('inspector')).toContain('from 100 to 5000');
   });
 
   it("edits the scheme's basis in its panel: Apply is one edit the engine re-checks, and Ctrl+Z takes it back", async () => {

@@ -57,6 +57,10 @@ import {
   addStair,
   deleteStair,
   updateStair,
+  PLAN_COORD_M,
+  SECTION_MM,
+  typedCoordinate,
+  typedNumber,
   type ColumnPatch,
   type DesignBasis,
   type EditorState,
@@ -476,13 +480,13 @@ export class PlanningPage {
   protected setField(id: string, field: keyof ColumnPatch, text: string): void {
     const e = this.editor();
     if (!e) return;
-    const v = Number(text);
-    const positive = field === 'widthMm' || field === 'depthMm';
-    if (text.trim() === '' || !Number.isFinite(v) || (positive && (v < 100 || v > 3000))) {
+    const section = field === 'widthMm' || field === 'depthMm';
+    const v = section ? typedNumber(text, SECTION_MM.min, SECTION_MM.max) : typedCoordinate(text);
+    if (v === null) {
       this.fieldError.set(
-        positive
-          ? 'A section side is a number of millimetres from 100 to 3000.'
-          : 'A coordinate is a number of metres.',
+        section
+          ? `A section side is a number of millimetres from ${SECTION_MM.min} to ${SECTION_MM.max}.`
+          : `A coordinate is a number of metres between −${PLAN_COORD_M} and ${PLAN_COORD_M}.`,
       );
       return;
     }

@@ -5,8 +5,8 @@ import { MatFormField, MatLabel } from '@angular/material/form-field';
 import { MatIcon } from '@angular/material/icon';
 import { MatInput } from '@angular/material/input';
 import { MatSelect } from '@angular/material/select';
-import { SCHEME_DOCUMENT_LIMITS, type SchemeDocument } from '@trabeate/contracts';
-import { SECONDARY_MIN_M } from './editor-model';
+import type { SchemeDocument } from '@trabeate/contracts';
+import { PLAN_COORD_M, SECONDARY_MIN_M, typedCoordinate } from './editor-model';
 
 type Pt = { x: number; y: number };
 /** A secondary beam as typed: the axis it runs along, the line it sits on, and where it runs from and to. */
@@ -248,12 +248,9 @@ export class SecondaryBeamsPanel {
   }
 
   private number(text: string): number | null {
-    const v = Number(text);
-    const lim = SCHEME_DOCUMENT_LIMITS.coordM;
-    if (text.trim() === '' || !Number.isFinite(v) || Math.abs(v) > lim) {
-      this.error.set(`A beam coordinate is a number of metres between −${lim} and ${lim}.`);
-      return null;
-    }
+    const v = typedCoordinate(text);
+    if (v === null)
+      this.error.set(`A beam coordinate is a number of metres between −${PLAN_COORD_M} and ${PLAN_COORD_M}.`);
     return v;
   }
 
