@@ -1,5 +1,5 @@
 import { HttpClient, HttpErrorResponse, httpResource } from '@angular/common/http';
-import { ChangeDetectionStrategy, Component, computed, effect, inject, signal } from '@angular/core';
+import { ChangeDetectionStrategy, Component, computed, inject, signal } from '@angular/core';
 import { toSignal } from '@angular/core/rxjs-interop';
 import { NonNullableFormBuilder, ReactiveFormsModule, Validators, type AbstractControl } from '@angular/forms';
 import { MatButton } from '@angular/material/button';
@@ -14,6 +14,7 @@ import { Session } from '../../core/auth/session';
 import { Notice } from '../../core/notice';
 import { applyServerErrors, asYouType, fieldErrorText } from '../../shared/forms/field-errors';
 import { fieldCountText, formErrorFocus } from '../../shared/forms/form-error-focus';
+import { fillOnce } from '../../shared/forms/fill-once';
 
 /** The same rules the API applies (libs/dates), so the form says so while the principal types. */
 const localeRule = (c: AbstractControl) =>
@@ -167,13 +168,7 @@ export class FirmSettingsPage {
   protected readonly loadError = computed(() => errorMessage(this.settings.error()));
 
   constructor() {
-    // Fill the form once from what is stored; later reloads do not overwrite what is being typed.
-    let filled = false;
-    effect(() => {
-      if (filled || !this.settings.hasValue()) return;
-      filled = true;
-      this.form.setValue(this.settings.value());
-    });
+    fillOnce(this.settings, (stored) => this.form.setValue(stored));
   }
 
   async save(): Promise<void> {

@@ -1,5 +1,5 @@
 import { HttpErrorResponse, httpResource } from '@angular/common/http';
-import { ChangeDetectionStrategy, Component, computed, effect, inject, input, signal } from '@angular/core';
+import { ChangeDetectionStrategy, Component, computed, inject, input, signal } from '@angular/core';
 import { AbstractControl, NonNullableFormBuilder, ReactiveFormsModule, Validators } from '@angular/forms';
 import { MatButton } from '@angular/material/button';
 import { ErrorStateMatcher, MatOption } from '@angular/material/core';
@@ -16,6 +16,7 @@ import { asYouType, fieldErrorText, integer, patternWithHint, positive } from '.
 import { CODE_FAMILIES, CodeFamily } from './project-labels';
 import { ProjectsApi, projectUrl } from './projects-api';
 import { fieldCountText, formErrorFocus } from '../../shared/forms/form-error-focus';
+import { fillOnce } from '../../shared/forms/fill-once';
 
 const notBlank = (c: AbstractControl) =>
   typeof c.value === 'string' && c.value && !c.value.trim() ? { whitespace: true } : null;
@@ -111,11 +112,7 @@ export class ProjectFormPage {
 
   constructor() {
     // Fill the form once when editing; later reloads must not overwrite what the user typed.
-    let filled = false;
-    effect(() => {
-      if (filled || !this.existing.hasValue()) return;
-      const p = this.existing.value();
-      filled = true;
+    fillOnce(this.existing, (p) =>
       this.form.reset({
         reference: p.reference,
         name: p.name,
@@ -128,8 +125,8 @@ export class ProjectFormPage {
         estimatedCost: p.finance?.estimatedCost ?? null,
         currency: p.finance?.currency ?? 'EUR',
         ...(p.designBasis ? { designBasis: p.designBasis } : {}),
-      });
-    });
+      }),
+    );
   }
 
   /** The currency the rates are in, as typed, for their suffixes. */
