@@ -101,6 +101,9 @@ describe('PlanningPage', () => {
     const span = checks.find((c) => c.textContent?.includes('continuous span 8.4 m'));
     expect(span).toBeDefined();
     expect(all('[data-testid="marker-beam.span"]')).toHaveLength(1);
+    // the summary counts in words that agree with their numbers ("1 note", never "1 notes")
+    expect(text('check-summary')).toMatch(/\b1 note\b(?!s)|\b\d+ notes\b/);
+    expect(text('check-summary')).not.toMatch(/\b1 (notes|rules)\b/);
     // no marker hides another: the span and the column spacing under it share a spot on the plan
     const spots = all('.marker').map((m) => m.getAttribute('transform'));
     expect(new Set(spots).size).toBe(spots.length);
