@@ -24,10 +24,11 @@ import {
   Limits,
   resolveLimits,
 } from './codes';
-import { ArrangementCache, envelopeParts, loadPart, LoadPart, MemberEnvelope } from './envelope';
+import { ArrangementCache, BeamEnvelope, envelopeParts, loadPart, LoadPart, MemberEnvelope } from './envelope';
 import { isolatedFooting, IsolatedFooting, roundUp } from './footings';
 import { BeamLine, columnPlan, deriveLayout, Layout, SpanKind } from './layout';
-import { levelLoads, LevelLoads, PanelLoad, SecondaryLoad, slabShapes } from './loads';
+import { levelLoads, LevelLoads, PanelLoad, SecondaryLoad, SlabShapes, slabShapes } from './loads';
+import type { EngineMemo } from './memo';
 import type { CodeFamily, Problem, Scheme } from './model';
 import { costOf, Cost, Quantities, QuantityTally } from './quantities';
 import {
@@ -183,11 +184,12 @@ function tributaries(layout: Layout): Map<string, { area: number; lengths: { lin
  * Analyses a scheme. Units: plan m, sections mm, loads kN, kN/m, kPa, moments kN·m, deflections mm.
  * Invalid input gives ok = false and the problems; the result always carries the caution.
  */
-export function analyseScheme(scheme: Scheme): SchemeResult {
+export function analyseScheme(scheme: Scheme, opts: { memo?: EngineMemo } = {}): SchemeResult {
   const problems = validateScheme(scheme);
   if (problems.length) return emptyResult(scheme, problems);
+  opts.memo?.begin();
   try {
-    return analyseValid(scheme);
+    return analyseValid(scheme, opts.memo);
   } catch (e) {
     // a helper refusing a derived figure (a span or a load beyond its range) is the scheme's
     // problem, not a crash; anything else is a bug and propagates
@@ -201,6 +203,8 @@ export function analyseScheme(scheme: Scheme): SchemeResult {
         })),
       );
     throw e;
+  } finally {
+    opts.memo?.end();
   }
 }
 
@@ -307,12 +311,17 @@ export function schemeLines(scheme: Scheme) {
       }),
     );
   }
-  // the slab's share of each line, reduced once and scaled per level
+  // the slab's share of each line, reduced once (when first asked for) and scaled per level
   const shapeParts = new Map<string, LoadPart>();
-  for (const l of layout.lines) {
-    const p = prepared.get(l.id) as PreparedBeam;
-    if (p.ok) shapeParts.set(l.id, loadPart(p, shapes.lines.get(l.id) ?? []));
-  }
+  const shapePart = (lineId: string): LoadPart | undefined => {
+    let part = shapeParts.get(lineId);
+    const p = prepared.get(lineId);
+    if (!part && p?.ok) {
+      part = loadPart(p, shapes.lines.get(lineId) ?? []);
+      shapeParts.set(lineId, part);
+    }
+    return part;
+  };
   return {
     b,
     family,
@@ -333,7 +342,7 @@ export function schemeLines(scheme: Scheme) {
     kinds,
     shapes,
     levels,
-    shapeParts,
+    shapePart,
   };
 }
 
@@ -353,7 +362,7 @@ export function lineParts(
   };
 }
 
-function analyseValid(scheme: Scheme): SchemeResult {
+function analyseValid(scheme: Scheme, memo: EngineMemo | undefined): SchemeResult {
   const setup = schemeLines(scheme);
   if (Array.isArray(setup)) return emptyResult(scheme, setup);
   const {
@@ -375,7 +384,8 @@ function analyseValid(scheme: Scheme): SchemeResult {
     prepared,
     kinds,
     levels,
-    shapeParts,
+    shapes,
+    shapePart,
   } = setup;
 
   const checks = new CheckList();
@@ -384,10 +394,12 @@ function analyseValid(scheme: Scheme): SchemeResult {
     kinds,
     levels,
     prepared,
-    shapeParts,
+    shapes,
+    shapePart,
     lineDepth,
     combos,
     checks,
+    memo,
   );
 
   // beam sizes
@@ -546,6 +558,35 @@ function analyseValid(scheme: Scheme): SchemeResult {
   };
 }
 
+/**
+ * Everything one line's envelope on one level is computed from, for EngineMemo: in words, the
+ * combinations, its spans (ids, kinds) and supports; in numbers, its span lengths and stiffness,
+ * the slab's load shape on it, its other dead loads, and the level's slab and imposed loads.
+ * Equal keys, equal envelopes.
+ */
+function envelopeKey(
+  l: BeamLine,
+  p: PreparedBeam,
+  shapes: SlabShapes,
+  lv: LevelLoads,
+  combosWords: string,
+): { words: string; nums: Float64Array } {
+  let words = combosWords;
+  for (const m of l.members) words += `|${m.id} ${m.kind}`;
+  words += `|${p.model.supports.join(' ')}`;
+  const shape = shapes.lines.get(l.id) ?? [];
+  const extra = lv.extraDead.get(l.id) ?? [];
+  const nums: number[] = [lv.slabDeadKPa, lv.liveKPa];
+  for (const m of p.model.members) nums.push(m.lengthM, m.eiKNm2);
+  for (const loads of [shape, extra]) {
+    nums.push(loads.length);
+    for (const q of loads)
+      if (q.kind === 'point') nums.push(0, q.member, q.atM, q.forceKN);
+      else nums.push(1, q.member, q.fromM, q.toM, q.startKNPerM, q.endKNPerM);
+  }
+  return { words, nums: Float64Array.from(nums) };
+}
+
 type ColumnReactions = Map<string, Record<LevelKind, [number, number]>>;
 
 /** Envelope of every beam line on every distinct level; column reactions per level kind (kN). */
@@ -554,12 +595,15 @@ function analyseLevels(
   kinds: { kind: LevelKind; count: number }[],
   levels: Map<LevelKind, LevelLoads>,
   prepared: Map<string, PreparedBeam>,
-  shapeParts: Map<string, LoadPart>,
+  shapes: SlabShapes,
+  shapePart: (lineId: string) => LoadPart | undefined,
   lineDepth: Map<string, number>,
   combos: Combination[],
   checks: CheckList,
+  memo: EngineMemo | undefined,
 ): { beamLines: BeamLineResult[]; colR: ColumnReactions; designMoment: Map<string, number> } {
   const arrangementCache: ArrangementCache = new Map();
+  const combosWords = memo ? JSON.stringify(combos) : '';
   const beamLines: BeamLineResult[] = [];
   // column reactions per level kind: dead, live
   const colR: ColumnReactions = new Map();
@@ -595,8 +639,15 @@ function analyseLevels(
         });
         continue;
       }
-      const parts = lineParts(p, shapeParts.get(l.id) as LoadPart, lv, l.id);
-      const env = envelopeParts(p, parts.dead, parts.live, combos, arrangementCache, l.members);
+      const compute = () => {
+        const parts = lineParts(p, shapePart(l.id) as LoadPart, lv, l.id);
+        return envelopeParts(p, parts.dead, parts.live, combos, arrangementCache, l.members);
+      };
+      let env: BeamEnvelope;
+      if (memo) {
+        const key = envelopeKey(l, p, shapes, lv, combosWords);
+        env = memo.envelope(key.words, key.nums, compute);
+      } else env = compute();
       l.nodes.forEach((n, i) => {
         if (n.columnId) addR(n.columnId, k.kind, env.deadReactionsKN[i], env.liveReactionsKN[i]);
       });

@@ -112,7 +112,7 @@ export function beamLineDiagram(
       },
     ]);
   const p = setup.prepared.get(line.id) as PreparedBeam;
-  const shape = setup.shapeParts.get(line.id);
+  const shape = setup.shapePart(line.id);
   if (!p.ok || !shape)
     throw new StructuralInputError([
       {

@@ -49,6 +49,7 @@ export { RULES, CheckList, splitChecks, stairChecks } from './checks';
 export type { Check, PassedRule, Severity } from './checks';
 export type { Quantities, QuantityRow, Cost, CostRow, MemberType } from './quantities';
 export { analyseScheme } from './analyse';
+export { EngineMemo } from './memo';
 export { beamLineDiagram, type BeamLineDiagram } from './diagrams';
 export type { SchemeResult, BeamLineResult, ColumnLoads, ColumnSizes, LevelKind } from './analyse';
 export { compareSchemes, compareResults } from './compare';
