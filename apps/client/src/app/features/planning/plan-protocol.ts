@@ -3,6 +3,7 @@ import {
   analyseScheme,
   beamLineDiagram,
   compareSchemes,
+  type EngineMemo,
   type BeamLineDiagram,
   type LevelKind,
   type Scheme,
@@ -43,34 +44,55 @@ export interface DiagramRequest {
 
 export type PlanRequest = AnalyseRequest | CompareRequest | DiagramRequest;
 
+/** The part of a result the checks pane shows: sent ahead of the whole result, which is larger. */
+export type SchemeChecks = Pick<SchemeResult, 'ok' | 'problems' | 'checks' | 'passed'>;
+
 export type PlanReply =
+  | { kind: 'checks'; seq: number; checks: SchemeChecks }
   | { kind: 'result'; seq: number; result: SchemeResult }
   | { kind: 'comparison'; seq: number; comparison: SchemeComparison }
   | { kind: 'diagram'; seq: number; diagram: BeamLineDiagram }
   | { kind: 'failed'; seq: number; message: string };
 
-/** Answers one request. Never throws: an engine fault comes back as a `failed` reply. */
-export function handlePlanRequest(request: PlanRequest): PlanReply {
+/**
+ * Answers one request, in the order the replies are to be posted. An analysis answers twice: its
+ * checks first (a few hundred kB on a large scheme, so they reach the screen without waiting for
+ * the rest to be copied across), then the whole result (several MB: loads, every beam line's
+ * envelope, the schedules). `memo` keeps beam-line envelopes between analyses of the scheme being
+ * edited. Never throws: an engine fault comes back as a `failed` reply.
+ */
+export function handlePlanRequest(request: PlanRequest, memo?: EngineMemo): PlanReply[] {
   try {
     if (request.kind === 'compare')
-      return {
-        kind: 'comparison',
-        seq: request.seq,
-        comparison: compareSchemes(request.a as Scheme, request.b as Scheme),
-      };
+      return [
+        {
+          kind: 'comparison',
+          seq: request.seq,
+          comparison: compareSchemes(request.a as Scheme, request.b as Scheme),
+        },
+      ];
     if (request.kind === 'diagram')
-      return {
-        kind: 'diagram',
-        seq: request.seq,
-        diagram: beamLineDiagram(request.document as Scheme, request.lineId, request.level),
-      };
-    return { kind: 'result', seq: request.seq, result: analyseScheme(request.document as Scheme) };
+      return [
+        {
+          kind: 'diagram',
+          seq: request.seq,
+          diagram: beamLineDiagram(request.document as Scheme, request.lineId, request.level),
+        },
+      ];
+    const result = analyseScheme(request.document as Scheme, { memo });
+    const { ok, problems, checks, passed } = result;
+    return [
+      { kind: 'checks', seq: request.seq, checks: { ok, problems, checks, passed } },
+      { kind: 'result', seq: request.seq, result },
+    ];
   } catch (err) {
-    return {
-      kind: 'failed',
-      seq: request.seq,
-      message: err instanceof Error ? err.message : 'The engine stopped on this scheme.',
-    };
+    return [
+      {
+        kind: 'failed',
+        seq: request.seq,
+        message: err instanceof Error ? err.message : 'The engine stopped on this scheme.',
+      },
+    ];
   }
 }
 

@@ -9,7 +9,8 @@ export function createPlanWorker(): PlanWorkerPort {
       // so nothing is shared between the two sides by accident
       const copy = JSON.parse(JSON.stringify(request)) as typeof request;
       setTimeout(() => {
-        if (!stopped) port.onReply?.(JSON.parse(JSON.stringify(handlePlanRequest(copy))));
+        // the replies in their order (an analysis: its checks, then its result)
+        for (const reply of handlePlanRequest(copy)) if (!stopped) port.onReply?.(JSON.parse(JSON.stringify(reply)));
       });
     },
     onReply: null,
