@@ -1,4 +1,4 @@
-import { ChangeDetectionStrategy, Component, input, output } from '@angular/core';
+import { ChangeDetectionStrategy, Component, computed, input, output } from '@angular/core';
 import type { SchemeCheck } from '@trabeate/contracts';
 import type { PlanGeometry } from './plan-geometry';
 
@@ -21,36 +21,33 @@ const SHAPE_LABEL = { error: 'must fix', warning: 'worth a look', info: 'note' }
   // an SVG group, since a custom element cannot sit inside <svg>
   // eslint-disable-next-line @angular-eslint/component-selector
   selector: 'g[tbPlanMarkerLayer]',
+  // Each shape is drawn at its own coordinates rather than moved by a transform: a transform per
+  // marker gives the browser a paint node per marker to lay out into layers on every frame that
+  // redraws the plan (the drop of a column, the checks arriving); hundreds of markers made that
+  // the larger part of the frame.
   template: `
-    @let b0 = box();
-    @for (m of markers(); track m.index) {
+    @for (d of drawn(); track d.m.index) {
       <svg:g
         class="marker"
-        [class]="m.check.severity"
-        [class.chosen]="m.index === selected()"
+        [class]="d.m.check.severity"
+        [class.chosen]="d.m.index === selected()"
         role="button"
         tabindex="0"
-        [attr.transform]="'translate(' + (m.x - b0.minX + 0.45) + ' ' + (b0.minY + b0.height - m.y - 0.45) + ')'"
-        [attr.aria-label]="label(m.check)"
-        [attr.data-testid]="'marker-' + m.check.ruleId"
-        (click)="choose.emit(m.index)"
-        (keydown.enter)="choose.emit(m.index)"
-        (keydown.space)="choose.emit(m.index); $event.preventDefault()"
+        [attr.data-spot]="d.spot"
+        [attr.aria-label]="label(d.m.check)"
+        [attr.data-testid]="'marker-' + d.m.check.ruleId"
+        (click)="choose.emit(d.m.index)"
+        (keydown.enter)="choose.emit(d.m.index)"
+        (keydown.space)="choose.emit(d.m.index); $event.preventDefault()"
       >
-        @switch (m.check.severity) {
-          @case ('error') {
-            <svg:rect x="-0.32" y="-0.32" width="0.64" height="0.64" transform="rotate(45)" />
-            <svg:text dominant-baseline="central" text-anchor="middle">!</svg:text>
-          }
-          @case ('warning') {
-            <svg:path d="M 0 -0.42 L 0.42 0.32 L -0.42 0.32 Z" />
-            <svg:text y="0.05" dominant-baseline="central" text-anchor="middle">!</svg:text>
-          }
-          @default {
-            <svg:circle r="0.34" />
-            <svg:text dominant-baseline="central" text-anchor="middle">i</svg:text>
-          }
+        @if (d.m.check.severity === 'info') {
+          <svg:circle [attr.cx]="d.x" [attr.cy]="d.y" r="0.34" />
+        } @else {
+          <svg:path [attr.d]="d.path" />
         }
+        <svg:text [attr.x]="d.x" [attr.y]="d.textY" dominant-baseline="central" text-anchor="middle">
+          {{ d.m.check.severity === 'info' ? 'i' : '!' }}
+        </svg:text>
       </svg:g>
     }
   `,
@@ -59,14 +56,13 @@ const SHAPE_LABEL = { error: 'must fix', warning: 'worth a look', info: 'note' }
     .marker {
       cursor: pointer;
     }
-    .marker rect,
     .marker path,
     .marker circle {
       vector-effect: non-scaling-stroke;
       stroke: var(--mat-sys-surface);
       stroke-width: 1.5px;
     }
-    .marker.error rect {
+    .marker.error path {
       fill: var(--mat-sys-error);
     }
     .marker.warning path {
@@ -81,10 +77,8 @@ const SHAPE_LABEL = { error: 'must fix', warning: 'worth a look', info: 'note' }
         sans-serif;
       fill: #fff;
     }
-    .marker.chosen rect,
     .marker.chosen path,
     .marker.chosen circle,
-    .marker:focus-visible rect,
     .marker:focus-visible path,
     .marker:focus-visible circle {
       stroke: var(--mat-sys-primary);
@@ -103,5 +97,23 @@ export class PlanMarkerLayer {
   readonly selected = input<number | null>(null);
   readonly choose = output<number>();
 
+  /** Where each marker's shape goes on the drawing (SVG y down), and its outline. */
+  protected readonly drawn = computed(() => {
+    const b = this.box();
+    return this.markers().map((m) => {
+      const x = round(m.x - b.minX + 0.45);
+      const y = round(b.minY + b.height - m.y - 0.45);
+      // must fix: a square turned on its corner (0.64 m sides); worth a look: a triangle
+      const path =
+        m.check.severity === 'error'
+          ? `M ${x} ${round(y - 0.45)} L ${round(x + 0.45)} ${y} L ${x} ${round(y + 0.45)} L ${round(x - 0.45)} ${y} Z`
+          : `M ${x} ${round(y - 0.42)} L ${round(x + 0.42)} ${round(y + 0.32)} L ${round(x - 0.42)} ${round(y + 0.32)} Z`;
+      return { m, x, y, textY: m.check.severity === 'warning' ? round(y + 0.05) : y, path, spot: `${x} ${y}` };
+    });
+  });
+
   protected label = (c: SchemeCheck) => `${SHAPE_LABEL[c.severity]}: ${c.message}`;
 }
+
+/** Plan metres to the millimetre: shorter attributes, and nothing finer matters on screen. */
+const round = (v: number) => Math.round(v * 1000) / 1000;
