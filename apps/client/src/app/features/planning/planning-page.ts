@@ -66,7 +66,7 @@ import {
   type EditorState,
   type PlanPart,
 } from './editor-model';
-import type { AnalyseRequest, PlanWorkerPort } from './plan-protocol';
+import type { AnalyseRequest, PlanWorkerPort, SchemeChecks } from './plan-protocol';
 import { createPlanWorker } from './plan-worker-factory';
 import { PlanView, type ColumnDrop, type ColumnPick, type PlanTap, type VertexDrop } from './plan-view';
 import { ResultsPanel } from './results-panel';
@@ -220,6 +220,8 @@ export class PlanningPage {
   /** the edit (seq) whose checks are on screen; bench:editor reads it to time drop → checks */
   protected readonly checkedSeq = signal(0);
   protected readonly postedSeq = signal(0);
+  /** the checks of the newest edit answered; the whole result follows them a moment later */
+  protected readonly checked = signal<SchemeChecks | null>(null);
   protected readonly result = signal<SchemeResult | null>(null);
   protected readonly engineFault = signal<string | null>(null);
   protected readonly checking = signal(false);
@@ -231,7 +233,7 @@ export class PlanningPage {
 
   /** failed checks as the engine lists them (errors first) */
   protected readonly failed = computed<SchemeCheck[]>(() =>
-    (this.result()?.checks ?? []).filter((c) => c.status === 'fail'),
+    (this.checked()?.checks ?? []).filter((c) => c.status === 'fail'),
   );
   protected readonly rules = computed(() => [...new Set(this.failed().map((c) => c.ruleId))].sort());
   protected readonly shown = computed(() =>
@@ -243,6 +245,23 @@ export class PlanningPage {
           (this.rule() === 'all' || check.ruleId === this.rule()),
       ),
   );
+  /**
+   * The list shows a page of checks at a time: a large scheme fails hundreds, and laying out every
+   * one of them again on each edit held the screen for tens of milliseconds. The plan keeps a
+   * marker for each.
+   */
+  protected readonly checkPage = signal({ index: 0, size: 25 });
+  protected readonly checkPageSizes = [25, 50, 100];
+  /** the page shown: the one asked for, or the last there is when the list has shrunk under it */
+  protected readonly checkPageIndex = computed(() => {
+    const { index, size } = this.checkPage();
+    return Math.min(index, Math.max(0, Math.ceil(this.shown().length / size) - 1));
+  });
+  protected readonly pagedShown = computed(() => {
+    const size = this.checkPage().size;
+    const from = this.checkPageIndex() * size;
+    return this.shown().slice(from, from + size);
+  });
   protected readonly counts = computed(() => {
     const c = { error: 0, warning: 0, info: 0 };
     for (const x of this.failed()) c[x.severity]++;
@@ -255,16 +274,25 @@ export class PlanningPage {
 
   constructor() {
     this.worker.onReply = (reply) => {
-      phaseMark('tb-engine-replied', reply.seq);
-      this.busy = false;
-      this.sendWaiting();
+      // An analysis answers with its checks, then its whole result; both were posted in one task,
+      // so once the checks (or a fault) arrive the worker is free for the next edit.
+      if (reply.kind === 'checks' || reply.kind === 'failed') {
+        phaseMark('tb-engine-replied', reply.seq);
+        this.busy = false;
+        this.sendWaiting();
+      }
       if (reply.seq !== this.seq) return; // an answer to an older edit
-      this.checking.set(false);
-      this.checkedSeq.set(reply.seq);
-      if (reply.kind === 'result') {
+      if (reply.kind === 'checks') {
+        this.checking.set(false);
+        this.checkedSeq.set(reply.seq);
         this.engineFault.set(null);
-        this.result.set(reply.result);
-      } else if (reply.kind === 'failed') this.engineFault.set(reply.message);
+        this.checked.set(reply.checks);
+      } else if (reply.kind === 'result') this.result.set(reply.result);
+      else if (reply.kind === 'failed') {
+        this.checking.set(false);
+        this.checkedSeq.set(reply.seq);
+        this.engineFault.set(reply.message);
+      }
     };
     // a loaded (or reloaded, or restored) scheme starts a fresh editing session
     effect(() => {
@@ -308,16 +336,27 @@ export class PlanningPage {
 
   protected choose(index: number): void {
     this.selected.set(this.selected() === index ? null : index);
+    // chosen from its marker on the plan: the list turns to the page that has it
+    const at = this.shown().findIndex((s) => s.index === index);
+    const size = this.checkPage().size;
+    if (at >= 0 && Math.floor(at / size) !== this.checkPageIndex())
+      this.checkPage.set({ index: Math.floor(at / size), size });
+  }
+
+  protected checksPaged(e: PageEvent): void {
+    this.checkPage.set({ index: e.pageIndex, size: e.pageSize });
   }
 
   protected setSeverity(v: SeverityFilter): void {
     this.severity.set(v);
     this.selected.set(null);
+    this.checkPage.update((p) => ({ ...p, index: 0 }));
   }
 
   protected setRule(v: string): void {
     this.rule.set(v);
     this.selected.set(null);
+    this.checkPage.update((p) => ({ ...p, index: 0 }));
   }
 
   private begin(d: SchemeDetail): void {
