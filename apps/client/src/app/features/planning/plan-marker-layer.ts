@@ -5,6 +5,11 @@ import type { PlanGeometry } from './plan-geometry';
 /** A check on the plan: where its marker sits, with its index in the page's list. */
 export interface Marker {
   index: number;
+  /**
+   * The check's rule and elements (and which of the same, if several): the same from one edit to
+   * the next while the check stands, so its marker is kept rather than redrawn as another.
+   */
+  key: string;
   check: SchemeCheck;
   x: number;
   y: number;
@@ -26,7 +31,7 @@ const SHAPE_LABEL = { error: 'must fix', warning: 'worth a look', info: 'note' }
   // redraws the plan (the drop of a column, the checks arriving); hundreds of markers made that
   // the larger part of the frame.
   template: `
-    @for (d of drawn(); track d.m.index) {
+    @for (d of drawn(); track d.m.key) {
       <svg:g
         class="marker"
         [class]="d.m.check.severity"

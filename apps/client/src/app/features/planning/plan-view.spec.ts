@@ -1,5 +1,5 @@
 import { TestBed, type ComponentFixture } from '@angular/core/testing';
-import { schemeDetailSchema, type SchemeDocument } from '@trabeate/contracts';
+import { schemeDetailSchema, type SchemeCheck, type SchemeDocument } from '@trabeate/contracts';
 import { demoSchemeVariant } from '@trabeate/structural';
 import { planGeometry } from './plan-geometry';
 import type { PlanPart } from './editor-model';
@@ -184,5 +184,33 @@ describe('PlanView: the boundary and secondary beams', () => {
     fixture.componentRef.setInput('editable', false);
     fixture.detectChanges();
     expect(el().querySelectorAll('[data-vertex]')).toHaveLength(0);
+  });
+
+  it('keeps the marker of a check that still stands when the checks change around it', () => {
+    const check = (ruleId: string, elements: string[], message: string): SchemeCheck => ({
+      ruleId,
+      severity: 'warning',
+      status: 'fail',
+      elements,
+      message,
+      value: 1,
+      limit: 0,
+      unit: 'm',
+      sense: 'max',
+      source: 'test',
+      sourceKind: 'practice',
+    });
+    const kept = check('column.spacing', ['A1', 'A2'], 'A1 and A2 are far apart');
+    fixture.componentRef.setInput('checks', [kept]);
+    fixture.detectChanges();
+    const marker = q('.marker')!;
+    expect(marker.getAttribute('aria-label')).toContain('A1 and A2');
+    // an edit brings a new check ahead of it in the list: the same marker stays, not redrawn as the new one
+    fixture.componentRef.setInput('checks', [check('column.spacing', ['C1', 'C2'], 'C1 and C2 are far apart'), kept]);
+    fixture.detectChanges();
+    const again = Array.from(el().querySelectorAll('.marker')).find((m) =>
+      m.getAttribute('aria-label')?.includes('A1 and A2'),
+    );
+    expect(again).toBe(marker);
   });
 });

@@ -559,6 +559,7 @@ export class PlanView {
     // Checks about the same place (a long span and the wide column spacing under it) would hide
     // one another: each further marker at a spot steps along to the right.
     const taken = new Map<string, number>();
+    const seen = new Map<string, number>();
     const doc = this.document();
     const geometry = this.geometry();
     const columnIds = new Set(doc.columns.map((c) => c.id));
@@ -568,7 +569,10 @@ export class PlanView {
       const spot = `${p.x.toFixed(2)},${p.y.toFixed(2)}`;
       const n = taken.get(spot) ?? 0;
       taken.set(spot, n + 1);
-      out.push({ index, check, x: p.x + n * MARKER_STEP_M, y: p.y });
+      const what = `${check.ruleId}|${check.elements.join(',')}`;
+      const again = seen.get(what) ?? 0;
+      seen.set(what, again + 1);
+      out.push({ index, key: `${what}|${again}`, check, x: p.x + n * MARKER_STEP_M, y: p.y });
     });
     return out;
   });

@@ -294,6 +294,26 @@ describe('PlanningPage', () => {
     expect(el().querySelector<HTMLInputElement>('[data-testid="basis-storeys"]')!.value).toBe('7');
   });
 
+  it('keeps the column inspector in place, empty and disabled until one column is chosen', async () => {
+    await open((req) => req.flush(detail()));
+    const x = () => el().querySelector<HTMLInputElement>('[data-testid="col-x"]')!;
+    expect(text('inspector-title').trim()).toBe('Column: choose one on the plan');
+    expect([x().disabled, x().value]).toEqual([true, '']);
+    const fieldset = el().querySelector('[data-testid="inspector"]');
+    pointer(column('A1'), 'pointerdown', 0.2, 0.2);
+    pointer(svg(), 'pointerup', 0.2, 0.2);
+    await settle();
+    // the same fields, filled: choosing a column builds nothing new, so nothing below it moves
+    expect(el().querySelector('[data-testid="inspector"]')).toBe(fieldset);
+    expect(text('inspector-title').trim()).toBe('Column A1');
+    expect(x().disabled).toBe(false);
+    expect(Number(x().value)).toBeCloseTo(0.2, 6);
+    const editor = el().querySelector<HTMLElement>('[data-testid="plan-editor"]')!;
+    editor.dispatchEvent(new KeyboardEvent('keydown', { key: 'Escape', bubbles: true, cancelable: true }));
+    await settle();
+    expect([x().disabled, x().value]).toEqual([true, '']);
+  });
+
   it('works from the keyboard: a picked column moves by the step, Delete removes it, Ctrl+Z brings it back', async () => {
     await open((req) => req.flush(detail()));
     pointer(column('A1'), 'pointerdown', 0.2, 0.2);
