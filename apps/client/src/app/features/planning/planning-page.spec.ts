@@ -2,7 +2,7 @@ import { provideHttpClient } from '@angular/common/http';
 import { HttpTestingController, provideHttpClientTesting } from '@angular/common/http/testing';
 import { ANIMATION_MODULE_TYPE } from '@angular/core';
 import { TestBed } from '@angular/core/testing';
-import { provideRouter, withComponentInputBinding } from '@angular/router';
+import { Router, provideRouter, withComponentInputBinding } from '@angular/router';
 import { RouterTestingHarness } from '@angular/router/testing';
 import { TestbedHarnessEnvironment } from '@angular/cdk/testing/testbed';
 import { MatPaginatorHarness } from '@angular/material/paginator/testing';
@@ -55,7 +55,11 @@ describe('PlanningPage', () => {
     harness.detectChanges();
   };
 
-  async function open(answer: (req: ReturnType<HttpTestingController['expectOne']>) => void): Promise<void> {
+  /** `query` is the address's query string (with its `?`), as a reload or a shared link brings it. */
+  async function open(
+    answer: (req: ReturnType<HttpTestingController['expectOne']>) => void,
+    query = '',
+  ): Promise<void> {
     TestBed.configureTestingModule({
       providers: [
         provideRouter(
@@ -69,7 +73,7 @@ describe('PlanningPage', () => {
     });
     backend = TestBed.inject(HttpTestingController);
     harness = await RouterTestingHarness.create();
-    void harness.navigateByUrl(`/projects/${PROJECT}/schemes/${SCHEME}`);
+    void harness.navigateByUrl(`/projects/${PROJECT}/schemes/${SCHEME}${query}`);
     await settle();
     answer(backend.expectOne(URL));
     await settle();
@@ -598,5 +602,98 @@ describe('PlanningPage', () => {
     await settle();
     expect(all('[data-testid="version"]')[0].querySelector('.v')?.textContent).toBe('Version 35');
     expect(range()).toBe('26 – 50 of 60');
+  });
+  describe('the page of saves in the address', () => {
+    const PAGE = `/projects/${PROJECT}/schemes/${SCHEME}`;
+    const at = (v: number) => ({ ...detail().current, version: v, restoredFrom: null });
+    const versions = (from: number, n: number) => Array.from({ length: n }, (_, i) => at(Math.max(1, from - i)));
+    const savesPage = (page: number, pageSize: number, total = 60) =>
+      schemeVersionListSchema.parse({
+        items: versions(total - (page - 1) * pageSize, Math.min(pageSize, total - (page - 1) * pageSize)),
+        total,
+        page,
+        pageSize,
+      });
+    const range = () => el().querySelector('.mat-mdc-paginator-range-label')?.textContent?.trim();
+    const address = () => TestBed.inject(Router).url;
+    const paginator = () =>
+      TestbedHarnessEnvironment.loader(harness.fixture).getHarness(
+        MatPaginatorHarness.with({ selector: '[data-testid="history-pages"]' }),
+      );
+
+    it('opens a shared link on the page and page size it names, asking the server for just that page', async () => {
+      await open((req) => req.flush(detail(SCHEME, 60)), '?saves=open&savesPage=3&savesPerPage=10');
+      reply(backend.expectOne(`${URL}/versions?page=3&pageSize=10`), schemeVersionListSchema, savesPage(3, 10));
+      await settle();
+      expect(button('history-toggle').getAttribute('aria-expanded')).toBe('true');
+      expect(all('[data-testid="version"]')[0].querySelector('.v')?.textContent).toBe('Version 40');
+      expect(range()).toBe('21 – 30 of 60');
+      expect(await (await paginator()).getPageSize()).toBe(10);
+    });
+
+    it('writes the page and page size to the address as the saves are paged, and leaves the first page out', async () => {
+      await open((req) => req.flush(detail(SCHEME, 60)));
+      button('history-toggle').click();
+      await settle();
+      expect(address()).toBe(`${PAGE}?saves=open`);
+      reply(backend.expectOne(`${URL}/versions?page=1&pageSize=25`), schemeVersionListSchema, savesPage(1, 25));
+      await settle();
+
+      el().querySelector<HTMLButtonElement>('.mat-mdc-paginator-navigation-last')!.click();
+      await settle();
+      expect(address()).toBe(`${PAGE}?saves=open&savesPage=3`);
+      reply(backend.expectOne(`${URL}/versions?page=3&pageSize=25`), schemeVersionListSchema, savesPage(3, 25));
+      await settle();
+      expect(range()).toBe('51 – 60 of 60');
+
+      // a smaller page keeps the first save shown in view: save 51 of 60 is on page 6 of ten
+      el().querySelector<HTMLElement>('[data-testid="history-pages"] .mat-mdc-select-trigger')!.click();
+      await settle();
+      Array.from(document.querySelectorAll<HTMLElement>('mat-option'))
+        .find((o) => o.textContent?.trim() === '10')!
+        .click();
+      await settle();
+      expect(address()).toBe(`${PAGE}?saves=open&savesPage=6&savesPerPage=10`);
+      reply(backend.expectOne(`${URL}/versions?page=6&pageSize=10`), schemeVersionListSchema, savesPage(6, 10));
+      await settle();
+      expect(range()).toBe('51 – 60 of 60');
+
+      el().querySelector<HTMLButtonElement>('.mat-mdc-paginator-navigation-first')!.click();
+      await settle();
+      expect(address()).toBe(`${PAGE}?saves=open&savesPerPage=10`);
+      backend.expectOne(`${URL}/versions?page=1&pageSize=10`);
+    });
+
+    it('goes back to the newest saves after a save, and the address follows', async () => {
+      await open((req) => req.flush(detail(SCHEME, 60)), '?saves=open&savesPage=2');
+      reply(backend.expectOne(`${URL}/versions?page=2&pageSize=25`), schemeVersionListSchema, savesPage(2, 25));
+      await settle();
+      button('add-column').click();
+      await settle(10);
+      button('save').click();
+      await settle();
+      backend.expectOne({ method: 'PUT', url: `${URL}/document` }).flush(detail(SCHEME, 61));
+      await settle(10);
+      expect(address()).toBe(`${PAGE}?saves=open`);
+      reply(backend.expectOne(`${URL}/versions?page=1&pageSize=25`), schemeVersionListSchema, savesPage(1, 25, 61));
+      await settle();
+      expect(range()).toBe('1 – 25 of 61');
+    });
+
+    it.each([
+      ['words', 'savesPage=three&savesPerPage=ten'],
+      ['zero', 'savesPage=0&savesPerPage=0'],
+      ['negative numbers', 'savesPage=-2&savesPerPage=-25'],
+      ['a fraction and a size not offered', 'savesPage=1.5&savesPerPage=30'],
+      ['empty values', 'savesPage=&savesPerPage='],
+    ])('reads %s in the address as the first page at the usual size', async (_, junk) => {
+      await open((req) => req.flush(detail(SCHEME, 60)), `?saves=open&${junk}`);
+      reply(backend.expectOne(`${URL}/versions?page=1&pageSize=25`), schemeVersionListSchema, savesPage(1, 25));
+      await settle();
+      expect(range()).toBe('1 – 25 of 60');
+      expect(await (await paginator()).getPageSize()).toBe(25);
+      expect(el().querySelector('[data-testid="history"] .error')).toBeNull();
+      backend.verify();
+    });
   });
 });

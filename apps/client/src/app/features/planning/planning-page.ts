@@ -21,6 +21,7 @@ import {
 import { CAUTION, type SchemeResult } from '@trabeate/structural';
 import { errorMessage } from '../../core/auth/api-error';
 import { DayTimePipe } from '../../shared/dates/app-dates';
+import { DEFAULT_PAGE_SIZE, PAGE_SIZES, positiveInt } from '../../shared/table-state/address-table';
 import { SEVERITY_LABELS, SOURCE_KIND_LABELS, numbersOf, ruleLabel } from './check-labels';
 import { BoundaryPanel } from './boundary-panel';
 import { StairsPanel, type FlightDraft } from './stairs-panel';
@@ -123,6 +124,13 @@ export class PlanningPage {
   /** Route-bound `:projectId` and `:schemeId`. */
   readonly projectId = input.required<string>();
   readonly schemeId = input.required<string>();
+  /**
+   * Route-bound `?saves=open&savesPage=&savesPerPage=`: the save history and the page of it shown,
+   * kept in the address so a reload or a shared link opens the same page (strings as they arrive).
+   */
+  readonly saves = input<string>();
+  readonly savesPage = input<string>();
+  readonly savesPerPage = input<string>();
 
   protected readonly caution = CAUTION;
   protected readonly keyStep = KEY_STEP_M;
@@ -152,13 +160,20 @@ export class PlanningPage {
   protected readonly conflict = signal<SchemeConflict | null>(null);
   /** the earlier save shown in the editor, when one was opened from the history */
   protected readonly openedVersion = signal<number | null>(null);
-  protected readonly historyOpen = signal(false);
+  protected readonly historyOpen = computed(() => this.saves() === 'open');
   /** the report and plan sheet of the version this session started from */
   protected readonly outputsOpen = signal(false);
   protected readonly historyBusy = signal(false);
   /** the page of saves shown, newest first (the server pages them: a long-lived scheme has hundreds) */
-  protected readonly historyPage = signal({ page: 1, pageSize: 25 });
-  protected readonly historySizes = [10, 25, 50, 100];
+  protected readonly historyPage = computed(() => {
+    const size = Number(this.savesPerPage());
+    // whatever the address holds, a page the paginator offers: junk reads as the first page
+    return {
+      page: positiveInt(this.savesPage(), 1),
+      pageSize: PAGE_SIZES.includes(size) ? size : DEFAULT_PAGE_SIZE,
+    };
+  });
+  protected readonly historySizes = PAGE_SIZES;
   protected readonly history = httpResource(
     () => {
       if (!this.historyOpen()) return undefined;
@@ -323,15 +338,28 @@ export class PlanningPage {
     this.worker.post(request);
   }
 
+  /** Writes the history's state to the address (null removes a key); the inputs read it back. */
+  private showSaves(queryParams: Record<string, string | number | null>): void {
+    void this.router.navigate([], { queryParams, queryParamsHandling: 'merge', replaceUrl: true });
+  }
+
+  /** closing drops the page too: reopened, the history starts from the newest saves */
+  protected toggleHistory(): void {
+    this.showSaves(this.historyOpen() ? { saves: null, savesPage: null } : { saves: 'open' });
+  }
+
+  /** Page 1 and the default size stay out of the address, so the plain link is the newest saves. */
   protected historyPaged(e: PageEvent): void {
-    this.historyPage.set({ page: e.pageIndex + 1, pageSize: e.pageSize });
+    this.showSaves({
+      savesPage: e.pageIndex === 0 ? null : e.pageIndex + 1,
+      savesPerPage: e.pageSize === DEFAULT_PAGE_SIZE ? null : e.pageSize,
+    });
   }
 
   /** after a save or a restore the newest saves are what matters: back to the first page */
   private showNewestSaves(): void {
-    const p = this.historyPage();
-    if (p.page === 1) this.history.reload();
-    else this.historyPage.set({ ...p, page: 1 });
+    if (this.historyPage().page === 1) this.history.reload();
+    else this.showSaves({ savesPage: null });
   }
 
   protected choose(index: number): void {
