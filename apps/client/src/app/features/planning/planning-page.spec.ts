@@ -680,6 +680,28 @@ describe('PlanningPage', () => {
       expect(range()).toBe('1 – 25 of 61');
     });
 
+    it('turns a page past the last to the last page there is', async () => {
+      await open((req) => req.flush(detail(SCHEME, 60)), '?saves=open&savesPage=9');
+      // the server answers the page asked for, empty: 60 saves make 3 pages of 25
+      reply(backend.expectOne(`${URL}/versions?page=9&pageSize=25`), schemeVersionListSchema, {
+        items: [],
+        total: 60,
+        page: 9,
+        pageSize: 25,
+      });
+      await settle();
+      await settle(10); // the turn is a navigation of its own
+      expect(address()).toBe(`${PAGE}?saves=open&savesPage=3`);
+      reply(backend.expectOne(`${URL}/versions?page=3&pageSize=25`), schemeVersionListSchema, savesPage(3, 25));
+      await settle();
+      expect(range()).toBe('51 – 60 of 60');
+    });
+
+    it('reads an absurd page number no further than a page the server can count to', async () => {
+      await open((req) => req.flush(detail(SCHEME, 60)), '?saves=open&savesPage=1e20');
+      backend.expectOne(`${URL}/versions?page=10000&pageSize=25`);
+    });
+
     it.each([
       ['words', 'savesPage=three&savesPerPage=ten'],
       ['zero', 'savesPage=0&savesPerPage=0'],

@@ -1,5 +1,15 @@
 import { HttpErrorResponse, httpResource } from '@angular/common/http';
-import { ChangeDetectionStrategy, Component, DestroyRef, computed, effect, inject, input, signal } from '@angular/core';
+import {
+  ChangeDetectionStrategy,
+  Component,
+  DestroyRef,
+  computed,
+  effect,
+  inject,
+  input,
+  signal,
+  untracked,
+} from '@angular/core';
 import { MatButton } from '@angular/material/button';
 import { MatOption } from '@angular/material/core';
 import { MatFormField, MatLabel } from '@angular/material/form-field';
@@ -78,6 +88,9 @@ import { SchemeBasisPanel } from './scheme-basis-panel';
 type SeverityFilter = CheckSeverity | 'all';
 
 /** keyboard step for moving the selection, m (Shift moves ten) */
+/** Highest page of saves read from the address: beyond any real history, short of absurd offsets. */
+const MAX_SAVES_PAGE = 10_000;
+
 export const KEY_STEP_M = 0.05;
 
 /**
@@ -169,7 +182,7 @@ export class PlanningPage {
     const size = Number(this.savesPerPage());
     // whatever the address holds, a page the paginator offers: junk reads as the first page
     return {
-      page: positiveInt(this.savesPage(), 1),
+      page: positiveInt(this.savesPage(), 1, MAX_SAVES_PAGE),
       pageSize: PAGE_SIZES.includes(size) ? size : DEFAULT_PAGE_SIZE,
     };
   });
@@ -288,6 +301,13 @@ export class PlanningPage {
   });
 
   constructor() {
+    // a page past the last (an old link, a hand-typed number) turns to the last page there is
+    effect(() => {
+      if (!this.history.hasValue()) return;
+      const { total, pageSize } = this.history.value();
+      const last = Math.max(1, Math.ceil(total / pageSize));
+      if (this.historyPage().page > last) untracked(() => this.showSaves({ savesPage: last === 1 ? null : last }));
+    });
     this.worker.onReply = (reply) => {
       // An analysis answers with its checks, then its whole result; both were posted in one task,
       // so once the checks (or a fault) arrive the worker is free for the next edit.
