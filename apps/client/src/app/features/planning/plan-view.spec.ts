@@ -370,3 +370,91 @@ describe('PlanView while a secondary beam is placed by two presses', () => {
     expect(markers().getAttribute('pointer-events')).toBeNull();
   });
 });
+
+describe('PlanView: the boundary corners from the keyboard', () => {
+  let fixture: ComponentFixture<PlanView>;
+  const el = () => fixture.nativeElement as HTMLElement;
+  const corner = (i: number) => el().querySelector<SVGElement>(`[data-vertex="${i}"]`)!;
+  const keydown = (target: Element, key: string) => {
+    const ev = new KeyboardEvent('keydown', { key, bubbles: true, cancelable: true });
+    target.dispatchEvent(ev);
+    return ev;
+  };
+  let picks: PlanPart[];
+
+  beforeEach(() => {
+    picks = [];
+    fixture = TestBed.createComponent(PlanView);
+    fixture.componentRef.setInput('document', doc());
+    fixture.componentRef.setInput('editable', true);
+    fixture.componentInstance.pickPart.subscribe((p) => picks.push(p));
+    fixture.detectChanges();
+    document.body.appendChild(el());
+  });
+  afterEach(() => el().remove());
+
+  it('makes each corner a button of its own that Tab reaches, named with its place', () => {
+    const corners = Array.from(el().querySelectorAll('[data-vertex]'));
+    expect(corners).toHaveLength(4);
+    expect(corners.map((c) => [c.getAttribute('tabindex'), c.getAttribute('role')])).toEqual(
+      Array(4).fill(['0', 'button']),
+    );
+    expect(corner(1).getAttribute('aria-label')).toBe('Boundary corner 2 at x 14.50 m, y 0.00 m');
+    expect(corner(3).getAttribute('aria-label')).toBe('Boundary corner 4 at x 0.00 m, y 18.00 m');
+  });
+
+  it('chooses a corner by Enter or Space, as a press would', () => {
+    const enter = keydown(corner(1), 'Enter');
+    const space = keydown(corner(2), ' ');
+    expect(picks).toEqual([
+      { kind: 'vertex', index: 1 },
+      { kind: 'vertex', index: 2 },
+    ]);
+    expect(space.defaultPrevented).toBe(true); // no page scroll
+    expect(enter.defaultPrevented).toBe(true);
+  });
+
+  it('lets the arrows on the chosen corner go on to the editor, and on another corner chooses that one first', () => {
+    fixture.componentRef.setInput('part', { kind: 'vertex', index: 1 });
+    fixture.detectChanges();
+    // the chosen corner: the page's keys move it
+    expect(keydown(corner(1), 'ArrowRight').defaultPrevented).toBe(false);
+    expect(picks).toEqual([]);
+    // a focused corner that is not chosen: the arrow chooses it, and goes no further
+    const stray = keydown(corner(3), 'ArrowUp');
+    expect(stray.defaultPrevented).toBe(true);
+    expect(picks).toEqual([{ kind: 'vertex', index: 3 }]);
+  });
+
+  it('moves the focus with the choice while it is on a corner, and back to the plan editor past the corners', () => {
+    // the page's plan editor holds the plan view and the keyboard's focus
+    const editor = document.createElement('div');
+    editor.tabIndex = 0;
+    el().replaceWith(editor);
+    editor.appendChild(el());
+    editor.focus();
+    fixture.componentRef.setInput('part', { kind: 'vertex', index: 0 });
+    fixture.detectChanges();
+    expect(document.activeElement).toBe(corner(0));
+    fixture.componentRef.setInput('part', { kind: 'vertex', index: 1 });
+    fixture.detectChanges();
+    expect(document.activeElement).toBe(corner(1));
+    fixture.componentRef.setInput('part', { kind: 'secondary', id: 'SB1' });
+    fixture.detectChanges();
+    expect(document.activeElement).toBe(editor);
+
+    // Delete on the focused last corner takes its handle away: the focus stays on the plan editor
+    fixture.componentRef.setInput('part', { kind: 'vertex', index: 3 });
+    fixture.detectChanges();
+    expect(document.activeElement).toBe(corner(3));
+    const d = doc();
+    fixture.componentRef.setInput('document', {
+      ...d,
+      boundary: { vertices: d.boundary.vertices.slice(0, 3), propertyLines: [0] },
+    });
+    fixture.componentRef.setInput('part', null);
+    fixture.detectChanges();
+    expect(document.activeElement).toBe(editor);
+    editor.remove();
+  });
+});

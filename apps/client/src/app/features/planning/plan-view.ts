@@ -114,7 +114,9 @@ interface Pan {
         [part]="part()"
         [lit]="lit()"
         [editable]="editable()"
+        [columnChosen]="selection().length > 0"
         (press)="grabPart($event.event, $event.part)"
+        (choose)="editable() && pickPart.emit($event)"
       ></g>
       <g
         tbPlanColumnLayer
