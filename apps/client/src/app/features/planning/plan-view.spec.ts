@@ -3,7 +3,7 @@ import { schemeDetailSchema, type SchemeCheck, type SchemeDocument } from '@trab
 import { demoSchemeVariant } from '@trabeate/structural';
 import { planGeometry } from './plan-geometry';
 import type { PlanPart } from './editor-model';
-import { PlanView, type ColumnDrop, type VertexDrop } from './plan-view';
+import { PlanView, type ColumnDrop, type PlanTap, type VertexDrop } from './plan-view';
 
 // The demo variant (no B3), parsed by the contract as the API would send it.
 const doc = (): SchemeDocument =>
@@ -212,5 +212,249 @@ describe('PlanView: the boundary and secondary beams', () => {
       m.getAttribute('aria-label')?.includes('A1 and A2'),
     );
     expect(again).toBe(marker);
+  });
+});
+
+const failedCheck = (ruleId: string, elements: string[], message: string): SchemeCheck => ({
+  ruleId,
+  severity: 'error',
+  status: 'fail',
+  elements,
+  message,
+  value: 1,
+  limit: 0,
+  unit: 'm',
+  sense: 'max',
+  source: 'test',
+  sourceKind: 'practice',
+});
+
+describe('PlanView while a secondary beam is placed by two presses', () => {
+  let fixture: ComponentFixture<PlanView>;
+  const d = doc();
+  const box = planGeometry(d).box;
+  const el = () => fixture.nativeElement as HTMLElement;
+  const q = (sel: string) => el().querySelector<SVGElement>(sel);
+  const plan = () => q('[data-testid="plan"]')!;
+  const pointer = (target: Element, type: string, x: number, y: number) =>
+    target.dispatchEvent(
+      new PointerEvent(type, {
+        bubbles: true,
+        pointerId: 1,
+        button: 0,
+        clientX: x - box.minX,
+        clientY: box.minY + box.height - y,
+      }),
+    );
+  const X = (x: number) => x - box.minX;
+  const Y = (y: number) => box.minY + box.height - y;
+  const attrs = (e: Element | null, ...names: string[]) => names.map((n) => Number(e?.getAttribute(n)));
+  let taps: PlanTap[];
+
+  /** what the page does with a tap while placing: the first end asks for the second, the second ends it */
+  const pageTakes = () =>
+    fixture.componentInstance.tap.subscribe(() => {
+      fixture.componentRef.setInput('placing', taps.length === 1 ? 'end' : 'off');
+    });
+
+  beforeEach(() => {
+    taps = [];
+    fixture = TestBed.createComponent(PlanView);
+    fixture.componentRef.setInput('document', d);
+    fixture.componentRef.setInput('editable', true);
+    fixture.componentInstance.tap.subscribe((t) => taps.push(t));
+    fixture.detectChanges();
+  });
+
+  it('marks the snapped first end and draws the beam from it to the pointer until the second press', () => {
+    pageTakes();
+    fixture.componentRef.setInput('placing', 'start');
+    fixture.detectChanges();
+    expect(q('[data-testid="place-beam"]')).toBeNull();
+
+    // near grid C (x 8.6) at y 10.3: the first end snaps onto grid C
+    pointer(plan(), 'pointerdown', 8.55, 10.3);
+    pointer(plan(), 'pointerup', 8.55, 10.3);
+    fixture.detectChanges();
+    const mark = q('[data-testid="place-beam"]');
+    expect(mark?.getAttribute('aria-hidden')).toBe('true');
+    expect(attrs(q('[data-testid="place-start"] circle'), 'cx', 'cy')).toEqual([X(8.6), Y(10.3)]);
+    expect(q('[data-testid="place-band"]')).toBeNull();
+
+    // the pointer moves near grid D, a little off the line: the band runs along x to grid D
+    pointer(plan(), 'pointermove', 12.7, 10.9);
+    fixture.detectChanges();
+    const band = q('[data-testid="place-band"]');
+    expect(attrs(band, 'x1', 'y1', 'x2', 'y2').map((v) => Math.round(v * 1000) / 1000)).toEqual([
+      X(8.6),
+      Y(10.3),
+      X(12.8),
+      Y(10.3),
+    ]);
+
+    pointer(plan(), 'pointerdown', 12.7, 10.9);
+    pointer(plan(), 'pointerup', 12.7, 10.9);
+    fixture.detectChanges();
+    expect(taps).toHaveLength(2);
+    expect(q('[data-testid="place-beam"]')).toBeNull();
+  });
+
+  it('takes the first end away when placing stops before the second press, and starts afresh next time', () => {
+    fixture.componentRef.setInput('placing', 'start');
+    fixture.detectChanges();
+    pointer(plan(), 'pointerdown', 8.55, 10.3);
+    pointer(plan(), 'pointerup', 8.55, 10.3);
+    fixture.componentRef.setInput('placing', 'end');
+    fixture.detectChanges();
+    pointer(plan(), 'pointermove', 12.7, 10.3);
+    fixture.detectChanges();
+    expect(q('[data-testid="place-band"]')).not.toBeNull();
+
+    // Stop placing (or Escape on the plan): the page's step goes off
+    fixture.componentRef.setInput('placing', 'off');
+    fixture.detectChanges();
+    expect(q('[data-testid="place-beam"]')).toBeNull();
+
+    // placing again: nothing is drawn until a new first press, and no band from the old pointer
+    fixture.componentRef.setInput('placing', 'start');
+    fixture.detectChanges();
+    expect(q('[data-testid="place-beam"]')).toBeNull();
+    pointer(plan(), 'pointerdown', 4.45, 6.9);
+    pointer(plan(), 'pointerup', 4.45, 6.9);
+    fixture.componentRef.setInput('placing', 'end');
+    fixture.detectChanges();
+    expect(attrs(q('[data-testid="place-start"] circle'), 'cx', 'cy')).toEqual([X(4.4), Y(6.9)]);
+    expect(q('[data-testid="place-band"]')).toBeNull();
+  });
+
+  it('lets presses through check markers while placing: a press on a marker or on the column under it gives an end there, picking nothing and choosing no check', () => {
+    const picks: unknown[] = [];
+    const chosen: number[] = [];
+    fixture.componentInstance.pick.subscribe((p) => picks.push(p));
+    fixture.componentInstance.pickPart.subscribe((p) => picks.push(p));
+    fixture.componentInstance.choose.subscribe((i) => chosen.push(i));
+    // a check on C2 and C3: its marker sits on grid C's beam between them, where beams end
+    fixture.componentRef.setInput('checks', [failedCheck('beam.span', ['C2', 'C3'], 'C2–C3 spans too far')]);
+    fixture.detectChanges();
+    const markers = () => q('[tbPlanMarkerLayer]')!;
+    expect(markers().getAttribute('pointer-events')).toBeNull(); // not placing: a press chooses the check
+
+    fixture.componentRef.setInput('placing', 'start');
+    fixture.detectChanges();
+    // the markers let the press through (pointer-events none), so the browser hands it to what is under them
+    expect(markers().getAttribute('pointer-events')).toBe('none');
+    pointer(q('.marker path')!, 'pointerdown', 8.7, 6.65);
+    pointer(plan(), 'pointerup', 8.7, 6.65);
+    // a marker can stand over a column's corner: a press on the column is a press on the plan too
+    pointer(q('[data-column="C2"]')!, 'pointerdown', 8.75, 4.25);
+    pointer(plan(), 'pointerup', 8.75, 4.25);
+    expect(taps.map((t) => [t.x, t.y].map((v) => Math.round(v * 1000) / 1000))).toEqual([
+      [8.7, 6.65],
+      [8.75, 4.25],
+    ]);
+    expect(picks).toEqual([]);
+    expect(chosen).toEqual([]);
+
+    // a press on a corner handle or a secondary beam is a press on the plan as well
+    fixture.componentRef.setInput('placing', 'end');
+    fixture.detectChanges();
+    pointer(q('[data-secondary="SB1"]')!, 'pointerdown', 6, 6.2);
+    pointer(plan(), 'pointerup', 6, 6.2);
+    pointer(q('[data-vertex="1"]')!, 'pointerdown', 14.5, 0);
+    pointer(plan(), 'pointerup', 14.5, 0);
+    expect(taps).toHaveLength(4);
+    expect(picks).toEqual([]);
+
+    fixture.componentRef.setInput('placing', 'off');
+    fixture.detectChanges();
+    expect(markers().getAttribute('pointer-events')).toBeNull();
+  });
+});
+
+describe('PlanView: the boundary corners from the keyboard', () => {
+  let fixture: ComponentFixture<PlanView>;
+  const el = () => fixture.nativeElement as HTMLElement;
+  const corner = (i: number) => el().querySelector<SVGElement>(`[data-vertex="${i}"]`)!;
+  const keydown = (target: Element, key: string) => {
+    const ev = new KeyboardEvent('keydown', { key, bubbles: true, cancelable: true });
+    target.dispatchEvent(ev);
+    return ev;
+  };
+  let picks: PlanPart[];
+
+  beforeEach(() => {
+    picks = [];
+    fixture = TestBed.createComponent(PlanView);
+    fixture.componentRef.setInput('document', doc());
+    fixture.componentRef.setInput('editable', true);
+    fixture.componentInstance.pickPart.subscribe((p) => picks.push(p));
+    fixture.detectChanges();
+    document.body.appendChild(el());
+  });
+  afterEach(() => el().remove());
+
+  it('makes each corner a button of its own that Tab reaches, named with its place', () => {
+    const corners = Array.from(el().querySelectorAll('[data-vertex]'));
+    expect(corners).toHaveLength(4);
+    expect(corners.map((c) => [c.getAttribute('tabindex'), c.getAttribute('role')])).toEqual(
+      Array(4).fill(['0', 'button']),
+    );
+    expect(corner(1).getAttribute('aria-label')).toBe('Boundary corner 2 at x 14.50 m, y 0.00 m');
+    expect(corner(3).getAttribute('aria-label')).toBe('Boundary corner 4 at x 0.00 m, y 18.00 m');
+  });
+
+  it('chooses a corner by Enter or Space, as a press would', () => {
+    const enter = keydown(corner(1), 'Enter');
+    const space = keydown(corner(2), ' ');
+    expect(picks).toEqual([
+      { kind: 'vertex', index: 1 },
+      { kind: 'vertex', index: 2 },
+    ]);
+    expect(space.defaultPrevented).toBe(true); // no page scroll
+    expect(enter.defaultPrevented).toBe(true);
+  });
+
+  it('lets the arrows on the chosen corner go on to the editor, and on another corner chooses that one first', () => {
+    fixture.componentRef.setInput('part', { kind: 'vertex', index: 1 });
+    fixture.detectChanges();
+    // the chosen corner: the page's keys move it
+    expect(keydown(corner(1), 'ArrowRight').defaultPrevented).toBe(false);
+    expect(picks).toEqual([]);
+    // a focused corner that is not chosen: the arrow chooses it, and goes no further
+    const stray = keydown(corner(3), 'ArrowUp');
+    expect(stray.defaultPrevented).toBe(true);
+    expect(picks).toEqual([{ kind: 'vertex', index: 3 }]);
+  });
+
+  it('moves the focus with the choice while it is on a corner, and back to the plan editor past the corners', () => {
+    // the page's plan editor holds the plan view and the keyboard's focus
+    const editor = document.createElement('div');
+    editor.tabIndex = 0;
+    el().replaceWith(editor);
+    editor.appendChild(el());
+    editor.focus();
+    fixture.componentRef.setInput('part', { kind: 'vertex', index: 0 });
+    fixture.detectChanges();
+    expect(document.activeElement).toBe(corner(0));
+    fixture.componentRef.setInput('part', { kind: 'vertex', index: 1 });
+    fixture.detectChanges();
+    expect(document.activeElement).toBe(corner(1));
+    fixture.componentRef.setInput('part', { kind: 'secondary', id: 'SB1' });
+    fixture.detectChanges();
+    expect(document.activeElement).toBe(editor);
+
+    // Delete on the focused last corner takes its handle away: the focus stays on the plan editor
+    fixture.componentRef.setInput('part', { kind: 'vertex', index: 3 });
+    fixture.detectChanges();
+    expect(document.activeElement).toBe(corner(3));
+    const d = doc();
+    fixture.componentRef.setInput('document', {
+      ...d,
+      boundary: { vertices: d.boundary.vertices.slice(0, 3), propertyLines: [0] },
+    });
+    fixture.componentRef.setInput('part', null);
+    fixture.detectChanges();
+    expect(document.activeElement).toBe(editor);
+    editor.remove();
   });
 });

@@ -2,12 +2,13 @@ import { ChangeDetectionStrategy, Component, computed, input, output, signal } f
 import { MatIconButton } from '@angular/material/button';
 import { MatIcon } from '@angular/material/icon';
 import type { SchemeCheck, SchemeDocument } from '@trabeate/contracts';
-import { snap, type PlanPart } from './editor-model';
+import { snap, straighten, type PlanPart } from './editor-model';
 import { PlanBaseLayer } from './plan-base-layer';
 import { PlanColumnLayer } from './plan-column-layer';
 import { planGeometry, type PlanGeometry, type Pt } from './plan-geometry';
 import { PlanMarkerLayer, type Marker } from './plan-marker-layer';
 import { PlanPartLayer } from './plan-part-layer';
+import type { PlacingStep } from './secondary-beams-panel';
 
 /** spacing of markers that share a spot, m on the plan */
 const MARKER_STEP_M = 0.95;
@@ -96,6 +97,7 @@ interface Pan {
       role="group"
       [attr.viewBox]="viewBox()"
       [attr.aria-label]="'Plan of ' + document().name + ': ' + document().columns.length + ' columns'"
+      [class.placing]="placing() !== 'off'"
       data-testid="plan"
       (pointerdown)="startPan($event)"
       (pointermove)="pointerMove($event)"
@@ -112,7 +114,9 @@ interface Pan {
         [part]="part()"
         [lit]="lit()"
         [editable]="editable()"
+        [columnChosen]="selection().length > 0"
         (press)="grabPart($event.event, $event.part)"
+        (choose)="editable() && pickPart.emit($event)"
       ></g>
       <g
         tbPlanColumnLayer
@@ -121,7 +125,7 @@ interface Pan {
         [lit]="lit()"
         [chosen]="chosenIds()"
         [lifted]="liftedIds()"
-        [editable]="editable()"
+        [editable]="editable() && placing() === 'off'"
         (press)="grab($event.event, $event.id)"
       ></g>
       @if (lifted(); as l) {
@@ -164,8 +168,42 @@ interface Pan {
           }
         </g>
       }
+      @if (placeLine(); as pl) {
+        <!-- where the beam being placed starts, and the beam as the next press would place it -->
+        <g class="placing-beam" aria-hidden="true" pointer-events="none" data-testid="place-beam">
+          @if (pl.end; as e) {
+            <line
+              class="band"
+              [attr.x1]="X(pl.start.x)"
+              [attr.y1]="Y(pl.start.y)"
+              [attr.x2]="X(e.x)"
+              [attr.y2]="Y(e.y)"
+              data-testid="place-band"
+            />
+            <circle class="end" [attr.cx]="X(e.x)" [attr.cy]="Y(e.y)" r="0.14" />
+          }
+          <g class="start" data-testid="place-start">
+            <circle [attr.cx]="X(pl.start.x)" [attr.cy]="Y(pl.start.y)" r="0.3" />
+            <line
+              [attr.x1]="X(pl.start.x) - 0.45"
+              [attr.y1]="Y(pl.start.y)"
+              [attr.x2]="X(pl.start.x) + 0.45"
+              [attr.y2]="Y(pl.start.y)"
+            />
+            <line
+              [attr.x1]="X(pl.start.x)"
+              [attr.y1]="Y(pl.start.y) - 0.45"
+              [attr.x2]="X(pl.start.x)"
+              [attr.y2]="Y(pl.start.y) + 0.45"
+            />
+          </g>
+        </g>
+      }
+      <!-- While a beam is placed the markers let presses through: a beam's end is often at a
+           column or beam that a marker sits over, and a press there is a press on the plan. -->
       <g
         tbPlanMarkerLayer
+        [attr.pointer-events]="placing() === 'off' ? null : 'none'"
         [markers]="markers()"
         [box]="g.box"
         [selected]="selected()"
@@ -211,6 +249,30 @@ interface Pan {
     .moving-vertex rect {
       fill: var(--mat-sys-primary);
       cursor: grabbing;
+    }
+    .plan.placing {
+      cursor: crosshair;
+    }
+    /* the beam being placed: a cross in a ring at its start (its own shape, not a colour), on a
+       disc of the plan's paper so it shows over hatching, lines and columns alike, and a dash line */
+    .placing-beam line,
+    .placing-beam circle {
+      vector-effect: non-scaling-stroke;
+      fill: none;
+      stroke: var(--mat-sys-on-surface);
+      stroke-width: 2px;
+    }
+    .placing-beam .band {
+      stroke: var(--mat-sys-primary);
+      stroke-width: 3px;
+      stroke-dasharray: 6 3;
+    }
+    .placing-beam .start circle {
+      fill: var(--mat-sys-surface);
+      fill-opacity: 0.75;
+    }
+    .placing-beam .end {
+      fill: var(--mat-sys-primary);
     }
     .dims line {
       stroke: var(--mat-sys-tertiary);
@@ -262,6 +324,8 @@ export class PlanView {
   readonly placeVertex = output<VertexDrop>();
   /** a press and release on the plan itself (not on an element, no pan): the plan point, m, and how far it may snap */
   readonly tap = output<PlanTap>();
+  /** placing a secondary beam by two presses: the page's step (the presses come back as taps) */
+  readonly placing = input<PlacingStep>('off');
 
   protected readonly chosenIds = computed(() => new Set(this.selection()));
   protected readonly zoom = signal(1);
@@ -282,6 +346,24 @@ export class PlanView {
   protected readonly vertexDrag = signal<{ index: number; x: number; y: number; prev: Pt; next: Pt } | null>(null);
   private drag: Drag | null = null;
   private pan: Pan | null = null;
+  /** the tap given as the first end of the beam being placed, and the pointer since */
+  private readonly placeFrom = signal<PlanTap | null>(null);
+  private readonly placeTo = signal<PlanTap | null>(null);
+  /**
+   * The beam being placed, once its first end is in: that end snapped, and (when the pointer has
+   * moved) the end the next press would give, both snapped and straightened as the page will.
+   */
+  protected readonly placeLine = computed(() => {
+    const a = this.placeFrom();
+    if (this.placing() !== 'end' || !a) return null;
+    const b = this.placeTo();
+    const doc = this.document();
+    const toleranceM = Math.max(a.toleranceM, b?.toleranceM ?? 0);
+    const start = snap(doc, a, { toleranceM });
+    if (!b) return { start, end: null };
+    const line = straighten(start, snap(doc, b, { toleranceM }));
+    return { start: line.start, end: line.end };
+  });
 
   protected readonly viewBox = computed(() => {
     const { width, height } = this.geometry().box;
@@ -384,7 +466,8 @@ export class PlanView {
   }
 
   protected grab(e: PointerEvent, id: string): void {
-    if (!this.editable() || e.button !== 0) return;
+    // while a beam is placed a press on a column is a press on the plan (it bubbles on as a tap)
+    if (!this.editable() || e.button !== 0 || this.placing() !== 'off') return;
     e.stopPropagation();
     const c = this.document().columns.find((x) => x.id === id);
     if (!c) return;
@@ -411,7 +494,7 @@ export class PlanView {
 
   /** A press on a vertex starts a drag like a column's; a press on a secondary beam chooses it. */
   protected grabPart(e: PointerEvent, part: PlanPart): void {
-    if (!this.editable() || e.button !== 0) return;
+    if (!this.editable() || e.button !== 0 || this.placing() !== 'off') return;
     e.stopPropagation();
     if (part.kind === 'secondary') {
       this.pickPart.emit(part);
@@ -450,6 +533,8 @@ export class PlanView {
   }
 
   protected pointerMove(e: PointerEvent): void {
+    if (this.placing() === 'end' && this.placeFrom())
+      this.placeTo.set({ ...this.toPlan(e), toleranceM: SNAP_PX * this.metresPerPixel(e) });
     if (this.drag && e.pointerId === this.drag.pointerId) {
       const p = this.toPlan(e);
       const raw = { x: this.drag.from.x + p.x - this.drag.start.x, y: this.drag.from.y + p.y - this.drag.start.y };
@@ -498,7 +583,14 @@ export class PlanView {
     const t = this.tapAt;
     this.tapAt = null;
     // a press that did not travel (a pan moves it) is a tap on the plan
-    if (t && t.pointerId === e.pointerId && Math.hypot(e.clientX - t.x, e.clientY - t.y) < 4) this.tap.emit(t.plan);
+    if (t && t.pointerId === e.pointerId && Math.hypot(e.clientX - t.x, e.clientY - t.y) < 4) {
+      if (this.placing() === 'start') {
+        // the first end of a beam: kept to draw from once the page asks for the second
+        this.placeFrom.set(t.plan);
+        this.placeTo.set(null);
+      }
+      this.tap.emit(t.plan);
+    }
     this.pan = null;
   }
 

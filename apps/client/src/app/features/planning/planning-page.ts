@@ -531,6 +531,7 @@ export class PlanningPage {
     // The plan never traps the keyboard: after Escape, Tab leaves it; Tab past the last element
     // (Shift+Tab before the first) lets go of everything and the focus moves on as usual.
     if (ev.key === 'Tab' && !hasChoice(e) && this.tabLeaves) return;
+    if (ev.key === 'Escape' && this.placing() !== 'off') this.togglePlacing(); // and lets go as ever
     const next = editorKey(e, ev, KEY_STEP_M);
     if (!this.apply(next)) return;
     this.tabLeaves = ev.key === 'Escape';

@@ -155,7 +155,7 @@ const endsOf = (r: Omit<Row, 'id'>): { start: Pt; end: Pt } =>
             {{
               placing() === 'start'
                 ? 'Press on the plan where the beam starts.'
-                : 'Now press where it ends; it snaps and runs along x or y.'
+                : 'Now press where it ends; it snaps and runs along x or y. Escape on the plan stops.'
             }}
           </p>
         }
