@@ -342,6 +342,27 @@ describe('PlanningPage', () => {
     const tab = new KeyboardEvent('keydown', { key: 'Tab', bubbles: true, cancelable: true });
     editor.dispatchEvent(tab);
     expect(tab.defaultPrevented).toBe(false);
+    // and from a check marker inside the plan, Tab goes on to the next thing, choosing nothing
+    editor.dispatchEvent(new FocusEvent('focus'));
+    await settle();
+    const onMarker = new KeyboardEvent('keydown', { key: 'Tab', bubbles: true, cancelable: true });
+    el().querySelector('.marker')!.dispatchEvent(onMarker);
+    await settle();
+    expect(onMarker.defaultPrevented).toBe(false);
+    expect(text('chosen-columns')).not.toMatch(/[A-D]\d/);
+  });
+
+  it('stops placing a secondary beam on Escape in the plan', async () => {
+    await open((req) => req.flush(detail()));
+    const place = () => el().querySelector<HTMLButtonElement>('[data-testid="secondary-place"]')!;
+    place().click();
+    await settle();
+    expect(place().getAttribute('aria-pressed')).toBe('true');
+    const editor = el().querySelector<HTMLElement>('[data-testid="plan-editor"]')!;
+    editor.dispatchEvent(new KeyboardEvent('keydown', { key: 'Escape', bubbles: true, cancelable: true }));
+    await settle();
+    expect(place().getAttribute('aria-pressed')).toBe('false');
+    expect(place().textContent).toContain('Place on the plan');
   });
 
   it('reaches existing columns, corners and beams from the keyboard with nothing chosen first, and says which keys do what', async () => {

@@ -529,8 +529,10 @@ export class PlanningPage {
     const e = this.editor();
     if (!e || !this.canEdit()) return;
     // The plan never traps the keyboard: after Escape, Tab leaves it; Tab past the last element
-    // (Shift+Tab before the first) lets go of everything and the focus moves on as usual.
-    if (ev.key === 'Tab' && !hasChoice(e) && this.tabLeaves) return;
+    // (Shift+Tab before the first) lets go of everything and the focus moves on as usual. With
+    // nothing chosen, Tab from something inside the plan (a zoom button, a check marker, a corner)
+    // is the browser's too: only Tab on the editor itself starts choosing elements.
+    if (ev.key === 'Tab' && !hasChoice(e) && (this.tabLeaves || ev.target !== ev.currentTarget)) return;
     if (ev.key === 'Escape' && this.placing() !== 'off') this.togglePlacing(); // and lets go as ever
     const next = editorKey(e, ev, KEY_STEP_M);
     if (!this.apply(next)) return;
