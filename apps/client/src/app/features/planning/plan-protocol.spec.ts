@@ -1,6 +1,6 @@
 import { schemeSchema, type SchemeDocument } from '@trabeate/contracts';
 import { analyseScheme, beamLineDiagram, demoScheme, demoSchemeVariant, EngineMemo } from '@trabeate/structural';
-import { handlePlanRequest, type PlanReply } from './plan-protocol';
+import { EngineWarmUp, handlePlanRequest, type AnalyseRequest, type PlanReply } from './plan-protocol';
 import { createPlanWorker } from './plan-worker-factory.in-thread';
 
 const doc = (s: unknown): SchemeDocument => schemeSchema.parse(s);
@@ -108,5 +108,62 @@ describe('the engine worker protocol, beam-line diagrams', () => {
       }),
     );
     expect(reply).toEqual({ kind: 'failed', seq: 5, message: expect.stringContaining('L-Q') });
+  });
+});
+
+describe('EngineWarmUp (the engine run again while idle after the first analysis)', () => {
+  const analyse = (seq: number): AnalyseRequest => ({ kind: 'analyse', seq, document: doc(demoScheme()) });
+  function setUp(limitMs = 1500) {
+    const ran: SchemeDocument[] = [];
+    const queue: (() => void)[] = [];
+    const warm = new EngineWarmUp(
+      3,
+      limitMs,
+      (d) => ran.push(d),
+      (next) => queue.push(next),
+    );
+    /** runs the tasks the warm-up scheduled, one at a time, as the event loop would */
+    const drain = () => {
+      while (queue.length) (queue.shift() as () => void)();
+    };
+    return { warm, ran, queue, drain };
+  }
+
+  it('runs the first analysed document three more times, one run per task', () => {
+    const { warm, ran, queue, drain } = setUp();
+    const first = analyse(1);
+    warm.answered(first, 800);
+    expect(ran).toHaveLength(0); // nothing in the answering task itself
+    expect(queue).toHaveLength(1);
+    (queue.shift() as () => void)();
+    expect(ran).toHaveLength(1);
+    drain();
+    expect(ran).toEqual([first.document, first.document, first.document]);
+  });
+
+  it('gives way to any request that arrives, and does not start again', () => {
+    const { warm, ran, queue, drain } = setUp();
+    warm.answered(analyse(1), 800);
+    (queue.shift() as () => void)();
+    warm.interrupt();
+    drain();
+    expect(ran).toHaveLength(1);
+    warm.answered(analyse(2), 100);
+    drain();
+    expect(ran).toHaveLength(1);
+  });
+
+  it('starts only from an analysis, and not when the first analysis took longer than its limit', () => {
+    const slow = setUp(1500);
+    slow.warm.answered(analyse(1), 2400);
+    slow.drain();
+    expect(slow.ran).toHaveLength(0);
+    const other = setUp();
+    other.warm.answered({ kind: 'compare', seq: 1, a: doc(demoScheme()), b: doc(demoSchemeVariant()) }, 10);
+    other.drain();
+    expect(other.ran).toHaveLength(0);
+    other.warm.answered(analyse(2), 10);
+    other.drain();
+    expect(other.ran).toHaveLength(3);
   });
 });
