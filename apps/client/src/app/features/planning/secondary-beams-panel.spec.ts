@@ -77,5 +77,13 @@ describe('SecondaryBeamsPanel', () => {
     fixture.componentRef.setInput('placing', 'end');
     fixture.detectChanges();
     expect(el().querySelector('[data-testid="secondary-placing"]')?.textContent).toContain('where it ends');
+    // Escape on the Stop placing button stops, as Escape on the plan does; when not placing it does nothing
+    const button = el().querySelector<HTMLButtonElement>('[data-testid="secondary-place"]')!;
+    button.dispatchEvent(new KeyboardEvent('keydown', { key: 'Escape', bubbles: true }));
+    expect(placed).toBe(2);
+    fixture.componentRef.setInput('placing', 'off');
+    fixture.detectChanges();
+    button.dispatchEvent(new KeyboardEvent('keydown', { key: 'Escape', bubbles: true }));
+    expect(placed).toBe(2);
   });
 });

@@ -144,6 +144,7 @@ const endsOf = (r: Omit<Row, 'id'>): { start: Pt; end: Pt } =>
             type="button"
             [attr.aria-pressed]="placing() !== 'off'"
             (click)="place.emit()"
+            (keydown.escape)="placing() !== 'off' && place.emit()"
             data-testid="secondary-place"
           >
             <mat-icon>ads_click</mat-icon>
@@ -155,7 +156,7 @@ const endsOf = (r: Omit<Row, 'id'>): { start: Pt; end: Pt } =>
             {{
               placing() === 'start'
                 ? 'Press on the plan where the beam starts.'
-                : 'Now press where it ends; it snaps and runs along x or y. Escape on the plan stops.'
+                : 'Now press where it ends; it snaps and runs along x or y. Escape stops.'
             }}
           </p>
         }
