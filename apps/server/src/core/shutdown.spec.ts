@@ -18,7 +18,12 @@ function get(port: number, path: string): Promise<{ status: number; body: string
 describe('graceful shutdown', () => {
   it('finishes a request in flight, refuses new connections, then runs the cleanup', async () => {
     const app = express();
+    // "In flight" means the server has the request: a connection whose request has not been read
+    // yet is idle to Node and is closed at once (a fixed wait here lost that race under load).
+    let arrived!: () => void;
+    const inHandler = new Promise<void>((r) => (arrived = r));
     app.get('/slow', (_req, res) => {
+      arrived();
       setTimeout(() => res.send('finished'), 300);
     });
     const server = createServer(app);
@@ -26,7 +31,7 @@ describe('graceful shutdown', () => {
     const { port } = server.address() as AddressInfo;
 
     const inFlight = get(port, '/slow');
-    await new Promise((r) => setTimeout(r, 50));
+    await inHandler;
     let cleaned = false;
     const stopped = gracefulShutdown(server, 5000, async () => {
       cleaned = true;
