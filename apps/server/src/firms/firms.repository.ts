@@ -18,6 +18,14 @@ export async function firmDates(q: Q, firmId: string): Promise<FirmDateSettings>
 }
 
 /**
+ * SQL for today's date where the firm is (its time zone setting), for a firm id given as SQL
+ * (a column, a bound parameter, a subquery): "late" and "overdue" turn at the firm's midnight,
+ * not at the database server's.
+ */
+export const firmTodaySql = (firmId: string): string =>
+  `(now() at time zone (select tz.time_zone from firms tz where tz.id = ${firmId}))::date`;
+
+/**
  * Today's date (YYYY-MM-DD) where the firm is: an invoice issued at 02:00 in Kolkata is dated that
  * day, not the day before, which is still the date in UTC.
  */

@@ -6,6 +6,7 @@ type InvoiceListQuery = z.output<typeof invoiceListQuerySchema>;
 import type { Db } from '../db/db';
 import type { Caller } from '../access/policy';
 import { visibleTo } from '../projects/projects.repository';
+import { firmTodaySql } from '../firms/firms.repository';
 
 type Q = Db | Knex.Transaction;
 
@@ -51,7 +52,7 @@ export interface LineRow {
 
 /** Invoices with what has been paid and credited against them, and whether they are overdue today. */
 export function invoicesQuery(db: Q, firmId: string, today?: string) {
-  const day = today ? db.raw('?::date', [today]) : db.raw('current_date');
+  const day = today ? db.raw('?::date', [today]) : db.raw(firmTodaySql('?'), [firmId]);
   return db('invoices as i')
     .join('projects as p', 'p.id', 'i.project_id')
     .join('client_organisations as o', 'o.id', 'p.client_organisation_id')
@@ -187,7 +188,9 @@ export async function listInvoices(
   // Clients see what was sent to them, never the firm's drafts.
   if (caller.role === 'client') base.whereNot('i.state', 'draft');
   if (f.state === 'overdue')
-    base.whereIn('i.state', ['issued', 'part_paid']).andWhere('i.due_on', '<', db.raw('current_date'));
+    base
+      .whereIn('i.state', ['issued', 'part_paid'])
+      .andWhere('i.due_on', '<', db.raw(firmTodaySql('?'), [caller.firmId]));
   else if (f.state) base.where('i.state', f.state);
   if (f.clientId) base.where('o.id', f.clientId);
   if (f.projectId) base.where('p.id', f.projectId);

@@ -200,8 +200,9 @@ export async function listProjects(
       `cross join lateral (
          select (array_agg(s.key order by s.position))[1] as current_key,
                 (array_agg(s.state order by s.position))[1] as current_state,
-                (count(*) filter (where ${LATE_SQL('s')}))::int as late_stages
+                (count(*) filter (where ${LATE_SQL('s', '?')}))::int as late_stages
          from stages s where s.project_id = page.id and s.state <> 'approved') st`,
+      [caller.firmId], // every listed project is the caller's firm's
     )
     .select('page.*', 'st.current_key', 'st.current_state', 'st.late_stages')
     .orderBy([

@@ -1,15 +1,21 @@
 import type { Knex } from 'knex';
 import { STAGE_KEYS, type StageKey, type StageState } from '@trabeate/contracts';
 import type { Db } from '../db/db';
+import { firmTodaySql } from '../firms/firms.repository';
 
 type Q = Db | Knex.Transaction;
 
 /**
- * Late means past its due date while the work is with the assignee. A stage under review waits on
- * the reviewer, not the engineer, so it is never late (the principal sees how long it has waited).
+ * Late means past its due date, in the firm's own calendar (its time zone), while the work is with
+ * the assignee. A stage under review waits on the reviewer, not the engineer, so it is never late
+ * (the principal sees how long it has waited).
  */
-export const LATE_SQL = (alias: string) =>
-  `${alias}.due_date is not null and ${alias}.due_date < current_date and ${alias}.state in ('not_started', 'in_progress', 'returned')`;
+export const LATE_SQL = (
+  alias: string,
+  /** the firm's id as SQL; by default looked up from the stage's project */
+  firmId = `(select lp.firm_id from projects lp where lp.id = ${alias}.project_id)`,
+) =>
+  `${alias}.due_date is not null and ${alias}.state in ('not_started', 'in_progress', 'returned') and ${alias}.due_date < ${firmTodaySql(firmId)}`;
 
 export interface StageRow {
   project_id: string;
