@@ -262,17 +262,29 @@ describe('transmittals: issuing approved revisions, the sheet, e-mails, signed l
       expect((await request(t.app).get(otherItem)).status).toBe(403);
     });
 
-    it('answers 403 saying when it expired once the clock passes the expiry', async () => {
+    it("answers 403 saying when it expired once the clock passes the expiry, in the firm's date format and zone", async () => {
       const link = await linkFor('sheet');
       expect((await request(t.app).get(link)).status).toBe(200);
       const expires = Number(/e=(\d+)/.exec(link)![1]) * 1000;
+      const firm = await t.db('firms').where({ id: DEMO.firm.id }).first('time_zone');
+      await t.db('firms').where({ id: DEMO.firm.id }).update({ time_zone: 'Asia/Kolkata' });
       const now = jest.spyOn(Date, 'now').mockReturnValue(expires + 1000);
       try {
         const res = await request(t.app).get(link);
         expect(res.status).toBe(403);
-        expect(res.body.error.message).toMatch(/expired on \d{1,2} [A-Z][a-z]{2} \d{4}, \d\d:\d\d UTC/);
+        // the hour and minute where the firm is, from Intl (India: UTC+5:30, IANA tz database)
+        const hm = new Intl.DateTimeFormat('en-GB', {
+          timeZone: 'Asia/Kolkata',
+          hour: '2-digit',
+          minute: '2-digit',
+          hourCycle: 'h23',
+        }).format(new Date(expires));
+        expect(res.body.error.message).toMatch(
+          new RegExp(`expired on \\d{1,2} [A-Z][a-z]{2} \\d{4}, ${hm} GMT\\+5:30\\.`),
+        );
       } finally {
         now.mockRestore();
+        await t.db('firms').where({ id: DEMO.firm.id }).update({ time_zone: firm.time_zone });
       }
     });
 

@@ -1,6 +1,8 @@
 import { createHmac, timingSafeEqual } from 'node:crypto';
 import { HttpError } from '../core/errors';
+import type { FirmDateSettings } from '@trabeate/dates';
 import { formatInstant } from '../drawings/format';
+import { printDayTime } from '../look/print-look';
 
 /**
  * Download links for outside recipients (no account): an HMAC-SHA256 over what the link opens (the
@@ -26,8 +28,17 @@ export function linkQuery(secret: Buffer, claims: LinkClaims): string {
   return `r=${claims.recipientId}&e=${claims.expires}&s=${signLink(secret, claims)}`;
 }
 
-/** Throws 403 saying why when the signature does not match or the link has expired. */
-export function verifyLink(secret: Buffer, claims: LinkClaims, signature: string, now = Date.now()): void {
+/**
+ * Throws 403 saying why when the signature does not match or the link has expired; the expiry is
+ * told in the firm's date format and time zone when `dates` are given (else UTC).
+ */
+export function verifyLink(
+  secret: Buffer,
+  claims: LinkClaims,
+  signature: string,
+  now = Date.now(),
+  dates?: FirmDateSettings,
+): void {
   const expected = Buffer.from(signLink(secret, claims));
   const given = Buffer.from(signature);
   if (given.length !== expected.length || !timingSafeEqual(given, expected)) {
@@ -41,7 +52,7 @@ export function verifyLink(secret: Buffer, claims: LinkClaims, signature: string
     throw new HttpError(
       403,
       'forbidden',
-      `This download link expired on ${formatInstant(new Date(claims.expires * 1000))}. Ask the firm to send the drawings again.`,
+      `This download link expired on ${dates ? printDayTime(new Date(claims.expires * 1000), dates) : formatInstant(new Date(claims.expires * 1000))}. Ask the firm to send the drawings again.`,
     );
   }
 }

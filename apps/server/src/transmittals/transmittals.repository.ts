@@ -1,6 +1,8 @@
 import type { Knex } from 'knex';
 import type { Purpose, RevisionState } from '@trabeate/contracts';
 import type { Db } from '../db/db';
+import type { FirmDateSettings } from '@trabeate/dates';
+import { datesOf } from '../firms/firms.repository';
 
 type Q = Db | Knex.Transaction;
 
@@ -46,6 +48,16 @@ export async function getTransmittal(
 
 export async function getTransmittalById(db: Q, id: string): Promise<TransmittalRow | undefined> {
   return transmittalsQuery(db).where('t.id', id).first();
+}
+
+/** The date settings of the firm that sent the transmittal, or undefined when there is no such transmittal. */
+export async function transmittalFirmDates(db: Q, id: string): Promise<FirmDateSettings | undefined> {
+  const row = await db('transmittals as t')
+    .join('projects as p', 'p.id', 't.project_id')
+    .join('firms as f', 'f.id', 'p.firm_id')
+    .where('t.id', id)
+    .first('f.date_locale', 'f.time_zone');
+  return row ? datesOf(row) : undefined;
 }
 
 export async function listTransmittals(db: Q, projectId: string, recipientUserId: string | null) {

@@ -9,7 +9,13 @@ import { contentDisposition } from '../storage';
 import { filesOf, logDownload } from '../drawings/drawings.repository';
 import { clientAddress, sendObject } from '../drawings/drawings.routes';
 import { transmittalReference } from '../drawings/format';
-import { getTransmittal, getTransmittalById, itemsOf, type TransmittalRow } from './transmittals.repository';
+import {
+  getTransmittal,
+  getTransmittalById,
+  itemsOf,
+  transmittalFirmDates,
+  type TransmittalRow,
+} from './transmittals.repository';
 import {
   acknowledge,
   downloadLog,
@@ -192,7 +198,15 @@ export function transmittalRoutes(deps: TransmittalDeps): RouteDecl[] {
         const q = res.locals['query'] as z.output<typeof signedLinkQuerySchema>;
         const transmittalId = String(req.params['transmittalId']);
         const item = String(req.params['item']);
-        verifyLink(deps.linkSecret, { transmittalId, recipientId: q.r, item, expires: Number(q.e) }, q.s);
+        // an expired link is told in the firm's own date format and zone
+        const dates = Number(q.e) * 1000 <= Date.now() ? await transmittalFirmDates(db, transmittalId) : undefined;
+        verifyLink(
+          deps.linkSecret,
+          { transmittalId, recipientId: q.r, item, expires: Number(q.e) },
+          q.s,
+          Date.now(),
+          dates,
+        );
         const t = await getTransmittalById(db, transmittalId);
         const recipient = t
           ? await db('transmittal_recipients').where({ id: q.r, transmittal_id: transmittalId }).first('id')
