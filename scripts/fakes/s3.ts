@@ -126,7 +126,14 @@ export async function startFakeS3(opts: FakeS3Options = {}): Promise<FakeS3> {
       const files = await readdir(dir).catch(() => [] as string[]);
       const keyFile = path.join(dir, 'key');
       const key = await readFile(keyFile, 'utf8').catch(() => '');
-      const initiated = (await stat(keyFile).catch(() => stat(dir))).mtime;
+      const initiated = await stat(keyFile)
+        .catch(() => stat(dir))
+        .then(
+          (st) => st.mtime,
+          () => null,
+        );
+      // aborted or completed while it was being listed: no longer pending
+      if (!initiated) continue;
       out.push({ key, uploadId, initiated, parts: files.filter((f) => /^\d+$/.test(f)).length });
     }
     return out.sort((x, y) => x.initiated.getTime() - y.initiated.getTime());
