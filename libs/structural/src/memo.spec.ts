@@ -3,8 +3,11 @@ import { demoScheme, demoSchemeVariant } from './demo';
 import { EngineMemo } from './memo';
 import type { Scheme } from './model';
 
-// The memo is a cache: the check is the engine itself without it. Every result analysed with a
-// memo kept across a run of edits must equal, to the last digit, the result analysed afresh.
+// Source of the expected values: none from outside, on purpose. The memo is a cache and changes no
+// figure, so the reference is an independent path through the engine: the same scheme analysed
+// afresh, without a memo (analyseScheme's own figures are held to published values in
+// analyse.spec.ts and envelope.spec.ts). Every result analysed with a memo kept across a run of
+// edits must equal that fresh result to the last digit.
 const fresh = (s: Scheme) => JSON.stringify(analyseScheme(s));
 
 function edits(base: Scheme): Scheme[] {

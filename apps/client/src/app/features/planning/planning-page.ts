@@ -146,6 +146,13 @@ export class PlanningPage {
   readonly savesPerPage = input<string>();
 
   protected readonly caution = CAUTION;
+  /** the column inspector's typed fields, in order (orientation is a select of its own) */
+  protected readonly inspectorFields = [
+    { key: 'x', label: 'x (m)', mode: 'decimal', testId: 'col-x' },
+    { key: 'y', label: 'y (m)', mode: 'decimal', testId: 'col-y' },
+    { key: 'widthMm', label: 'Width (mm)', mode: 'numeric', testId: 'col-width' },
+    { key: 'depthMm', label: 'Depth (mm)', mode: 'numeric', testId: 'col-depth' },
+  ] as const;
   protected readonly keyStep = KEY_STEP_M;
   protected readonly severityLabels = SEVERITY_LABELS;
   protected readonly sourceKindLabels = SOURCE_KIND_LABELS;
