@@ -283,6 +283,8 @@ describe('a drawing from registration to the client’s acknowledgement, in Chro
       .filter({ hasText: reference })
       .filter({ hasText: 'Acknowledged' })
       .waitFor({ timeout: 20_000 });
+    // the detail beside the list reloads a moment later: its button goes then (CI once counted it first)
+    await testId(page, 'acknowledge').waitFor({ state: 'detached', timeout: 20_000 });
     await expect(testId(page, 'acknowledge').count()).resolves.toBe(0);
     await shot(page, '4-client-acknowledged');
   });
